@@ -1,0 +1,241 @@
+using System;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Globalization;
+using System.Linq;
+using MathNet.Numerics.Integration;
+using ThermalSampling.Internal;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Analysis;
+
+/// <summary>
+/// The exact classical distribution of the separation in a line or radial landscape,
+/// p(r) ∝ rⁿ e^(−V(r)/kT) on the window (n = 0 or 2), by adaptive Gauss–Kronrod quadrature
+/// (MathNet.Numerics) on pieces split at the minimum and at multiples of the harmonic width.
+/// </summary>
+public sealed class ExactPairDistribution
+{
+    private const double TargetRelativeError = 1e-12;
+    private const int MaximumDepth = 25;
+
+    private readonly Func<double, double> _weight;
+    private readonly ImmutableArray<double> _breaks;
+
+    private ExactPairDistribution(Func<double, double> weight, ImmutableArray<double> breaks, double lower, double upper,
+        double temperatureKelvin, double referenceEnergy, string description)
+    {
+        _weight = weight;
+        _breaks = breaks;
+        WindowLowerInAngstroms = lower;
+        WindowUpperInAngstroms = upper;
+        TemperatureInKelvin = temperatureKelvin;
+        ReferenceEnergyInElectronVolts = referenceEnergy;
+        LandscapeDescription = description;
+
+        double z = Integrate(r => weight(r), lower, upper, out double zError);
+        if (!(z > 0) || !double.IsFinite(z))
+        {
+            throw new LandscapeException(string.Create(CultureInfo.InvariantCulture,
+                $"The Boltzmann weight integrates to {z:R} over the window at T = {temperatureKelvin:G6} K; the distribution cannot be normalised."));
+        }
+        NormalisationError = zError / z;
+        _normalisation = z;
+        double mean = Integrate(r => r * weight(r), lower, upper, out _) / z;
+        double m2 = Integrate(r => Pow(r - mean, 2) * weight(r), lower, upper, out _) / z;
+        double m3 = Integrate(r => Pow(r - mean, 3) * weight(r), lower, upper, out _) / z;
+        double m4 = Integrate(r => Pow(r - mean, 4) * weight(r), lower, upper, out _) / z;
+        MeanInAngstroms = mean;
+        VarianceInAngstromsSquared = m2;
+        ThirdCentralMomentInAngstromsCubed = m3;
+        FourthCentralMomentInAngstromsToTheFourth = m4;
+        double band = 0.1 * (upper - lower);
+        LowerWallMass = Integrate(r => weight(r), lower, lower + band, out _) / z;
+        UpperWallMass = Integrate(r => weight(r), upper - band, upper, out _) / z;
+    }
+
+    private readonly double _normalisation;
+
+    /// <summary>The lower wall, Å.</summary>
+    public double WindowLowerInAngstroms { get; }
+
+    /// <summary>The upper wall, Å.</summary>
+    public double WindowUpperInAngstroms { get; }
+
+    /// <summary>The temperature, K.</summary>
+    public double TemperatureInKelvin { get; }
+
+    /// <summary>The energy subtracted inside the exponent to keep it in range (the lowest energy found on the window), eV.</summary>
+    public double ReferenceEnergyInElectronVolts { get; }
+
+    /// <summary>What was integrated.</summary>
+    public string LandscapeDescription { get; }
+
+    /// <summary>The quadrature's estimate of the relative error of the normalisation.</summary>
+    public double NormalisationError { get; }
+
+    /// <summary>⟨r⟩, Å.</summary>
+    public double MeanInAngstroms { get; }
+
+    /// <summary>⟨(r − ⟨r⟩)²⟩, Å².</summary>
+    public double VarianceInAngstromsSquared { get; }
+
+    /// <summary>√variance, Å.</summary>
+    public double RmsInAngstroms => Math.Sqrt(VarianceInAngstromsSquared);
+
+    /// <summary>⟨(r − ⟨r⟩)³⟩ (equal to the third cumulant), Å³.</summary>
+    public double ThirdCentralMomentInAngstromsCubed { get; }
+
+    /// <summary>⟨(r − ⟨r⟩)⁴⟩, Å⁴.</summary>
+    public double FourthCentralMomentInAngstromsToTheFourth { get; }
+
+    /// <summary>The skewness μ3/μ2^(3/2).</summary>
+    public double Skewness => ThirdCentralMomentInAngstromsCubed / Math.Pow(VarianceInAngstromsSquared, 1.5);
+
+    /// <summary>The excess kurtosis μ4/μ2² − 3.</summary>
+    public double ExcessKurtosis => FourthCentralMomentInAngstromsToTheFourth / (VarianceInAngstromsSquared * VarianceInAngstromsSquared) - 3;
+
+    /// <summary>The probability in the lowest 10% of the window.</summary>
+    public double LowerWallMass { get; }
+
+    /// <summary>The probability in the highest 10% of the window.</summary>
+    public double UpperWallMass { get; }
+
+    /// <summary>The probability in the outer 10% of the window at both ends together.</summary>
+    public double WallMass => LowerWallMass + UpperWallMass;
+
+    /// <summary>The normalised density p(r), 1/Å (zero outside the window).</summary>
+    /// <param name="r">The separation, Å.</param>
+    public double Density(double r)
+    {
+        Preconditions.CheckFinite(r, nameof(r));
+        return r < WindowLowerInAngstroms || r > WindowUpperInAngstroms ? 0 : _weight(r) / _normalisation;
+    }
+
+    /// <summary>The cumulative probability P(R ≤ r).</summary>
+    /// <param name="r">The separation, Å.</param>
+    public double CumulativeProbability(double r)
+    {
+        Preconditions.CheckFinite(r, nameof(r));
+        if (r <= WindowLowerInAngstroms)
+        {
+            return 0;
+        }
+        if (r >= WindowUpperInAngstroms)
+        {
+            return 1;
+        }
+        return Math.Clamp(Integrate(_weight, WindowLowerInAngstroms, r, out _) / _normalisation, 0, 1);
+    }
+
+    /// <summary>The unnormalised weight rⁿ e^(−(V − Vref)/kT).</summary>
+    internal Func<double, double> Weight => _weight;
+
+    /// <summary>The break points used for quadrature (window ends included), Å.</summary>
+    internal ImmutableArray<double> BreakPoints => _breaks;
+
+    private static double Pow(double x, int n) => n switch { 2 => x * x, 3 => x * x * x, _ => x * x * x * x };
+
+    /// <summary>Integrates f over [a, b] piecewise on the break points inside it.</summary>
+    internal double Integrate(Func<double, double> f, double a, double b, out double error)
+    {
+        error = 0;
+        double sum = 0;
+        double left = a;
+        foreach (double p in _breaks)
+        {
+            if (p <= a)
+            {
+                continue;
+            }
+            double right = Math.Min(p, b);
+            sum += GaussKronrodRule.Integrate(f, left, right, out double e, out _, TargetRelativeError, MaximumDepth, 15);
+            error += e;
+            left = right;
+            if (right >= b)
+            {
+                break;
+            }
+        }
+        return sum;
+    }
+
+    /// <summary>The exact classical distribution of a line or radial landscape at one temperature.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="temperature">The temperature.</param>
+    /// <exception cref="NonFiniteEnergyException">When the potential returns NaN or −∞ inside the window.</exception>
+    /// <exception cref="LandscapeException">When the weight cannot be normalised.</exception>
+    public static ExactPairDistribution Compute<TPotential>(PairLandscape<TPotential> landscape, Temperature temperature)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(landscape, nameof(landscape));
+        PairAnalysis.CheckTemperature(temperature);
+        double lo = landscape.WindowLowerInAngstroms, hi = landscape.WindowUpperInAngstroms;
+        double kt = temperature.ThermalEnergyInElectronVolts;
+        var breaks = new SortedSet<double> { hi };
+        const int uniformPieces = 32;
+        for (int i = 1; i < uniformPieces; i++)
+        {
+            breaks.Add(lo + (hi - lo) * i / uniformPieces);
+        }
+
+        // The lowest energy on the window: from a scan, refined by the potential's well when it is inside.
+        double vRef = double.PositiveInfinity;
+        double rRef = lo;
+        const int scan = 4096;
+        for (int i = 0; i <= scan; i++)
+        {
+            double r = lo + (hi - lo) * i / scan;
+            double v = landscape.CheckedEnergy(r);
+            if (v < vRef)
+            {
+                vRef = v;
+                rRef = r;
+            }
+        }
+        var well = landscape.Potential.Well;
+        if (well is not null && landscape.Contains(well.EquilibriumDistance))
+        {
+            double v = landscape.CheckedEnergy(well.EquilibriumDistance);
+            if (v <= vRef)
+            {
+                vRef = v;
+                rRef = well.EquilibriumDistance;
+            }
+        }
+        if (!double.IsFinite(vRef))
+        {
+            throw new LandscapeException("The energy is +∞ everywhere on the window; nothing can be integrated.");
+        }
+
+        // Split around the lowest point at multiples of the local harmonic width, so narrow peaks are resolved.
+        breaks.Add(rRef);
+        double k = landscape.Potential.Derivatives(rRef).Second;
+        double width = k > 0 && double.IsFinite(k) ? Math.Sqrt(kt / k) : (hi - lo) / uniformPieces;
+        for (double m = 0.5; m <= 64; m *= 2)
+        {
+            breaks.Add(rRef - m * width);
+            breaks.Add(rRef + m * width);
+        }
+        var inside = breaks.Where(b => b > lo && b <= hi).ToImmutableArray();
+
+        var potential = landscape.Potential;
+        int n = landscape.JacobianPower;
+        string description = potential.Description;
+        double beta = 1 / kt;
+        double Weight(double r)
+        {
+            double v = potential.Energy(r);
+            if (double.IsNaN(v) || double.IsNegativeInfinity(v))
+            {
+                throw new NonFiniteEnergyException(r, v, description);
+            }
+            double w = Math.Exp(-(v - vRef) * beta);
+            return n == 0 ? w : r * r * w;
+        }
+        return new ExactPairDistribution(Weight, inside, lo, hi, temperature.InKelvin, vRef, landscape.Description);
+    }
+}

@@ -1,0 +1,256 @@
+using System;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Globalization;
+using MathNet.Numerics.LinearAlgebra;
+using MathNet.Numerics.Optimization;
+using ThermalSampling.Internal;
+using ThermalSampling.Potentials;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Landscapes;
+
+/// <summary>
+/// One particle in 3D among fixed sites, interacting with each through the same pair potential,
+/// confined to a region around a centre: E(x) = Σ_s V(|x − s|).
+/// </summary>
+/// <typeparam name="TPotential">The pair potential.</typeparam>
+public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPotential
+{
+    private readonly double[] _coordinates; // x0, y0, z0, x1, ... for the hot loops
+
+    internal SiteLandscape(TPotential potential, ImmutableArray<Position> sites, Position centre, Confinement confinement)
+    {
+        Potential = potential;
+        Sites = sites;
+        Centre = centre;
+        Confinement = confinement;
+        _coordinates = new double[3 * sites.Length];
+        for (int i = 0; i < sites.Length; i++)
+        {
+            _coordinates[3 * i] = sites[i].X;
+            _coordinates[3 * i + 1] = sites[i].Y;
+            _coordinates[3 * i + 2] = sites[i].Z;
+        }
+    }
+
+    /// <summary>The pair potential between the particle and each site.</summary>
+    public TPotential Potential { get; }
+
+    /// <summary>The fixed sites, Å.</summary>
+    public ImmutableArray<Position> Sites { get; }
+
+    /// <summary>The centre of the confinement region (the particle's start), Å.</summary>
+    public Position Centre { get; }
+
+    /// <summary>The region the particle may not leave.</summary>
+    public Confinement Confinement { get; }
+
+    /// <summary>The site coordinates packed as x0, y0, z0, x1, … (Å), for kernels.</summary>
+    internal ReadOnlySpan<double> PackedCoordinates => _coordinates;
+
+    /// <summary>Whether <paramref name="position"/> lies inside the confinement.</summary>
+    /// <param name="position">The position, Å.</param>
+    public bool Contains(Position position)
+        => Confinement.Contains(position.X - Centre.X, position.Y - Centre.Y, position.Z - Centre.Z);
+
+    /// <summary>The energy at <paramref name="position"/>, eV.</summary>
+    /// <param name="position">The position, Å.</param>
+    public double Energy(Position position)
+    {
+        double sum = 0;
+        var c = _coordinates;
+        for (int i = 0; i < c.Length; i += 3)
+        {
+            double dx = position.X - c[i], dy = position.Y - c[i + 1], dz = position.Z - c[i + 2];
+            sum += Potential.EnergyAtSquaredDistance(dx * dx + dy * dy + dz * dz);
+        }
+        return sum;
+    }
+
+    /// <summary>The gradient ∂E/∂x at <paramref name="position"/>, eV/Å.</summary>
+    /// <param name="position">The position, Å.</param>
+    public Position Gradient(Position position)
+    {
+        double gx = 0, gy = 0, gz = 0;
+        foreach (var s in Sites)
+        {
+            var d = position - s;
+            double r = d.Norm;
+            double f = Potential.Derivatives(r).First / r;
+            gx += f * d.X;
+            gy += f * d.Y;
+            gz += f * d.Z;
+        }
+        return new Position(gx, gy, gz);
+    }
+
+    /// <summary>The Hessian ∂²E/∂xᵢ∂xⱼ at <paramref name="position"/>, eV/Å², as a new 3×3 matrix.</summary>
+    /// <param name="position">The position, Å.</param>
+    public Matrix<double> Hessian(Position position)
+    {
+        var h = Matrix<double>.Build.Dense(3, 3);
+        foreach (var s in Sites)
+        {
+            var d = position - s;
+            double r = d.Norm;
+            var pd = Potential.Derivatives(r);
+            double a = pd.Second - pd.First / r, b = pd.First / r;
+            for (int i = 0; i < 3; i++)
+            {
+                double ni = d[i] / r;
+                for (int j = 0; j < 3; j++)
+                {
+                    h[i, j] += a * ni * d[j] / r + (i == j ? b : 0);
+                }
+            }
+        }
+        return h;
+    }
+
+    /// <summary>The third-derivative tensor ∂³E/∂xᵢ∂xⱼ∂xₖ at <paramref name="position"/>, eV/Å³.</summary>
+    /// <param name="position">The position, Å.</param>
+    /// <remarks>For one pair with unit vector n: T = (V‴ − 3V″/r + 3V′/r²) nᵢnⱼnₖ + ((V″ − V′/r)/r)(δᵢⱼnₖ + δᵢₖnⱼ + δⱼₖnᵢ).</remarks>
+    public double[,,] ThirdDerivatives(Position position)
+    {
+        var t = new double[3, 3, 3];
+        Span<double> n = stackalloc double[3];
+        foreach (var s in Sites)
+        {
+            var d = position - s;
+            double r = d.Norm;
+            var pd = Potential.Derivatives(r);
+            double cnnn = pd.Third - 3 * pd.Second / r + 3 * pd.First / (r * r);
+            double cdn = (pd.Second - pd.First / r) / r;
+            n[0] = d.X / r;
+            n[1] = d.Y / r;
+            n[2] = d.Z / r;
+            for (int i = 0; i < 3; i++)
+            {
+                for (int j = 0; j < 3; j++)
+                {
+                    for (int k = 0; k < 3; k++)
+                    {
+                        t[i, j, k] += cnnn * n[i] * n[j] * n[k]
+                            + cdn * ((i == j ? n[k] : 0) + (i == k ? n[j] : 0) + (j == k ? n[i] : 0));
+                    }
+                }
+            }
+        }
+        return t;
+    }
+
+    /// <summary>
+    /// The local minimum of the energy nearest the centre, by BFGS (MathNet.Numerics) from the centre.
+    /// </summary>
+    /// <exception cref="LandscapeException">When the search leaves the confinement or does not converge:
+    /// the particle has no bound position inside the region.</exception>
+    public Position FindMinimum()
+    {
+        var objective = ObjectiveFunction.Gradient(v =>
+        {
+            var p = new Position(v[0], v[1], v[2]);
+            var g = Gradient(p);
+            return (Energy(p), Vector<double>.Build.Dense(new[] { g.X, g.Y, g.Z }));
+        });
+        var start = Vector<double>.Build.Dense(new[] { Centre.X, Centre.Y, Centre.Z });
+        MinimizationResult result;
+        try
+        {
+            result = new BfgsMinimizer(1e-10, 1e-12, 1e-14, 2000).FindMinimum(objective, start);
+        }
+        catch (MaximumIterationsException ex)
+        {
+            throw new LandscapeException("The minimum search from the centre did not converge in 2000 BFGS iterations; the energy surface may be flat or the sites badly placed.", ex);
+        }
+        catch (Exception ex) when (ex is not LandscapeException)
+        {
+            throw new LandscapeException("The minimum search from the centre failed: " + ex.Message, ex);
+        }
+        var m = result.MinimizingPoint;
+        var min = new Position(m[0], m[1], m[2]);
+        if (!Contains(min))
+        {
+            throw new LandscapeException(string.Create(CultureInfo.InvariantCulture,
+                $"The energy minimum reached from the centre, {min}, lies outside the confinement ({Confinement.Shape} of size {Confinement.SizeInAngstroms:G6} Å around {Centre}); the particle is not bound there."));
+        }
+        return min;
+    }
+
+    /// <summary>A description for reports.</summary>
+    public string Description => string.Create(CultureInfo.InvariantCulture,
+        $"{Sites.Length} fixed sites, {Confinement.Shape.ToString().ToLowerInvariant()} confinement of size {Confinement.SizeInAngstroms:G6} Å around {Centre}, {Potential.Description}");
+}
+
+/// <summary>Factories for <see cref="SiteLandscape{TPotential}"/>.</summary>
+public static class SiteLandscape
+{
+    /// <summary>The smallest distance (Å) allowed between two sites, or between a site and the centre.</summary>
+    public const double MinimumSeparationInAngstroms = 1e-3;
+
+    /// <summary>A particle among <paramref name="sites"/>, confined around <paramref name="centre"/>.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="potential">The pair potential between the particle and each site.</param>
+    /// <param name="sites">The fixed sites, Å; at least one, all finite, no two closer than <see cref="MinimumSeparationInAngstroms"/>.</param>
+    /// <param name="centre">The start and centre of the confinement, Å; not on a site.</param>
+    /// <param name="confinement">The region around the centre.</param>
+    public static SiteLandscape<TPotential> Create<TPotential>(TPotential potential, IEnumerable<Position> sites, Position centre, Confinement confinement)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(sites, nameof(sites));
+        var list = ImmutableArray.CreateRange(sites);
+        if (list.IsEmpty)
+        {
+            throw new ArgumentException("sites is empty; a site landscape needs at least one fixed site.", nameof(sites));
+        }
+        Preconditions.CheckFinite(centre.X, "centre.X");
+        Preconditions.CheckFinite(centre.Y, "centre.Y");
+        Preconditions.CheckFinite(centre.Z, "centre.Z");
+        Preconditions.CheckPositive(confinement.SizeInAngstroms, "confinement.SizeInAngstroms");
+        if (!Enum.IsDefined(confinement.Shape))
+        {
+            throw new ArgumentOutOfRangeException(nameof(confinement), confinement.Shape, "confinement.Shape must be Sphere or Box.");
+        }
+        for (int i = 0; i < list.Length; i++)
+        {
+            var s = list[i];
+            Preconditions.CheckFinite(s.X, $"sites[{i}].X");
+            Preconditions.CheckFinite(s.Y, $"sites[{i}].Y");
+            Preconditions.CheckFinite(s.Z, $"sites[{i}].Z");
+            double toCentre = (s - centre).Norm;
+            if (toCentre < MinimumSeparationInAngstroms)
+            {
+                throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                    $"sites[{i}] = {s} coincides with the centre {centre} (distance {toCentre:R} Å); the particle cannot start on a site."), nameof(sites));
+            }
+            if (toCentre < Math.Max(potential.DomainLower, 0))
+            {
+                throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                    $"sites[{i}] = {s} is {toCentre:R} Å from the centre, inside the potential's lower domain bound {potential.DomainLower:R} Å."), nameof(sites));
+            }
+            for (int j = 0; j < i; j++)
+            {
+                double d = (s - list[j]).Norm;
+                if (d < MinimumSeparationInAngstroms)
+                {
+                    throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                        $"sites[{i}] = {s} and sites[{j}] = {list[j]} are on top of each other (distance {d:R} Å); remove the duplicate."), nameof(sites));
+                }
+            }
+        }
+        return new SiteLandscape<TPotential>(potential, list, centre, confinement);
+    }
+}
+
+/// <summary>Thrown when a landscape has no usable answer: no bound minimum inside the region, or a failed search.</summary>
+public sealed class LandscapeException : InvalidOperationException
+{
+    /// <summary>Creates the exception.</summary>
+    /// <param name="message">What went wrong and what to do.</param>
+    public LandscapeException(string message) : base(message) { }
+
+    /// <summary>Creates the exception with an inner cause.</summary>
+    /// <param name="message">What went wrong and what to do.</param>
+    /// <param name="innerException">The cause.</param>
+    public LandscapeException(string message, Exception innerException) : base(message, innerException) { }
+}

@@ -1,0 +1,108 @@
+using System;
+using System.Collections.Generic;
+using System.Globalization;
+using System.Linq;
+using MathNet.Numerics.Interpolation;
+using ThermalSampling.Internal;
+
+namespace ThermalSampling.Potentials;
+
+/// <summary>
+/// A pair potential tabulated at points (r, V) and interpolated by a natural cubic spline
+/// (MathNet.Numerics). Its domain is the range of the table: nothing is extrapolated.
+/// </summary>
+/// <remarks>
+/// A cubic spline has a continuous second derivative, a piecewise-constant third derivative and a
+/// zero fourth derivative. This type reports V‴ as the central difference of the spline's V″ over
+/// one table spacing and V⁗ as the second difference of V″ over one spacing, so first-order
+/// anharmonic corrections computed from a table are only as good as the table's resolution.
+/// </remarks>
+public readonly struct TabulatedPotential : IPairPotential
+{
+    /// <summary>The fewest points accepted.</summary>
+    public const int MinimumPointCount = 5;
+
+    private readonly CubicSpline _spline;
+    private readonly double _lower;
+    private readonly double _upper;
+    private readonly double _spacing;
+    private readonly PotentialWell? _well;
+    private readonly int _count;
+
+    /// <summary>Builds a tabulated potential.</summary>
+    /// <param name="separationsAngstrom">r values in Å, strictly increasing, finite, at least 0, at least <see cref="MinimumPointCount"/> of them.</param>
+    /// <param name="energiesElectronVolt">V values in eV, finite, one per separation.</param>
+    public TabulatedPotential(IReadOnlyList<double> separationsAngstrom, IReadOnlyList<double> energiesElectronVolt)
+    {
+        Preconditions.CheckNotNull(separationsAngstrom, nameof(separationsAngstrom));
+        Preconditions.CheckNotNull(energiesElectronVolt, nameof(energiesElectronVolt));
+        if (separationsAngstrom.Count != energiesElectronVolt.Count)
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                $"energiesElectronVolt has {energiesElectronVolt.Count} values but separationsAngstrom has {separationsAngstrom.Count}; they must have the same length."),
+                nameof(energiesElectronVolt));
+        }
+        if (separationsAngstrom.Count < MinimumPointCount)
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                $"separationsAngstrom has {separationsAngstrom.Count} points; a tabulated potential needs at least {MinimumPointCount}."),
+                nameof(separationsAngstrom));
+        }
+        double[] r = separationsAngstrom.ToArray();
+        double[] v = energiesElectronVolt.ToArray();
+        for (int i = 0; i < r.Length; i++)
+        {
+            Preconditions.CheckNonNegative(r[i], $"{nameof(separationsAngstrom)}[{i}]");
+            Preconditions.CheckFinite(v[i], $"{nameof(energiesElectronVolt)}[{i}]");
+            if (i > 0 && !(r[i] > r[i - 1]))
+            {
+                throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                    $"separationsAngstrom[{i}] = {r[i]:R} is not greater than separationsAngstrom[{i - 1}] = {r[i - 1]:R}; separations must be strictly increasing (no duplicates, sorted)."),
+                    nameof(separationsAngstrom));
+            }
+        }
+        _spline = CubicSpline.InterpolateNaturalSorted(r, v);
+        _lower = r[0];
+        _upper = r[^1];
+        _count = r.Length;
+        _spacing = (_upper - _lower) / (r.Length - 1);
+        var spline = _spline;
+        double? r0 = WellLocator.FindLowestMinimum(spline.Interpolate, spline.Differentiate, _lower, _upper, 20 * r.Length);
+        _well = r0 is double rm ? new PotentialWell(rm, spline.Interpolate(rm), v[^1] - spline.Interpolate(rm)) : null;
+    }
+
+    /// <inheritdoc/>
+    public double DomainLower => _lower;
+
+    /// <inheritdoc/>
+    public double DomainUpper => _upper;
+
+    /// <inheritdoc/>
+    public PotentialWell? Well => _well;
+
+    /// <inheritdoc/>
+    public string Description => string.Create(CultureInfo.InvariantCulture,
+        $"tabulated potential ({_count} points on [{_lower:G6}, {_upper:G6}] Å, natural cubic spline)");
+
+    /// <inheritdoc/>
+    public double Energy(double r) => _spline.Interpolate(r);
+
+    /// <inheritdoc/>
+    public double EnergyAtSquaredDistance(double squaredDistance) => _spline.Interpolate(Math.Sqrt(squaredDistance));
+
+    /// <inheritdoc/>
+    public PairDerivatives Derivatives(double r)
+    {
+        double h = 0.5 * _spacing;
+        double lo = Math.Max(_lower, r - h), hi = Math.Min(_upper, r + h);
+        double mid = 0.5 * (lo + hi);
+        double half = 0.5 * (hi - lo);
+        double d2Lo = _spline.Differentiate2(lo), d2Hi = _spline.Differentiate2(hi), d2Mid = _spline.Differentiate2(mid);
+        return new PairDerivatives(
+            _spline.Interpolate(r),
+            _spline.Differentiate(r),
+            _spline.Differentiate2(r),
+            (d2Hi - d2Lo) / (hi - lo),
+            (d2Hi - 2 * d2Mid + d2Lo) / (half * half));
+    }
+}

@@ -1,0 +1,224 @@
+using System;
+using System.Globalization;
+using System.Runtime.CompilerServices;
+using ThermalSampling.Internal;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Potentials;
+
+/// <summary>
+/// A potential truncated at a cut-off distance: V(r) for r &lt; rc and 0 beyond. The energy jumps at rc
+/// by −V(rc); use <see cref="ShiftedCutOffPotential{TPotential}"/> for a continuous energy.
+/// </summary>
+/// <typeparam name="TPotential">The wrapped potential, a struct so calls are specialised.</typeparam>
+public readonly struct CutOffPotential<TPotential> : IPairPotential where TPotential : struct, IPairPotential
+{
+    private readonly TPotential _inner;
+    private readonly double _rc;
+    private readonly double _rcSquared;
+
+    /// <summary>Truncates <paramref name="inner"/> at <paramref name="cutOff"/>.</summary>
+    /// <param name="inner">The potential to truncate.</param>
+    /// <param name="cutOff">rc; must be above the inner potential's lower domain bound.</param>
+    public CutOffPotential(TPotential inner, Length cutOff)
+    {
+        _inner = inner;
+        Preconditions.CheckRange(cutOff.InAngstroms, Math.BitIncrement(inner.DomainLower), inner.DomainUpper, nameof(cutOff));
+        _rc = cutOff.InAngstroms;
+        _rcSquared = _rc * _rc;
+    }
+
+    /// <summary>The cut-off distance, Å.</summary>
+    public double CutOffInAngstroms => _rc;
+
+    /// <inheritdoc/>
+    public double DomainLower => _inner.DomainLower;
+
+    /// <inheritdoc/>
+    public double DomainUpper => _inner.DomainUpper;
+
+    /// <inheritdoc/>
+    public PotentialWell? Well => _inner.Well is { } w && w.EquilibriumDistance < _rc
+        ? new PotentialWell(w.EquilibriumDistance, w.MinimumEnergy, Math.Max(0, -w.MinimumEnergy)) : null;
+
+    /// <inheritdoc/>
+    public string Description => string.Create(CultureInfo.InvariantCulture, $"{_inner.Description}, cut off at {_rc:G6} Å");
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public double Energy(double r) => r < _rc ? _inner.Energy(r) : 0.0;
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public double EnergyAtSquaredDistance(double squaredDistance) => squaredDistance < _rcSquared ? _inner.EnergyAtSquaredDistance(squaredDistance) : 0.0;
+
+    /// <inheritdoc/>
+    public PairDerivatives Derivatives(double r) => r < _rc ? _inner.Derivatives(r) : default;
+}
+
+/// <summary>
+/// A potential truncated and shifted at a cut-off: V(r) − V(rc) for r &lt; rc and 0 beyond, so the energy
+/// is continuous (its derivatives are not).
+/// </summary>
+/// <typeparam name="TPotential">The wrapped potential.</typeparam>
+public readonly struct ShiftedCutOffPotential<TPotential> : IPairPotential where TPotential : struct, IPairPotential
+{
+    private readonly TPotential _inner;
+    private readonly double _rc;
+    private readonly double _rcSquared;
+    private readonly double _shift;
+
+    /// <summary>Truncates and shifts <paramref name="inner"/> at <paramref name="cutOff"/>.</summary>
+    /// <param name="inner">The potential.</param>
+    /// <param name="cutOff">rc; must be above the inner potential's lower domain bound.</param>
+    public ShiftedCutOffPotential(TPotential inner, Length cutOff)
+    {
+        _inner = inner;
+        Preconditions.CheckRange(cutOff.InAngstroms, Math.BitIncrement(inner.DomainLower), inner.DomainUpper, nameof(cutOff));
+        _rc = cutOff.InAngstroms;
+        _rcSquared = _rc * _rc;
+        _shift = inner.Energy(_rc);
+    }
+
+    /// <summary>The cut-off distance, Å.</summary>
+    public double CutOffInAngstroms => _rc;
+
+    /// <summary>The energy subtracted inside the cut-off, V(rc), eV.</summary>
+    public double ShiftInElectronVolts => _shift;
+
+    /// <inheritdoc/>
+    public double DomainLower => _inner.DomainLower;
+
+    /// <inheritdoc/>
+    public double DomainUpper => _inner.DomainUpper;
+
+    /// <inheritdoc/>
+    public PotentialWell? Well => _inner.Well is { } w && w.EquilibriumDistance < _rc
+        ? new PotentialWell(w.EquilibriumDistance, w.MinimumEnergy - _shift, Math.Max(0, _shift - w.MinimumEnergy)) : null;
+
+    /// <inheritdoc/>
+    public string Description => string.Create(CultureInfo.InvariantCulture, $"{_inner.Description}, shifted and cut off at {_rc:G6} Å");
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public double Energy(double r) => r < _rc ? _inner.Energy(r) - _shift : 0.0;
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public double EnergyAtSquaredDistance(double squaredDistance) => squaredDistance < _rcSquared ? _inner.EnergyAtSquaredDistance(squaredDistance) - _shift : 0.0;
+
+    /// <inheritdoc/>
+    public PairDerivatives Derivatives(double r)
+    {
+        if (r >= _rc)
+        {
+            return default;
+        }
+        var d = _inner.Derivatives(r);
+        return d with { Energy = d.Energy - _shift };
+    }
+}
+
+/// <summary>The sum of two pair potentials, V = V1 + V2, on the intersection of their domains. Nest it for more terms.</summary>
+/// <typeparam name="TFirst">The first term.</typeparam>
+/// <typeparam name="TSecond">The second term.</typeparam>
+public readonly struct SumPotential<TFirst, TSecond> : IPairPotential
+    where TFirst : struct, IPairPotential
+    where TSecond : struct, IPairPotential
+{
+    private readonly TFirst _first;
+    private readonly TSecond _second;
+    private readonly PotentialWell? _well;
+
+    /// <summary>Adds two potentials. The well is searched for between 0.2 and 5 times the components' equilibrium distances (1–10 Å when neither has a well).</summary>
+    /// <param name="first">The first term.</param>
+    /// <param name="second">The second term.</param>
+    public SumPotential(TFirst first, TSecond second) : this(first, second, null, null) { }
+
+    /// <summary>Adds two potentials and searches for the well between the given separations.</summary>
+    /// <param name="first">The first term.</param>
+    /// <param name="second">The second term.</param>
+    /// <param name="wellSearchLower">Lower end of the well search; null for the default.</param>
+    /// <param name="wellSearchUpper">Upper end of the well search; null for the default.</param>
+    public SumPotential(TFirst first, TSecond second, Length? wellSearchLower, Length? wellSearchUpper)
+    {
+        _first = first;
+        _second = second;
+        double lowerDomain = Math.Max(first.DomainLower, second.DomainLower);
+        double upperDomain = Math.Min(first.DomainUpper, second.DomainUpper);
+        if (!(lowerDomain < upperDomain))
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                $"The domains of '{first.Description}' and '{second.Description}' do not overlap ([{lowerDomain:R}, {upperDomain:R}] Å is empty)."),
+                nameof(second));
+        }
+        double small = double.PositiveInfinity, large = 0;
+        foreach (var w in new[] { first.Well, second.Well })
+        {
+            if (w is not null)
+            {
+                small = Math.Min(small, w.EquilibriumDistance);
+                large = Math.Max(large, w.EquilibriumDistance);
+            }
+        }
+        if (large == 0)
+        {
+            small = 5;
+            large = 2;
+        }
+        double lo = wellSearchLower?.InAngstroms ?? 0.2 * small;
+        double hi = wellSearchUpper?.InAngstroms ?? 5 * large;
+        lo = Math.Max(lo, lowerDomain + 1e-9 * Math.Max(1, lowerDomain));
+        hi = Math.Min(hi, upperDomain);
+        Preconditions.CheckOrdered(lo, hi, nameof(wellSearchUpper));
+        var self = this;
+        double? r0 = WellLocator.FindLowestMinimum(self.Energy, r => self.Derivatives(r).First, lo, hi);
+        if (r0 is double rm)
+        {
+            double vMin = self.Energy(rm);
+            double far = double.IsPositiveInfinity(upperDomain) ? 1e4 * Math.Max(large, 1) : upperDomain;
+            _well = new PotentialWell(rm, vMin, self.Energy(far) - vMin);
+        }
+        else
+        {
+            _well = null;
+        }
+    }
+
+    /// <inheritdoc/>
+    public double DomainLower => Math.Max(_first.DomainLower, _second.DomainLower);
+
+    /// <inheritdoc/>
+    public double DomainUpper => Math.Min(_first.DomainUpper, _second.DomainUpper);
+
+    /// <inheritdoc/>
+    public PotentialWell? Well => _well;
+
+    /// <inheritdoc/>
+    public string Description => $"{_first.Description} + {_second.Description}";
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public double Energy(double r) => _first.Energy(r) + _second.Energy(r);
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public double EnergyAtSquaredDistance(double squaredDistance) => _first.EnergyAtSquaredDistance(squaredDistance) + _second.EnergyAtSquaredDistance(squaredDistance);
+
+    /// <inheritdoc/>
+    public PairDerivatives Derivatives(double r) => _first.Derivatives(r) + _second.Derivatives(r);
+}
+
+/// <summary>Combining rules for unlike pairs.</summary>
+public static class MixingRules
+{
+    /// <summary>
+    /// Lorentz–Berthelot: σ_ij = (σ_i + σ_j)/2, ε_ij = √(ε_i ε_j) (Lorentz 1881; Berthelot 1898).
+    /// </summary>
+    /// <param name="first">The like-pair potential of species i.</param>
+    /// <param name="second">The like-pair potential of species j.</param>
+    public static LennardJones LorentzBerthelot(LennardJones first, LennardJones second)
+        => LennardJones.FromSigmaEpsilon(
+            Length.FromAngstroms(0.5 * (first.SigmaInAngstroms + second.SigmaInAngstroms)),
+            Energy.FromElectronVolts(Math.Sqrt(first.EpsilonInElectronVolts * second.EpsilonInElectronVolts)));
+}
