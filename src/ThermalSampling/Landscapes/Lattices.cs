@@ -132,7 +132,7 @@ public static class LatticeSites
         var a1 = new Position(a, 0, 0);
         var a2 = new Position(a / 2, a * Math.Sqrt(3) / 2, 0);
         var a3 = new Position(0, 0, c);
-        var second = (2.0 / 3.0) * a1 + (1.0 / 3.0) * a2 + 0.5 * a3;
+        var second = (1.0 / 3.0) * (a1 + a2) + 0.5 * a3; // a1, a2 at 60°: the B site sits over the centre of a triangle
         for (int i = -extent; i <= extent; i++)
         {
             for (int j = -extent; j <= extent; j++)
