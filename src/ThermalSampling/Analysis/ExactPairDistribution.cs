@@ -18,8 +18,8 @@ namespace ThermalSampling.Analysis;
 /// </summary>
 public sealed class ExactPairDistribution
 {
-    private const double TargetRelativeError = 1e-12;
-    private const int MaximumDepth = 25;
+    private const double TargetRelativeError = 1e-11;
+    private const int MaximumDepth = 10;
 
     private readonly Func<double, double> _weight;
     private readonly ImmutableArray<double> _breaks;
