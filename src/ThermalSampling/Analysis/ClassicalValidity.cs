@@ -26,7 +26,7 @@ public sealed record ValidityAssessment(double DeBroglieWavelengthInAngstroms, d
 /// <summary>
 /// Judges whether classical Boltzmann statistics in this well can be trusted. Thresholds
 /// (common practice, no source; documented in docs/validity.md):
-/// quantum variance more than 5% above classical (ħω/kT ≳ 0.78); Λ above half the RMS spread;
+/// quantum variance more than 5% above classical (ħω/kT ≳ 0.78); Λ above the RMS spread;
 /// kT above 5% of the well depth; more than 0.1% of the probability in the outer 10% of the window.
 /// </summary>
 public static class ClassicalValidity
@@ -35,7 +35,7 @@ public static class ClassicalValidity
     public const double QuantumVarianceRatioThreshold = 1.05;
 
     /// <summary>Λ/RMS above which <see cref="WarningCodes.DeBroglieWavelength"/> is raised.</summary>
-    public const double DeBroglieToRmsThreshold = 0.5;
+    public const double DeBroglieToRmsThreshold = 1.0;
 
     /// <summary>kT/depth above which <see cref="WarningCodes.EscapeRisk"/> is raised.</summary>
     public const double EscapeRiskThreshold = 0.05;

@@ -1,0 +1,46 @@
+using System;
+using System.IO;
+using ThermalSampling.Analysis;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Units;
+using Xunit;
+
+namespace ThermalSampling.Tests;
+
+/// <summary>Runs the README's quick start (kept identical, less the Console lines) so the documented code cannot rot.</summary>
+public class ReadmeTests
+{
+    [Fact]
+    public void Readme_quick_start_runs_and_gives_sensible_numbers()
+    {
+        var pair = LennardJones.FromSigmaEpsilon(Length.FromAngstroms(3.405), Energy.FromKelvin(119.8));
+        var line = PairLandscape.Line(pair, Length.FromAngstroms(3.2), Length.FromAngstroms(6.0));
+        var t = Temperature.FromKelvin(30);
+
+        var exact = ExactPairDistribution.Compute(line, t);
+        var first = PairAnalysis.FirstOrder(line, t);
+        var harmonic = PairAnalysis.Harmonic(line, Mass.FromAtomicMassUnits(39.948), t);
+        var verdict = ClassicalValidity.AssessPair(line, Mass.FromAtomicMassUnits(39.948), t);
+
+        Assert.True(exact.MeanInAngstroms - harmonic.EquilibriumDistanceInAngstroms > first.MeanShiftInAngstroms * 0.9);
+        Assert.True(exact.RmsInAngstroms > harmonic.ClassicalRmsInAngstroms);
+        Assert.Contains(verdict.Warnings, w => w.Code == WarningCodes.EscapeRisk); // kT = 0.25 eps: a shallow well at 30 K
+    }
+
+    [Fact]
+    public void Readme_mentions_the_commands_that_ci_runs()
+    {
+        string root = AppContext.BaseDirectory;
+        while (!File.Exists(Path.Combine(root, "ThermalSampling.sln")))
+        {
+            root = Path.GetDirectoryName(root)!;
+        }
+        string readme = File.ReadAllText(Path.Combine(root, "README.md"));
+        string ci = File.ReadAllText(Path.Combine(root, ".ci", "run"));
+        Assert.Contains("dotnet test ThermalSampling.sln -c Release", readme);
+        Assert.Contains("dotnet test ThermalSampling.sln -c Release", ci);
+        Assert.Contains("dotnet run -c Release --project docs/examples/QuickExample", readme);
+        Assert.Contains("dotnet run -c Release --project docs/examples/QuickExample", ci);
+    }
+}
