@@ -1,0 +1,120 @@
+using System;
+using System.Globalization;
+using System.Numerics;
+using MathNet.Numerics.IntegralTransforms;
+using ThermalSampling.Internal;
+
+namespace ThermalSampling.Statistics;
+
+/// <summary>
+/// The integrated autocorrelation time τ = 1 + 2Σ_{t≥1} ρ(t) of a series (the convention in which independent draws
+/// have τ = 1 and the effective sample size is N/τ), with a reliability flag and, when unreliable, the reason.
+/// </summary>
+/// <param name="IntegratedTime">τ, in steps (at least 1 is not enforced: anticorrelated series can give less).</param>
+/// <param name="StandardError">Sokal's estimate of the statistical error of τ, τ·√(2(2M + 1)/N).</param>
+/// <param name="Window">The summation window M chosen by Sokal's automatic rule M ≥ c·τ(M).</param>
+/// <param name="SampleCount">N, the length of the series.</param>
+/// <param name="IsReliable">Whether N ≥ 50 τ and a window was found.</param>
+/// <param name="Reason">Why the estimate is unreliable, in plain words; empty when reliable.</param>
+public sealed record AutocorrelationEstimate(double IntegratedTime, double StandardError, int Window, int SampleCount, bool IsReliable, string Reason)
+{
+    /// <summary>N/τ, the number of independent draws the series is worth.</summary>
+    public double EffectiveSampleSize => SampleCount / Math.Max(IntegratedTime, 1e-300);
+}
+
+/// <summary>Autocorrelation analysis of one series.</summary>
+public static class Autocorrelation
+{
+    /// <summary>The chain must be at least this many autocorrelation times long for the estimate to count as reliable (Sokal 1997).</summary>
+    public const double MinimumLengthInAutocorrelationTimes = 50;
+
+    /// <summary>The normalised autocorrelation function ρ(t), t = 0 … N − 1, by FFT (MathNet.Numerics), zero-padded so it is not circular.</summary>
+    /// <param name="series">The series; at least 2 values, all finite.</param>
+    public static double[] Function(ReadOnlySpan<double> series)
+    {
+        int n = series.Length;
+        if (n < 2)
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture, $"series has {n} values; at least 2 are needed."), nameof(series));
+        }
+        double mean = 0;
+        for (int i = 0; i < n; i++)
+        {
+            Preconditions.CheckFinite(series[i], "series");
+            mean += series[i];
+        }
+        mean /= n;
+        int size = 1;
+        while (size < 2 * n)
+        {
+            size <<= 1;
+        }
+        var data = new Complex[size];
+        for (int i = 0; i < n; i++)
+        {
+            data[i] = new Complex(series[i] - mean, 0);
+        }
+        Fourier.Forward(data, FourierOptions.NoScaling);
+        for (int i = 0; i < size; i++)
+        {
+            double m = data[i].Magnitude;
+            data[i] = new Complex(m * m, 0);
+        }
+        Fourier.Inverse(data, FourierOptions.NoScaling);
+        var rho = new double[n];
+        double c0 = data[0].Real;
+        if (!(c0 > 0))
+        {
+            rho[0] = 1;
+            return rho; // a constant series: no correlation structure to speak of
+        }
+        for (int t = 0; t < n; t++)
+        {
+            rho[t] = data[t].Real / c0;
+        }
+        return rho;
+    }
+
+    /// <summary>
+    /// τ by Sokal's automatic windowing (Sokal, NATO ASI Series B 361 (1997)): the smallest M with M ≥ c·τ(M),
+    /// τ(M) = 1 + 2Σ_{t=1}^{M} ρ(t).
+    /// </summary>
+    /// <param name="series">The series; at least 2 values, all finite.</param>
+    /// <param name="windowFactor">c, 1 to 20; 5 is the usual choice (some use up to 7).</param>
+    public static AutocorrelationEstimate Estimate(ReadOnlySpan<double> series, double windowFactor = 5)
+    {
+        Preconditions.CheckRange(windowFactor, 1, 20, nameof(windowFactor));
+        var rho = Function(series);
+        int n = series.Length;
+        double tau = 1;
+        int window = 0;
+        bool found = false;
+        for (int m = 1; m < n; m++)
+        {
+            tau += 2 * rho[m];
+            if (m >= windowFactor * tau)
+            {
+                window = m;
+                found = true;
+                break;
+            }
+        }
+        if (!found)
+        {
+            window = n - 1;
+        }
+        double error = Math.Abs(tau) * Math.Sqrt(2.0 * (2 * window + 1) / n);
+        string reason = "";
+        if (!found)
+        {
+            reason = string.Create(CultureInfo.InvariantCulture,
+                $"No summation window satisfied M >= {windowFactor:G3}·tau within the {n} values: the series is far too short for its correlation time. Run longer.");
+        }
+        else if (n < MinimumLengthInAutocorrelationTimes * tau)
+        {
+            reason = string.Create(CultureInfo.InvariantCulture,
+                $"The series is only {n / tau:G3} autocorrelation times long (tau = {tau:G4}); at least {MinimumLengthInAutocorrelationTimes:G3} are needed for a trustworthy tau and error bar. Run about {Math.Ceiling(MinimumLengthInAutocorrelationTimes * tau / n):G3} times longer.");
+        }
+        return new AutocorrelationEstimate(Math.Max(tau, 1.0 / n), error, window, n, reason.Length == 0, reason);
+    }
+}
