@@ -25,4 +25,19 @@ public static class WarningCodes
 
     /// <summary>The first-order perturbative estimate is outside its range of validity (its correction is not small).</summary>
     public const string PerturbationInvalid = "perturbation-invalid";
+
+    /// <summary>Rank-normalised split R-hat is above 1.01: the chains disagree, so they have not converged or not mixed.</summary>
+    public const string RHatHigh = "r-hat-high";
+
+    /// <summary>The effective sample size is below 400: error bars are themselves uncertain.</summary>
+    public const string LowEffectiveSampleSize = "low-effective-sample-size";
+
+    /// <summary>A chain is shorter than 50 autocorrelation times: its autocorrelation time and error bar are not trustworthy.</summary>
+    public const string ShortChain = "short-chain";
+
+    /// <summary>The Metropolis acceptance rate is far from its target: the proposal width was not tuned well during burn-in.</summary>
+    public const string AcceptanceOffTarget = "acceptance-off-target";
+
+    /// <summary>The sampled mean or variance differs from the exact quadrature value by more than 4 standard errors.</summary>
+    public const string DisagreesWithExact = "disagrees-with-exact";
 }

@@ -1,0 +1,110 @@
+using System;
+using System.Collections.Immutable;
+using System.Reflection;
+using ThermalSampling.Analysis;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Sampling;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Reports;
+
+/// <summary>A sampled value and its standard error (one standard deviation of the estimate).</summary>
+/// <param name="Value">The estimate.</param>
+/// <param name="StandardError">Its standard error, from the effective sample size.</param>
+public sealed record Estimate(double Value, double StandardError)
+{
+    /// <summary>(Value − reference)/StandardError; 0 when the standard error is 0 and the values agree.</summary>
+    /// <param name="reference">The reference value.</param>
+    public double ZScore(double reference)
+        => StandardError > 0 ? (Value - reference) / StandardError : Value == reference ? 0 : double.PositiveInfinity;
+}
+
+/// <summary>Fixed-bin histogram normalised to a probability density, with per-bin standard errors.</summary>
+/// <param name="Lower">Lower edge of the first bin, Å.</param>
+/// <param name="Upper">Upper edge of the last bin, Å.</param>
+/// <param name="Density">Density per bin, 1/Å.</param>
+/// <param name="DensityStandardError">√(p(1 − p)/ESS)/width per bin: the binomial error inflated by the autocorrelation time.</param>
+/// <param name="Count">The draws counted.</param>
+public sealed record Histogram(double Lower, double Upper, ImmutableArray<double> Density, ImmutableArray<double> DensityStandardError, long Count)
+{
+    /// <summary>The bin width, Å.</summary>
+    public double BinWidth => (Upper - Lower) / Density.Length;
+
+    /// <summary>The centre of bin <paramref name="index"/>, Å.</summary>
+    /// <param name="index">0-based bin index.</param>
+    public double BinCentre(int index) => Lower + (index + 0.5) * BinWidth;
+}
+
+/// <summary>Convergence and efficiency diagnostics of a run at one temperature.</summary>
+/// <param name="AcceptanceRate">Fraction of accepted Metropolis proposals after burn-in (or of accepted envelope draws for direct site sampling); absent for direct inverse-CDF sampling.</param>
+/// <param name="AutocorrelationTime">Integrated autocorrelation time τ of the position, in recorded draws, pooled over chains (N/ESS).</param>
+/// <param name="EffectiveSampleSize">Σ over chains of N_c/τ_c.</param>
+/// <param name="RHat">Rank-normalised split R-hat (worst coordinate for sites); absent with one chain.</param>
+/// <param name="Draws">Recorded draws over all chains.</param>
+/// <param name="BlockingStandardError">The standard error of the mean from Flyvbjerg–Petersen blocking (first coordinate for sites), a cross-check of the ESS-based one.</param>
+/// <param name="FinalStepWidthInAngstroms">The frozen Metropolis proposal width, averaged over chains; absent for direct sampling.</param>
+public sealed record SamplingDiagnostics(double? AcceptanceRate, double AutocorrelationTime, double EffectiveSampleSize, double? RHat, long Draws,
+    double BlockingStandardError, double? FinalStepWidthInAngstroms);
+
+/// <summary>What produced a result.</summary>
+/// <param name="Seed">The run's seed.</param>
+/// <param name="Generator">The random generator.</param>
+/// <param name="Settings">The sampling settings.</param>
+/// <param name="LibraryVersion">The ThermalSampling version.</param>
+/// <param name="Landscape">A description of the landscape and potential.</param>
+/// <param name="Mass">The particle's mass.</param>
+public sealed record Provenance(ulong Seed, string Generator, SamplingSettings Settings, string LibraryVersion, string Landscape, Mass Mass)
+{
+    /// <summary>The library's informational version.</summary>
+    public static string CurrentLibraryVersion { get; } =
+        typeof(Provenance).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion ?? "unknown";
+}
+
+/// <summary>The sampled moments compared with the exact quadrature.</summary>
+/// <param name="Mean">Exact ⟨r⟩, Å.</param>
+/// <param name="Variance">Exact variance, Å².</param>
+/// <param name="Skewness">Exact skewness.</param>
+/// <param name="ExcessKurtosis">Exact excess kurtosis.</param>
+/// <param name="WallMass">Exact probability in the outer 10% of the window.</param>
+/// <param name="ZScoreMean">(sampled − exact)/SE for the mean.</param>
+/// <param name="ZScoreVariance">(sampled − exact)/SE for the variance.</param>
+public sealed record ExactComparison(double Mean, double Variance, double Skewness, double ExcessKurtosis, double WallMass, double ZScoreMean, double ZScoreVariance);
+
+/// <summary>The vibration report of a line or radial pair at one temperature.</summary>
+/// <param name="Temperature">The temperature.</param>
+/// <param name="Geometry">Line or radial.</param>
+/// <param name="MinimumInAngstroms">The potential's minimum, when it lies inside the window.</param>
+/// <param name="Mean">Sampled ⟨r⟩, Å.</param>
+/// <param name="MeanShift">⟨r⟩ − minimum, Å (absent without a minimum inside the window).</param>
+/// <param name="Variance">Sampled variance, Å².</param>
+/// <param name="Rms">Sampled RMS spread, Å.</param>
+/// <param name="Skewness">Sampled skewness.</param>
+/// <param name="ExcessKurtosis">Sampled excess kurtosis.</param>
+/// <param name="Harmonic">The harmonic estimate (absent without a minimum inside the window).</param>
+/// <param name="FirstOrder">The first-order anharmonic estimate (absent without a minimum inside the window).</param>
+/// <param name="Exact">The exact quadrature reference and z-scores.</param>
+/// <param name="Diagnostics">Convergence diagnostics.</param>
+/// <param name="Histogram">The sampled density.</param>
+/// <param name="Warnings">Everything that could mislead, in plain words.</param>
+/// <param name="Provenance">What produced it.</param>
+public sealed record PairVibrationReport(Temperature Temperature, SeparationGeometry Geometry, double? MinimumInAngstroms, Estimate Mean, Estimate? MeanShift,
+    Estimate Variance, Estimate Rms, double Skewness, double ExcessKurtosis, PairHarmonicEstimate? Harmonic, PairFirstOrderEstimate? FirstOrder,
+    ExactComparison Exact, SamplingDiagnostics Diagnostics, Histogram Histogram, ImmutableArray<Warning> Warnings, Provenance Provenance);
+
+/// <summary>The vibration report of a particle among fixed sites at one temperature.</summary>
+/// <param name="Temperature">The temperature.</param>
+/// <param name="Minimum">The energy minimum reached from the centre, Å.</param>
+/// <param name="Mean">Sampled mean position, Å.</param>
+/// <param name="MeanStandardError">Standard errors of the mean's components, Å.</param>
+/// <param name="MeanShift">Mean − minimum, Å.</param>
+/// <param name="Covariance">Sampled displacement covariance about the mean, Å².</param>
+/// <param name="MeanSquareDisplacement">tr(covariance) = ⟨|u − ⟨u⟩|²⟩, Å².</param>
+/// <param name="DebyeWallerB">B = 8π² U_iso = 8π² MSD/3, Å².</param>
+/// <param name="Harmonic">The harmonic estimate at the minimum.</param>
+/// <param name="Diagnostics">Convergence diagnostics.</param>
+/// <param name="RadialHistogram">Density of the distance from the minimum, 1/Å.</param>
+/// <param name="Warnings">Everything that could mislead, in plain words.</param>
+/// <param name="Provenance">What produced it.</param>
+public sealed record SiteVibrationReport(Temperature Temperature, Position Minimum, Position Mean, Position MeanStandardError, Position MeanShift,
+    SymmetricTensor Covariance, Estimate MeanSquareDisplacement, Estimate DebyeWallerB, SiteHarmonicEstimate Harmonic,
+    SamplingDiagnostics Diagnostics, Histogram RadialHistogram, ImmutableArray<Warning> Warnings, Provenance Provenance);

@@ -1,0 +1,272 @@
+using System;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Linq;
+using System.Threading;
+using System.Threading.Tasks;
+using ThermalSampling.Analysis;
+using ThermalSampling.Reports;
+using ThermalSampling.Statistics;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>
+/// Tunes the Metropolis proposal width during burn-in by a Robbins–Monro update of its logarithm,
+/// log w ← log w + (accepted − target)/(t + 10)^0.6, and is never used after burn-in, so the recorded chain is a
+/// time-homogeneous Markov chain with a frozen width.
+/// </summary>
+internal struct StepWidthAdapter
+{
+    private double _logWidth;
+    private long _t;
+    private readonly double _target;
+    private readonly double _maxWidth;
+
+    internal StepWidthAdapter(double initialWidth, double target, double maxWidth)
+    {
+        _logWidth = Math.Log(initialWidth);
+        _target = target;
+        _maxWidth = maxWidth;
+        _t = 0;
+    }
+
+    internal readonly double Width => Math.Min(Math.Exp(_logWidth), _maxWidth);
+
+    internal void Update(bool accepted)
+    {
+        _t++;
+        _logWidth += ((accepted ? 1.0 : 0.0) - _target) * 2.0 / Math.Pow(_t + 10, 0.6);
+        _logWidth = Math.Min(_logWidth, Math.Log(_maxWidth));
+    }
+}
+
+/// <summary>
+/// Keeps a constant-size record of one chain for diagnostics: the means of consecutive batches of k draws
+/// (k = ⌈N / cap⌉) of (x − ref) and of (x − ref)². The mean of all draws is the mean of the batch means, so
+/// Var(x̄) = Var(batch mean)·τ_batch/M holds for any k, and the batch means of (x − μ)² follow exactly once μ is known.
+/// With k = 1 these are the draws themselves.
+/// </summary>
+internal sealed class BatchMeansStore
+{
+    private readonly double _reference;
+    private double _sum1, _sum2;
+    private int _filled;
+    private int _batch;
+
+    internal BatchMeansStore(long samples, int cap, double reference)
+    {
+        BatchSize = (int)Math.Max(1, (samples + cap - 1) / cap);
+        int batches = (int)(samples / BatchSize);
+        First = new double[batches];
+        Second = new double[batches];
+        _reference = reference;
+    }
+
+    internal int BatchSize { get; }
+
+    internal double Reference => _reference;
+
+    /// <summary>Batch means of x − ref.</summary>
+    internal double[] First { get; }
+
+    /// <summary>Batch means of (x − ref)².</summary>
+    internal double[] Second { get; }
+
+    internal void Add(double x)
+    {
+        if (_batch >= First.Length)
+        {
+            return; // the remainder of N/k draws is in the moments, not in the batch series
+        }
+        double d = x - _reference;
+        _sum1 += d;
+        _sum2 += d * d;
+        if (++_filled == BatchSize)
+        {
+            First[_batch] = _sum1 / BatchSize;
+            Second[_batch] = _sum2 / BatchSize;
+            _batch++;
+            _filled = 0;
+            _sum1 = _sum2 = 0;
+        }
+    }
+
+    /// <summary>Batch means of x itself.</summary>
+    internal double[] Means()
+    {
+        var result = new double[First.Length];
+        for (int i = 0; i < result.Length; i++)
+        {
+            result[i] = First[i] + _reference;
+        }
+        return result;
+    }
+
+    /// <summary>Batch means of (x − μ)² for the final mean μ.</summary>
+    internal double[] SquaredDeviationMeans(double mean)
+    {
+        double m = mean - _reference;
+        var result = new double[First.Length];
+        for (int i = 0; i < result.Length; i++)
+        {
+            result[i] = Second[i] - 2 * m * First[i] + m * m;
+        }
+        return result;
+    }
+}
+
+/// <summary>Counts draws into fixed bins.</summary>
+internal sealed class BinCounter
+{
+    private readonly double _lower, _scale;
+
+    internal BinCounter(double lower, double upper, int bins)
+    {
+        _lower = lower;
+        Upper = upper;
+        _scale = bins / (upper - lower);
+        Counts = new long[bins];
+    }
+
+    internal double Lower => _lower;
+
+    internal double Upper { get; }
+
+    internal long[] Counts { get; }
+
+    internal void Add(double x)
+    {
+        int i = (int)((x - _lower) * _scale);
+        if (i >= 0 && i < Counts.Length)
+        {
+            Counts[i]++;
+        }
+        else if (x == Upper)
+        {
+            Counts[^1]++;
+        }
+    }
+
+    internal static Histogram Combine(IReadOnlyList<BinCounter> parts, double effectiveSampleSize)
+    {
+        var first = parts[0];
+        int bins = first.Counts.Length;
+        long total = 0;
+        var counts = new long[bins];
+        foreach (var p in parts)
+        {
+            for (int i = 0; i < bins; i++)
+            {
+                counts[i] += p.Counts[i];
+                total += p.Counts[i];
+            }
+        }
+        double width = (first.Upper - first.Lower) / bins;
+        var density = ImmutableArray.CreateBuilder<double>(bins);
+        var error = ImmutableArray.CreateBuilder<double>(bins);
+        for (int i = 0; i < bins; i++)
+        {
+            double p = total > 0 ? (double)counts[i] / total : 0;
+            density.Add(p / width);
+            error.Add(Math.Sqrt(p * (1 - p) / Math.Max(effectiveSampleSize, 1)) / width);
+        }
+        return new Histogram(first.Lower, first.Upper, density.MoveToImmutable(), error.MoveToImmutable(), total);
+    }
+}
+
+/// <summary>Runs chains in parallel; results land in chain order, so they never depend on the thread count.</summary>
+internal static class ChainScheduler
+{
+    internal static T[] RunAll<T>(int chains, int? maxThreads, CancellationToken cancellationToken, Func<int, T> runChain)
+    {
+        var results = new T[chains];
+        var options = new ParallelOptions
+        {
+            MaxDegreeOfParallelism = maxThreads ?? Environment.ProcessorCount,
+            CancellationToken = cancellationToken,
+        };
+        try
+        {
+            Parallel.For(0, chains, options, c => results[c] = runChain(c));
+        }
+        catch (AggregateException ex) when (ex.InnerExceptions.Count > 0)
+        {
+            // Surface the first chain's own exception (a NaN energy, a cancellation) rather than a wrapper.
+            System.Runtime.ExceptionServices.ExceptionDispatchInfo.Capture(ex.InnerExceptions[0]).Throw();
+            throw;
+        }
+        return results;
+    }
+}
+
+/// <summary>Autocorrelation-based diagnostics over the batch-mean series of several chains.</summary>
+internal static class ChainDiagnostics
+{
+    internal sealed record Summary(double Tau, double Ess, double BlockingStandardError, bool AllReliable, string Reason, double? RHat);
+
+    /// <summary>
+    /// Per chain: Var(x̄_c) = Var(Y)·τ_Y/M from its M batch means Y; ESS_c = σ²/Var(x̄_c); pooled ESS = Σ ESS_c and
+    /// τ = N/ESS. Blocking (Flyvbjerg–Petersen) on each Y series gives an independent standard error of the pooled mean.
+    /// R-hat is computed on the batch means.
+    /// </summary>
+    /// <param name="batchMeansPerChain">Batch means per chain, all of the same length.</param>
+    /// <param name="batchSize">Draws per batch.</param>
+    /// <param name="samplesPerChain">Recorded draws per chain.</param>
+    /// <param name="variancePerDraw">The pooled variance of one draw.</param>
+    internal static Summary Summarise(IReadOnlyList<double[]> batchMeansPerChain, int batchSize, long samplesPerChain, double variancePerDraw)
+    {
+        double ess = 0;
+        bool reliable = true;
+        string reason = "";
+        double blockingVariance = 0;
+        foreach (var y in batchMeansPerChain)
+        {
+            var est = Autocorrelation.Estimate(y);
+            double varY = 0, meanY = y.Average();
+            foreach (double v in y)
+            {
+                varY += (v - meanY) * (v - meanY);
+            }
+            varY /= y.Length - 1;
+            double varianceOfChainMean = varY * Math.Max(est.IntegratedTime, 1.0 / y.Length) / y.Length;
+            ess += variancePerDraw > 0 && varianceOfChainMean > 0 ? Math.Min(variancePerDraw / varianceOfChainMean, samplesPerChain * 10.0) : samplesPerChain;
+            if (!est.IsReliable && reliable)
+            {
+                reliable = false;
+                reason = batchSize == 1 ? est.Reason : est.Reason + string.Create(System.Globalization.CultureInfo.InvariantCulture, $" (measured on batch means of {batchSize} draws)");
+            }
+            double se = Blocking.Estimate(y).StandardError;
+            blockingVariance += se * se;
+        }
+        int chains = batchMeansPerChain.Count;
+        double total = (double)chains * samplesPerChain;
+        double? rHat = chains >= 2 ? RHat.Compute(batchMeansPerChain) : null;
+        return new Summary(total / ess, ess, Math.Sqrt(blockingVariance) / chains, reliable, reason, rHat);
+    }
+
+    internal static void AddConvergenceWarnings(ImmutableArray<Warning>.Builder warnings, Summary s, double? acceptance, double? target)
+    {
+        var c = System.Globalization.CultureInfo.InvariantCulture;
+        if (s.RHat is double r && r > RHat.Threshold)
+        {
+            warnings.Add(new Warning(WarningCodes.RHatHigh, string.Format(c,
+                "R-hat = {0:G4} is above {1}: the chains disagree, so they have not converged to one distribution (or the particle is trapped in different wells). Run longer, or check for several minima.",
+                r, RHat.Threshold)));
+        }
+        if (s.Ess < 400)
+        {
+            warnings.Add(new Warning(WarningCodes.LowEffectiveSampleSize, string.Format(c,
+                "The effective sample size is {0:G3}, below 400: the error bars themselves are uncertain. Run more or longer chains.", s.Ess)));
+        }
+        if (!s.AllReliable)
+        {
+            warnings.Add(new Warning(WarningCodes.ShortChain, s.Reason));
+        }
+        if (acceptance is double a && target is double t && Math.Abs(a - t) > 0.15)
+        {
+            warnings.Add(new Warning(WarningCodes.AcceptanceOffTarget, string.Format(c,
+                "The acceptance rate is {0:P1}, far from the target {1:P0}: the proposal width was not tuned well during burn-in (burn-in too short, or walls close to the particle). The results are still valid but less efficient.",
+                a, t)));
+        }
+    }
+}

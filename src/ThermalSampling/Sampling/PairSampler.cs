@@ -1,0 +1,263 @@
+using System;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Globalization;
+using System.Linq;
+using System.Runtime.CompilerServices;
+using System.Threading;
+using ThermalSampling.Analysis;
+using ThermalSampling.Internal;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Randomness;
+using ThermalSampling.Reports;
+using ThermalSampling.Statistics;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>
+/// Samples the separation of a line or radial pair at one temperature and returns the full vibration report.
+/// </summary>
+/// <remarks>
+/// Chains start over-dispersed, at the 1st to 99th percentiles of the exact distribution. A cancelled run throws
+/// <see cref="OperationCanceledException"/> and returns nothing partial.
+/// </remarks>
+public static class PairSampler
+{
+    /// <summary>The default Metropolis target acceptance for one coordinate (Roberts &amp; Rosenthal, Statistical Science 16, 351 (2001)).</summary>
+    public const double DefaultTargetAcceptance = 0.44;
+
+    private sealed record ChainResult(MomentAccumulator Moments, BinCounter Bins, BatchMeansStore Store, long Accepted, double Width);
+
+    /// <summary>Runs the sampler.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass (for the harmonic and validity analyses).</param>
+    /// <param name="temperature">The temperature.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    public static PairVibrationReport Run<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(landscape, nameof(landscape));
+        Preconditions.CheckNotNull(settings, nameof(settings));
+        settings.Validate();
+        PairAnalysis.CheckArguments(mass, temperature);
+
+        var exact = ExactPairDistribution.Compute(landscape, temperature);
+        var table = InverseCdfTable.Build(exact);
+        var warnings = ImmutableArray.CreateBuilder<Warning>();
+        PairHarmonicEstimate? harmonic = null;
+        PairFirstOrderEstimate? firstOrder = null;
+        PotentialWell? well = null;
+        try
+        {
+            well = PairAnalysis.RequireWellInside(landscape);
+            harmonic = PairAnalysis.Harmonic(landscape, mass, temperature);
+            firstOrder = PairAnalysis.FirstOrder(landscape, temperature);
+        }
+        catch (LandscapeException ex)
+        {
+            well = null;
+            warnings.Add(new Warning(WarningCodes.MinimumOutsideWindow, ex.Message));
+        }
+
+        bool metropolis = settings.Method == SamplingMethod.Metropolis;
+        double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
+        double width0 = settings.InitialStepWidthInAngstroms ?? harmonic?.ClassicalRmsInAngstroms ?? landscape.WindowWidthInAngstroms / 10;
+        width0 = Math.Min(width0, landscape.WindowWidthInAngstroms);
+        var kernel = new PairMetropolisKernel<TPotential>(landscape.Potential, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms,
+            1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial);
+        int chains = settings.Chains;
+
+        var results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken, c =>
+        {
+            var random = RandomStream.ForChain(settings.Seed, c);
+            double startQuantile = chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1);
+            var bins = new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins);
+            var store = new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, well?.EquilibriumDistance ?? exact.MeanInAngstroms);
+            var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
+            return metropolis
+                ? RunMetropolisChain(kernel, table.Quantile(startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, bins, store, report, cancellationToken)
+                : RunDirectChain(table, settings, ref random, bins, store, report, cancellationToken);
+        });
+
+        var moments = results[0].Moments;
+        for (int c = 1; c < chains; c++)
+        {
+            moments = MomentAccumulator.Merge(moments, results[c].Moments);
+        }
+        double mean = moments.Mean, variance = moments.Variance;
+        int batch = results[0].Store.BatchSize;
+        var summary = ChainDiagnostics.Summarise(results.Select(r => r.Store.Means()).ToList(), batch, settings.SamplesPerChain, variance);
+        double varianceOfSquares = Math.Max(moments.CentralMoment4 - moments.CentralMoment2 * moments.CentralMoment2, 0);
+        var summarySquared = ChainDiagnostics.Summarise(results.Select(r => r.Store.SquaredDeviationMeans(mean)).ToList(), batch, settings.SamplesPerChain, varianceOfSquares);
+        double meanSe = Math.Sqrt(variance / summary.Ess);
+        double varianceSe = Math.Sqrt(varianceOfSquares / summarySquared.Ess);
+        double rms = Math.Sqrt(variance);
+        double? acceptance = metropolis ? results.Sum(r => (double)r.Accepted) / ((double)chains * settings.SamplesPerChain) : null;
+
+        var meanEstimate = new Estimate(mean, meanSe);
+        var varianceEstimate = new Estimate(variance, varianceSe);
+        var comparison = new ExactComparison(exact.MeanInAngstroms, exact.VarianceInAngstromsSquared, exact.Skewness, exact.ExcessKurtosis, exact.WallMass,
+            meanEstimate.ZScore(exact.MeanInAngstroms), varianceEstimate.ZScore(exact.VarianceInAngstromsSquared));
+
+        var validity = ClassicalValidity.Assess(mass, temperature, rms > 0 ? rms : exact.RmsInAngstroms, harmonic?.QuantumToThermalRatio ?? 0,
+            well?.WellDepth ?? double.PositiveInfinity, exact.WallMass);
+        warnings.AddRange(validity.Warnings);
+        ChainDiagnostics.AddConvergenceWarnings(warnings, summary, acceptance, metropolis ? target : null);
+        if (Math.Abs(comparison.ZScoreMean) > 4 || Math.Abs(comparison.ZScoreVariance) > 4)
+        {
+            warnings.Add(new Warning(WarningCodes.DisagreesWithExact, string.Create(CultureInfo.InvariantCulture,
+                $"The sampled mean or variance differs from the exact quadrature value by more than 4 standard errors (z = {comparison.ZScoreMean:G3}, {comparison.ZScoreVariance:G3}): the chains are not converged or the error bars are too small. Trust the exact value.")));
+        }
+
+        var diagnostics = new SamplingDiagnostics(acceptance, summary.Tau, summary.Ess, summary.RHat, moments.Count, summary.BlockingStandardError,
+            metropolis ? results.Average(r => r.Width) : null);
+        var histogram = BinCounter.Combine(results.Select(r => r.Bins).ToList(), summary.Ess);
+        var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
+        return new PairVibrationReport(temperature, landscape.Geometry, well?.EquilibriumDistance, meanEstimate,
+            well is null ? null : new Estimate(mean - well.EquilibriumDistance, meanSe), varianceEstimate, new Estimate(rms, rms > 0 ? varianceSe / (2 * rms) : 0),
+            moments.Skewness, moments.ExcessKurtosis, harmonic, firstOrder, comparison, diagnostics, histogram, warnings.ToImmutable(), provenance);
+    }
+
+    /// <summary>Runs the sampler at several temperatures with the same settings (the seed is shared; each temperature is an independent run).</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    public static ImmutableArray<PairVibrationReport> Sweep<TPotential>(PairLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        var list = TemperatureList.Check(temperatures);
+        return list.Select(t => Run(landscape, mass, t, settings, progress, cancellationToken)).ToImmutableArray();
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static ChainResult RunMetropolisChain<TPotential>(PairMetropolisKernel<TPotential> kernel, double start, double width0, double target, double maxWidth,
+        SamplingSettings settings, ref RandomStream random, BinCounter bins, BatchMeansStore store, ProgressReporter progress, CancellationToken ct)
+        where TPotential : struct, IPairPotential
+    {
+        var state = kernel.StateAt(start);
+        var adapter = new StepWidthAdapter(width0, target, maxWidth);
+        for (long i = 0; i < settings.BurnIn; i++)
+        {
+            state = kernel.Step(state, adapter.Width, ref random, out bool accepted);
+            adapter.Update(accepted);
+            if ((i & 4095) == 0)
+            {
+                ct.ThrowIfCancellationRequested();
+                progress.Report(i);
+            }
+        }
+        double width = adapter.Width;
+        var moments = new MomentAccumulator();
+        long acceptedCount = 0;
+        long n = settings.SamplesPerChain;
+        for (long i = 0; i < n; i++)
+        {
+            state = kernel.Step(state, width, ref random, out bool accepted);
+            if (accepted)
+            {
+                acceptedCount++;
+            }
+            double r = state.Separation;
+            moments.Add(r);
+            bins.Add(r);
+            store.Add(r);
+            if ((i & 4095) == 0)
+            {
+                ct.ThrowIfCancellationRequested();
+                progress.Report(settings.BurnIn + i);
+            }
+        }
+        progress.Finish();
+        return new ChainResult(moments, bins, store, acceptedCount, width);
+    }
+
+    private static ChainResult RunDirectChain(InverseCdfTable table, SamplingSettings settings, ref RandomStream random, BinCounter bins, BatchMeansStore store,
+        ProgressReporter progress, CancellationToken ct)
+    {
+        var moments = new MomentAccumulator();
+        long n = settings.SamplesPerChain;
+        for (long i = 0; i < n; i++)
+        {
+            double r = table.Draw(ref random);
+            moments.Add(r);
+            bins.Add(r);
+            store.Add(r);
+            if ((i & 4095) == 0)
+            {
+                ct.ThrowIfCancellationRequested();
+                progress.Report(i);
+            }
+        }
+        progress.Finish();
+        return new ChainResult(moments, bins, store, n, 0);
+    }
+}
+
+/// <summary>Throttled progress for one chain: at most every 2^16 steps, plus once at the end.</summary>
+internal sealed class ProgressReporter
+{
+    private readonly IProgress<SamplingProgress>? _sink;
+    private readonly int _chain;
+    private readonly long _total;
+    private readonly double _temperature;
+
+    internal ProgressReporter(IProgress<SamplingProgress>? sink, int chain, long total, double temperature)
+    {
+        _sink = sink;
+        _chain = chain;
+        _total = total;
+        _temperature = temperature;
+    }
+
+    internal void Report(long done)
+    {
+        if (_sink is not null && (done & 0xFFFF) == 0)
+        {
+            _sink.Report(new SamplingProgress(_chain, done, _total, _temperature));
+        }
+    }
+
+    internal void Finish() => _sink?.Report(new SamplingProgress(_chain, _total, _total, _temperature));
+}
+
+/// <summary>Checks a list of temperatures.</summary>
+internal static class TemperatureList
+{
+    internal const int MaximumCount = 100_000;
+
+    internal static List<Temperature> Check(IEnumerable<Temperature> temperatures)
+    {
+        Preconditions.CheckNotNull(temperatures, nameof(temperatures));
+        var list = new List<Temperature>();
+        foreach (var t in temperatures)
+        {
+            Preconditions.CheckPositive(t.InKelvin, nameof(temperatures));
+            list.Add(t);
+            if (list.Count > MaximumCount)
+            {
+                throw new ArgumentException(string.Create(CultureInfo.InvariantCulture, $"temperatures has more than {MaximumCount} entries; split the sweep."), nameof(temperatures));
+            }
+        }
+        if (list.Count == 0)
+        {
+            throw new ArgumentException("temperatures is empty; give at least one.", nameof(temperatures));
+        }
+        var duplicate = list.GroupBy(t => t.InKelvin).FirstOrDefault(g => g.Count() > 1);
+        if (duplicate is not null)
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture, $"temperatures contains {duplicate.Key:R} K more than once; each temperature must appear once."), nameof(temperatures));
+        }
+        return list;
+    }
+}

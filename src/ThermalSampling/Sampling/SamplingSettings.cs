@@ -1,0 +1,89 @@
+using System;
+using System.Collections.Generic;
+using System.Globalization;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>How positions are drawn.</summary>
+public enum SamplingMethod
+{
+    /// <summary>Random-walk Metropolis with Gaussian proposals; the width adapts during burn-in only, then freezes.</summary>
+    Metropolis,
+
+    /// <summary>Independent draws from the Boltzmann distribution: inverse CDF (line, radial) or rejection from a Gaussian envelope (sites).</summary>
+    Direct,
+}
+
+/// <summary>
+/// Settings of a sampling run. Every value is explicit: nothing is silently substituted. <see cref="Validate"/>
+/// reports every problem at once.
+/// </summary>
+public sealed record SamplingSettings
+{
+    /// <summary>The run's seed; chain c uses <see cref="Randomness.RandomStream.ForChain"/>(Seed, c).</summary>
+    public required ulong Seed { get; init; }
+
+    /// <summary>The sampling method.</summary>
+    public SamplingMethod Method { get; init; } = SamplingMethod.Metropolis;
+
+    /// <summary>Number of independent chains, 1 to 1024 (at least 2 for R-hat).</summary>
+    public int Chains { get; init; } = 4;
+
+    /// <summary>Recorded draws per chain, after burn-in, 10 to 10^12.</summary>
+    public long SamplesPerChain { get; init; } = 100_000;
+
+    /// <summary>Steps per chain discarded before recording, during which the Metropolis width adapts; 0 to 10^12.</summary>
+    public long BurnIn { get; init; } = 10_000;
+
+    /// <summary>Target acceptance rate of the Metropolis width adaptation, in (0, 1); null means 0.44 for one coordinate
+    /// and 0.31 for three (Roberts, Gelman &amp; Gilks 1997; Roberts &amp; Rosenthal 2001; the 3D value recalled from memory).</summary>
+    public double? TargetAcceptance { get; init; }
+
+    /// <summary>The initial proposal width (Å) per coordinate; null means the harmonic RMS spread (or a tenth of the window).</summary>
+    public double? InitialStepWidthInAngstroms { get; init; }
+
+    /// <summary>Histogram bins, 4 to 10 000.</summary>
+    public int HistogramBins { get; init; } = 60;
+
+    /// <summary>The most values kept per chain for autocorrelation, blocking and R-hat, 64 to 10^7. Longer chains keep the
+    /// means of consecutive batches of draws instead (exact for error bars at any batch size), so memory per chain is constant.</summary>
+    public int MaxStoredDrawsPerChain { get; init; } = 1 << 16;
+
+    /// <summary>Worker threads, 1 to 1024; null means the processor count. Results do not depend on it.</summary>
+    public int? MaxThreads { get; init; }
+
+    /// <summary>Throws one <see cref="ArgumentException"/> listing every invalid setting.</summary>
+    public void Validate()
+    {
+        var errors = new List<string>();
+        var c = CultureInfo.InvariantCulture;
+        void Check(bool ok, string name, object value, string range)
+        {
+            if (!ok)
+            {
+                errors.Add(string.Format(c, "{0} = {1} is out of range; valid: {2}.", name, value, range));
+            }
+        }
+        Check(Enum.IsDefined(Method), nameof(Method), Method, "Metropolis or Direct");
+        Check(Chains is >= 1 and <= 1024, nameof(Chains), Chains, "1 to 1024");
+        Check(SamplesPerChain is >= 10 and <= 1_000_000_000_000, nameof(SamplesPerChain), SamplesPerChain, "10 to 10^12");
+        Check(BurnIn is >= 0 and <= 1_000_000_000_000, nameof(BurnIn), BurnIn, "0 to 10^12");
+        Check(TargetAcceptance is null || (TargetAcceptance > 0 && TargetAcceptance < 1), nameof(TargetAcceptance), TargetAcceptance ?? 0, "null or strictly between 0 and 1");
+        Check(InitialStepWidthInAngstroms is null || (double.IsFinite(InitialStepWidthInAngstroms.Value) && InitialStepWidthInAngstroms > 0),
+            nameof(InitialStepWidthInAngstroms), InitialStepWidthInAngstroms ?? 0, "null or finite and greater than 0");
+        Check(HistogramBins is >= 4 and <= 10_000, nameof(HistogramBins), HistogramBins, "4 to 10000");
+        Check(MaxStoredDrawsPerChain is >= 64 and <= 10_000_000, nameof(MaxStoredDrawsPerChain), MaxStoredDrawsPerChain, "64 to 10^7");
+        Check(MaxThreads is null or (>= 1 and <= 1024), nameof(MaxThreads), MaxThreads ?? 0, "null or 1 to 1024");
+        if (errors.Count > 0)
+        {
+            throw new ArgumentException("Invalid sampling settings: " + string.Join(" ", errors), "settings");
+        }
+    }
+}
+
+/// <summary>Progress of a run: reported at most every 2^16 steps per chain and when a chain finishes.</summary>
+/// <param name="ChainIndex">The chain that reported.</param>
+/// <param name="ChainStepsDone">Steps this chain has done (burn-in included).</param>
+/// <param name="ChainStepsTotal">Steps this chain will do.</param>
+/// <param name="Temperature">The temperature being sampled, K.</param>
+public readonly record struct SamplingProgress(int ChainIndex, long ChainStepsDone, long ChainStepsTotal, double Temperature);
