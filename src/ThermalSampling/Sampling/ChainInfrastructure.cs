@@ -244,6 +244,23 @@ internal static class ChainDiagnostics
         return new Summary(total / ess, ess, Math.Sqrt(blockingVariance) / chains, reliable, reason, rHat);
     }
 
+    /// <summary>The standard error of the pooled mean of a batch-mean series, Σ_c Var(Y_c)·τ_c/M over chains, without needing the per-draw variance.</summary>
+    internal static double PooledMeanStandardError(IReadOnlyList<double[]> batchMeansPerChain)
+    {
+        double sum = 0;
+        foreach (var y in batchMeansPerChain)
+        {
+            double meanY = y.Average(), varY = 0;
+            foreach (double v in y)
+            {
+                varY += (v - meanY) * (v - meanY);
+            }
+            varY /= y.Length - 1;
+            sum += varY * Math.Max(Autocorrelation.Estimate(y).IntegratedTime, 1.0 / y.Length) / y.Length;
+        }
+        return Math.Sqrt(sum) / batchMeansPerChain.Count;
+    }
+
     internal static void AddConvergenceWarnings(ImmutableArray<Warning>.Builder warnings, Summary s, double? acceptance, double? target)
     {
         var c = System.Globalization.CultureInfo.InvariantCulture;

@@ -1,0 +1,372 @@
+using System;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Globalization;
+using System.Linq;
+using System.Runtime.CompilerServices;
+using System.Threading;
+using MathNet.Numerics.LinearAlgebra;
+using ThermalSampling.Analysis;
+using ThermalSampling.Internal;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Randomness;
+using ThermalSampling.Reports;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>
+/// Samples the position of a particle among fixed sites at one temperature and returns the vibration report: mean
+/// vector, displacement covariance, MSD and B with error bars, the harmonic reference and warnings.
+/// </summary>
+/// <remarks>
+/// Metropolis proposals follow the harmonic covariance's shape; chains start over-dispersed at about two harmonic
+/// standard deviations from the minimum. Direct sampling draws from a Gaussian envelope with the harmonic covariance
+/// inflated by 1.3² and accepts with probability p/(M q); M is found by probing 40 000 points (half from the envelope,
+/// half uniform in the confinement) and 2 000 on its boundary, plus a 5% margin on the log scale. A draw that exceeds the
+/// bound during sampling, or an acceptance below 0.1%, stops the run with an error that says to use Metropolis.
+/// A cancelled run throws <see cref="OperationCanceledException"/>.
+/// </remarks>
+public static class SiteSampler
+{
+    /// <summary>The default Metropolis target acceptance for three coordinates (Roberts, Gelman &amp; Gilks 1997 and
+    /// Roberts &amp; Rosenthal 2001 give 0.44 for one coordinate and 0.234 as the high-dimensional limit; 0.31 for d = 3 is recalled from memory).</summary>
+    public const double DefaultTargetAcceptance = 0.31;
+
+    private const double EnvelopeInflation = 1.3;
+
+    private sealed record ChainResult(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, long Accepted, long Proposals, long NearWall, double Scale);
+
+    /// <summary>Runs the sampler.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperature">The temperature.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    /// <exception cref="LandscapeException">When there is no bound minimum in the confinement.</exception>
+    /// <exception cref="InvalidOperationException">When direct sampling cannot establish a valid envelope bound.</exception>
+    public static SiteVibrationReport Run<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(landscape, nameof(landscape));
+        Preconditions.CheckNotNull(settings, nameof(settings));
+        settings.Validate();
+        PairAnalysis.CheckArguments(mass, temperature);
+
+        var harmonic = SiteAnalysis.Harmonic(landscape, mass, temperature);
+        var min = harmonic.Minimum;
+        double beta = 1 / temperature.ThermalEnergyInElectronVolts;
+        var cholesky = harmonic.ClassicalCovariance.ToMatrix().Cholesky().Factor;
+        var shape = (cholesky[0, 0], cholesky[1, 0], cholesky[1, 1], cholesky[2, 0], cholesky[2, 1], cholesky[2, 2]);
+        var kernel = new SiteMetropolisKernel<TPotential>(landscape, beta, shape);
+        double logWeightMin = kernel.LogWeight(min.X, min.Y, min.Z);
+        bool metropolis = settings.Method == SamplingMethod.Metropolis;
+        double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
+        double sigmaMin = Math.Sqrt(harmonic.Modes.Min(m => m.ClassicalVarianceInAngstromsSquared));
+        double size = landscape.Confinement.SizeInAngstroms;
+        double maxScale = 2 * size / sigmaMin;
+        double scale0 = settings.InitialStepWidthInAngstroms is double w ? w / sigmaMin : 2.38 / Math.Sqrt(3);
+        double centreOffset = (min - landscape.Centre).Norm;
+        double radialMax = (landscape.Confinement.Shape == ConfinementShape.Sphere ? size : size * Math.Sqrt(3)) + centreOffset;
+        double barrier = LowestBoundaryEnergy(landscape) - harmonic.MinimumEnergyInElectronVolts;
+
+        Envelope? envelope = metropolis ? null : Envelope.Build(kernel, min, cholesky, logWeightMin, landscape, settings.Seed);
+        int chains = settings.Chains;
+        var results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken, c =>
+        {
+            var random = RandomStream.ForChain(settings.Seed, c);
+            var stores = new[]
+            {
+                new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, min.X),
+                new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, min.Y),
+                new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, min.Z),
+            };
+            var radial = new BinCounter(0, radialMax, settings.HistogramBins);
+            var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
+            return metropolis
+                ? RunMetropolisChain(kernel, landscape, min, cholesky, scale0, target, maxScale, settings, ref random, stores, radial, report, cancellationToken)
+                : RunDirectChain(kernel, landscape, min, envelope!, settings, ref random, stores, radial, report, cancellationToken);
+        });
+
+        var moments = results[0].Moments;
+        for (int c = 1; c < chains; c++)
+        {
+            moments = CovarianceAccumulator.Merge(moments, results[c].Moments);
+        }
+        var covariance = moments.Covariance();
+        var mean = new Position(moments.MeanX, moments.MeanY, moments.MeanZ);
+        double[] meanComponents = { mean.X, mean.Y, mean.Z };
+        double[] variances = { covariance.XX, covariance.YY, covariance.ZZ };
+        int batch = results[0].Stores[0].BatchSize;
+        var summaries = Enumerable.Range(0, 3)
+            .Select(i => ChainDiagnostics.Summarise(results.Select(r => r.Stores[i].Means()).ToList(), batch, settings.SamplesPerChain, variances[i]))
+            .ToArray();
+        var seMean = new Position(Math.Sqrt(variances[0] / summaries[0].Ess), Math.Sqrt(variances[1] / summaries[1].Ess), Math.Sqrt(variances[2] / summaries[2].Ess));
+        var msdSeries = results.Select(r =>
+        {
+            var sx = r.Stores[0].SquaredDeviationMeans(meanComponents[0]);
+            var sy = r.Stores[1].SquaredDeviationMeans(meanComponents[1]);
+            var sz = r.Stores[2].SquaredDeviationMeans(meanComponents[2]);
+            return sx.Select((v, i) => v + sy[i] + sz[i]).ToArray();
+        }).ToList();
+        double msd = covariance.Trace;
+        double msdSe = ChainDiagnostics.PooledMeanStandardError(msdSeries);
+        long draws = moments.Count;
+        double acceptance = results.Sum(r => (double)r.Accepted) / results.Sum(r => (double)r.Proposals);
+        double wallMass = results.Sum(r => (double)r.NearWall) / draws;
+
+        var worst = summaries.OrderByDescending(s => s.Tau).First();
+        var combined = new ChainDiagnostics.Summary(worst.Tau, summaries.Min(s => s.Ess), summaries[0].BlockingStandardError,
+            summaries.All(s => s.AllReliable), summaries.Select(s => s.Reason).FirstOrDefault(r => r.Length > 0) ?? "",
+            summaries.All(s => s.RHat is null) ? null : summaries.Max(s => s.RHat ?? 0));
+        var warnings = ImmutableArray.CreateBuilder<Warning>();
+        var validity = ClassicalValidity.Assess(mass, temperature, Math.Sqrt(Math.Max(msd, 1e-300) / 3), harmonic.Modes.Max(m => m.QuantumToThermalRatio),
+            barrier > 0 ? barrier : double.Epsilon, wallMass);
+        warnings.AddRange(validity.Warnings);
+        ChainDiagnostics.AddConvergenceWarnings(warnings, combined, metropolis ? acceptance : null, metropolis ? target : null);
+
+        var diagnostics = new SamplingDiagnostics(acceptance, combined.Tau, combined.Ess, combined.RHat, draws, combined.BlockingStandardError,
+            metropolis ? results.Average(r => r.Scale) * sigmaMin : null);
+        var radialHistogram = BinCounter.Combine(results.Select(r => r.Radial).ToList(), combined.Ess);
+        var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
+        double b = DebyeWaller.FromIsotropicDisplacement(msd / 3);
+        return new SiteVibrationReport(temperature, min, mean, seMean, mean - min, covariance, new Estimate(msd, msdSe),
+            new Estimate(b, b * msdSe / msd), harmonic, diagnostics, radialHistogram, warnings.ToImmutable(), provenance);
+    }
+
+    /// <summary>Runs the sampler at several temperatures with the same settings.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    public static ImmutableArray<SiteVibrationReport> Sweep<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+        => TemperatureList.Check(temperatures).Select(t => Run(landscape, mass, t, settings, progress, cancellationToken)).ToImmutableArray();
+
+    /// <summary>Deterministic points on the confinement boundary (a Fibonacci sphere, projected onto the box for a box).</summary>
+    internal static IEnumerable<Position> BoundaryPoints<TPotential>(SiteLandscape<TPotential> landscape, int count)
+        where TPotential : struct, IPairPotential
+    {
+        double golden = Math.PI * (3 - Math.Sqrt(5));
+        double size = landscape.Confinement.SizeInAngstroms;
+        for (int i = 0; i < count; i++)
+        {
+            double z = 1 - 2 * (i + 0.5) / count;
+            double r = Math.Sqrt(1 - z * z);
+            var n = new Position(r * Math.Cos(golden * i), r * Math.Sin(golden * i), z);
+            double scale = landscape.Confinement.Shape == ConfinementShape.Sphere
+                ? size
+                : size / Math.Max(Math.Abs(n.X), Math.Max(Math.Abs(n.Y), Math.Abs(n.Z)));
+            yield return landscape.Centre + (scale * (1 - 1e-12)) * n;
+        }
+    }
+
+    private static double LowestBoundaryEnergy<TPotential>(SiteLandscape<TPotential> landscape) where TPotential : struct, IPairPotential
+        => BoundaryPoints(landscape, 2000).Min(p => landscape.Energy(p));
+
+    private static bool NearWall(Confinement confinement, Position centre, double x, double y, double z)
+        => confinement.DistanceToWall(x - centre.X, y - centre.Y, z - centre.Z) < 0.1 * confinement.SizeInAngstroms;
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static ChainResult RunMetropolisChain<TPotential>(SiteMetropolisKernel<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min,
+        Matrix<double> cholesky, double scale0, double target, double maxScale, SamplingSettings settings, ref RandomStream random,
+        BatchMeansStore[] stores, BinCounter radial, ProgressReporter progress, CancellationToken ct)
+        where TPotential : struct, IPairPotential
+    {
+        // Over-dispersed start: about two harmonic standard deviations out, inside the confinement.
+        var start = min;
+        for (int attempt = 0; attempt < 100; attempt++)
+        {
+            double a = 2 * random.NextStandardNormal(), b = 2 * random.NextStandardNormal(), c = 2 * random.NextStandardNormal();
+            var p = min + new Position(cholesky[0, 0] * a, cholesky[1, 0] * a + cholesky[1, 1] * b, cholesky[2, 0] * a + cholesky[2, 1] * b + cholesky[2, 2] * c);
+            if (landscape.Contains(p))
+            {
+                start = p;
+                break;
+            }
+        }
+        var state = kernel.StateAt(start);
+        var adapter = new StepWidthAdapter(scale0, target, maxScale);
+        for (long i = 0; i < settings.BurnIn; i++)
+        {
+            state = kernel.Step(state, adapter.Width, ref random, out bool accepted);
+            adapter.Update(accepted);
+            if ((i & 4095) == 0)
+            {
+                ct.ThrowIfCancellationRequested();
+                progress.Report(i);
+            }
+        }
+        double scale = adapter.Width;
+        var moments = new CovarianceAccumulator();
+        long acceptedCount = 0, nearWall = 0;
+        var confinement = landscape.Confinement;
+        var centre = landscape.Centre;
+        for (long i = 0; i < settings.SamplesPerChain; i++)
+        {
+            state = kernel.Step(state, scale, ref random, out bool accepted);
+            if (accepted)
+            {
+                acceptedCount++;
+            }
+            Record(state.X, state.Y, state.Z, min, ref moments, stores, radial);
+            if (NearWall(confinement, centre, state.X, state.Y, state.Z))
+            {
+                nearWall++;
+            }
+            if ((i & 4095) == 0)
+            {
+                ct.ThrowIfCancellationRequested();
+                progress.Report(settings.BurnIn + i);
+            }
+        }
+        progress.Finish();
+        return new ChainResult(moments, stores, radial, acceptedCount, settings.SamplesPerChain, nearWall, scale);
+    }
+
+    private static void Record(double x, double y, double z, Position min, ref CovarianceAccumulator moments, BatchMeansStore[] stores, BinCounter radial)
+    {
+        moments.Add(x, y, z);
+        stores[0].Add(x);
+        stores[1].Add(y);
+        stores[2].Add(z);
+        double dx = x - min.X, dy = y - min.Y, dz = z - min.Z;
+        radial.Add(Math.Sqrt(dx * dx + dy * dy + dz * dz));
+    }
+
+    private static ChainResult RunDirectChain<TPotential>(SiteMetropolisKernel<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min,
+        Envelope envelope, SamplingSettings settings, ref RandomStream random, BatchMeansStore[] stores, BinCounter radial, ProgressReporter progress, CancellationToken ct)
+        where TPotential : struct, IPairPotential
+    {
+        var moments = new CovarianceAccumulator();
+        long proposals = 0, nearWall = 0;
+        for (long i = 0; i < settings.SamplesPerChain; i++)
+        {
+            while (true)
+            {
+                proposals++;
+                var (x, y, z, logQ) = envelope.Draw(ref random);
+                double logP = kernel.LogWeight(x, y, z) - envelope.LogWeightAtMinimum;
+                if (double.IsNegativeInfinity(logP))
+                {
+                    continue;
+                }
+                double logRatio = logP - logQ;
+                if (logRatio > envelope.LogBound)
+                {
+                    throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture,
+                        $"Direct sampling found a position where the Boltzmann weight exceeds its Gaussian envelope bound (log ratio {logRatio:G4} > {envelope.LogBound:G4}); the draws would be biased. Use Metropolis for this landscape."));
+                }
+                if (Math.Log(random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
+                {
+                    Record(x, y, z, min, ref moments, stores, radial);
+                    if (NearWall(landscape.Confinement, landscape.Centre, x, y, z))
+                    {
+                        nearWall++;
+                    }
+                    break;
+                }
+            }
+            if ((i & 4095) == 0)
+            {
+                ct.ThrowIfCancellationRequested();
+                progress.Report(i);
+            }
+        }
+        progress.Finish();
+        return new ChainResult(moments, stores, radial, settings.SamplesPerChain, proposals, nearWall, 0);
+    }
+
+    /// <summary>The Gaussian envelope N(min, 1.3²Σ) and its numerically established bound.</summary>
+    private sealed class Envelope
+    {
+        private readonly Position _min;
+        private readonly Matrix<double> _l; // inflated Cholesky factor
+
+        private Envelope(Position min, Matrix<double> l, double logWeightAtMinimum, double logBound)
+        {
+            _min = min;
+            _l = l;
+            LogWeightAtMinimum = logWeightAtMinimum;
+            LogBound = logBound;
+        }
+
+        internal double LogWeightAtMinimum { get; }
+
+        internal double LogBound { get; }
+
+        /// <summary>A draw and log q (up to the same constant for every draw): −½|ξ|².</summary>
+        internal (double X, double Y, double Z, double LogQ) Draw(ref RandomStream random)
+        {
+            double a = random.NextStandardNormal(), b = random.NextStandardNormal(), c = random.NextStandardNormal();
+            return (_min.X + _l[0, 0] * a, _min.Y + _l[1, 0] * a + _l[1, 1] * b, _min.Z + _l[2, 0] * a + _l[2, 1] * b + _l[2, 2] * c, -0.5 * (a * a + b * b + c * c));
+        }
+
+        private double LogQ(Position p)
+        {
+            var d = Vector<double>.Build.Dense(new[] { p.X - _min.X, p.Y - _min.Y, p.Z - _min.Z });
+            var xi = _l.Solve(d);
+            return -0.5 * xi.DotProduct(xi);
+        }
+
+        internal static Envelope Build<TPotential>(SiteMetropolisKernel<TPotential> kernel, Position min, Matrix<double> cholesky, double logWeightMin,
+            SiteLandscape<TPotential> landscape, ulong seed) where TPotential : struct, IPairPotential
+        {
+            var probe = new Envelope(min, EnvelopeInflation * cholesky, logWeightMin, 0);
+            var random = RandomStream.FromSeed(RandomStream.SplitMix64(ref seed) ^ 0x5DEECE66DUL);
+            double best = 0; // the ratio is 1 (log 0) at the minimum itself
+            double sumAccept = 0;
+            int inside = 0;
+            const int probes = 20_000;
+            var ratios = new double[probes];
+            for (int i = 0; i < probes; i++)
+            {
+                var (x, y, z, logQ) = probe.Draw(ref random);
+                double lp = kernel.LogWeight(x, y, z) - logWeightMin;
+                ratios[i] = double.IsNegativeInfinity(lp) ? double.NegativeInfinity : lp - logQ;
+                if (!double.IsNegativeInfinity(lp))
+                {
+                    inside++;
+                    best = Math.Max(best, ratios[i]);
+                }
+            }
+            double size = landscape.Confinement.SizeInAngstroms;
+            var c = landscape.Centre;
+            for (int i = 0; i < probes; i++)
+            {
+                var p = c + new Position(size * (2 * random.NextUnitInterval() - 1), size * (2 * random.NextUnitInterval() - 1), size * (2 * random.NextUnitInterval() - 1));
+                if (landscape.Contains(p))
+                {
+                    best = Math.Max(best, kernel.LogWeight(p.X, p.Y, p.Z) - logWeightMin - probe.LogQ(p));
+                }
+            }
+            foreach (var p in BoundaryPoints(landscape, 2000))
+            {
+                best = Math.Max(best, kernel.LogWeight(p.X, p.Y, p.Z) - logWeightMin - probe.LogQ(p));
+            }
+            double bound = best + 0.05 * (1 + Math.Abs(best));
+            foreach (double r in ratios)
+            {
+                if (!double.IsNegativeInfinity(r))
+                {
+                    sumAccept += Math.Exp(r - bound);
+                }
+            }
+            double acceptance = sumAccept / probes;
+            if (inside == 0 || acceptance < 1e-3)
+            {
+                throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture,
+                    $"Direct sampling would accept only {acceptance:P3} of its Gaussian envelope draws (log bound {bound:G4}): the well is too far from harmonic inside this confinement. Use Metropolis."));
+            }
+            return new Envelope(min, EnvelopeInflation * cholesky, logWeightMin, bound);
+        }
+    }
+}
