@@ -20,7 +20,7 @@ namespace ThermalSampling.Sampling;
 /// Samples the separation of a line or radial pair at one temperature and returns the full vibration report.
 /// </summary>
 /// <remarks>
-/// Chains start over-dispersed, at the 1st to 99th percentiles of the exact distribution. A cancelled run throws
+/// Metropolis chains start over-dispersed, at the 1st to 99th percentiles of the exact distribution. A cancelled run throws
 /// <see cref="OperationCanceledException"/> and returns nothing partial.
 /// </remarks>
 public static class PairSampler
@@ -48,7 +48,8 @@ public static class PairSampler
         PairAnalysis.CheckArguments(mass, temperature);
 
         var exact = ExactPairDistribution.Compute(landscape, temperature);
-        var table = InverseCdfTable.Build(exact);
+        bool metropolis = settings.Method == SamplingMethod.Metropolis;
+        var table = metropolis ? null : InverseCdfTable.Build(exact);
         var warnings = ImmutableArray.CreateBuilder<Warning>();
         PairHarmonicEstimate? harmonic = null;
         PairFirstOrderEstimate? firstOrder = null;
@@ -65,7 +66,6 @@ public static class PairSampler
             warnings.Add(new Warning(WarningCodes.MinimumOutsideWindow, ex.Message));
         }
 
-        bool metropolis = settings.Method == SamplingMethod.Metropolis;
         double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
         double width0 = settings.InitialStepWidthInAngstroms ?? harmonic?.ClassicalRmsInAngstroms ?? landscape.WindowWidthInAngstroms / 10;
         width0 = Math.Min(width0, landscape.WindowWidthInAngstroms);
@@ -81,8 +81,8 @@ public static class PairSampler
             var store = new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, well?.EquilibriumDistance ?? exact.MeanInAngstroms);
             var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
             return metropolis
-                ? RunMetropolisChain(kernel, table.Quantile(startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, bins, store, report, cancellationToken)
-                : RunDirectChain(table, settings, ref random, bins, store, report, cancellationToken);
+                ? RunMetropolisChain(kernel, Quantile(exact, startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, bins, store, report, cancellationToken)
+                : RunDirectChain(table!, settings, ref random, bins, store, report, cancellationToken);
         });
 
         var moments = results[0].Moments;
@@ -139,6 +139,11 @@ public static class PairSampler
         var list = TemperatureList.Check(temperatures);
         return list.Select(t => Run(landscape, mass, t, settings, progress, cancellationToken)).ToImmutableArray();
     }
+
+    /// <summary>The separation at cumulative probability <paramref name="p"/> of the exact distribution (Brent's method on the CDF).</summary>
+    private static double Quantile(ExactPairDistribution exact, double p)
+        => MathNet.Numerics.RootFinding.Brent.FindRoot(r => exact.CumulativeProbability(r) - p, exact.WindowLowerInAngstroms, exact.WindowUpperInAngstroms,
+            1e-9 * (exact.WindowUpperInAngstroms - exact.WindowLowerInAngstroms), 200);
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static ChainResult RunMetropolisChain<TPotential>(PairMetropolisKernel<TPotential> kernel, double start, double width0, double target, double maxWidth,
