@@ -249,8 +249,21 @@ public class AnalysisTests
         var v = ClassicalValidity.AssessPair(landscape, ArgonMass, K(30));
         Assert.Contains(v.Warnings, w => w.Code == WarningCodes.EscapeRisk);
         Assert.Contains(v.Warnings, w => w.Code == WarningCodes.WallMass);
-        Assert.True(v.WallMass > 0.1);
+        Assert.True(v.WallHeldProbability > 0.01);
         Assert.Contains("walls", v.Warnings.Single(w => w.Code == WarningCodes.WallMass).Message);
+    }
+
+    [Fact]
+    public void Walls_that_hold_nothing_raise_no_wall_warning_even_when_the_outer_band_has_probability()
+    {
+        // The inner 10% band [3.0, 3.3] Å of this window lies only 1.5 harmonic widths from r0, so it holds probability,
+        // but the wall at 3.0 Å sits 32 kT up the repulsive wall: moving it changes nothing.
+        var lj = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.012));
+        var landscape = PairLandscape.Line(lj, Length.FromAngstroms(3.0), Length.FromAngstroms(6.0));
+        var exact = ExactPairDistribution.Compute(landscape, K(10));
+        Assert.True(exact.LowerWallMass > 1e-3);
+        Assert.True(exact.WallHeldProbability < 1e-4);
+        Assert.DoesNotContain(ClassicalValidity.AssessPair(landscape, ArgonMass, K(10)).Warnings, w => w.Code == WarningCodes.WallMass);
     }
 
     [Fact]

@@ -106,6 +106,13 @@ public sealed class ExactPairDistribution
     /// <summary>The probability in the outer 10% of the window at both ends together.</summary>
     public double WallMass => LowerWallMass + UpperWallMass;
 
+    /// <summary>
+    /// How much the walls hold the particle: (p(lower) + p(upper)) × RMS, the probability that would lie within one RMS
+    /// spread beyond the walls if they were removed and the density continued flat. Near 0 when the potential alone
+    /// confines the particle; the answer depends on the window when it is not small.
+    /// </summary>
+    public double WallHeldProbability => (Density(WindowLowerInAngstroms) + Density(WindowUpperInAngstroms)) * RmsInAngstroms;
+
     /// <summary>The normalised density p(r), 1/Å (zero outside the window).</summary>
     /// <param name="r">The separation, Å.</param>
     public double Density(double r)

@@ -106,7 +106,7 @@ public static class PairSampler
             meanEstimate.ZScore(exact.MeanInAngstroms), varianceEstimate.ZScore(exact.VarianceInAngstromsSquared));
 
         var validity = ClassicalValidity.Assess(mass, temperature, rms > 0 ? rms : exact.RmsInAngstroms, harmonic?.QuantumToThermalRatio ?? 0,
-            well?.WellDepth ?? double.PositiveInfinity, exact.WallMass);
+            well?.WellDepth ?? double.PositiveInfinity, exact.WallHeldProbability);
         warnings.AddRange(validity.Warnings);
         ChainDiagnostics.AddConvergenceWarnings(warnings, summary, acceptance, metropolis ? target : null);
         if (Math.Abs(comparison.ZScoreMean) > 4 || Math.Abs(comparison.ZScoreVariance) > 4)

@@ -117,7 +117,7 @@ public static class SiteSampler
         double msdSe = ChainDiagnostics.PooledMeanStandardError(msdSeries);
         long draws = moments.Count;
         double acceptance = results.Sum(r => (double)r.Accepted) / results.Sum(r => (double)r.Proposals);
-        double wallMass = results.Sum(r => (double)r.NearWall) / draws;
+        double wallMass = results.Sum(r => (double)r.NearWall) / draws; // fraction of draws within one harmonic RMS of the wall
 
         var worst = summaries.OrderByDescending(s => s.Tau).First();
         var combined = new ChainDiagnostics.Summary(worst.Tau, summaries.Min(s => s.Ess), summaries[0].BlockingStandardError,
@@ -172,8 +172,8 @@ public static class SiteSampler
     private static double LowestBoundaryEnergy<TPotential>(SiteLandscape<TPotential> landscape) where TPotential : struct, IPairPotential
         => BoundaryPoints(landscape, 2000).Min(p => landscape.Energy(p));
 
-    private static bool NearWall(Confinement confinement, Position centre, double x, double y, double z)
-        => confinement.DistanceToWall(x - centre.X, y - centre.Y, z - centre.Z) < 0.1 * confinement.SizeInAngstroms;
+    private static bool NearWall(Confinement confinement, Position centre, double x, double y, double z, double band)
+        => confinement.DistanceToWall(x - centre.X, y - centre.Y, z - centre.Z) < band;
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static ChainResult RunMetropolisChain<TPotential>(SiteMetropolisKernel<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min,
@@ -210,6 +210,7 @@ public static class SiteSampler
         long acceptedCount = 0, nearWall = 0;
         var confinement = landscape.Confinement;
         var centre = landscape.Centre;
+        double band = WallBand(cholesky);
         for (long i = 0; i < settings.SamplesPerChain; i++)
         {
             state = kernel.Step(state, scale, ref random, out bool accepted);
@@ -218,7 +219,7 @@ public static class SiteSampler
                 acceptedCount++;
             }
             Record(state.X, state.Y, state.Z, min, ref moments, stores, radial);
-            if (NearWall(confinement, centre, state.X, state.Y, state.Z))
+            if (NearWall(confinement, centre, state.X, state.Y, state.Z, band))
             {
                 nearWall++;
             }
@@ -231,6 +232,9 @@ public static class SiteSampler
         progress.Finish();
         return new ChainResult(moments, stores, radial, acceptedCount, settings.SamplesPerChain, nearWall, scale);
     }
+
+    /// <summary>The near-wall band: one harmonic RMS spread per direction, √(tr Σ/3).</summary>
+    private static double WallBand(Matrix<double> cholesky) => Math.Sqrt(cholesky.Multiply(cholesky.Transpose()).Trace() / 3);
 
     private static void Record(double x, double y, double z, Position min, ref CovarianceAccumulator moments, BatchMeansStore[] stores, BinCounter radial)
     {
@@ -248,6 +252,7 @@ public static class SiteSampler
     {
         var moments = new CovarianceAccumulator();
         long proposals = 0, nearWall = 0;
+        double band = envelope.WallBand;
         for (long i = 0; i < settings.SamplesPerChain; i++)
         {
             while (true)
@@ -268,7 +273,7 @@ public static class SiteSampler
                 if (Math.Log(random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
                 {
                     Record(x, y, z, min, ref moments, stores, radial);
-                    if (NearWall(landscape.Confinement, landscape.Centre, x, y, z))
+                    if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, band))
                     {
                         nearWall++;
                     }
@@ -300,6 +305,8 @@ public static class SiteSampler
         }
 
         internal double LogWeightAtMinimum { get; }
+
+        internal double WallBand => SiteSampler.WallBand((1 / EnvelopeInflation) * _l);
 
         internal double LogBound { get; }
 

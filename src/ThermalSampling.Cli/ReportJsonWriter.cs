@@ -1,0 +1,153 @@
+using System;
+using System.IO;
+using System.Text.Json;
+using ThermalSampling.Analysis;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Reports;
+
+namespace ThermalSampling.Cli;
+
+/// <summary>
+/// Writes the stable JSON document of a run. Keys are camelCase; values are in the scenario's length unit (squared for
+/// variances, covariances, MSD and B); a quantity that does not apply, or is not finite, is left out.
+/// </summary>
+internal static class ReportJsonWriter
+{
+    internal static void Write(ScenarioResults results, Stream output)
+    {
+        var s = results.Scenario;
+        double l = s.AngstromsPerLengthUnit;
+        using var w = new Utf8JsonWriter(output, new JsonWriterOptions { Indented = true, Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping });
+        w.WriteStartObject();
+        w.WriteString("title", s.Title);
+        w.WriteStartObject("units");
+        w.WriteString("energy", s.EnergyUnit);
+        w.WriteString("length", s.LengthUnit);
+        w.WriteString("mass", "u");
+        w.WriteString("temperature", "K");
+        w.WriteEndObject();
+        w.WriteString("libraryVersion", Provenance.CurrentLibraryVersion);
+        w.WriteStartArray("results");
+        foreach (var r in results.Pairs)
+        {
+            WritePair(w, r, l);
+        }
+        foreach (var r in results.Sites)
+        {
+            WriteSite(w, r, l);
+        }
+        w.WriteEndArray();
+        w.WriteEndObject();
+    }
+
+    private static void Number(Utf8JsonWriter w, string name, double? value)
+    {
+        if (value is double v && double.IsFinite(v))
+        {
+            w.WriteNumber(name, v);
+        }
+    }
+
+    private static void Vector(Utf8JsonWriter w, string name, Position p, double l)
+    {
+        w.WriteStartArray(name);
+        w.WriteNumberValue(p.X / l);
+        w.WriteNumberValue(p.Y / l);
+        w.WriteNumberValue(p.Z / l);
+        w.WriteEndArray();
+    }
+
+    private static void Common(Utf8JsonWriter w, SamplingDiagnostics d, System.Collections.Immutable.ImmutableArray<Warning> warnings)
+    {
+        w.WriteStartObject("diagnostics");
+        Number(w, "acceptanceRate", d.AcceptanceRate);
+        Number(w, "autocorrelationTime", d.AutocorrelationTime);
+        Number(w, "effectiveSampleSize", d.EffectiveSampleSize);
+        Number(w, "rHat", d.RHat);
+        w.WriteNumber("draws", d.Draws);
+        w.WriteEndObject();
+        w.WriteStartArray("warnings");
+        foreach (var warning in warnings)
+        {
+            w.WriteStartObject();
+            w.WriteString("code", warning.Code);
+            w.WriteString("message", warning.Message);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+    }
+
+    private static void WritePair(Utf8JsonWriter w, PairVibrationReport r, double l)
+    {
+        double l2 = l * l;
+        w.WriteStartObject();
+        w.WriteNumber("temperature", r.Temperature.InKelvin);
+        Number(w, "minimum", r.MinimumInAngstroms / l);
+        Number(w, "mean", r.Mean.Value / l);
+        Number(w, "meanShift", r.MeanShift?.Value / l);
+        Number(w, "meanShiftStdErr", r.MeanShift?.StandardError / l);
+        Number(w, "variance", r.Variance.Value / l2);
+        Number(w, "varianceStdErr", r.Variance.StandardError / l2);
+        Number(w, "rms", r.Rms.Value / l);
+        Number(w, "rmsStdErr", r.Rms.StandardError / l);
+        Number(w, "skewness", r.Skewness);
+        Number(w, "excessKurtosis", r.ExcessKurtosis);
+        if (r.Harmonic is { } h)
+        {
+            w.WriteStartObject("harmonic");
+            Number(w, "variance", h.ClassicalVarianceInAngstromsSquared / l2);
+            w.WriteEndObject();
+        }
+        if (r.FirstOrder is { } f)
+        {
+            w.WriteStartObject("firstOrder");
+            Number(w, "meanShift", f.MeanShiftInAngstroms / l);
+            Number(w, "variance", f.VarianceInAngstromsSquared / l2);
+            w.WriteEndObject();
+        }
+        w.WriteStartObject("exact");
+        Number(w, "mean", r.Exact.Mean / l);
+        Number(w, "variance", r.Exact.Variance / l2);
+        Number(w, "skewness", r.Exact.Skewness);
+        Number(w, "excessKurtosis", r.Exact.ExcessKurtosis);
+        Number(w, "wallMass", r.Exact.WallMass);
+        Number(w, "zScoreMean", r.Exact.ZScoreMean);
+        Number(w, "zScoreVariance", r.Exact.ZScoreVariance);
+        w.WriteEndObject();
+        Common(w, r.Diagnostics, r.Warnings);
+        w.WriteEndObject();
+    }
+
+    private static void WriteSite(Utf8JsonWriter w, SiteVibrationReport r, double l)
+    {
+        double l2 = l * l;
+        w.WriteStartObject();
+        w.WriteNumber("temperature", r.Temperature.InKelvin);
+        Vector(w, "minimum", r.Minimum, l);
+        Vector(w, "mean", r.Mean, l);
+        Vector(w, "meanShift", r.MeanShift, l);
+        Vector(w, "meanShiftStdErr", r.MeanStandardError, l);
+        w.WriteStartArray("covariance");
+        for (int i = 0; i < 3; i++)
+        {
+            w.WriteStartArray();
+            for (int j = 0; j < 3; j++)
+            {
+                w.WriteNumberValue(r.Covariance[i, j] / l2);
+            }
+            w.WriteEndArray();
+        }
+        w.WriteEndArray();
+        Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
+        Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
+        Number(w, "debyeWallerB", r.DebyeWallerB.Value / l2);
+        w.WriteStartObject("harmonic");
+        Number(w, "meanSquareDisplacement", r.Harmonic.ClassicalMeanSquareDisplacement / l2);
+        w.WriteEndObject();
+        w.WriteStartObject("firstOrder");
+        Vector(w, "meanShift", r.Harmonic.FirstOrderMeanShift, l);
+        w.WriteEndObject();
+        Common(w, r.Diagnostics, r.Warnings);
+        w.WriteEndObject();
+    }
+}

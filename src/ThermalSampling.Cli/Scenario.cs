@@ -1,0 +1,478 @@
+using System;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Globalization;
+using System.Linq;
+using System.Text.Json;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Sampling;
+
+namespace ThermalSampling.Cli;
+
+/// <summary>Energy units accepted in scenario files, with their size in eV.</summary>
+internal static class ScenarioUnits
+{
+    internal static readonly IReadOnlyDictionary<string, double> Energy = new Dictionary<string, double>(StringComparer.Ordinal)
+    {
+        ["eV"] = 1.0,
+        ["meV"] = 1e-3,
+        ["kJ/mol"] = 1 / Units.EnergyConversion.KilojoulePerMolePerElectronVolt,
+        ["kcal/mol"] = 1 / Units.EnergyConversion.KilocaloriePerMolePerElectronVolt,
+        ["K"] = Units.PhysicalConstants.BoltzmannElectronVoltPerKelvin,
+    };
+
+    internal static readonly IReadOnlyDictionary<string, double> Length = new Dictionary<string, double>(StringComparer.Ordinal)
+    {
+        ["angstrom"] = 1.0,
+        ["nm"] = 10.0,
+        ["pm"] = 0.01,
+    };
+}
+
+/// <summary>A parsed, validated scenario in canonical units (eV, Å, u, K).</summary>
+internal sealed record Scenario(
+    string Title,
+    string EnergyUnit,
+    string LengthUnit,
+    double MassInAtomicMassUnits,
+    PotentialSpec Potential,
+    LandscapeSpec Landscape,
+    ImmutableArray<double> TemperaturesInKelvin,
+    SamplingSettings Sampling)
+{
+    internal double AngstromsPerLengthUnit => ScenarioUnits.Length[LengthUnit];
+}
+
+/// <summary>A potential form and its parameters in canonical units.</summary>
+internal sealed record PotentialSpec(string Form, ImmutableDictionary<string, double> Parameters, ImmutableArray<double> TableR, ImmutableArray<double> TableEnergy);
+
+/// <summary>A landscape in canonical units.</summary>
+internal sealed record LandscapeSpec(string Kind, double WindowLower, double WindowUpper, ImmutableArray<Position> Sites, string? Lattice,
+    double NearestNeighbourDistance, int Shells, Position Centre, Confinement? Confinement);
+
+/// <summary>Reads scenario files. Every problem is collected (with its JSON path) and reported at once.</summary>
+internal static class ScenarioReader
+{
+    internal const int MaximumBytes = 16 * 1024 * 1024;
+    internal const int MaximumTemperatures = 10_000;
+
+    private sealed class Context
+    {
+        internal List<string> Problems { get; } = new();
+
+        internal void Add(string path, string message) => Problems.Add($"{path}: {message}");
+
+        internal void CheckKeys(JsonElement obj, string path, params string[] allowed)
+        {
+            foreach (var p in obj.EnumerateObject())
+            {
+                if (!allowed.Contains(p.Name, StringComparer.Ordinal))
+                {
+                    Add($"{path}.{p.Name}", $"unknown key '{p.Name}'; allowed keys here: {string.Join(", ", allowed)}.");
+                }
+            }
+        }
+
+        internal JsonElement? Object(JsonElement parent, string key, string path, bool required = true)
+        {
+            if (!parent.TryGetProperty(key, out var e))
+            {
+                if (required)
+                {
+                    Add($"{path}.{key}", "is required.");
+                }
+                return null;
+            }
+            if (e.ValueKind != JsonValueKind.Object)
+            {
+                Add($"{path}.{key}", $"must be an object, not {Describe(e)}.");
+                return null;
+            }
+            return e;
+        }
+
+        internal string? String(JsonElement parent, string key, string path, bool required, params string[] choices)
+        {
+            if (!parent.TryGetProperty(key, out var e))
+            {
+                if (required)
+                {
+                    Add($"{path}.{key}", choices.Length > 0 ? $"is required; one of: {string.Join(", ", choices)}." : "is required.");
+                }
+                return null;
+            }
+            if (e.ValueKind != JsonValueKind.String)
+            {
+                Add($"{path}.{key}", $"must be a string, not {Describe(e)}.");
+                return null;
+            }
+            string s = e.GetString()!;
+            if (choices.Length > 0 && !choices.Contains(s, StringComparer.Ordinal))
+            {
+                Add($"{path}.{key}", $"'{s}' is not valid; choose one of: {string.Join(", ", choices)}.");
+                return null;
+            }
+            return s;
+        }
+
+        internal double? Number(JsonElement parent, string key, string path, bool required, double min, double max, bool exclusiveMin = false)
+        {
+            if (!parent.TryGetProperty(key, out var e))
+            {
+                if (required)
+                {
+                    Add($"{path}.{key}", "is required.");
+                }
+                return null;
+            }
+            return Value(e, $"{path}.{key}", min, max, exclusiveMin);
+        }
+
+        internal double? Value(JsonElement e, string path, double min, double max, bool exclusiveMin = false)
+        {
+            if (e.ValueKind != JsonValueKind.Number || !e.TryGetDouble(out double v) || !double.IsFinite(v))
+            {
+                Add(path, $"must be a finite number, not {Describe(e)}.");
+                return null;
+            }
+            if (v < min || v > max || (exclusiveMin && v == min))
+            {
+                Add(path, string.Create(CultureInfo.InvariantCulture,
+                    $"{v:R} is out of range; valid: {(exclusiveMin ? "greater than" : "at least")} {min:R}{(double.IsPositiveInfinity(max) ? "" : $" and at most {max:R}")}."));
+                return null;
+            }
+            return v;
+        }
+
+        internal long? Integer(JsonElement parent, string key, string path, bool required, long min, long max)
+        {
+            if (!parent.TryGetProperty(key, out var e))
+            {
+                if (required)
+                {
+                    Add($"{path}.{key}", "is required.");
+                }
+                return null;
+            }
+            if (e.ValueKind != JsonValueKind.Number || !e.TryGetInt64(out long v))
+            {
+                Add($"{path}.{key}", $"must be a whole number, not {Describe(e)}.");
+                return null;
+            }
+            if (v < min || v > max)
+            {
+                Add($"{path}.{key}", string.Create(CultureInfo.InvariantCulture, $"{v} is out of range; valid: {min} to {max}."));
+                return null;
+            }
+            return v;
+        }
+
+        internal double[]? Numbers(JsonElement parent, string key, string path, bool required, int minCount, int maxCount, double min, double max, bool exclusiveMin = false)
+        {
+            if (!parent.TryGetProperty(key, out var e))
+            {
+                if (required)
+                {
+                    Add($"{path}.{key}", "is required.");
+                }
+                return null;
+            }
+            if (e.ValueKind != JsonValueKind.Array)
+            {
+                Add($"{path}.{key}", $"must be an array of numbers, not {Describe(e)}.");
+                return null;
+            }
+            int count = e.GetArrayLength();
+            if (count < minCount || count > maxCount)
+            {
+                Add($"{path}.{key}", string.Create(CultureInfo.InvariantCulture, $"has {count} entries; it needs {(minCount == maxCount ? $"exactly {minCount}" : $"{minCount} to {maxCount}")}."));
+                return null;
+            }
+            var result = new double[count];
+            bool ok = true;
+            int i = 0;
+            foreach (var item in e.EnumerateArray())
+            {
+                var v = Value(item, $"{path}.{key}[{i}]", min, max, exclusiveMin);
+                ok &= v is not null;
+                result[i++] = v ?? 0;
+            }
+            return ok ? result : null;
+        }
+
+        private static string Describe(JsonElement e) => e.ValueKind switch
+        {
+            JsonValueKind.String => $"the string \"{Truncate(e.GetString()!)}\"",
+            JsonValueKind.Number => $"the number {e.GetRawText()}",
+            JsonValueKind.True or JsonValueKind.False => $"the boolean {e.GetRawText()}",
+            JsonValueKind.Null => "null",
+            JsonValueKind.Array => "an array",
+            JsonValueKind.Object => "an object",
+            _ => e.ValueKind.ToString(),
+        };
+
+        private static string Truncate(string s) => s.Length > 40 ? s[..40] + "…" : s;
+    }
+
+    /// <summary>Parses and validates a scenario.</summary>
+    /// <param name="utf8">The file's bytes.</param>
+    /// <exception cref="ScenarioException">With every problem found.</exception>
+    internal static Scenario Read(ReadOnlySpan<byte> utf8)
+    {
+        if (utf8.Length > MaximumBytes)
+        {
+            throw new ScenarioException(new[] { string.Create(CultureInfo.InvariantCulture, $"$: the file is {utf8.Length} bytes; scenario files are limited to {MaximumBytes} bytes.") });
+        }
+        JsonDocument doc;
+        try
+        {
+            doc = JsonDocument.Parse(utf8.ToArray(), new JsonDocumentOptions { MaxDepth = 32, CommentHandling = JsonCommentHandling.Disallow, AllowTrailingCommas = false });
+        }
+        catch (JsonException ex)
+        {
+            long line = (ex.LineNumber ?? 0) + 1, column = (ex.BytePositionInLine ?? 0) + 1;
+            throw new ScenarioException(new[] { string.Create(CultureInfo.InvariantCulture, $"$: not valid JSON at line {line}, column {column}: {ex.Message.Split(". LineNumber")[0]}.") });
+        }
+        catch (ArgumentException ex)
+        {
+            throw new ScenarioException(new[] { "$: not valid UTF-8 text: " + ex.Message });
+        }
+        using (doc)
+        {
+            return Interpret(doc.RootElement);
+        }
+    }
+
+    private static Scenario Interpret(JsonElement root)
+    {
+        var c = new Context();
+        if (root.ValueKind != JsonValueKind.Object)
+        {
+            throw new ScenarioException(new[] { "$: the scenario must be a JSON object." });
+        }
+        c.CheckKeys(root, "$", "title", "units", "mass", "potential", "landscape", "temperatures", "sampling");
+        string title = c.String(root, "title", "$", required: false) ?? "";
+        string energyUnit = "eV", lengthUnit = "angstrom";
+        if (c.Object(root, "units", "$", required: false) is { } units)
+        {
+            c.CheckKeys(units, "$.units", "energy", "length");
+            energyUnit = c.String(units, "energy", "$.units", false, ScenarioUnits.Energy.Keys.ToArray()) ?? energyUnit;
+            lengthUnit = c.String(units, "length", "$.units", false, ScenarioUnits.Length.Keys.ToArray()) ?? lengthUnit;
+        }
+        double e = ScenarioUnits.Energy[energyUnit], l = ScenarioUnits.Length[lengthUnit];
+        double mass = c.Number(root, "mass", "$", true, 0, 1e6, exclusiveMin: true) ?? 1;
+        var potential = ReadPotential(c, root, e, l);
+        var landscape = ReadLandscape(c, root, l);
+        var temperatures = c.Numbers(root, "temperatures", "$", true, 1, MaximumTemperatures, 0, 1e7, exclusiveMin: true) ?? Array.Empty<double>();
+        var duplicate = temperatures.GroupBy(t => t).FirstOrDefault(g => g.Count() > 1);
+        if (duplicate is not null)
+        {
+            c.Add("$.temperatures", string.Create(CultureInfo.InvariantCulture, $"{duplicate.Key:R} K appears {duplicate.Count()} times; each temperature must appear once."));
+        }
+        var sampling = ReadSampling(c, root);
+        if (c.Problems.Count > 0)
+        {
+            throw new ScenarioException(c.Problems);
+        }
+        return new Scenario(title, energyUnit, lengthUnit, mass, potential!, landscape!, temperatures.ToImmutableArray(), sampling!);
+    }
+
+    private static PotentialSpec? ReadPotential(Context c, JsonElement root, double e, double l)
+    {
+        if (c.Object(root, "potential", "$") is not { } p)
+        {
+            return null;
+        }
+        const string path = "$.potential";
+        string? form = c.String(p, "form", path, true, "lennard-jones", "morse", "buckingham", "harmonic", "table");
+        var values = ImmutableDictionary.CreateBuilder<string, double>();
+        void Put(string key, double? v, double scale)
+        {
+            if (v is double x)
+            {
+                values[key] = x * scale;
+            }
+        }
+        switch (form)
+        {
+            case "lennard-jones":
+                bool sigmaForm = p.TryGetProperty("sigma", out _) || p.TryGetProperty("epsilon", out _);
+                bool minimumForm = p.TryGetProperty("equilibriumDistance", out _) || p.TryGetProperty("wellDepth", out _);
+                if (sigmaForm && minimumForm)
+                {
+                    c.Add(path, "give either {sigma, epsilon} or {equilibriumDistance, wellDepth}, not both.");
+                }
+                if (sigmaForm)
+                {
+                    c.CheckKeys(p, path, "form", "sigma", "epsilon");
+                    Put("sigma", c.Number(p, "sigma", path, true, 0, 1e4, true), l);
+                    Put("epsilon", c.Number(p, "epsilon", path, true, 0, 1e9, true), e);
+                }
+                else
+                {
+                    c.CheckKeys(p, path, "form", "equilibriumDistance", "wellDepth");
+                    Put("equilibriumDistance", c.Number(p, "equilibriumDistance", path, true, 0, 1e4, true), l);
+                    Put("wellDepth", c.Number(p, "wellDepth", path, true, 0, 1e9, true), e);
+                }
+                break;
+            case "morse":
+                c.CheckKeys(p, path, "form", "wellDepth", "width", "equilibriumDistance");
+                Put("wellDepth", c.Number(p, "wellDepth", path, true, 0, 1e9, true), e);
+                Put("width", c.Number(p, "width", path, true, 0, 1e4, true), 1 / l);
+                Put("equilibriumDistance", c.Number(p, "equilibriumDistance", path, true, 0, 1e4, true), l);
+                break;
+            case "buckingham":
+                c.CheckKeys(p, path, "form", "A", "rho", "C");
+                Put("A", c.Number(p, "A", path, true, 0, 1e12, true), e);
+                Put("rho", c.Number(p, "rho", path, true, 0, 1e4, true), l);
+                Put("C", c.Number(p, "C", path, true, 0, 1e12), e * Math.Pow(l, 6));
+                break;
+            case "harmonic":
+                c.CheckKeys(p, path, "form", "stiffness", "equilibriumDistance");
+                Put("stiffness", c.Number(p, "stiffness", path, true, 0, 1e12, true), e / (l * l));
+                Put("equilibriumDistance", c.Number(p, "equilibriumDistance", path, true, 0, 1e4, true), l);
+                break;
+            case "table":
+                c.CheckKeys(p, path, "form", "r", "energy");
+                var r = c.Numbers(p, "r", path, true, Potentials.TabulatedPotential.MinimumPointCount, 1_000_000, 0, 1e4);
+                var v = c.Numbers(p, "energy", path, true, Potentials.TabulatedPotential.MinimumPointCount, 1_000_000, -1e12, 1e12);
+                if (r is not null && v is not null && r.Length != v.Length)
+                {
+                    c.Add($"{path}.energy", $"has {v.Length} values but $.potential.r has {r.Length}; they must have the same length.");
+                }
+                if (r is not null)
+                {
+                    for (int i = 1; i < r.Length; i++)
+                    {
+                        if (!(r[i] > r[i - 1]))
+                        {
+                            c.Add($"{path}.r[{i}]", string.Create(CultureInfo.InvariantCulture, $"{r[i]:R} is not greater than r[{i - 1}] = {r[i - 1]:R}; r must be strictly increasing (sorted, no duplicates)."));
+                            break;
+                        }
+                    }
+                }
+                return new PotentialSpec(form, values.ToImmutable(), (r ?? Array.Empty<double>()).Select(x => x * l).ToImmutableArray(),
+                    (v ?? Array.Empty<double>()).Select(x => x * e).ToImmutableArray());
+        }
+        return form is null ? null : new PotentialSpec(form, values.ToImmutable(), ImmutableArray<double>.Empty, ImmutableArray<double>.Empty);
+    }
+
+    private static LandscapeSpec? ReadLandscape(Context c, JsonElement root, double l)
+    {
+        if (c.Object(root, "landscape", "$") is not { } p)
+        {
+            return null;
+        }
+        const string path = "$.landscape";
+        string? kind = c.String(p, "kind", path, true, "line", "radial", "sites");
+        if (kind is "line" or "radial")
+        {
+            c.CheckKeys(p, path, "kind", "window");
+            var w = c.Numbers(p, "window", path, true, 2, 2, 0, 1e4);
+            if (w is not null && !(w[0] < w[1]))
+            {
+                c.Add($"{path}.window", string.Create(CultureInfo.InvariantCulture, $"[{w[0]:R}, {w[1]:R}] is empty or reversed; the lower bound must be smaller than the upper bound."));
+            }
+            return new LandscapeSpec(kind, (w?[0] ?? 0) * l, (w?[1] ?? 1) * l, ImmutableArray<Position>.Empty, null, 0, 0, Position.Origin, null);
+        }
+        if (kind != "sites")
+        {
+            return null;
+        }
+        c.CheckKeys(p, path, "kind", "sites", "lattice", "nearestNeighbourDistance", "shells", "centre", "confinement");
+        var sites = ImmutableArray<Position>.Empty;
+        string? lattice = null;
+        double nn = 0;
+        int shells = 1;
+        bool explicitSites = p.TryGetProperty("sites", out var siteArray);
+        if (explicitSites && p.TryGetProperty("lattice", out _))
+        {
+            c.Add(path, "give either sites or lattice, not both.");
+        }
+        if (explicitSites)
+        {
+            if (siteArray.ValueKind != JsonValueKind.Array || siteArray.GetArrayLength() == 0 || siteArray.GetArrayLength() > 100_000)
+            {
+                c.Add($"{path}.sites", "must be a non-empty array (at most 100000) of [x, y, z] positions.");
+            }
+            else
+            {
+                var list = ImmutableArray.CreateBuilder<Position>();
+                int i = 0;
+                foreach (var s in siteArray.EnumerateArray())
+                {
+                    var xyz = s.ValueKind == JsonValueKind.Array && s.GetArrayLength() == 3
+                        ? s.EnumerateArray().Select((v, k) => c.Value(v, $"{path}.sites[{i}][{k}]", -1e4, 1e4)).ToArray()
+                        : null;
+                    if (xyz is null)
+                    {
+                        c.Add($"{path}.sites[{i}]", "must be an array of three numbers [x, y, z].");
+                    }
+                    else if (xyz.All(v => v is not null))
+                    {
+                        list.Add(new Position(xyz[0]!.Value * l, xyz[1]!.Value * l, xyz[2]!.Value * l));
+                    }
+                    i++;
+                }
+                sites = list.ToImmutable();
+            }
+        }
+        else
+        {
+            lattice = c.String(p, "lattice", path, true, "fcc", "bcc", "sc", "hcp");
+            nn = (c.Number(p, "nearestNeighbourDistance", path, true, 0, 1e4, true) ?? 1) * l;
+            shells = (int)(c.Integer(p, "shells", path, false, 1, 10) ?? 1);
+        }
+        var centre = Position.Origin;
+        if (p.TryGetProperty("centre", out _))
+        {
+            var cc = c.Numbers(p, "centre", path, false, 3, 3, -1e4, 1e4);
+            if (cc is not null)
+            {
+                centre = new Position(cc[0] * l, cc[1] * l, cc[2] * l);
+            }
+        }
+        Confinement? confinement = null;
+        if (c.Object(p, "confinement", path) is { } conf)
+        {
+            const string cp = "$.landscape.confinement";
+            string? shape = c.String(conf, "shape", cp, true, "sphere", "box");
+            if (shape == "sphere")
+            {
+                c.CheckKeys(conf, cp, "shape", "radius");
+                double? r = c.Number(conf, "radius", cp, true, 0, 1e4, true);
+                confinement = r is double rr ? new Confinement(ConfinementShape.Sphere, rr * l) : null;
+            }
+            else if (shape == "box")
+            {
+                c.CheckKeys(conf, cp, "shape", "halfWidth");
+                double? h = c.Number(conf, "halfWidth", cp, true, 0, 1e4, true);
+                confinement = h is double hh ? new Confinement(ConfinementShape.Box, hh * l) : null;
+            }
+        }
+        return new LandscapeSpec(kind, 0, 0, sites, lattice, nn, shells, centre, confinement);
+    }
+
+    private static SamplingSettings? ReadSampling(Context c, JsonElement root)
+    {
+        if (c.Object(root, "sampling", "$") is not { } p)
+        {
+            return null;
+        }
+        const string path = "$.sampling";
+        c.CheckKeys(p, path, "method", "chains", "samplesPerChain", "burnIn", "seed");
+        string method = c.String(p, "method", path, false, "metropolis", "direct") ?? "metropolis";
+        long chains = c.Integer(p, "chains", path, false, 1, 1024) ?? 4;
+        long samples = c.Integer(p, "samplesPerChain", path, false, 10, 1_000_000_000_000) ?? 100_000;
+        long burnIn = c.Integer(p, "burnIn", path, false, 0, 1_000_000_000_000) ?? 10_000;
+        long seed = c.Integer(p, "seed", path, true, 0, long.MaxValue) ?? 0;
+        return new SamplingSettings
+        {
+            Seed = (ulong)seed,
+            Method = method == "direct" ? SamplingMethod.Direct : SamplingMethod.Metropolis,
+            Chains = (int)chains,
+            SamplesPerChain = samples,
+            BurnIn = burnIn,
+        };
+    }
+}
