@@ -1,0 +1,233 @@
+using System;
+using System.Diagnostics;
+using System.IO;
+using System.Linq;
+using System.Text;
+using System.Text.Json;
+using ThermalSampling.Cli;
+using Xunit;
+
+namespace ThermalSampling.Tests;
+
+/// <summary>The command line and its JSON contract (keys and exit codes are a public contract).</summary>
+public class CliTests
+{
+    private const string LineScenario = """
+        {
+          "title": "invented test pair",
+          "units": { "energy": "eV", "length": "angstrom" },
+          "mass": 39.9,
+          "potential": { "form": "lennard-jones", "wellDepth": 0.0120, "equilibriumDistance": 3.50 },
+          "landscape": { "kind": "line", "window": [3.0, 6.0] },
+          "temperatures": [10, 40],
+          "sampling": { "method": "metropolis", "chains": 2, "samplesPerChain": 5000, "burnIn": 1000, "seed": 7 }
+        }
+        """;
+
+    private const string SiteScenario = """
+        {
+          "title": "invented test cage",
+          "units": { "energy": "meV", "length": "nm" },
+          "mass": 63.5,
+          "potential": { "form": "morse", "wellDepth": 343, "width": 13.6, "equilibriumDistance": 0.2866 },
+          "landscape": { "kind": "sites", "lattice": "fcc", "nearestNeighbourDistance": 0.2556, "confinement": { "shape": "sphere", "radius": 0.1 } },
+          "temperatures": [300],
+          "sampling": { "chains": 2, "samplesPerChain": 4000, "burnIn": 1000, "seed": 3 }
+        }
+        """;
+
+    private static (int Code, string Stdout, string Stderr) Run(string scenarioJson, params string[] extra)
+    {
+        string file = Path.Combine(Path.GetTempPath(), $"ts-{Guid.NewGuid():N}.json");
+        File.WriteAllText(file, scenarioJson);
+        try
+        {
+            return RunArgs(new[] { "run", file }.Concat(extra).ToArray());
+        }
+        finally
+        {
+            File.Delete(file);
+        }
+    }
+
+    private static (int Code, string Stdout, string Stderr) RunArgs(params string[] args)
+    {
+        using var stdout = new MemoryStream();
+        using var stderr = new StringWriter();
+        int code = Program.Run(args, stdout, stderr);
+        return (code, Encoding.UTF8.GetString(stdout.ToArray()), stderr.ToString());
+    }
+
+    private static void AssertKeys(JsonElement e, params string[] keys)
+    {
+        foreach (string k in keys)
+        {
+            Assert.True(e.TryGetProperty(k, out _), $"missing key '{k}' in {e}");
+        }
+    }
+
+    [Fact]
+    public void Line_run_writes_every_contract_key()
+    {
+        var (code, stdout, stderr) = Run(LineScenario, "--format", "json");
+        Assert.True(code == 0, stderr);
+        using var doc = JsonDocument.Parse(stdout);
+        var root = doc.RootElement;
+        AssertKeys(root, "title", "units", "libraryVersion", "results");
+        Assert.Equal("invented test pair", root.GetProperty("title").GetString());
+        Assert.Equal(2, root.GetProperty("results").GetArrayLength());
+        foreach (var r in root.GetProperty("results").EnumerateArray())
+        {
+            AssertKeys(r, "temperature", "minimum", "mean", "meanShift", "meanShiftStdErr", "variance", "varianceStdErr", "rms", "rmsStdErr",
+                "skewness", "excessKurtosis", "harmonic", "firstOrder", "exact", "diagnostics", "warnings");
+            AssertKeys(r.GetProperty("harmonic"), "variance");
+            AssertKeys(r.GetProperty("firstOrder"), "meanShift", "variance");
+            AssertKeys(r.GetProperty("exact"), "mean", "variance", "skewness", "excessKurtosis", "wallMass", "zScoreMean", "zScoreVariance");
+            AssertKeys(r.GetProperty("diagnostics"), "acceptanceRate", "autocorrelationTime", "effectiveSampleSize", "rHat", "draws");
+            Assert.False(r.TryGetProperty("covariance", out _), "site keys must be absent for a line");
+            foreach (var w in r.GetProperty("warnings").EnumerateArray())
+            {
+                AssertKeys(w, "code", "message");
+            }
+            Assert.Equal(10000, r.GetProperty("diagnostics").GetProperty("draws").GetInt64());
+            Assert.True(Math.Abs(r.GetProperty("exact").GetProperty("zScoreMean").GetDouble()) < 4);
+        }
+    }
+
+    [Fact]
+    public void Site_run_writes_site_keys_in_the_scenario_units()
+    {
+        var (code, stdout, stderr) = Run(SiteScenario);
+        Assert.True(code == 0, stderr);
+        using var doc = JsonDocument.Parse(stdout);
+        var r = doc.RootElement.GetProperty("results")[0];
+        AssertKeys(r, "temperature", "minimum", "mean", "meanShift", "meanShiftStdErr", "covariance", "meanSquareDisplacement",
+            "meanSquareDisplacementStdErr", "debyeWallerB", "harmonic", "firstOrder", "diagnostics", "warnings");
+        AssertKeys(r.GetProperty("harmonic"), "meanSquareDisplacement");
+        Assert.Equal(3, r.GetProperty("mean").GetArrayLength());
+        Assert.Equal(3, r.GetProperty("covariance").GetArrayLength());
+        Assert.False(r.TryGetProperty("exact", out _), "there is no exact reference for sites");
+        // nm²: an MSD of order 1e-4 nm² (= 1e-2 Å²) for a Cu-like cage at 300 K; B = 8π² MSD/3 in the same unit.
+        double msd = r.GetProperty("meanSquareDisplacement").GetDouble();
+        Assert.InRange(msd, 1e-5, 1e-3);
+        Assert.Equal(8 * Math.PI * Math.PI * msd / 3, r.GetProperty("debyeWallerB").GetDouble(), 12);
+    }
+
+    [Fact]
+    public void Same_seed_gives_the_same_document_and_seed_override_changes_it()
+    {
+        var a = Run(LineScenario, "--threads", "1");
+        var b = Run(LineScenario, "--threads", "2");
+        var c = Run(LineScenario, "--seed", "8");
+        Assert.Equal(a.Stdout, b.Stdout);
+        Assert.NotEqual(a.Stdout, c.Stdout);
+    }
+
+    [Theory]
+    [InlineData("\"mass\": 39.9,", "\"mass\": 39.9, \"colour\": \"red\",", "$.colour")]
+    [InlineData("\"mass\": 39.9,", "", "$.mass")]
+    [InlineData("\"mass\": 39.9,", "\"mass\": -3,", "$.mass")]
+    [InlineData("\"energy\": \"eV\"", "\"energy\": \"erg\"", "$.units.energy")]
+    [InlineData("\"window\": [3.0, 6.0]", "\"window\": [6.0, 3.0]", "$.landscape.window")]
+    [InlineData("\"window\": [3.0, 6.0]", "\"window\": [3.0]", "$.landscape.window")]
+    [InlineData("\"kind\": \"line\"", "\"kind\": \"plane\"", "$.landscape.kind")]
+    [InlineData("\"form\": \"lennard-jones\"", "\"form\": \"yukawa\"", "$.potential.form")]
+    [InlineData("\"wellDepth\": 0.0120", "\"wellDepth\": \"deep\"", "$.potential.wellDepth")]
+    [InlineData("\"temperatures\": [10, 40]", "\"temperatures\": [10, 10]", "$.temperatures")]
+    [InlineData("\"temperatures\": [10, 40]", "\"temperatures\": [10, -4]", "$.temperatures[1]")]
+    [InlineData("\"seed\": 7", "\"seed\": 7.5", "$.sampling.seed")]
+    [InlineData("\"chains\": 2", "\"chains\": 0", "$.sampling.chains")]
+    [InlineData("\"method\": \"metropolis\"", "\"method\": \"gibbs\"", "$.sampling.method")]
+    public void Invalid_scenarios_exit_with_2_and_name_the_json_path(string from, string to, string path)
+    {
+        var (code, stdout, stderr) = Run(LineScenario.Replace(from, to, StringComparison.Ordinal));
+        Assert.Equal(Program.InvalidInput, code);
+        Assert.Contains(path, stderr);
+        Assert.Empty(stdout);
+        Assert.DoesNotContain("   at ", stderr); // no stack trace
+    }
+
+    [Fact]
+    public void All_problems_are_reported_at_once()
+    {
+        string bad = LineScenario.Replace("\"mass\": 39.9,", "\"mass\": 0,").Replace("\"chains\": 2", "\"chains\": 0").Replace("\"energy\": \"eV\"", "\"energy\": \"erg\"");
+        var (code, _, stderr) = Run(bad);
+        Assert.Equal(2, code);
+        Assert.Contains("$.mass", stderr);
+        Assert.Contains("$.sampling.chains", stderr);
+        Assert.Contains("$.units.energy", stderr);
+    }
+
+    [Fact]
+    public void Window_inside_the_Buckingham_barrier_is_an_invalid_scenario()
+    {
+        string s = LineScenario.Replace("\"form\": \"lennard-jones\", \"wellDepth\": 0.0120, \"equilibriumDistance\": 3.50", "\"form\": \"buckingham\", \"A\": 22764.0, \"rho\": 0.149, \"C\": 27.88")
+            .Replace("\"window\": [3.0, 6.0]", "\"window\": [0.5, 2.0]");
+        var (code, _, stderr) = Run(s);
+        Assert.Equal(2, code);
+        Assert.Contains("$.landscape.window", stderr);
+        Assert.Contains("barrier", stderr);
+    }
+
+    [Fact]
+    public void Malformed_json_reports_line_and_column()
+    {
+        var (code, _, stderr) = Run("{\n  \"title\": \"x\",\n  \"mass\": ,\n}");
+        Assert.Equal(2, code);
+        Assert.Contains("line 3", stderr);
+        Assert.Contains("column", stderr);
+    }
+
+    [Fact]
+    public void Missing_file_unknown_command_and_bad_options_exit_with_2()
+    {
+        Assert.Equal(2, RunArgs("run", "/nonexistent/scenario.json").Code);
+        Assert.Equal(2, RunArgs("frobnicate").Code);
+        Assert.Equal(2, RunArgs("run").Code);
+        Assert.Equal(2, Run(LineScenario, "--format", "yaml").Code);
+        Assert.Equal(2, Run(LineScenario, "--threads", "zero").Code);
+        Assert.Equal(0, RunArgs("--version").Code);
+    }
+
+    [Fact]
+    public void Output_file_gets_the_same_document_as_stdout()
+    {
+        string output = Path.Combine(Path.GetTempPath(), $"ts-out-{Guid.NewGuid():N}.json");
+        try
+        {
+            var toFile = Run(LineScenario, "--output", output);
+            Assert.Equal(0, toFile.Code);
+            Assert.Equal(Run(LineScenario).Stdout, File.ReadAllText(output));
+        }
+        finally
+        {
+            File.Delete(output);
+        }
+    }
+
+    [Fact]
+    public void The_built_tool_runs_as_a_real_process()
+    {
+        string dll = typeof(Program).Assembly.Location;
+        string file = Path.Combine(Path.GetTempPath(), $"ts-{Guid.NewGuid():N}.json");
+        File.WriteAllText(file, LineScenario);
+        try
+        {
+            var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+            psi.ArgumentList.Add(dll);
+            psi.ArgumentList.Add("run");
+            psi.ArgumentList.Add(file);
+            using var process = Process.Start(psi)!;
+            string stdout = process.StandardOutput.ReadToEnd();
+            string stderr = process.StandardError.ReadToEnd();
+            Assert.True(process.WaitForExit(120_000), "the tool did not finish in 2 minutes");
+            Assert.True(process.ExitCode == 0, stderr);
+            using var doc = JsonDocument.Parse(stdout);
+            Assert.Equal(2, doc.RootElement.GetProperty("results").GetArrayLength());
+        }
+        finally
+        {
+            File.Delete(file);
+        }
+    }
+}
