@@ -88,6 +88,29 @@ public class PairSamplerTests
         Assert.True(d < 1.95 / Math.Sqrt(n), $"KS distance {d}"); // alpha = 0.001 (asymptotic Kolmogorov, common practice)
     }
 
+    [Fact]
+    public void Metropolis_draws_of_a_harmonic_bond_thinned_well_beyond_tau_pass_a_KS_test_against_MathNet_Normal()
+    {
+        // Thinning by about 10 autocorrelation times makes the kept draws close to independent, so the KS test applies.
+        var bond = new HarmonicBond(2.0, Length.FromAngstroms(2.0));
+        var landscape = PairLandscape.Line(bond, Length.FromAngstroms(1.0), Length.FromAngstroms(3.0));
+        var t = Temperature.FromKelvin(300);
+        var report = PairSampler.Run(landscape, ArgonMass, t, Settings(SamplingMethod.Metropolis, samples: 200_000) with { RetainedDrawsPerChain = 200_000 });
+        int every = (int)Math.Ceiling(10 * report.Diagnostics.AutocorrelationTime);
+        var kept = report.Draws.Thinned(every).SelectMany(c => c).OrderBy(x => x).ToArray();
+        Assert.True(kept.Length > 5000, $"{kept.Length} draws kept");
+        double d = KolmogorovSmirnov(kept, r => Normal.CDF(2.0, Math.Sqrt(t.ThermalEnergyInElectronVolts / 2), r));
+        Assert.True(d < 1.95 / Math.Sqrt(kept.Length), $"KS distance {d} with {kept.Length} draws");
+        Assert.Equal(4, report.Draws.Chains.Length);
+        Assert.Equal(200_000, report.Draws.Chains[0].Length);
+        Assert.Equal((200_000 + every - 1) / every, report.Draws.Thinned(every)[0].Length);
+    }
+
+    [Fact]
+    public void No_draws_are_retained_unless_asked()
+        => Assert.True(PairSampler.Run(PairLandscape.Line(Iron, Length.FromAngstroms(2.0), Length.FromAngstroms(5.0)), ArgonMass, Temperature.FromKelvin(300),
+            Settings(SamplingMethod.Direct, samples: 1000)).Draws.Chains.IsEmpty);
+
     public static TheoryData<string, SeparationGeometry, double> Cases => new()
     {
         { "lj", SeparationGeometry.Line, 20 }, { "lj", SeparationGeometry.Radial, 40 },

@@ -88,6 +88,36 @@ public class SiteSamplerTests
     }
 
     [Fact]
+    public void Direct_sampling_refuses_a_loosely_held_adatom_and_says_to_use_Metropolis()
+    {
+        // A hollow site at 300 K (kT about twice the pair well depth) in a 3 Å sphere: far from harmonic towards the vacuum,
+        // so no useful Gaussian envelope exists.
+        var g = LatticeSites.FccSurface(SurfaceFacet.Fcc111, AdsorptionSiteKind.Hollow, Length.FromAngstroms(3.8));
+        var site = SiteLandscape.Create(Lj, g.Sites, g.Start, Confinement.Sphere(Length.FromAngstroms(3.0)));
+        var ex = Assert.Throws<InvalidOperationException>(() => SiteSampler.Run(site, ArgonMass, Temperature.FromKelvin(300), Settings(SamplingMethod.Direct, samples: 1000)));
+        Assert.Contains("Use Metropolis", ex.Message);
+    }
+
+    [Fact]
+    public void A_top_site_is_not_a_minimum_and_is_refused_with_the_reason()
+    {
+        // For pair potentials an adatom above a surface atom sits on a saddle: it slides towards the hollows.
+        var g = LatticeSites.FccSurface(SurfaceFacet.Fcc100, AdsorptionSiteKind.Top, Length.FromAngstroms(3.8));
+        var site = SiteLandscape.Create(Lj, g.Sites, g.Start, Confinement.Sphere(Length.FromAngstroms(0.5)));
+        var ex = Assert.Throws<LandscapeException>(() => SiteSampler.Run(site, ArgonMass, Temperature.FromKelvin(30), Settings(SamplingMethod.Metropolis, samples: 1000)));
+        Assert.Contains("not a stable minimum", ex.Message);
+    }
+
+    [Fact]
+    public void Retained_positions_come_back_per_chain()
+    {
+        var report = SiteSampler.Run(FccCage(), ArgonMass, Temperature.FromKelvin(30), Settings(SamplingMethod.Metropolis, samples: 2000) with { RetainedDrawsPerChain = 500 });
+        Assert.Equal(4, report.Draws.Chains.Length);
+        Assert.All(report.Draws.Chains, c => Assert.Equal(500, c.Length));
+        Assert.Equal(report.MeanSquareDisplacement.Value / 3, report.IsotropicDisplacement.Value, 15);
+    }
+
+    [Fact]
     public void Covariance_accumulators_merge_exactly()
     {
         var random = Randomness.RandomStream.FromSeed(3);

@@ -1,44 +1,46 @@
 // An invented scenario (not data): an argon-like atom (39.948 u) held by one Lennard-Jones partner
 // (well depth 0.0103 eV, r0 = 3.82 Å) on a line between walls at 3.2 and 6.0 Å, and the same atom
-// at the hollow site of an invented fcc(111) surface with the same pair potential.
+// in the 12-neighbour cage of an invented fcc crystal with nearest-neighbour distance 3.82 Å.
 using System;
 using System.Globalization;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
+using ThermalSampling.Sampling;
 using ThermalSampling.Units;
 
-CultureInfo.DefaultThreadCurrentCulture = CultureInfo.InvariantCulture;
 CultureInfo.CurrentCulture = CultureInfo.InvariantCulture;
 
 var pair = LennardJones.FromMinimum(Length.FromAngstroms(3.82), Energy.FromElectronVolts(0.0103));
 var mass = Mass.FromAtomicMassUnits(39.948);
 var line = PairLandscape.Line(pair, Length.FromAngstroms(3.2), Length.FromAngstroms(6.0));
+var settings = new SamplingSettings { Seed = 2026, Chains = 4, SamplesPerChain = 100_000, BurnIn = 10_000 };
 
 Console.WriteLine("ThermalSampling quick example (invented scenario)");
 Console.WriteLine($"Line landscape: {line.Description}");
+Console.WriteLine($"Sampling: Metropolis, {settings.Chains} chains x {settings.SamplesPerChain} draws, seed {settings.Seed}");
 Console.WriteLine();
-Console.WriteLine("   T/K   <r>-r0 exact/Å  first order/Å   RMS exact/Å  RMS harmonic/Å  RMS quantum/Å  skewness  wall mass");
+Console.WriteLine("   T/K   shift sampled/Å       shift exact/Å  first order/Å   RMS sampled/Å        RMS harm./Å  RMS quant./Å  z(mean)  R-hat");
 foreach (double kelvin in new[] { 2.0, 5, 10, 20, 40 })
 {
     var t = Temperature.FromKelvin(kelvin);
-    var exact = ExactPairDistribution.Compute(line, t);
-    var first = PairAnalysis.FirstOrder(line, t);
-    var harmonic = PairAnalysis.Harmonic(line, mass, t);
-    Console.WriteLine($"{kelvin,6:F1} {exact.MeanInAngstroms - 3.82,16:F5} {first.MeanShiftInAngstroms,14:F5} {exact.RmsInAngstroms,13:F5} {harmonic.ClassicalRmsInAngstroms,15:F5} {harmonic.QuantumRmsInAngstroms,14:F5} {exact.Skewness,9:F3} {exact.WallMass,10:E2}");
-    var validity = ClassicalValidity.AssessPair(line, mass, t);
-    foreach (var w in validity.Warnings)
+    var r = PairSampler.Run(line, mass, t, settings);
+    Console.WriteLine($"{kelvin,6:F1} {r.MeanShift!.Value,9:F5} ± {r.MeanShift.StandardError,-7:F5} {r.Exact.Mean - 3.82,12:F5} {r.FirstOrder!.MeanShiftInAngstroms,14:F5} {r.Rms.Value,9:F5} ± {r.Rms.StandardError,-7:F5} {r.Harmonic!.ClassicalRmsInAngstroms,12:F5} {r.Harmonic.QuantumRmsInAngstroms,12:F5} {r.Exact.ZScoreMean,8:F2} {r.Diagnostics.RHat,6:F4}");
+    foreach (var w in r.Warnings)
     {
         Console.WriteLine($"        warning [{w.Code}]: {w.Message}");
     }
 }
 
 Console.WriteLine();
-var surface = LatticeSites.FccSurface(SurfaceFacet.Fcc111, AdsorptionSiteKind.Hollow, Length.FromAngstroms(3.82));
-var site = SiteLandscape.Create(pair, surface.Sites, surface.Start, Confinement.Sphere(Length.FromAngstroms(1.5)));
-Console.WriteLine($"Surface site: {site.Description}");
-var h = SiteAnalysis.Harmonic(site, mass, Temperature.FromKelvin(20));
-Console.WriteLine($"  minimum {h.Minimum}, energy {h.MinimumEnergyInElectronVolts:F4} eV");
-Console.WriteLine($"  classical covariance at 20 K (Å²): {h.ClassicalCovariance}");
-Console.WriteLine($"  MSD classical {h.ClassicalMeanSquareDisplacement:F5} Å², quantum {h.QuantumMeanSquareDisplacement:F5} Å²; B classical {h.ClassicalDebyeWallerB:F3} Å², quantum {h.QuantumDebyeWallerB:F3} Å²");
-Console.WriteLine($"  first-order mean shift {h.FirstOrderMeanShift}");
+var cage = SiteLandscape.Create(pair, LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.82)),
+    Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.5)));
+Console.WriteLine($"Site landscape: {cage.Description}");
+var site = SiteSampler.Run(cage, mass, Temperature.FromKelvin(20), settings with { SamplesPerChain = 50_000 });
+Console.WriteLine($"  20 K: MSD {site.MeanSquareDisplacement.Value:F5} ± {site.MeanSquareDisplacement.StandardError:F5} Å² (harmonic {site.Harmonic.ClassicalMeanSquareDisplacement:F5}, quantum harmonic {site.Harmonic.QuantumMeanSquareDisplacement:F5})");
+Console.WriteLine($"  B = {site.DebyeWallerB.Value:F3} ± {site.DebyeWallerB.StandardError:F3} Å²; covariance (Å²) {site.Covariance}");
+Console.WriteLine($"  acceptance {site.Diagnostics.AcceptanceRate:P1}, ESS {site.Diagnostics.EffectiveSampleSize:F0}, R-hat {site.Diagnostics.RHat:F4}");
+foreach (var w in site.Warnings)
+{
+    Console.WriteLine($"  warning [{w.Code}]: {w.Message}");
+}

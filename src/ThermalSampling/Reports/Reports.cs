@@ -60,6 +60,33 @@ public sealed record Provenance(ulong Seed, string Generator, SamplingSettings S
         typeof(Provenance).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion ?? "unknown";
 }
 
+/// <summary>The raw draws kept per chain (see <see cref="SamplingSettings.RetainedDrawsPerChain"/>), in the order they were drawn.</summary>
+/// <typeparam name="T">A separation (double, Å) or a position.</typeparam>
+/// <param name="Chains">One array per chain.</param>
+public sealed record RetainedDraws<T>(ImmutableArray<ImmutableArray<T>> Chains)
+{
+    /// <summary>No retained draws.</summary>
+    public static RetainedDraws<T> None { get; } = new(ImmutableArray<ImmutableArray<T>>.Empty);
+
+    /// <summary>Every <paramref name="every"/>-th draw of each chain, starting with the first (thinning applied when read).</summary>
+    /// <param name="every">The thinning interval, at least 1.</param>
+    public ImmutableArray<ImmutableArray<T>> Thinned(int every)
+    {
+        Internal.Preconditions.CheckRange(every, 1, int.MaxValue, nameof(every));
+        var result = ImmutableArray.CreateBuilder<ImmutableArray<T>>(Chains.Length);
+        foreach (var chain in Chains)
+        {
+            var b = ImmutableArray.CreateBuilder<T>((chain.Length + every - 1) / every);
+            for (int i = 0; i < chain.Length; i += every)
+            {
+                b.Add(chain[i]);
+            }
+            result.Add(b.MoveToImmutable());
+        }
+        return result.MoveToImmutable();
+    }
+}
+
 /// <summary>The sampled moments compared with the exact quadrature.</summary>
 /// <param name="Mean">Exact ⟨r⟩, Å.</param>
 /// <param name="Variance">Exact variance, Å².</param>
@@ -87,9 +114,10 @@ public sealed record ExactComparison(double Mean, double Variance, double Skewne
 /// <param name="Histogram">The sampled density.</param>
 /// <param name="Warnings">Everything that could mislead, in plain words.</param>
 /// <param name="Provenance">What produced it.</param>
+/// <param name="Draws">Raw draws kept per chain (empty unless requested).</param>
 public sealed record PairVibrationReport(Temperature Temperature, SeparationGeometry Geometry, double? MinimumInAngstroms, Estimate Mean, Estimate? MeanShift,
     Estimate Variance, Estimate Rms, double Skewness, double ExcessKurtosis, PairHarmonicEstimate? Harmonic, PairFirstOrderEstimate? FirstOrder,
-    ExactComparison Exact, SamplingDiagnostics Diagnostics, Histogram Histogram, ImmutableArray<Warning> Warnings, Provenance Provenance);
+    ExactComparison Exact, SamplingDiagnostics Diagnostics, Histogram Histogram, ImmutableArray<Warning> Warnings, Provenance Provenance, RetainedDraws<double> Draws);
 
 /// <summary>The vibration report of a particle among fixed sites at one temperature.</summary>
 /// <param name="Temperature">The temperature.</param>
@@ -105,6 +133,11 @@ public sealed record PairVibrationReport(Temperature Temperature, SeparationGeom
 /// <param name="RadialHistogram">Density of the distance from the minimum, 1/Å.</param>
 /// <param name="Warnings">Everything that could mislead, in plain words.</param>
 /// <param name="Provenance">What produced it.</param>
+/// <param name="Draws">Raw positions kept per chain (empty unless requested).</param>
 public sealed record SiteVibrationReport(Temperature Temperature, Position Minimum, Position Mean, Position MeanStandardError, Position MeanShift,
     SymmetricTensor Covariance, Estimate MeanSquareDisplacement, Estimate DebyeWallerB, SiteHarmonicEstimate Harmonic,
-    SamplingDiagnostics Diagnostics, Histogram RadialHistogram, ImmutableArray<Warning> Warnings, Provenance Provenance);
+    SamplingDiagnostics Diagnostics, Histogram RadialHistogram, ImmutableArray<Warning> Warnings, Provenance Provenance, RetainedDraws<Position> Draws)
+{
+    /// <summary>U_iso = MSD/3, Å².</summary>
+    public Estimate IsotropicDisplacement => new(MeanSquareDisplacement.Value / 3, MeanSquareDisplacement.StandardError / 3);
+}

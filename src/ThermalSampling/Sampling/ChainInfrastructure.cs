@@ -115,6 +115,33 @@ internal sealed class BatchMeansStore
     }
 }
 
+/// <summary>Keeps the first draws of a chain, up to a cap.</summary>
+/// <typeparam name="T">The draw type.</typeparam>
+internal sealed class DrawRecorder<T>
+{
+    private readonly T[] _items;
+    private int _count;
+
+    internal DrawRecorder(long samples, int cap) => _items = new T[(int)Math.Min(samples, cap)];
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    internal void Add(T item)
+    {
+        if (_count < _items.Length)
+        {
+            _items[_count++] = item;
+        }
+    }
+
+    internal ImmutableArray<T> ToImmutable() => ImmutableArray.Create(_items, 0, _count);
+
+    internal static Reports.RetainedDraws<T> Combine(IEnumerable<DrawRecorder<T>> chains)
+    {
+        var list = chains.Select(c => c.ToImmutable()).ToImmutableArray();
+        return list.All(c => c.IsEmpty) ? Reports.RetainedDraws<T>.None : new Reports.RetainedDraws<T>(list);
+    }
+}
+
 /// <summary>Counts draws into fixed bins.</summary>
 internal sealed class BinCounter
 {

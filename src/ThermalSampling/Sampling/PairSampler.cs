@@ -28,7 +28,7 @@ public static class PairSampler
     /// <summary>The default Metropolis target acceptance for one coordinate (Roberts &amp; Rosenthal, Statistical Science 16, 351 (2001)).</summary>
     public const double DefaultTargetAcceptance = 0.44;
 
-    private sealed record ChainResult(MomentAccumulator Moments, BinCounter Bins, BatchMeansStore Store, long Accepted, double Width);
+    private sealed record ChainResult(MomentAccumulator Moments, BinCounter Bins, BatchMeansStore Store, DrawRecorder<double> Draws, long Accepted, double Width);
 
     /// <summary>Runs the sampler.</summary>
     /// <typeparam name="TPotential">The potential type.</typeparam>
@@ -79,10 +79,11 @@ public static class PairSampler
             double startQuantile = chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1);
             var bins = new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins);
             var store = new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, well?.EquilibriumDistance ?? exact.MeanInAngstroms);
+            var draws = new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
             var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
             return metropolis
-                ? RunMetropolisChain(kernel, Quantile(exact, startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, bins, store, report, cancellationToken)
-                : RunDirectChain(table!, settings, ref random, bins, store, report, cancellationToken);
+                ? RunMetropolisChain(kernel, Quantile(exact, startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, bins, store, draws, report, cancellationToken)
+                : RunDirectChain(table!, settings, ref random, bins, store, draws, report, cancellationToken);
         });
 
         var moments = results[0].Moments;
@@ -121,7 +122,8 @@ public static class PairSampler
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         return new PairVibrationReport(temperature, landscape.Geometry, well?.EquilibriumDistance, meanEstimate,
             well is null ? null : new Estimate(mean - well.EquilibriumDistance, meanSe), varianceEstimate, new Estimate(rms, rms > 0 ? varianceSe / (2 * rms) : 0),
-            moments.Skewness, moments.ExcessKurtosis, harmonic, firstOrder, comparison, diagnostics, histogram, warnings.ToImmutable(), provenance);
+            moments.Skewness, moments.ExcessKurtosis, harmonic, firstOrder, comparison, diagnostics, histogram, warnings.ToImmutable(), provenance,
+            DrawRecorder<double>.Combine(results.Select(r => r.Draws)));
     }
 
     /// <summary>Runs the sampler at several temperatures with the same settings (the seed is shared; each temperature is an independent run).</summary>
@@ -147,7 +149,7 @@ public static class PairSampler
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static ChainResult RunMetropolisChain<TPotential>(PairMetropolisKernel<TPotential> kernel, double start, double width0, double target, double maxWidth,
-        SamplingSettings settings, ref RandomStream random, BinCounter bins, BatchMeansStore store, ProgressReporter progress, CancellationToken ct)
+        SamplingSettings settings, ref RandomStream random, BinCounter bins, BatchMeansStore store, DrawRecorder<double> draws, ProgressReporter progress, CancellationToken ct)
         where TPotential : struct, IPairPotential
     {
         var state = kernel.StateAt(start);
@@ -177,6 +179,7 @@ public static class PairSampler
             moments.Add(r);
             bins.Add(r);
             store.Add(r);
+            draws.Add(r);
             if ((i & 4095) == 0)
             {
                 ct.ThrowIfCancellationRequested();
@@ -184,11 +187,11 @@ public static class PairSampler
             }
         }
         progress.Finish();
-        return new ChainResult(moments, bins, store, acceptedCount, width);
+        return new ChainResult(moments, bins, store, draws, acceptedCount, width);
     }
 
     private static ChainResult RunDirectChain(InverseCdfTable table, SamplingSettings settings, ref RandomStream random, BinCounter bins, BatchMeansStore store,
-        ProgressReporter progress, CancellationToken ct)
+        DrawRecorder<double> draws, ProgressReporter progress, CancellationToken ct)
     {
         var moments = new MomentAccumulator();
         long n = settings.SamplesPerChain;
@@ -198,6 +201,7 @@ public static class PairSampler
             moments.Add(r);
             bins.Add(r);
             store.Add(r);
+            draws.Add(r);
             if ((i & 4095) == 0)
             {
                 ct.ThrowIfCancellationRequested();
@@ -205,7 +209,7 @@ public static class PairSampler
             }
         }
         progress.Finish();
-        return new ChainResult(moments, bins, store, n, 0);
+        return new ChainResult(moments, bins, store, draws, n, 0);
     }
 }
 

@@ -36,7 +36,7 @@ public static class SiteSampler
 
     private const double EnvelopeInflation = 1.3;
 
-    private sealed record ChainResult(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, long Accepted, long Proposals, long NearWall, double Scale);
+    private sealed record ChainResult(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws, long Accepted, long Proposals, long NearWall, double Scale);
 
     /// <summary>Runs the sampler.</summary>
     /// <typeparam name="TPotential">The potential type.</typeparam>
@@ -86,10 +86,11 @@ public static class SiteSampler
                 new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, min.Z),
             };
             var radial = new BinCounter(0, radialMax, settings.HistogramBins);
+            var draws = new DrawRecorder<Position>(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
             var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
             return metropolis
-                ? RunMetropolisChain(kernel, landscape, min, cholesky, scale0, target, maxScale, settings, ref random, stores, radial, report, cancellationToken)
-                : RunDirectChain(kernel, landscape, min, envelope!, settings, ref random, stores, radial, report, cancellationToken);
+                ? RunMetropolisChain(kernel, landscape, min, cholesky, scale0, target, maxScale, settings, ref random, stores, radial, draws, report, cancellationToken)
+                : RunDirectChain(kernel, landscape, min, envelope!, settings, ref random, stores, radial, draws, report, cancellationToken);
         });
 
         var moments = results[0].Moments;
@@ -135,7 +136,8 @@ public static class SiteSampler
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         double b = DebyeWaller.FromIsotropicDisplacement(msd / 3);
         return new SiteVibrationReport(temperature, min, mean, seMean, mean - min, covariance, new Estimate(msd, msdSe),
-            new Estimate(b, b * msdSe / msd), harmonic, diagnostics, radialHistogram, warnings.ToImmutable(), provenance);
+            new Estimate(b, b * msdSe / msd), harmonic, diagnostics, radialHistogram, warnings.ToImmutable(), provenance,
+            DrawRecorder<Position>.Combine(results.Select(r => r.Draws)));
     }
 
     /// <summary>Runs the sampler at several temperatures with the same settings.</summary>
@@ -178,7 +180,7 @@ public static class SiteSampler
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static ChainResult RunMetropolisChain<TPotential>(SiteMetropolisKernel<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min,
         Matrix<double> cholesky, double scale0, double target, double maxScale, SamplingSettings settings, ref RandomStream random,
-        BatchMeansStore[] stores, BinCounter radial, ProgressReporter progress, CancellationToken ct)
+        BatchMeansStore[] stores, BinCounter radial, DrawRecorder<Position> draws, ProgressReporter progress, CancellationToken ct)
         where TPotential : struct, IPairPotential
     {
         // Over-dispersed start: about two harmonic standard deviations out, inside the confinement.
@@ -219,6 +221,7 @@ public static class SiteSampler
                 acceptedCount++;
             }
             Record(state.X, state.Y, state.Z, min, ref moments, stores, radial);
+            draws.Add(new Position(state.X, state.Y, state.Z));
             if (NearWall(confinement, centre, state.X, state.Y, state.Z, band))
             {
                 nearWall++;
@@ -230,7 +233,7 @@ public static class SiteSampler
             }
         }
         progress.Finish();
-        return new ChainResult(moments, stores, radial, acceptedCount, settings.SamplesPerChain, nearWall, scale);
+        return new ChainResult(moments, stores, radial, draws, acceptedCount, settings.SamplesPerChain, nearWall, scale);
     }
 
     /// <summary>The near-wall band: one harmonic RMS spread per direction, √(tr Σ/3).</summary>
@@ -247,7 +250,7 @@ public static class SiteSampler
     }
 
     private static ChainResult RunDirectChain<TPotential>(SiteMetropolisKernel<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min,
-        Envelope envelope, SamplingSettings settings, ref RandomStream random, BatchMeansStore[] stores, BinCounter radial, ProgressReporter progress, CancellationToken ct)
+        Envelope envelope, SamplingSettings settings, ref RandomStream random, BatchMeansStore[] stores, BinCounter radial, DrawRecorder<Position> draws, ProgressReporter progress, CancellationToken ct)
         where TPotential : struct, IPairPotential
     {
         var moments = new CovarianceAccumulator();
@@ -273,6 +276,7 @@ public static class SiteSampler
                 if (Math.Log(random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
                 {
                     Record(x, y, z, min, ref moments, stores, radial);
+                    draws.Add(new Position(x, y, z));
                     if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, band))
                     {
                         nearWall++;
@@ -287,7 +291,7 @@ public static class SiteSampler
             }
         }
         progress.Finish();
-        return new ChainResult(moments, stores, radial, settings.SamplesPerChain, proposals, nearWall, 0);
+        return new ChainResult(moments, stores, radial, draws, settings.SamplesPerChain, proposals, nearWall, 0);
     }
 
     /// <summary>The Gaussian envelope N(min, 1.3²Σ) and its numerically established bound.</summary>

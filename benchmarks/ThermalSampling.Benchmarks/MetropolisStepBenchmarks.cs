@@ -1,0 +1,174 @@
+using System;
+using BenchmarkDotNet.Attributes;
+using MathNet.Numerics.Distributions;
+using MathNet.Numerics.Statistics.Mcmc;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Randomness;
+using ThermalSampling.Sampling;
+using ThermalSampling.Statistics;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Benchmarks;
+
+/// <summary>
+/// One 1D Lennard-Jones Metropolis step (proposal, energy, accept/reject, running sums), per chain-step, with the two
+/// alternatives a user would reach for in the same run: MathNet.Numerics' MetropolisSampler and a plain loop with
+/// System.Random and Math.Pow. Invented parameters: u0 = 0.0103 eV, r0 = 3.82 Å, 40 K, window [3.2, 6.0] Å.
+/// </summary>
+[MemoryDiagnoser]
+[ShortRunJob]
+public class MetropolisStepBenchmarks
+{
+    private const int Steps = 200_000;
+    private const double R0 = 3.82, U0 = 0.0103, Lower = 3.2, Upper = 6.0, Width = 0.12;
+    private static readonly double Beta = 1 / Temperature.FromKelvin(40).ThermalEnergyInElectronVolts;
+    private PairMetropolisKernel<LennardJones> _kernel;
+    private PairLandscape<LennardJones> _landscape = null!;
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        var lj = LennardJones.FromMinimum(Length.FromAngstroms(R0), Energy.FromElectronVolts(U0));
+        _kernel = new PairMetropolisKernel<LennardJones>(lj, Lower, Upper, Beta, radial: false);
+        _landscape = PairLandscape.Line(lj, Length.FromAngstroms(Lower), Length.FromAngstroms(Upper));
+    }
+
+    private static double LogDensity(double r) =>
+        r < Lower || r > Upper ? double.NegativeInfinity : -Beta * U0 * (Math.Pow(R0 / r, 12) - 2 * Math.Pow(R0 / r, 6));
+
+    [Benchmark(Baseline = true, OperationsPerInvoke = Steps)]
+    public double MathNetMetropolisSampler()
+    {
+#pragma warning disable RS0030, CA5394 // baseline only: a user's default choice of generator
+        var random = new Random(1);
+#pragma warning restore RS0030, CA5394
+        var sampler = new MetropolisSampler<double>(R0, LogDensity, x => Normal.Sample(random, x, Width)) { RandomSource = random };
+        double sum = 0;
+        for (int i = 0; i < Steps; i++)
+        {
+            sum += sampler.Sample();
+        }
+        return sum;
+    }
+
+    [Benchmark(OperationsPerInvoke = Steps)]
+    public double PlainLoopSystemRandom()
+    {
+#pragma warning disable CA5394
+        var random = new Random(1);
+        double r = R0, lw = LogDensity(r), sum = 0, sum2 = 0;
+        for (int i = 0; i < Steps; i++)
+        {
+            double u1 = 1 - random.NextDouble(), u2 = random.NextDouble();
+            double proposal = r + Width * Math.Sqrt(-2 * Math.Log(u1)) * Math.Cos(2 * Math.PI * u2);
+            double lwp = LogDensity(proposal);
+            if (lwp >= lw || random.NextDouble() < Math.Exp(lwp - lw))
+            {
+                r = proposal;
+                lw = lwp;
+            }
+            sum += r;
+            sum2 += r * r;
+        }
+#pragma warning restore CA5394
+        return sum + sum2;
+    }
+
+    [Benchmark(OperationsPerInvoke = Steps)]
+    public double LibraryKernel()
+    {
+        var random = RandomStream.FromSeed(1);
+        var state = _kernel.StateAt(R0);
+        var moments = new MomentAccumulator();
+        for (int i = 0; i < Steps; i++)
+        {
+            state = _kernel.Step(state, Width, ref random, out _);
+            moments.Add(state.Separation);
+        }
+        return moments.Mean;
+    }
+
+    [Benchmark(OperationsPerInvoke = Steps)]
+    public double PublicApiOneChain()
+    {
+        var settings = new SamplingSettings { Seed = 1, Chains = 1, SamplesPerChain = Steps, BurnIn = 0, InitialStepWidthInAngstroms = Width };
+        return PairSampler.Run(_landscape, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(40), settings).Mean.Value;
+    }
+}
+
+/// <summary>An fcc cage with 12 Lennard-Jones neighbours: one 3D Metropolis step, library kernel against a plain loop.</summary>
+[MemoryDiagnoser]
+[ShortRunJob]
+public class SiteStepBenchmarks
+{
+    private const int Steps = 100_000;
+    private const double R0 = 3.8, U0 = 0.0103, Width = 0.08;
+    private static readonly double Beta = 1 / Temperature.FromKelvin(40).ThermalEnergyInElectronVolts;
+    private SiteMetropolisKernel<LennardJones> _kernel;
+    private double[] _sites = null!;
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        var lj = LennardJones.FromMinimum(Length.FromAngstroms(R0), Energy.FromElectronVolts(U0));
+        var cage = LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(R0));
+        var landscape = SiteLandscape.Create(lj, cage, Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.5)));
+        _kernel = new SiteMetropolisKernel<LennardJones>(landscape, Beta, (Width, 0, Width, 0, 0, Width));
+        _sites = new double[cage.Length * 3];
+        for (int i = 0; i < cage.Length; i++)
+        {
+            (_sites[3 * i], _sites[3 * i + 1], _sites[3 * i + 2]) = (cage[i].X, cage[i].Y, cage[i].Z);
+        }
+    }
+
+    private double PlainEnergy(double x, double y, double z)
+    {
+        double e = 0;
+        for (int i = 0; i < _sites.Length; i += 3)
+        {
+            double dx = x - _sites[i], dy = y - _sites[i + 1], dz = z - _sites[i + 2];
+            double r = Math.Sqrt(dx * dx + dy * dy + dz * dz);
+            e += U0 * (Math.Pow(R0 / r, 12) - 2 * Math.Pow(R0 / r, 6));
+        }
+        return e;
+    }
+
+    [Benchmark(Baseline = true, OperationsPerInvoke = Steps)]
+    public double PlainLoopSystemRandom()
+    {
+#pragma warning disable CA5394
+        var random = new Random(1);
+        double x = 0, y = 0, z = 0, e = PlainEnergy(0, 0, 0), sum = 0;
+        for (int i = 0; i < Steps; i++)
+        {
+            double Gauss() => Math.Sqrt(-2 * Math.Log(1 - random.NextDouble())) * Math.Cos(2 * Math.PI * random.NextDouble());
+            double px = x + Width * Gauss(), py = y + Width * Gauss(), pz = z + Width * Gauss();
+            if (px * px + py * py + pz * pz <= 1.5 * 1.5)
+            {
+                double ep = PlainEnergy(px, py, pz);
+                if (ep <= e || random.NextDouble() < Math.Exp(-Beta * (ep - e)))
+                {
+                    (x, y, z, e) = (px, py, pz, ep);
+                }
+            }
+            sum += x * x + y * y + z * z;
+        }
+#pragma warning restore CA5394
+        return sum;
+    }
+
+    [Benchmark(OperationsPerInvoke = Steps)]
+    public double LibraryKernel()
+    {
+        var random = RandomStream.FromSeed(1);
+        var state = _kernel.StateAt(Position.Origin);
+        double sum = 0;
+        for (int i = 0; i < Steps; i++)
+        {
+            state = _kernel.Step(state, 1.0, ref random, out _);
+            sum += state.X * state.X + state.Y * state.Y + state.Z * state.Z;
+        }
+        return sum;
+    }
+}
