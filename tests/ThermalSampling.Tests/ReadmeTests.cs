@@ -29,6 +29,18 @@ public class ReadmeTests
     }
 
     [Fact]
+    public void Readme_sampling_quick_start_runs()
+    {
+        var pair = LennardJones.FromSigmaEpsilon(Length.FromAngstroms(3.405), Energy.FromKelvin(119.8));
+        var line = PairLandscape.Line(pair, Length.FromAngstroms(3.2), Length.FromAngstroms(6.0));
+        var settings = new ThermalSampling.Sampling.SamplingSettings { Seed = 42, Chains = 4, SamplesPerChain = 100_000, BurnIn = 10_000 };
+        var r = ThermalSampling.Sampling.PairSampler.Run(line, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(30), settings);
+        Assert.True(Math.Abs(r.Exact.ZScoreMean) < 4);
+        Assert.True(r.MeanShift!.Value > 0 && r.Rms.Value > r.Harmonic!.ClassicalRmsInAngstroms);
+        Assert.True(r.Diagnostics.RHat < 1.01);
+    }
+
+    [Fact]
     public void Readme_mentions_the_commands_that_ci_runs()
     {
         string root = AppContext.BaseDirectory;

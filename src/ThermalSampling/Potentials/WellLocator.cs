@@ -36,24 +36,4 @@ internal static class WellLocator
         }
         return best;
     }
-
-    /// <summary>A local maximum of V between <paramref name="lower"/> and <paramref name="upper"/> where V′ goes from + to −.</summary>
-    internal static double? FindFirstMaximum(Func<double, double> firstDerivative, double lower, double upper, int scanPoints = 4000)
-    {
-        double step = (upper - lower) / scanPoints;
-        double prevR = lower;
-        double prevD = firstDerivative(prevR);
-        for (int i = 1; i <= scanPoints; i++)
-        {
-            double r = lower + i * step;
-            double d = firstDerivative(r);
-            if (double.IsFinite(prevD) && double.IsFinite(d) && prevD > 0 && d <= 0)
-            {
-                return d == 0 ? r : Brent.FindRoot(firstDerivative, prevR, r, 1e-13 * Math.Max(1, r), 200);
-            }
-            prevR = r;
-            prevD = d;
-        }
-        return null;
-    }
 }

@@ -5,6 +5,7 @@ using System.Linq;
 using System.Threading;
 using System.Threading.Tasks;
 using ThermalSampling.Analysis;
+using ThermalSampling.Randomness;
 using ThermalSampling.Reports;
 using ThermalSampling.Statistics;
 
@@ -37,6 +38,35 @@ internal struct StepWidthAdapter
         _t++;
         _logWidth += ((accepted ? 1.0 : 0.0) - _target) * 2.0 / Math.Pow(_t + 10, 0.6);
         _logWidth = Math.Min(_logWidth, Math.Log(_maxWidth));
+    }
+}
+
+/// <summary>One Metropolis step of a kernel; lets the burn-in loop be written once and still be specialised per kernel.</summary>
+/// <typeparam name="TState">The chain state.</typeparam>
+internal interface IMetropolisStep<TState>
+{
+    TState Step(in TState state, double width, ref RandomStream random, out bool accepted);
+}
+
+/// <summary>The burn-in phase shared by all Metropolis drivers: steps with the adapting width, then the width freezes.</summary>
+internal static class BurnIn
+{
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    internal static TState Run<TKernel, TState>(in TKernel kernel, TState state, ref StepWidthAdapter adapter, long steps, ref RandomStream random,
+        ProgressReporter progress, CancellationToken ct)
+        where TKernel : struct, IMetropolisStep<TState>
+    {
+        for (long i = 0; i < steps; i++)
+        {
+            state = kernel.Step(state, adapter.Width, ref random, out bool accepted);
+            adapter.Update(accepted);
+            if ((i & 4095) == 0)
+            {
+                ct.ThrowIfCancellationRequested();
+                progress.Report(i);
+            }
+        }
+        return state;
     }
 }
 

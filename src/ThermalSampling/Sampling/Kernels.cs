@@ -15,7 +15,7 @@ public readonly record struct PairChainState(double Separation, double LogWeight
 /// where V = +∞; accept with probability min(1, e^(logW(r') − logW(r))). Immutable; specialised per potential type.
 /// </summary>
 /// <typeparam name="TPotential">The potential, a struct so that the energy call inlines.</typeparam>
-public readonly struct PairMetropolisKernel<TPotential> where TPotential : struct, IPairPotential
+public readonly struct PairMetropolisKernel<TPotential> : IMetropolisStep<PairChainState> where TPotential : struct, IPairPotential
 {
     private readonly TPotential _potential;
     private readonly double _lower, _upper, _beta;

@@ -152,18 +152,8 @@ public static class PairSampler
         SamplingSettings settings, ref RandomStream random, BinCounter bins, BatchMeansStore store, DrawRecorder<double> draws, ProgressReporter progress, CancellationToken ct)
         where TPotential : struct, IPairPotential
     {
-        var state = kernel.StateAt(start);
         var adapter = new StepWidthAdapter(width0, target, maxWidth);
-        for (long i = 0; i < settings.BurnIn; i++)
-        {
-            state = kernel.Step(state, adapter.Width, ref random, out bool accepted);
-            adapter.Update(accepted);
-            if ((i & 4095) == 0)
-            {
-                ct.ThrowIfCancellationRequested();
-                progress.Report(i);
-            }
-        }
+        var state = BurnIn.Run<PairMetropolisKernel<TPotential>, PairChainState>(kernel, kernel.StateAt(start), ref adapter, settings.BurnIn, ref random, progress, ct);
         double width = adapter.Width;
         var moments = new MomentAccumulator();
         long acceptedCount = 0;

@@ -195,18 +195,8 @@ public static class SiteSampler
                 break;
             }
         }
-        var state = kernel.StateAt(start);
         var adapter = new StepWidthAdapter(scale0, target, maxScale);
-        for (long i = 0; i < settings.BurnIn; i++)
-        {
-            state = kernel.Step(state, adapter.Width, ref random, out bool accepted);
-            adapter.Update(accepted);
-            if ((i & 4095) == 0)
-            {
-                ct.ThrowIfCancellationRequested();
-                progress.Report(i);
-            }
-        }
+        var state = BurnIn.Run<SiteMetropolisKernel<TPotential>, SiteChainState>(kernel, kernel.StateAt(start), ref adapter, settings.BurnIn, ref random, progress, ct);
         double scale = adapter.Width;
         var moments = new CovarianceAccumulator();
         long acceptedCount = 0, nearWall = 0;
