@@ -48,7 +48,7 @@ internal sealed record PotentialSpec(string Form, ImmutableDictionary<string, do
 
 /// <summary>A landscape in canonical units.</summary>
 internal sealed record LandscapeSpec(string Kind, double WindowLower, double WindowUpper, ImmutableArray<Position> Sites, string? Lattice,
-    double NearestNeighbourDistance, int Shells, Position Centre, Confinement? Confinement);
+    double NearestNeighbourDistance, int Shells, Position Centre, Confinement? Confinement, string? Surface = null, string? AdsorptionSite = null, int Layers = 3);
 
 /// <summary>Reads scenario files. Every problem is collected (with its JSON path) and reported at once.</summary>
 internal static class ScenarioReader
@@ -379,16 +379,20 @@ internal static class ScenarioReader
         {
             return null;
         }
-        c.CheckKeys(p, path, "kind", "sites", "lattice", "nearestNeighbourDistance", "shells", "centre", "confinement");
+        c.CheckKeys(p, path, "kind", "sites", "lattice", "surface", "adsorptionSite", "layers", "nearestNeighbourDistance", "shells", "centre", "confinement");
         var sites = ImmutableArray<Position>.Empty;
         string? lattice = null;
         double nn = 0;
         int shells = 1;
         bool explicitSites = p.TryGetProperty("sites", out var siteArray);
-        if (explicitSites && p.TryGetProperty("lattice", out _))
+        bool surfaceSites = p.TryGetProperty("surface", out _);
+        int sources = (explicitSites ? 1 : 0) + (surfaceSites ? 1 : 0) + (p.TryGetProperty("lattice", out _) ? 1 : 0);
+        if (sources > 1)
         {
-            c.Add(path, "give either sites or lattice, not both.");
+            c.Add(path, "give exactly one of sites, lattice or surface.");
         }
+        string? surface = null, adsorption = null;
+        int layers = 3;
         if (explicitSites)
         {
             if (siteArray.ValueKind != JsonValueKind.Array || siteArray.GetArrayLength() == 0 || siteArray.GetArrayLength() > 100_000)
@@ -416,6 +420,13 @@ internal static class ScenarioReader
                 }
                 sites = list.ToImmutable();
             }
+        }
+        else if (surfaceSites)
+        {
+            surface = c.String(p, "surface", path, true, "fcc100", "fcc111");
+            adsorption = c.String(p, "adsorptionSite", path, true, "top", "bridge", "hollow");
+            nn = (c.Number(p, "nearestNeighbourDistance", path, true, 0, 1e4, true) ?? 1) * l;
+            layers = (int)(c.Integer(p, "layers", path, false, 1, 10) ?? 3);
         }
         else
         {
@@ -450,7 +461,7 @@ internal static class ScenarioReader
                 confinement = h is double hh ? new Confinement(ConfinementShape.Box, hh * l) : null;
             }
         }
-        return new LandscapeSpec(kind, 0, 0, sites, lattice, nn, shells, centre, confinement);
+        return new LandscapeSpec(kind, 0, 0, sites, lattice, nn, shells, centre, confinement, surface, adsorption, layers);
     }
 
     private static SamplingSettings? ReadSampling(Context c, JsonElement root)

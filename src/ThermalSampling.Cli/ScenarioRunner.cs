@@ -11,8 +11,15 @@ using ThermalSampling.Units;
 
 namespace ThermalSampling.Cli;
 
-/// <summary>The results of one scenario: pair reports or site reports, one per temperature.</summary>
-internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibrationReport> Pairs, IReadOnlyList<SiteVibrationReport> Sites);
+/// <summary>The results of one scenario: pair reports or site reports, one per finished temperature.</summary>
+/// <param name="Scenario">What was run.</param>
+/// <param name="Pairs">Line or radial reports.</param>
+/// <param name="Sites">Site reports.</param>
+/// <param name="Cancelled">Whether the run was stopped before every temperature finished.</param>
+internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibrationReport> Pairs, IReadOnlyList<SiteVibrationReport> Sites, bool Cancelled = false)
+{
+    internal int Finished => Pairs.Count + Sites.Count;
+}
 
 /// <summary>Turns a validated scenario into library calls, specialised on the concrete potential type.</summary>
 internal static class ScenarioRunner
@@ -71,21 +78,38 @@ internal static class ScenarioRunner
             {
                 var landscape = PairLandscape.Create(potential, l.Kind == "line" ? SeparationGeometry.Line : SeparationGeometry.Radial,
                     Length.FromAngstroms(l.WindowLower), Length.FromAngstroms(l.WindowUpper));
-                var reports = temperatures.Select(t => PairSampler.Run(landscape, mass, t, scenario.Sampling, progress, ct)).ToList();
-                return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>());
+                var reports = new List<PairVibrationReport>();
+                bool cancelled = RunEach(temperatures, t => reports.Add(PairSampler.Run(landscape, mass, t, scenario.Sampling, progress, ct)));
+                return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled);
             }
-            var sites = l.Lattice is null
-                ? l.Sites
-                : LatticeSites.NeighbourCage(l.Lattice switch
+            var centre = l.Centre;
+            System.Collections.Immutable.ImmutableArray<Position> sites;
+            if (l.Surface is not null)
+            {
+                var geometry = LatticeSites.FccSurface(l.Surface == "fcc100" ? SurfaceFacet.Fcc100 : SurfaceFacet.Fcc111,
+                    l.AdsorptionSite switch { "top" => AdsorptionSiteKind.Top, "bridge" => AdsorptionSiteKind.Bridge, _ => AdsorptionSiteKind.Hollow },
+                    Length.FromAngstroms(l.NearestNeighbourDistance), l.Layers);
+                sites = geometry.Sites.Select(s => s + l.Centre).ToImmutableArrayCompat();
+                centre = geometry.Start + l.Centre;
+            }
+            else if (l.Lattice is not null)
+            {
+                sites = LatticeSites.NeighbourCage(l.Lattice switch
                 {
                     "fcc" => LatticeKind.FaceCentredCubic,
                     "bcc" => LatticeKind.BodyCentredCubic,
                     "sc" => LatticeKind.SimpleCubic,
                     _ => LatticeKind.HexagonalClosePacked,
                 }, Length.FromAngstroms(l.NearestNeighbourDistance), l.Shells).Select(s => s + l.Centre).ToImmutableArrayCompat();
-            var siteLandscape = SiteLandscape.Create(potential, sites, l.Centre, l.Confinement!.Value);
-            var siteReports = temperatures.Select(t => SiteSampler.Run(siteLandscape, mass, t, scenario.Sampling, progress, ct)).ToList();
-            return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports);
+            }
+            else
+            {
+                sites = l.Sites;
+            }
+            var siteLandscape = SiteLandscape.Create(potential, sites, centre, l.Confinement!.Value);
+            var siteReports = new List<SiteVibrationReport>();
+            bool siteCancelled = RunEach(temperatures, t => siteReports.Add(SiteSampler.Run(siteLandscape, mass, t, scenario.Sampling, progress, ct)));
+            return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled);
         }
         catch (ArgumentException ex) when (ex is not ArgumentNullException)
         {
@@ -95,6 +119,23 @@ internal static class ScenarioRunner
         {
             throw new ScenarioException(new[] { $"$.landscape: {ex.Message}" });
         }
+    }
+
+    /// <summary>Runs one temperature after another; a cancellation keeps the finished ones and reports that it happened.</summary>
+    private static bool RunEach(IEnumerable<Temperature> temperatures, Action<Temperature> run)
+    {
+        foreach (var t in temperatures)
+        {
+            try
+            {
+                run(t);
+            }
+            catch (OperationCanceledException)
+            {
+                return true;
+            }
+        }
+        return false;
     }
 
     private static System.Collections.Immutable.ImmutableArray<Position> ToImmutableArrayCompat(this IEnumerable<Position> items)

@@ -231,3 +231,161 @@ public class CliTests
         }
     }
 }
+
+/// <summary>The human-facing commands and formats.</summary>
+public class CliCommandTests
+{
+    private const string Scenario = """
+        {
+          "title": "invented test pair",
+          "mass": 39.9,
+          "potential": { "form": "morse", "wellDepth": 0.3429, "width": 1.3588, "equilibriumDistance": 2.866 },
+          "landscape": { "kind": "radial", "window": [2.2, 4.0] },
+          "temperatures": [100, 300],
+          "sampling": { "chains": 2, "samplesPerChain": 5000, "burnIn": 1000, "seed": 1 }
+        }
+        """;
+
+    private static string WriteScenario(string json)
+    {
+        string file = Path.Combine(Path.GetTempPath(), $"ts-{Guid.NewGuid():N}.json");
+        File.WriteAllText(file, json);
+        return file;
+    }
+
+    private static (int Code, string Stdout, string Stderr) Run(params string[] args)
+    {
+        using var stdout = new MemoryStream();
+        using var stderr = new StringWriter();
+        int code = Program.Run(args, stdout, stderr);
+        return (code, Encoding.UTF8.GetString(stdout.ToArray()), stderr.ToString());
+    }
+
+    [Fact]
+    public void Table_format_has_units_in_headers_and_errors_beside_values()
+    {
+        string file = WriteScenario(Scenario);
+        var (code, stdout, stderr) = Run("run", file, "--format", "table", "--quiet");
+        Assert.True(code == 0, stderr);
+        Assert.Contains("mean (Å)", stdout);
+        Assert.Contains("RMS harmonic (Å)", stdout);
+        Assert.Contains(" ± ", stdout);
+        Assert.Contains("invented test pair", stdout);
+        Assert.Empty(stderr); // --quiet: no progress
+    }
+
+    [Fact]
+    public void Markdown_and_csv_formats_carry_the_same_rows()
+    {
+        string file = WriteScenario(Scenario);
+        var md = Run("run", file, "--format", "markdown", "--quiet");
+        var csv = Run("run", file, "--format", "csv", "--quiet");
+        Assert.Equal(0, md.Code);
+        Assert.Equal(0, csv.Code);
+        Assert.StartsWith("### invented test pair", md.Stdout);
+        Assert.Contains("| T (K) |", md.Stdout);
+        var lines = csv.Stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal(3, lines.Length); // header + two temperatures
+        Assert.StartsWith("T (K),mean (Å),mean (Å) stderr", lines[0]);
+        Assert.StartsWith("100,", lines[1]);
+        Assert.Equal(lines[0].Split(',').Length, lines[1].Split(',').Length);
+    }
+
+    [Fact]
+    public void Redirected_progress_is_printed_line_by_line_to_stderr()
+    {
+        string file = WriteScenario(Scenario);
+        var (code, stdout, stderr) = Run("run", file);
+        Assert.Equal(0, code);
+        Assert.Contains("progress: T = 100 K: 100%", stderr);
+        Assert.Contains("progress: T = 300 K: 0%", stderr);
+        using var doc = JsonDocument.Parse(stdout); // progress never pollutes the report
+    }
+
+    [Fact]
+    public void Validate_checks_without_running()
+    {
+        string good = WriteScenario(Scenario);
+        var ok = Run("validate", good);
+        Assert.Equal(0, ok.Code);
+        Assert.Contains("valid scenario", ok.Stderr);
+        Assert.Empty(ok.Stdout);
+        string bad = WriteScenario(Scenario.Replace("\"radial\"", "\"spiral\"").Replace("\"mass\": 39.9", "\"mass\": -1"));
+        var ko = Run("validate", bad);
+        Assert.Equal(2, ko.Code);
+        Assert.Contains("$.landscape.kind", ko.Stderr);
+        Assert.Contains("$.mass", ko.Stderr);
+    }
+
+    [Fact]
+    public void Sweep_replaces_the_temperatures_with_an_even_range()
+    {
+        string file = WriteScenario(Scenario);
+        var (code, stdout, stderr) = Run("sweep", file, "--from", "50", "--to", "250", "--steps", "5", "--quiet");
+        Assert.True(code == 0, stderr);
+        using var doc = JsonDocument.Parse(stdout);
+        var temperatures = doc.RootElement.GetProperty("results").EnumerateArray().Select(r => r.GetProperty("temperature").GetDouble()).ToArray();
+        Assert.Equal(new[] { 50.0, 100, 150, 200, 250 }, temperatures);
+        Assert.Equal(2, Run("sweep", file, "--from", "50").Code);
+        Assert.Equal(2, Run("sweep", file, "--from", "300", "--to", "100", "--steps", "3").Code);
+        Assert.Equal(2, Run("run", file, "--steps", "3").Code);
+    }
+
+    [Fact]
+    public void Samples_option_writes_the_raw_draws_as_csv()
+    {
+        string file = WriteScenario(Scenario);
+        string samples = Path.Combine(Path.GetTempPath(), $"ts-samples-{Guid.NewGuid():N}.csv");
+        try
+        {
+            var (code, _, stderr) = Run("run", file, "--samples", samples, "--quiet");
+            Assert.True(code == 0, stderr);
+            var lines = File.ReadAllLines(samples);
+            Assert.Equal("temperature_K,chain,index,r_angstrom", lines[0]);
+            Assert.Equal(1 + 2 * 2 * 5000, lines.Length); // 2 temperatures × 2 chains × 5000 draws
+            double r = double.Parse(lines[1].Split(',')[3], System.Globalization.CultureInfo.InvariantCulture);
+            Assert.InRange(r, 2.2, 4.0);
+        }
+        finally
+        {
+            File.Delete(samples);
+        }
+    }
+
+    [Fact]
+    public void Cancelled_run_exits_1_and_says_how_much_finished()
+    {
+        string file = WriteScenario(Scenario);
+        using var cts = new System.Threading.CancellationTokenSource();
+        cts.Cancel();
+        using var stdout = new MemoryStream();
+        using var stderr = new StringWriter();
+        int code = Program.Run(new[] { "run", file, "--quiet" }, stdout, stderr, cts.Token);
+        Assert.Equal(Program.Failure, code);
+        Assert.Contains("cancelled: 0 of 2 temperature(s) finished", stderr.ToString());
+        using var doc = JsonDocument.Parse(Encoding.UTF8.GetString(stdout.ToArray()));
+        Assert.Equal(0, doc.RootElement.GetProperty("results").GetArrayLength());
+    }
+
+    [Fact]
+    public void Demo_runs_both_invented_scenarios_and_prints_tables()
+    {
+        var (code, stdout, stderr) = Run("demo", "--quiet");
+        Assert.True(code == 0, stderr);
+        Assert.Contains("Invented demo", stdout);
+        Assert.Contains("fcc(111)", stdout);
+        Assert.Contains("MSD (Å²)", stdout);
+        Assert.Contains("shift (Å)", stdout);
+    }
+
+    [Fact]
+    public void Surface_landscapes_are_accepted_in_scenarios()
+    {
+        string file = WriteScenario(Scenario.Replace("\"landscape\": { \"kind\": \"radial\", \"window\": [2.2, 4.0] }",
+            "\"landscape\": { \"kind\": \"sites\", \"surface\": \"fcc100\", \"adsorptionSite\": \"hollow\", \"nearestNeighbourDistance\": 2.55, \"confinement\": { \"shape\": \"box\", \"halfWidth\": 0.5 } }"));
+        var (code, stdout, stderr) = Run("run", file, "--quiet");
+        Assert.True(code == 0, stderr);
+        using var doc = JsonDocument.Parse(stdout);
+        Assert.True(doc.RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble() > 0);
+    }
+}

@@ -52,7 +52,7 @@ public class ReadmeTests
         string ci = File.ReadAllText(Path.Combine(root, ".ci", "run"));
         Assert.Contains("dotnet test ThermalSampling.sln -c Release", readme);
         Assert.Contains("dotnet test ThermalSampling.sln -c Release", ci);
-        Assert.Contains("dotnet run -c Release --project docs/examples/QuickExample", readme);
-        Assert.Contains("dotnet run -c Release --project docs/examples/QuickExample", ci);
+        Assert.Contains("dotnet run -c Release --project src/ThermalSampling.Cli -- demo", readme);
+        Assert.Contains("--project src/ThermalSampling.Cli -- demo", ci);
     }
 }

@@ -1,0 +1,43 @@
+using System.Text;
+
+namespace ThermalSampling.Cli;
+
+/// <summary>
+/// The built-in scenarios of <c>demo</c>. Both are invented for illustration, not data: a noble-gas-like adatom
+/// (39.9 u, Lennard-Jones pair with a 20 meV well at 3.4 Å) at the fcc hollow of an invented fcc(111) surface with a
+/// 3.4 Å nearest-neighbour distance, confined to 0.9 Å around the site (less than half the 1.96 Å between neighbouring
+/// hollows), and the same atom held by a single partner on a line.
+/// </summary>
+internal static class DemoScenarios
+{
+    internal const string SurfaceHollow = """
+        {
+          "title": "Invented demo: noble-gas-like adatom at the fcc hollow of an invented fcc(111) surface",
+          "units": { "energy": "meV", "length": "angstrom" },
+          "mass": 39.9,
+          "potential": { "form": "lennard-jones", "wellDepth": 20.0, "equilibriumDistance": 3.4 },
+          "landscape": { "kind": "sites", "surface": "fcc111", "adsorptionSite": "hollow", "nearestNeighbourDistance": 3.4, "layers": 3,
+                         "confinement": { "shape": "sphere", "radius": 0.9 } },
+          "temperatures": [10, 30, 60],
+          "sampling": { "method": "metropolis", "chains": 4, "samplesPerChain": 40000, "burnIn": 4000, "seed": 2026 }
+        }
+        """;
+
+    internal const string LinePair = """
+        {
+          "title": "Invented demo: the same atom held by one Lennard-Jones partner on a line",
+          "units": { "energy": "meV", "length": "angstrom" },
+          "mass": 39.9,
+          "potential": { "form": "lennard-jones", "wellDepth": 20.0, "equilibriumDistance": 3.4 },
+          "landscape": { "kind": "line", "window": [2.9, 6.0] },
+          "temperatures": [10, 30, 60],
+          "sampling": { "method": "metropolis", "chains": 4, "samplesPerChain": 100000, "burnIn": 10000, "seed": 2026 }
+        }
+        """;
+
+    internal static Scenario[] All() => new[]
+    {
+        ScenarioReader.Read(Encoding.UTF8.GetBytes(LinePair)),
+        ScenarioReader.Read(Encoding.UTF8.GetBytes(SurfaceHollow)),
+    };
+}
