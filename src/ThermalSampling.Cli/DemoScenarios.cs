@@ -35,6 +35,9 @@ internal static class DemoScenarios
         }
         """;
 
+    /// <summary>The base names of the figure files, in the order of <see cref="All"/>.</summary>
+    internal static readonly string[] FigureNames = { "line-pair", "surface-hollow" };
+
     internal static Scenario[] All() => new[]
     {
         ScenarioReader.Read(Encoding.UTF8.GetBytes(LinePair)),

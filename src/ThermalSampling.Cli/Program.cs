@@ -22,8 +22,8 @@ public static class Program
 
     private const string Usage = """
         Usage:
-          thermal-sampling demo     [--format F] [--threads N] [--quiet]
-          thermal-sampling run      SCENARIO.json [--format F] [--output FILE] [--samples FILE.csv] [--seed N] [--threads N] [--quiet]
+          thermal-sampling demo     [--format F] [--figures DIR] [--threads N] [--quiet]
+          thermal-sampling run      SCENARIO.json [--format F] [--output FILE] [--samples FILE.csv] [--plot FILE.png|svg] [--seed N] [--threads N] [--quiet]
           thermal-sampling sweep    SCENARIO.json --from K --to K --steps N [same options as run]
           thermal-sampling validate SCENARIO.json
           thermal-sampling --version | --help
@@ -36,13 +36,18 @@ public static class Program
         --format   table (default for demo), json (default for run and sweep), markdown or csv
         --output   write the report to FILE instead of standard output
         --samples  also write the raw draws (up to 1 000 000 per chain) to FILE.csv
+        --plot     also draw figures: FILE-T<K>K.png per temperature (sites: -marginals and -projection), FILE-sweep.png
+        --figures  where demo writes its figures (default: ./thermal-sampling-demo-figures)
         --seed     override sampling.seed from the file
         --threads  worker threads (results do not depend on it)
         --quiet    no progress output (progress goes to standard error: bars on a terminal, lines otherwise)
         """;
 
     private sealed record Options(string Command, string? File, string Format, string? Output, string? Samples, ulong? Seed, int? Threads, bool Quiet,
-        double? From, double? To, int? Steps);
+        double? From, double? To, int? Steps, string? Plot = null, string? Figures = null);
+
+    /// <summary>Where <c>demo</c> writes its figures unless told otherwise.</summary>
+    public const string DefaultDemoFigureFolder = "thermal-sampling-demo-figures";
 
     /// <summary>Entry point.</summary>
     /// <param name="args">Command-line arguments.</param>
@@ -92,15 +97,18 @@ public static class Program
             if (o.Command == "demo")
             {
                 var demo = DemoScenarios.All();
+                string folder = Path.GetFullPath(o.Figures ?? DefaultDemoFigureFolder);
                 int code = Success;
-                foreach (var scenario in demo)
+                for (int i = 0; i < demo.Length; i++)
                 {
-                    code = Math.Max(code, Execute(Configure(scenario, o), o with { Format = o.Format }, stdout, stderr, interactiveProgress, cancellationToken));
+                    var withPlot = o with { Plot = Path.Combine(folder, DemoScenarios.FigureNames[i] + ".png") };
+                    code = Math.Max(code, Execute(Configure(demo[i], withPlot), withPlot, stdout, stderr, interactiveProgress, cancellationToken));
                     if (code == Failure)
                     {
                         break;
                     }
                 }
+                stderr.WriteLine($"figures: {folder}");
                 return code;
             }
             var loaded = Load(o.File!, stderr);
@@ -144,7 +152,8 @@ public static class Program
         {
             Seed = o.Seed ?? scenario.Sampling.Seed,
             MaxThreads = o.Threads,
-            RetainedDrawsPerChain = o.Samples is null ? 0 : (int)Math.Min(scenario.Sampling.SamplesPerChain, SamplesWriter.DrawsPerChain),
+            RetainedDrawsPerChain = o.Samples is not null ? (int)Math.Min(scenario.Sampling.SamplesPerChain, SamplesWriter.DrawsPerChain)
+                : o.Plot is not null && scenario.Landscape.Kind == "sites" ? (int)Math.Min(scenario.Sampling.SamplesPerChain, 20_000) : 0,
         };
         return scenario with { Sampling = sampling };
     }
@@ -170,15 +179,22 @@ public static class Program
         ScenarioResults results;
         if (o.Quiet)
         {
-            results = ScenarioRunner.Run(scenario, null, ct);
+            results = ScenarioRunner.Run(scenario, null, ct, o.Plot);
         }
         else if (interactive)
         {
-            results = InteractiveProgress.Run(scenario.Sampling.Chains, scenario.TemperaturesInKelvin.Length, p => ScenarioRunner.Run(scenario, p, ct));
+            results = InteractiveProgress.Run(scenario.Sampling.Chains, scenario.TemperaturesInKelvin.Length, p => ScenarioRunner.Run(scenario, p, ct, o.Plot));
         }
         else
         {
-            results = ScenarioRunner.Run(scenario, new LineProgress(stderr, scenario.Sampling.Chains), ct);
+            results = ScenarioRunner.Run(scenario, new LineProgress(stderr, scenario.Sampling.Chains), ct, o.Plot);
+        }
+        foreach (string figure in results.Figures ?? Array.Empty<string>())
+        {
+            if (!o.Quiet || o.Command != "demo")
+            {
+                stderr.WriteLine($"figure: {figure}");
+            }
         }
         if (results.Cancelled)
         {
@@ -216,7 +232,7 @@ public static class Program
             stderr.WriteLine(Usage);
             return false;
         }
-        string? file = null, output = null, samples = null, format = null;
+        string? file = null, output = null, samples = null, format = null, plot = null, figures = null;
         ulong? seed = null;
         int? threads = null, steps = null;
         double? from = null, to = null;
@@ -240,6 +256,16 @@ public static class Program
                     break;
                 case "--samples":
                     samples = Next() ?? Missing(errors, a, "a CSV file name");
+                    break;
+                case "--plot":
+                    plot = Next();
+                    if (plot is null || !FigureWriter.HasFigureExtension(plot))
+                    {
+                        errors.Add($"--plot needs a file name ending in .png or .svg, not '{plot}'.");
+                    }
+                    break;
+                case "--figures":
+                    figures = Next() ?? Missing(errors, a, "a folder name");
                     break;
                 case "--quiet":
                     quiet = true;
@@ -308,6 +334,14 @@ public static class Program
         {
             errors.Add($"{command} needs a scenario file: thermal-sampling {command} SCENARIO.json");
         }
+        if (figures is not null && command != "demo")
+        {
+            errors.Add("--figures belongs to demo; use --plot with run and sweep.");
+        }
+        if (plot is not null && command == "demo")
+        {
+            errors.Add("demo always draws its figures; choose the folder with --figures.");
+        }
         if (command == "sweep")
         {
             if (from is null || to is null || steps is null)
@@ -331,7 +365,7 @@ public static class Program
         {
             return false;
         }
-        options = new Options(command, file, format ?? (command == "demo" ? "table" : "json"), output, samples, seed, threads, quiet, from, to, steps);
+        options = new Options(command, file, format ?? (command == "demo" ? "table" : "json"), output, samples, seed, threads, quiet, from, to, steps, plot, figures);
         return true;
     }
 

@@ -16,7 +16,9 @@ namespace ThermalSampling.Cli;
 /// <param name="Pairs">Line or radial reports.</param>
 /// <param name="Sites">Site reports.</param>
 /// <param name="Cancelled">Whether the run was stopped before every temperature finished.</param>
-internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibrationReport> Pairs, IReadOnlyList<SiteVibrationReport> Sites, bool Cancelled = false)
+/// <param name="Figures">Figure files written, if any were asked for.</param>
+internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibrationReport> Pairs, IReadOnlyList<SiteVibrationReport> Sites, bool Cancelled = false,
+    IReadOnlyList<string>? Figures = null)
 {
     internal int Finished => Pairs.Count + Sites.Count;
 }
@@ -24,20 +26,20 @@ internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibr
 /// <summary>Turns a validated scenario into library calls, specialised on the concrete potential type.</summary>
 internal static class ScenarioRunner
 {
-    internal static ScenarioResults Run(Scenario scenario, IProgress<SamplingProgress>? progress, CancellationToken ct)
+    internal static ScenarioResults Run(Scenario scenario, IProgress<SamplingProgress>? progress, CancellationToken ct, string? plotPath = null)
     {
         var p = scenario.Potential;
         return p.Form switch
         {
             "lennard-jones" => Dispatch(scenario, Guard(() => p.Parameters.ContainsKey("sigma")
                 ? LennardJones.FromSigmaEpsilon(Length.FromAngstroms(p.Parameters["sigma"]), Energy.FromElectronVolts(p.Parameters["epsilon"]))
-                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])), "$.potential"), progress, ct),
+                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])), "$.potential"), progress, ct, plotPath),
             "morse" => Dispatch(scenario, Guard(() => new Morse(Energy.FromElectronVolts(p.Parameters["wellDepth"]), p.Parameters["width"],
-                Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct),
+                Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath),
             "buckingham" => Dispatch(scenario, Guard(() => new Buckingham(Energy.FromElectronVolts(p.Parameters["A"]), Length.FromAngstroms(p.Parameters["rho"]),
-                p.Parameters["C"]), "$.potential"), progress, ct),
-            "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct),
-            "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), progress, ct),
+                p.Parameters["C"]), "$.potential"), progress, ct, plotPath),
+            "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath),
+            "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), progress, ct, plotPath),
             _ => throw new ScenarioException(new[] { $"$.potential.form: '{p.Form}' is not a known form." }),
         };
     }
@@ -66,7 +68,8 @@ internal static class ScenarioRunner
         _ => "$.landscape",
     };
 
-    private static ScenarioResults Dispatch<TPotential>(Scenario scenario, TPotential potential, IProgress<SamplingProgress>? progress, CancellationToken ct)
+    private static ScenarioResults Dispatch<TPotential>(Scenario scenario, TPotential potential, IProgress<SamplingProgress>? progress, CancellationToken ct,
+        string? plotPath)
         where TPotential : struct, IPairPotential
     {
         var l = scenario.Landscape;
@@ -80,7 +83,8 @@ internal static class ScenarioRunner
                     Length.FromAngstroms(l.WindowLower), Length.FromAngstroms(l.WindowUpper));
                 var reports = new List<PairVibrationReport>();
                 bool cancelled = RunEach(temperatures, t => reports.Add(PairSampler.Run(landscape, mass, t, scenario.Sampling, progress, ct)));
-                return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled);
+                var figures = plotPath is null ? null : FigureWriter.WritePair(reports, landscape, plotPath);
+                return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled, figures);
             }
             var centre = l.Centre;
             System.Collections.Immutable.ImmutableArray<Position> sites;
@@ -109,7 +113,8 @@ internal static class ScenarioRunner
             var siteLandscape = SiteLandscape.Create(potential, sites, centre, l.Confinement!.Value);
             var siteReports = new List<SiteVibrationReport>();
             bool siteCancelled = RunEach(temperatures, t => siteReports.Add(SiteSampler.Run(siteLandscape, mass, t, scenario.Sampling, progress, ct)));
-            return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled);
+            var siteFigures = plotPath is null ? null : FigureWriter.WriteSite(siteReports, plotPath);
+            return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled, siteFigures);
         }
         catch (ArgumentException ex) when (ex is not ArgumentNullException)
         {

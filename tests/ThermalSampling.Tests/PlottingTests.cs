@@ -1,0 +1,119 @@
+using System;
+using System.IO;
+using System.Linq;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Plotting;
+using ThermalSampling.Potentials;
+using ThermalSampling.Reports;
+using ThermalSampling.Sampling;
+using ThermalSampling.Units;
+using Xunit;
+
+namespace ThermalSampling.Tests;
+
+public class PlottingTests
+{
+    private static readonly Morse Iron = new(Energy.FromElectronVolts(0.4174), 1.3885, Length.FromAngstroms(2.845)); // Sources.GirifalcoWeizer
+    private static readonly PairLandscape<Morse> Line = PairLandscape.Line(Iron, Length.FromAngstroms(2.2), Length.FromAngstroms(4.0));
+    private static readonly SamplingSettings Settings = new() { Seed = 3, Chains = 2, SamplesPerChain = 5000, BurnIn = 500, RetainedDrawsPerChain = 5000 };
+
+    private static string Temp(string extension) => Path.Combine(Path.GetTempPath(), $"ts-fig-{Guid.NewGuid():N}{extension}");
+
+    /// <summary>All text drawn in an SVG document (parsed, so entities are decoded).</summary>
+    private static string SvgText(string xml)
+    {
+        var doc = System.Xml.Linq.XDocument.Parse(xml);
+        Assert.Equal("svg", doc.Root!.Name.LocalName);
+        return string.Join("\n", doc.Descendants().Where(e => e.Name.LocalName == "text").Select(e => e.Value));
+    }
+
+    private static (int Width, int Height) PngSize(string path)
+    {
+        var bytes = File.ReadAllBytes(path);
+        Assert.Equal(new byte[] { 0x89, 0x50, 0x4E, 0x47 }, bytes[..4]);
+        int w = (bytes[16] << 24) | (bytes[17] << 16) | (bytes[18] << 8) | bytes[19];
+        int h = (bytes[20] << 24) | (bytes[21] << 16) | (bytes[22] << 8) | bytes[23];
+        return (w, h);
+    }
+
+    [Fact]
+    public void Position_distribution_is_written_as_png_of_the_requested_size_and_as_svg_with_axis_labels()
+    {
+        var report = PairSampler.Run(Line, Mass.FromAtomicMassUnits(55.845), Temperature.FromKelvin(300), Settings);
+        var plot = VibrationFigures.PositionDistribution(report, Line);
+        string png = Temp(".png"), svg = Temp(".svg");
+        try
+        {
+            VibrationFigures.Save(plot, png, 800, 500);
+            Assert.Equal((800, 500), PngSize(png));
+            Assert.True(new FileInfo(png).Length > 10_000);
+            VibrationFigures.Save(plot, svg);
+            string text = SvgText(File.ReadAllText(svg));
+            Assert.Contains("separation r (Å)", text);
+            Assert.Contains("probability density (1/Å)", text);
+            Assert.Contains("V(r) − V_min (meV)", text);
+        }
+        finally
+        {
+            File.Delete(png);
+            File.Delete(svg);
+        }
+    }
+
+    [Fact]
+    public void Site_and_sweep_figures_render()
+    {
+        var cage = SiteLandscape.Create(LennardJones.FromMinimum(Length.FromAngstroms(3.8), Energy.FromKelvin(119.8)),
+            LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.8)), Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.2)));
+        var sites = SiteSampler.Sweep(cage, Mass.FromAtomicMassUnits(39.948), new[] { 10.0, 30 }.Select(Temperature.FromKelvin), Settings);
+        var pairs = PairSampler.Sweep(Line, Mass.FromAtomicMassUnits(55.845), new[] { 100.0, 300, 600 }.Select(Temperature.FromKelvin), Settings);
+        foreach (var plot in new[] { VibrationFigures.SiteMarginals(sites[0]), VibrationFigures.SiteProjection(sites[1]), VibrationFigures.TemperatureSweep(sites), VibrationFigures.TemperatureSweep(pairs) })
+        {
+            Assert.Contains("Å", SvgText(plot.GetSvgXml(600, 400))); // every figure labels a length axis with its unit
+        }
+        Assert.Contains("temperature (K)", SvgText(VibrationFigures.TemperatureSweep(pairs).GetSvgXml(600, 400)));
+    }
+
+    [Fact]
+    public void Site_figures_without_retained_draws_and_bad_file_types_are_refused()
+    {
+        var cage = SiteLandscape.Create(LennardJones.FromMinimum(Length.FromAngstroms(3.8), Energy.FromKelvin(119.8)),
+            LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.8)), Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.2)));
+        var report = SiteSampler.Run(cage, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(10), Settings with { RetainedDrawsPerChain = 0 });
+        Assert.Contains("RetainedDrawsPerChain", Assert.Throws<ArgumentException>(() => VibrationFigures.SiteMarginals(report)).Message);
+        var plot = VibrationFigures.TemperatureSweep(PairSampler.Sweep(Line, Mass.FromAtomicMassUnits(55.845), new[] { 100.0, 300 }.Select(Temperature.FromKelvin), Settings));
+        Assert.Equal("path", Assert.Throws<ArgumentException>(() => VibrationFigures.Save(plot, "figure.gif")).ParamName);
+        Assert.Throws<ArgumentException>(() => VibrationFigures.TemperatureSweep(Array.Empty<PairVibrationReport>()));
+    }
+
+    [Fact]
+    public void Cli_plot_option_writes_one_figure_per_temperature_and_a_sweep()
+    {
+        string scenario = Temp(".json");
+        File.WriteAllText(scenario, """
+            { "mass": 55.8, "potential": { "form": "morse", "wellDepth": 0.4174, "width": 1.3885, "equilibriumDistance": 2.845 },
+              "landscape": { "kind": "radial", "window": [2.2, 4.0] }, "temperatures": [100, 300],
+              "sampling": { "chains": 2, "samplesPerChain": 3000, "burnIn": 500, "seed": 5 } }
+            """);
+        string basePath = Temp(".png");
+        using var stdout = new MemoryStream();
+        using var stderr = new StringWriter();
+        int code = ThermalSampling.Cli.Program.Run(new[] { "run", scenario, "--plot", basePath, "--quiet" }, stdout, stderr);
+        Assert.True(code == 0, stderr.ToString());
+        string dir = Path.GetDirectoryName(basePath)!, stem = Path.GetFileNameWithoutExtension(basePath);
+        foreach (string suffix in new[] { "-T100K", "-T300K", "-sweep" })
+        {
+            string f = Path.Combine(dir, stem + suffix + ".png");
+            Assert.True(File.Exists(f), f);
+            Assert.Equal((ScottPlotSize.Width, ScottPlotSize.Height), PngSize(f));
+            File.Delete(f);
+        }
+        Assert.Contains("figure: ", stderr.ToString());
+    }
+
+    private static class ScottPlotSize
+    {
+        public const int Width = VibrationFigures.DefaultWidth;
+        public const int Height = VibrationFigures.DefaultHeight;
+    }
+}
