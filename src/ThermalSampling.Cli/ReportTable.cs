@@ -88,16 +88,6 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
         {
             return cell.Text;
         }
-        if (!double.IsFinite(cell.Value))
-        {
-            return "–";
-        }
-        if (!double.IsFinite(cell.Error) || cell.Error <= 0)
-        {
-            return cell.Value.ToString("G5", CultureInfo.InvariantCulture);
-        }
-        int decimals = Math.Clamp(1 - (int)Math.Floor(Math.Log10(cell.Error)), 0, 15);
-        string f = "F" + decimals.ToString(CultureInfo.InvariantCulture);
-        return $"{cell.Value.ToString(f, CultureInfo.InvariantCulture)} ± {cell.Error.ToString(f, CultureInfo.InvariantCulture)}";
+        return new Estimate(cell.Value, double.IsFinite(cell.Error) ? cell.Error : 0).ToRoundedString();
     }
 }

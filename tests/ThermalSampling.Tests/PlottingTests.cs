@@ -117,3 +117,27 @@ public class PlottingTests
         public const int Height = VibrationFigures.DefaultHeight;
     }
 }
+
+public class FormattingTests
+{
+    [Theory]
+    [InlineData(3.54379, 0.00068, "3.54379 ± 0.00068")]
+    [InlineData(0.1025, 0.0014, "0.1025 ± 0.0014")]
+    [InlineData(123.456, 12.3, "123 ± 12")]
+    [InlineData(2.5, 0.0, "2.5")]
+    [InlineData(double.NaN, 0.1, "–")]
+    public void Estimates_round_to_two_significant_digits_of_their_error(double value, double error, string expected)
+        => Assert.Equal(expected, new Estimate(value, error).ToRoundedString());
+
+    [Fact]
+    public void Html_tables_encode_text_and_list_warnings()
+    {
+        var landscape = PairLandscape.Line(LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromKelvin(10)), Length.FromAngstroms(3.0), Length.FromAngstroms(8.0));
+        var report = PairSampler.Run(landscape, Mass.FromAtomicMassUnits(40), Temperature.FromKelvin(30), new SamplingSettings { Seed = 1, Chains = 2, SamplesPerChain = 2000, BurnIn = 200 });
+        string html = report.ToHtml();
+        Assert.StartsWith("<table>", html);
+        Assert.Contains("<th>RMS (Å)</th>", System.Net.WebUtility.HtmlDecode(html));
+        Assert.Contains("wall-mass", html);
+        Assert.Contains(" ± ", html);
+    }
+}

@@ -17,6 +17,23 @@ public sealed record Estimate(double Value, double StandardError)
     /// <param name="reference">The reference value.</param>
     public double ZScore(double reference)
         => StandardError > 0 ? (Value - reference) / StandardError : Value == reference ? 0 : double.PositiveInfinity;
+
+    /// <summary>"value ± error" with the error rounded to two significant digits and the value to the same decimal place
+    /// (invariant culture); the value alone, to five significant digits, when there is no finite positive error.</summary>
+    public string ToRoundedString()
+    {
+        if (!double.IsFinite(Value))
+        {
+            return "–";
+        }
+        if (!double.IsFinite(StandardError) || StandardError <= 0)
+        {
+            return Value.ToString("G5", System.Globalization.CultureInfo.InvariantCulture);
+        }
+        int decimals = Math.Clamp(1 - (int)Math.Floor(Math.Log10(StandardError)), 0, 15);
+        string f = "F" + decimals.ToString(System.Globalization.CultureInfo.InvariantCulture);
+        return Value.ToString(f, System.Globalization.CultureInfo.InvariantCulture) + " ± " + StandardError.ToString(f, System.Globalization.CultureInfo.InvariantCulture);
+    }
 }
 
 /// <summary>Fixed-bin histogram normalised to a probability density, with per-bin standard errors.</summary>
