@@ -138,6 +138,6 @@ public class FormattingTests
         Assert.StartsWith("<table>", html);
         Assert.Contains("<th>RMS (Å)</th>", System.Net.WebUtility.HtmlDecode(html));
         Assert.Contains("wall-mass", html);
-        Assert.Contains(" ± ", html);
+        Assert.Contains(" ± ", System.Net.WebUtility.HtmlDecode(html));
     }
 }
