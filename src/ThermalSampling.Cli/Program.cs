@@ -183,7 +183,8 @@ public static class Program
         }
         else if (interactive)
         {
-            results = InteractiveProgress.Run(scenario.Sampling.Chains, scenario.TemperaturesInKelvin.Length, p => ScenarioRunner.Run(scenario, p, ct, o.Plot));
+            long steps = (scenario.Sampling.Method == SamplingMethod.Metropolis ? scenario.Sampling.BurnIn : 0) + scenario.Sampling.SamplesPerChain;
+            results = InteractiveProgress.Run(scenario.Sampling.Chains, scenario.TemperaturesInKelvin.Length, steps, p => ScenarioRunner.Run(scenario, p, ct, o.Plot));
         }
         else
         {

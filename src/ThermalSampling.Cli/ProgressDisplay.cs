@@ -62,9 +62,11 @@ internal sealed class LineProgress : IProgress<SamplingProgress>
 /// <summary>Progress bars per chain and overall, with time left, on an interactive terminal (standard error).</summary>
 internal static class InteractiveProgress
 {
-    internal static T Run<T>(int chains, int temperatures, Func<IProgress<SamplingProgress>, T> work)
+    internal static T Run<T>(int chains, int temperatures, long stepsPerChain, Func<IProgress<SamplingProgress>, T> work)
     {
-        var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(Console.Error) });
+        // Only used when standard error is a terminal: say so, because Spectre would otherwise judge by standard output,
+        // which is usually redirected to the report file.
+        var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(Console.Error), Ansi = AnsiSupport.Yes, Interactive = InteractionSupport.Yes });
         T result = default!;
         console.Progress()
             .AutoClear(true)
@@ -75,7 +77,7 @@ internal static class InteractiveProgress
                 var tasks = new ProgressTask[chains];
                 for (int c = 0; c < chains; c++)
                 {
-                    tasks[c] = ctx.AddTask($"chain {c + 1}", maxValue: 1);
+                    tasks[c] = ctx.AddTask($"chain {c + 1}", maxValue: stepsPerChain);
                 }
                 var gate = new Lock();
                 double current = double.NaN;
@@ -94,13 +96,11 @@ internal static class InteractiveProgress
                             }
                             overall.Description = string.Create(CultureInfo.InvariantCulture, $"T = {p.Temperature:G6} K");
                         }
-                        var task = tasks[p.ChainIndex];
-                        task.MaxValue = p.ChainStepsTotal;
-                        task.Value = p.ChainStepsDone;
+                        tasks[p.ChainIndex].Value = p.ChainStepsDone;
                         double fraction = 0;
                         foreach (var t in tasks)
                         {
-                            fraction += t.Value / Math.Max(t.MaxValue, 1);
+                            fraction += t.Value / stepsPerChain;
                         }
                         overall.Value = finishedTemperatures + fraction / chains;
                     }

@@ -231,8 +231,14 @@ public class PairSamplerTests
     {
         var landscape = PairLandscape.Line(Iron, Length.FromAngstroms(2.0), Length.FromAngstroms(5.0));
         var seen = new System.Collections.Concurrent.ConcurrentBag<SamplingProgress>();
-        PairSampler.Run(landscape, ArgonMass, Temperature.FromKelvin(300), Settings(SamplingMethod.Metropolis, samples: 20_000), new SyncProgress(seen.Add));
+        PairSampler.Run(landscape, ArgonMass, Temperature.FromKelvin(300), Settings(SamplingMethod.Metropolis, samples: 2_000_000), new SyncProgress(seen.Add));
         Assert.Equal(4, seen.Where(p => p.ChainStepsDone == p.ChainStepsTotal).Select(p => p.ChainIndex).Distinct().Count());
+        foreach (var chain in seen.GroupBy(p => p.ChainIndex))
+        {
+            // Throttled: about 200 reports per chain, including intermediate ones, not one per step.
+            Assert.InRange(chain.Count(), 50, 250);
+            Assert.Contains(chain, p => p.ChainStepsDone > 0 && p.ChainStepsDone < p.ChainStepsTotal / 2);
+        }
     }
 
     private sealed class SyncProgress(Action<SamplingProgress> action) : IProgress<SamplingProgress>

@@ -203,13 +203,15 @@ public static class PairSampler
     }
 }
 
-/// <summary>Throttled progress for one chain: at most every 2^16 steps, plus once at the end.</summary>
+/// <summary>Throttled progress for one chain: about 200 reports over the chain (at most one per 4096 steps), plus one at the end.</summary>
 internal sealed class ProgressReporter
 {
     private readonly IProgress<SamplingProgress>? _sink;
     private readonly int _chain;
     private readonly long _total;
     private readonly double _temperature;
+    private readonly long _interval;
+    private long _last;
 
     internal ProgressReporter(IProgress<SamplingProgress>? sink, int chain, long total, double temperature)
     {
@@ -217,12 +219,16 @@ internal sealed class ProgressReporter
         _chain = chain;
         _total = total;
         _temperature = temperature;
+        _interval = Math.Max(total / 200, 4096);
+        _last = -_interval; // so the first call (step 0) reports
     }
 
+    /// <summary>Called by the loops every 4096 steps; forwards a report when enough steps have passed since the last one.</summary>
     internal void Report(long done)
     {
-        if (_sink is not null && (done & 0xFFFF) == 0)
+        if (_sink is not null && done - _last >= _interval)
         {
+            _last = done;
             _sink.Report(new SamplingProgress(_chain, done, _total, _temperature));
         }
     }

@@ -86,7 +86,7 @@ public sealed record SamplingSettings
     }
 }
 
-/// <summary>Progress of a run: reported at most every 2^16 steps per chain and when a chain finishes.</summary>
+/// <summary>Progress of a run: about 200 reports per chain (at most one per 4096 steps) and one when a chain finishes.</summary>
 /// <param name="ChainIndex">The chain that reported.</param>
 /// <param name="ChainStepsDone">Steps this chain has done (burn-in included).</param>
 /// <param name="ChainStepsTotal">Steps this chain will do.</param>
