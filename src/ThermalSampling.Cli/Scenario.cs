@@ -223,6 +223,29 @@ internal static class ScenarioReader
         {
             throw new ScenarioException(new[] { string.Create(CultureInfo.InvariantCulture, $"$: the file is {utf8.Length} bytes; scenario files are limited to {MaximumBytes} bytes.") });
         }
+        if (!System.Text.Unicode.Utf8.IsValid(utf8))
+        {
+            int index = 0, line = 1, column = 1;
+            while (index < utf8.Length)
+            {
+                var status = System.Text.Rune.DecodeFromUtf8(utf8[index..], out var rune, out int consumed);
+                if (status != System.Buffers.OperationStatus.Done)
+                {
+                    break;
+                }
+                if (rune.Value == '\n')
+                {
+                    line++;
+                    column = 1;
+                }
+                else
+                {
+                    column++;
+                }
+                index += consumed;
+            }
+            throw new ScenarioException(new[] { string.Create(CultureInfo.InvariantCulture, $"$: not valid UTF-8 text: the byte at line {line}, column {column} (offset {index}) does not start a valid UTF-8 sequence. Save the file as UTF-8.") });
+        }
         JsonDocument doc;
         try
         {
