@@ -39,6 +39,22 @@ public class StatisticsTests
         Assert.Equal(x.Length / est.IntegratedTime, est.EffectiveSampleSize, 9);
     }
 
+    [Theory]
+    [InlineData(0.9)]   // window closes within the directly summed lags
+    [InlineData(0.995)] // window beyond 256 lags: the FFT path
+    public void Direct_and_FFT_autocorrelation_paths_give_the_same_tau(double phi)
+    {
+        var x = Ar1(phi, 1 << 16, 21);
+        var est = Autocorrelation.Estimate(x);
+        var rho = Autocorrelation.Function(x);
+        double tau = 1;
+        for (int m = 1; m <= est.Window; m++)
+        {
+            tau += 2 * rho[m];
+        }
+        Assert.Equal(tau, est.IntegratedTime, 9);
+    }
+
     [Fact]
     public void Short_series_gets_an_unreliable_flag_with_a_reason()
     {

@@ -114,13 +114,80 @@ public struct RandomStream
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double NextOpenUnitInterval() => ((NextUInt64() >> 11) + 0.5) * (1.0 / (1UL << 53));
 
-    /// <summary>A standard normal deviate by the Box–Muller transform (one of the pair is used, so no hidden state).</summary>
+    /// <summary>
+    /// A standard normal deviate by the ziggurat method (Marsaglia &amp; Tsang, J. Stat. Softw. 5(8), 2000; 128 layers),
+    /// in double precision: one 64-bit draw gives the layer (7 bits) and a signed 53-bit abscissa, and about 98.8% of
+    /// deviates need nothing more. Hand-written because it is the inner step of every proposal: Box–Muller costs a
+    /// logarithm, a square root and a cosine per deviate. Tested against MathNet's normal CDF, including the tails.
+    /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double NextStandardNormal()
     {
-        double u = NextOpenUnitInterval();
-        double v = NextUnitInterval();
-        return Math.Sqrt(-2.0 * Math.Log(u)) * Math.Cos(2 * Math.PI * v);
+        while (true)
+        {
+            ulong bits = NextUInt64();
+            int layer = (int)(bits & 0x7F);
+            double u = (bits >> 11) * (2.0 / (1UL << 53)) - 1.0; // uniform in [−1, 1)
+            double x = u * Ziggurat.X[layer];
+            if (Math.Abs(x) < Ziggurat.X[layer + 1])
+            {
+                return x;
+            }
+            double? slow = NormalSlowPath(layer, x);
+            if (slow is double value)
+            {
+                return value;
+            }
+        }
+    }
+
+    private double? NormalSlowPath(int layer, double x)
+    {
+        if (layer == 0)
+        {
+            // The tail beyond r (Marsaglia 1964): exact, by rejection from an exponential.
+            double t, y;
+            do
+            {
+                t = -Math.Log(NextOpenUnitInterval()) / Ziggurat.R;
+                y = -Math.Log(NextOpenUnitInterval());
+            }
+            while (y + y < t * t);
+            return x > 0 ? Ziggurat.R + t : -(Ziggurat.R + t);
+        }
+        double fOuter = Ziggurat.F[layer], fInner = Ziggurat.F[layer + 1];
+        double height = fOuter + NextUnitInterval() * (fInner - fOuter);
+        return height < Math.Exp(-0.5 * x * x) ? x : null;
+    }
+
+    /// <summary>The 128-layer ziggurat for the standard normal density f(x) = e^(−x²/2).</summary>
+    private static class Ziggurat
+    {
+        internal const double R = 3.442619855899;          // the base layer's edge (Marsaglia & Tsang 2000)
+        private const double V = 9.91256303526217e-3;      // the common area of every layer
+
+        internal static readonly double[] X = Build(out F);
+        internal static readonly double[] F;
+
+        private static double[] Build(out double[] f)
+        {
+            var x = new double[129];
+            f = new double[129];
+            double fr = Math.Exp(-0.5 * R * R);
+            x[0] = V / fr;   // the base layer: a rectangle of width V/f(r) whose area, with the tail, is V
+            x[1] = R;
+            for (int i = 2; i < 128; i++)
+            {
+                x[i] = Math.Sqrt(-2 * Math.Log(V / x[i - 1] + Math.Exp(-0.5 * x[i - 1] * x[i - 1])));
+            }
+            x[128] = 0;
+            for (int i = 0; i < 129; i++)
+            {
+                f[i] = Math.Exp(-0.5 * x[i] * x[i]);
+            }
+            f[0] = fr; // the base rectangle's height is f(r)
+            return x;
+        }
     }
 
     /// <summary>Advances the stream by 2^128 steps (the published jump polynomial of xoshiro256).</summary>

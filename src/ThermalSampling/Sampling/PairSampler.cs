@@ -73,6 +73,7 @@ public static class PairSampler
             1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial);
         int chains = settings.Chains;
 
+        var quantile = metropolis ? StartQuantiles(exact) : null;
         var results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken, c =>
         {
             var random = RandomStream.ForChain(settings.Seed, c);
@@ -82,7 +83,7 @@ public static class PairSampler
             var draws = new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
             var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
             return metropolis
-                ? RunMetropolisChain(kernel, Quantile(exact, startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, bins, store, draws, report, cancellationToken)
+                ? RunMetropolisChain(kernel, quantile!(startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, bins, store, draws, report, cancellationToken)
                 : RunDirectChain(table!, settings, ref random, bins, store, draws, report, cancellationToken);
         });
 
@@ -142,10 +143,46 @@ public static class PairSampler
         return list.Select(t => Run(landscape, mass, t, settings, progress, cancellationToken)).ToImmutableArray();
     }
 
-    /// <summary>The separation at cumulative probability <paramref name="p"/> of the exact distribution (Brent's method on the CDF).</summary>
-    private static double Quantile(ExactPairDistribution exact, double p)
-        => MathNet.Numerics.RootFinding.Brent.FindRoot(r => exact.CumulativeProbability(r) - p, exact.WindowLowerInAngstroms, exact.WindowUpperInAngstroms,
-            1e-9 * (exact.WindowUpperInAngstroms - exact.WindowLowerInAngstroms), 200);
+    /// <summary>
+    /// Start positions for over-dispersed chains: the exact CDF tabulated at 256 evenly spaced separations (one
+    /// Gauss–Legendre pass) and inverted by linear interpolation. Starts need no more precision than that.
+    /// </summary>
+    private static Func<double, double> StartQuantiles(ExactPairDistribution exact)
+    {
+        const int nodes = 256;
+        double lo = exact.WindowLowerInAngstroms, hi = exact.WindowUpperInAngstroms, h = (hi - lo) / nodes;
+        var r = new double[nodes + 1];
+        var cdf = new double[nodes + 1];
+        for (int i = 0; i <= nodes; i++)
+        {
+            r[i] = lo + i * h;
+            if (i > 0)
+            {
+                cdf[i] = cdf[i - 1] + MathNet.Numerics.Integration.GaussLegendreRule.Integrate(exact.Density, r[i - 1], r[i], 16);
+            }
+        }
+        double total = cdf[nodes];
+        return p =>
+        {
+            double target = p * total;
+            int i = Array.BinarySearch(cdf, target);
+            if (i >= 0)
+            {
+                return r[i];
+            }
+            i = ~i;
+            if (i <= 0)
+            {
+                return lo;
+            }
+            if (i > nodes)
+            {
+                return hi;
+            }
+            double f = (target - cdf[i - 1]) / Math.Max(cdf[i] - cdf[i - 1], double.Epsilon);
+            return r[i - 1] + f * (r[i] - r[i - 1]);
+        };
+    }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static ChainResult RunMetropolisChain<TPotential>(PairMetropolisKernel<TPotential> kernel, double start, double width0, double target, double maxWidth,

@@ -84,20 +84,67 @@ public static class Autocorrelation
     public static AutocorrelationEstimate Estimate(ReadOnlySpan<double> series, double windowFactor = 5)
     {
         Preconditions.CheckRange(windowFactor, 1, 20, nameof(windowFactor));
-        var rho = Function(series);
         int n = series.Length;
+        if (n < 2)
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture, $"series has {n} values; at least 2 are needed."), nameof(series));
+        }
+        // Short windows are the common case: sum the first lags directly (O(N·M), no allocation of FFT buffers), and
+        // fall back to the FFT autocorrelation only when the window has not closed by DirectLags. Both give the same ρ(t).
+        const int DirectLags = 256;
+        var d = new double[n];
+        double mean = 0;
+        for (int i = 0; i < n; i++)
+        {
+            Preconditions.CheckFinite(series[i], "series");
+            mean += series[i];
+        }
+        mean /= n;
+        double c0 = 0;
+        for (int i = 0; i < n; i++)
+        {
+            d[i] = series[i] - mean;
+            c0 += d[i] * d[i];
+        }
         double tau = 1;
         int window = 0;
         bool found = false;
-        for (int m = 1; m < n; m++)
+        if (c0 > 0)
         {
-            tau += 2 * rho[m];
-            if (m >= windowFactor * tau)
+            int direct = Math.Min(DirectLags, n - 1);
+            for (int m = 1; m <= direct && !found; m++)
             {
-                window = m;
-                found = true;
-                break;
+                double c = 0;
+                for (int i = 0; i + m < n; i++)
+                {
+                    c += d[i] * d[i + m];
+                }
+                tau += 2 * c / c0;
+                if (m >= windowFactor * tau)
+                {
+                    window = m;
+                    found = true;
+                }
             }
+            if (!found && direct < n - 1)
+            {
+                var rho = Function(series);
+                for (int m = direct + 1; m < n; m++)
+                {
+                    tau += 2 * rho[m];
+                    if (m >= windowFactor * tau)
+                    {
+                        window = m;
+                        found = true;
+                        break;
+                    }
+                }
+            }
+        }
+        else
+        {
+            found = true; // a constant series: nothing is correlated
+            window = 1;
         }
         if (!found)
         {
