@@ -126,7 +126,7 @@ public static class Program
                 var temperatures = Enumerable.Range(0, o.Steps!.Value)
                     .Select(i => o.Steps == 1 ? o.From!.Value : o.From!.Value + (o.To!.Value - o.From.Value) * i / (o.Steps.Value - 1))
                     .ToArray();
-                loaded = loaded with { TemperaturesInKelvin = temperatures.ToImmutableArrayOf() };
+                loaded = loaded with { TemperaturesInKelvin = System.Collections.Immutable.ImmutableArray.Create(temperatures) };
             }
             return Execute(Configure(loaded, o), o, stdout, stderr, interactiveProgress, cancellationToken);
         }
@@ -375,7 +375,4 @@ public static class Program
         errors.Add($"{option} needs {what}.");
         return null;
     }
-
-    private static System.Collections.Immutable.ImmutableArray<double> ToImmutableArrayOf(this IEnumerable<double> values)
-        => System.Collections.Immutable.ImmutableArray.CreateRange(values);
 }

@@ -1,5 +1,6 @@
 using System;
 using System.Collections.Generic;
+using System.Collections.Immutable;
 using System.Globalization;
 using System.Linq;
 using System.Threading;
@@ -87,13 +88,13 @@ internal static class ScenarioRunner
                 return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled, figures);
             }
             var centre = l.Centre;
-            System.Collections.Immutable.ImmutableArray<Position> sites;
+            ImmutableArray<Position> sites;
             if (l.Surface is not null)
             {
                 var geometry = LatticeSites.FccSurface(l.Surface == "fcc100" ? SurfaceFacet.Fcc100 : SurfaceFacet.Fcc111,
                     l.AdsorptionSite switch { "top" => AdsorptionSiteKind.Top, "bridge" => AdsorptionSiteKind.Bridge, _ => AdsorptionSiteKind.Hollow },
                     Length.FromAngstroms(l.NearestNeighbourDistance), l.Layers);
-                sites = geometry.Sites.Select(s => s + l.Centre).ToImmutableArrayCompat();
+                sites = geometry.Sites.Select(s => s + l.Centre).ToImmutableArray();
                 centre = geometry.Start + l.Centre;
             }
             else if (l.Lattice is not null)
@@ -104,7 +105,7 @@ internal static class ScenarioRunner
                     "bcc" => LatticeKind.BodyCentredCubic,
                     "sc" => LatticeKind.SimpleCubic,
                     _ => LatticeKind.HexagonalClosePacked,
-                }, Length.FromAngstroms(l.NearestNeighbourDistance), l.Shells).Select(s => s + l.Centre).ToImmutableArrayCompat();
+                }, Length.FromAngstroms(l.NearestNeighbourDistance), l.Shells).Select(s => s + l.Centre).ToImmutableArray();
             }
             else
             {
@@ -143,6 +144,4 @@ internal static class ScenarioRunner
         return false;
     }
 
-    private static System.Collections.Immutable.ImmutableArray<Position> ToImmutableArrayCompat(this IEnumerable<Position> items)
-        => System.Collections.Immutable.ImmutableArray.CreateRange(items);
 }
