@@ -146,6 +146,22 @@ public class PairSamplerTests
         Assert.True(Math.Abs(report.Exact.ZScoreVariance) < 4, $"variance z = {report.Exact.ZScoreVariance}");
     }
 
+    [Fact]
+    public void Sampled_skewness_and_kurtosis_follow_the_exact_values()
+    {
+        // Independent draws (direct sampling), 4 × 100 000 of them. The sampling error of the skewness is about √(6/N)
+        // for a near-normal distribution and larger for a skewed one; the bounds allow ten times that, and the
+        // kurtosis bound ten times √(24/N). Reference: the exact quadrature (validated above).
+        var landscape = PairLandscape.Radial(Iron, Length.FromAngstroms(2.0), Length.FromAngstroms(5.0));
+        var t = Temperature.FromKelvin(800);
+        var report = PairSampler.Run(landscape, ArgonMass, t, Settings(SamplingMethod.Direct));
+        var exact = ExactPairDistribution.Compute(landscape, t);
+        double n = report.Diagnostics.Draws;
+        Assert.True(Math.Abs(report.Skewness - exact.Skewness) < 10 * Math.Sqrt(6 / n), $"{report.Skewness} vs {exact.Skewness}");
+        Assert.True(Math.Abs(report.ExcessKurtosis - exact.ExcessKurtosis) < 10 * Math.Sqrt(24 / n), $"{report.ExcessKurtosis} vs {exact.ExcessKurtosis}");
+        Assert.True(exact.Skewness > 0.1, "the Morse well is visibly skewed at this temperature");
+    }
+
     [Theory]
     [MemberData(nameof(Cases))]
     public void Inverse_cdf_table_is_within_its_measured_error_and_passes_KS_against_the_exact_CDF(string name, SeparationGeometry geometry, double kelvin)
