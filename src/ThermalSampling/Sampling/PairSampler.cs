@@ -192,7 +192,7 @@ public static class PairSampler
         var adapter = new StepWidthAdapter(width0, target, maxWidth);
         var state = BurnIn.Run<PairMetropolisKernel<TPotential>, PairChainState>(kernel, kernel.StateAt(start), ref adapter, settings.BurnIn, ref random, progress, ct);
         double width = adapter.Width;
-        var moments = new MomentAccumulator();
+        var moments = new BlockedMomentAccumulator();
         long acceptedCount = 0;
         long n = settings.SamplesPerChain;
         for (long i = 0; i < n; i++)
@@ -214,13 +214,13 @@ public static class PairSampler
             }
         }
         progress.Finish();
-        return new ChainResult(moments, bins, store, draws, acceptedCount, width);
+        return new ChainResult(moments.Complete(), bins, store, draws, acceptedCount, width);
     }
 
     private static ChainResult RunDirectChain(InverseCdfTable table, SamplingSettings settings, ref RandomStream random, BinCounter bins, BatchMeansStore store,
         DrawRecorder<double> draws, ProgressReporter progress, CancellationToken ct)
     {
-        var moments = new MomentAccumulator();
+        var moments = new BlockedMomentAccumulator();
         long n = settings.SamplesPerChain;
         for (long i = 0; i < n; i++)
         {
@@ -236,7 +236,7 @@ public static class PairSampler
             }
         }
         progress.Finish();
-        return new ChainResult(moments, bins, store, draws, n, 0);
+        return new ChainResult(moments.Complete(), bins, store, draws, n, 0);
     }
 }
 
