@@ -8,7 +8,6 @@ namespace ThermalSampling.Benchmarks;
 
 /// <summary>The cost of one exact (quadrature) distribution: what a temperature sweep pays per temperature.</summary>
 [MemoryDiagnoser]
-[ShortRunJob]
 public class ExactDistributionBenchmarks
 {
     private PairLandscape<LennardJones> _line = null!;

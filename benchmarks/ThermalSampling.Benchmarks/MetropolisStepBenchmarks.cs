@@ -17,7 +17,6 @@ namespace ThermalSampling.Benchmarks;
 /// System.Random and Math.Pow. Invented parameters: u0 = 0.0103 eV, r0 = 3.82 Å, 40 K, window [3.2, 6.0] Å.
 /// </summary>
 [MemoryDiagnoser]
-[ShortRunJob]
 public class MetropolisStepBenchmarks
 {
     private const int Steps = 200_000;
@@ -99,7 +98,6 @@ public class MetropolisStepBenchmarks
 
 /// <summary>An fcc cage with 12 Lennard-Jones neighbours: one 3D Metropolis step, library kernel against a plain loop.</summary>
 [MemoryDiagnoser]
-[ShortRunJob]
 public class SiteStepBenchmarks
 {
     private const int Steps = 100_000;

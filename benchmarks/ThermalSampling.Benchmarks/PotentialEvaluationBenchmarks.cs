@@ -11,7 +11,6 @@ namespace ThermalSampling.Benchmarks;
 /// Each operation sums 1024 energies so the loop overhead is amortised.
 /// </summary>
 [MemoryDiagnoser]
-[ShortRunJob]
 public class PotentialEvaluationBenchmarks
 {
     private const int Count = 1024;

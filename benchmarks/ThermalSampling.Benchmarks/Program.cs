@@ -1,9 +1,22 @@
+using System.Linq;
+using BenchmarkDotNet.Configs;
+using BenchmarkDotNet.Jobs;
 using BenchmarkDotNet.Running;
 
 namespace ThermalSampling.Benchmarks;
 
-/// <summary>Entry point: <c>dotnet run -c Release --project benchmarks/ThermalSampling.Benchmarks -- --filter '*'</c>.</summary>
+/// <summary>
+/// Entry point. <c>dotnet run -c Release --project benchmarks/ThermalSampling.Benchmarks -- --filter '*'</c> runs every
+/// benchmark with a short job (a few minutes in all on two cores); add <c>--smoke</c> for a dry job that only proves the
+/// benchmarks build and run (what CI does; it times nothing).
+/// </summary>
 public static class Program
 {
-    public static void Main(string[] args) => BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+    public static void Main(string[] args)
+    {
+        bool smoke = args.Contains("--smoke");
+        var job = smoke ? Job.Dry : Job.ShortRun;
+        var config = DefaultConfig.Instance.AddJob(job.AsDefault());
+        BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args.Where(a => a != "--smoke").ToArray(), config);
+    }
 }
