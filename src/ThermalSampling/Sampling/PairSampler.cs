@@ -79,7 +79,7 @@ public static class PairSampler
             var random = RandomStream.ForChain(settings.Seed, c);
             double startQuantile = chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1);
             var bins = new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins);
-            var store = new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, well?.EquilibriumDistance ?? exact.MeanInAngstroms);
+            var store = new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, well?.EquilibriumDistance ?? exact.MeanInAngstroms);
             var draws = new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
             var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
             return metropolis

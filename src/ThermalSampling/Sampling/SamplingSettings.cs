@@ -47,7 +47,7 @@ public sealed record SamplingSettings
 
     /// <summary>The most values kept per chain for autocorrelation, blocking and R-hat, 64 to 10^7. Longer chains keep the
     /// means of consecutive batches of draws instead (exact for error bars at any batch size), so memory per chain is constant.</summary>
-    public int MaxStoredDrawsPerChain { get; init; } = 1 << 16;
+    public int MaxDiagnosticValuesPerChain { get; init; } = 1 << 16;
 
     /// <summary>How many raw draws of each chain to keep in the report, 0 to 10^7 (the first ones after burn-in, in order);
     /// read them thinned with <see cref="Reports.RetainedDraws{T}.Thinned"/>. Statistics always use every draw.</summary>
@@ -76,7 +76,7 @@ public sealed record SamplingSettings
         Check(InitialStepWidthInAngstroms is null || (double.IsFinite(InitialStepWidthInAngstroms.Value) && InitialStepWidthInAngstroms > 0),
             nameof(InitialStepWidthInAngstroms), InitialStepWidthInAngstroms ?? 0, "null or finite and greater than 0");
         Check(HistogramBins is >= 4 and <= 10_000, nameof(HistogramBins), HistogramBins, "4 to 10000");
-        Check(MaxStoredDrawsPerChain is >= 64 and <= 10_000_000, nameof(MaxStoredDrawsPerChain), MaxStoredDrawsPerChain, "64 to 10^7");
+        Check(MaxDiagnosticValuesPerChain is >= 64 and <= 10_000_000, nameof(MaxDiagnosticValuesPerChain), MaxDiagnosticValuesPerChain, "64 to 10^7");
         Check(RetainedDrawsPerChain is >= 0 and <= 10_000_000, nameof(RetainedDrawsPerChain), RetainedDrawsPerChain, "0 to 10^7");
         Check(MaxThreads is null or (>= 1 and <= 1024), nameof(MaxThreads), MaxThreads ?? 0, "null or 1 to 1024");
         if (errors.Count > 0)

@@ -81,9 +81,9 @@ public static class SiteSampler
             var random = RandomStream.ForChain(settings.Seed, c);
             var stores = new[]
             {
-                new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, min.X),
-                new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, min.Y),
-                new BatchMeansStore(settings.SamplesPerChain, settings.MaxStoredDrawsPerChain, min.Z),
+                new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.X),
+                new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Y),
+                new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Z),
             };
             var radial = new BinCounter(0, radialMax, settings.HistogramBins);
             var draws = new DrawRecorder<Position>(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
