@@ -10,7 +10,7 @@ namespace ThermalSampling.Cli;
 internal sealed record ReportColumn(string Name, string Unit, bool HasError);
 
 /// <summary>One cell: a value with an optional standard error (NaN when absent).</summary>
-internal readonly record struct ReportCell(double Value, double Error = double.NaN, string? Text = null);
+internal readonly record struct ReportCell(double Value, double Error = double.NaN);
 
 /// <summary>The table/markdown/csv view of a run, built once and rendered by each format.</summary>
 internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Columns, IReadOnlyList<ReportCell[]> Rows,
@@ -84,10 +84,6 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
     /// <summary>"value ± error" with the error to two significant digits and the value to the same decimal place.</summary>
     internal static string Format(ReportCell cell)
     {
-        if (cell.Text is not null)
-        {
-            return cell.Text;
-        }
         return new Estimate(cell.Value, double.IsFinite(cell.Error) ? cell.Error : 0).ToRoundedString();
     }
 }

@@ -206,12 +206,7 @@ public static class VibrationFigures
     /// <param name="reports">Reports at several temperatures (any order; at least two).</param>
     public static Plot TemperatureSweep(IReadOnlyList<PairVibrationReport> reports)
     {
-        ArgumentNullException.ThrowIfNull(reports);
-        if (reports.Count < 2)
-        {
-            throw new ArgumentException($"reports has {reports.Count} entries; a sweep figure needs at least 2 temperatures.", nameof(reports));
-        }
-        var sorted = reports.OrderBy(r => r.Temperature.InKelvin).ToArray();
+        var sorted = SortedByTemperature(reports, r => r.Temperature);
         double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
         var plot = new Plot();
         AddSeries(plot, t, sorted.Select(r => r.Rms.Value).ToArray(), sorted.Select(r => r.Rms.StandardError).ToArray(), Sampled, "RMS spread, sampled");
@@ -242,12 +237,7 @@ public static class VibrationFigures
     /// <param name="reports">Reports at several temperatures (at least two).</param>
     public static Plot TemperatureSweep(IReadOnlyList<SiteVibrationReport> reports)
     {
-        ArgumentNullException.ThrowIfNull(reports);
-        if (reports.Count < 2)
-        {
-            throw new ArgumentException($"reports has {reports.Count} entries; a sweep figure needs at least 2 temperatures.", nameof(reports));
-        }
-        var sorted = reports.OrderBy(r => r.Temperature.InKelvin).ToArray();
+        var sorted = SortedByTemperature(reports, r => r.Temperature);
         double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
         var plot = new Plot();
         AddSeries(plot, t, sorted.Select(r => r.MeanSquareDisplacement.Value).ToArray(), sorted.Select(r => r.MeanSquareDisplacement.StandardError).ToArray(), Sampled, "MSD, sampled");
@@ -289,6 +279,16 @@ public static class VibrationFigures
             default:
                 throw new ArgumentException($"path '{path}' ends in '{extension}'; figures are saved as .png or .svg.", nameof(path));
         }
+    }
+
+    private static T[] SortedByTemperature<T>(IReadOnlyList<T> reports, Func<T, Units.Temperature> temperature)
+    {
+        ArgumentNullException.ThrowIfNull(reports, nameof(reports));
+        if (reports.Count < 2)
+        {
+            throw new ArgumentException($"reports has {reports.Count} entries; a sweep figure needs at least 2 temperatures.", nameof(reports));
+        }
+        return reports.OrderBy(r => temperature(r).InKelvin).ToArray();
     }
 
     private static IReadOnlyList<Position> Draws(SiteVibrationReport report)

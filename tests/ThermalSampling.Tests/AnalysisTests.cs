@@ -46,6 +46,9 @@ public class AnalysisTests
             Assert.Equal(normal.CumulativeDistribution(r), exact.CumulativeProbability(r), 10);
             Assert.Equal(normal.Density(r), exact.Density(r), 8);
         }
+        // The walls at 1 and 3 Å hold (ρ(1) + ρ(3))·σ of the probability, ρ the Normal density (MathNet).
+        double held = (normal.Density(1.0) + normal.Density(3.0)) * Math.Sqrt(variance);
+        Assert.True(Math.Abs(exact.WallHeldProbability - held) < 1e-6 * held, $"{exact.WallHeldProbability} vs {held}");
         double band = normal.CumulativeDistribution(1.2) - normal.CumulativeDistribution(1.0);
         Assert.True(Math.Abs(exact.WallMass - 2 * band) < 1e-6 * 2 * band, $"wall mass {exact.WallMass} vs {2 * band}");
     }
@@ -214,6 +217,8 @@ public class AnalysisTests
             double hbar = PhysicalConstants.ReducedPlanckJouleSecond;
             double expected = hbar / (2 * m.InKilograms * omega) / Math.Tanh(hbar * omega / (2 * PhysicalConstants.BoltzmannJoulePerKelvin * t)) * 1e20;
             Assert.Equal(expected, h.QuantumVarianceInAngstromsSquared, 15);
+            Assert.Equal(hbar / (2 * m.InKilograms * omega) * 1e20, h.ZeroPointVarianceInAngstromsSquared, 15);
+            Assert.Equal(hbar * omega / PhysicalConstants.ElementaryChargeCoulomb, h.QuantumEnergyInElectronVolts, 15);
             Assert.True(h.QuantumVarianceInAngstromsSquared >= h.ClassicalVarianceInAngstromsSquared);
             Assert.True(h.QuantumVarianceInAngstromsSquared >= h.ZeroPointVarianceInAngstromsSquared);
             if (h.QuantumToThermalRatio < 0.5)

@@ -231,6 +231,18 @@ internal sealed class BinCounter
     }
 }
 
+/// <summary>The argument checks every sampler entry point makes, in one place.</summary>
+internal static class RunArguments
+{
+    internal static void Check(object landscape, SamplingSettings settings, Units.Mass mass, Units.Temperature temperature)
+    {
+        Internal.Preconditions.CheckNotNull(landscape, nameof(landscape));
+        Internal.Preconditions.CheckNotNull(settings, nameof(settings));
+        settings.Validate();
+        PairAnalysis.CheckArguments(mass, temperature);
+    }
+}
+
 /// <summary>Runs chains in parallel; results land in chain order, so they never depend on the thread count.</summary>
 internal static class ChainScheduler
 {

@@ -28,7 +28,7 @@ public static class PairSampler
     /// <summary>The default Metropolis target acceptance for one coordinate (Roberts &amp; Rosenthal, Statistical Science 16, 351 (2001)).</summary>
     public const double DefaultTargetAcceptance = 0.44;
 
-    private sealed record ChainResult(MomentAccumulator Moments, BinCounter Bins, BatchMeansStore Store, DrawRecorder<double> Draws, long Accepted, double Width);
+    private sealed record ChainResult(PairChainRecord Record, long Accepted, double Width);
 
     /// <summary>Runs the sampler.</summary>
     /// <typeparam name="TPotential">The potential type.</typeparam>
@@ -42,10 +42,7 @@ public static class PairSampler
         IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
     {
-        Preconditions.CheckNotNull(landscape, nameof(landscape));
-        Preconditions.CheckNotNull(settings, nameof(settings));
-        settings.Validate();
-        PairAnalysis.CheckArguments(mass, temperature);
+        RunArguments.Check(landscape, settings, mass, temperature);
 
         var exact = ExactPairDistribution.Compute(landscape, temperature);
         bool metropolis = settings.Method == SamplingMethod.Metropolis;
@@ -78,25 +75,26 @@ public static class PairSampler
         {
             var random = RandomStream.ForChain(settings.Seed, c);
             double startQuantile = chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1);
-            var bins = new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins);
-            var store = new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, well?.EquilibriumDistance ?? exact.MeanInAngstroms);
-            var draws = new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
+            var record = new PairChainRecord(
+                new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins),
+                new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, well?.EquilibriumDistance ?? exact.MeanInAngstroms),
+                new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain));
             var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
             return metropolis
-                ? RunMetropolisChain(kernel, quantile!(startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, bins, store, draws, report, cancellationToken)
-                : RunDirectChain(table!, settings, ref random, bins, store, draws, report, cancellationToken);
+                ? RunMetropolisChain(kernel, quantile!(startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, record, report, cancellationToken)
+                : RunDirectChain(table!, settings, ref random, record, report, cancellationToken);
         });
 
-        var moments = results[0].Moments;
+        var moments = results[0].Record.Moments;
         for (int c = 1; c < chains; c++)
         {
-            moments = MomentAccumulator.Merge(moments, results[c].Moments);
+            moments = MomentAccumulator.Merge(moments, results[c].Record.Moments);
         }
         double mean = moments.Mean, variance = moments.Variance;
-        int batch = results[0].Store.BatchSize;
-        var summary = ChainDiagnostics.Summarise(results.Select(r => r.Store.Means()).ToList(), batch, settings.SamplesPerChain, variance);
+        int batch = results[0].Record.Store.BatchSize;
+        var summary = ChainDiagnostics.Summarise(results.Select(r => r.Record.Store.Means()).ToList(), batch, settings.SamplesPerChain, variance);
         double varianceOfSquares = Math.Max(moments.CentralMoment4 - moments.CentralMoment2 * moments.CentralMoment2, 0);
-        var summarySquared = ChainDiagnostics.Summarise(results.Select(r => r.Store.SquaredDeviationMeans(mean)).ToList(), batch, settings.SamplesPerChain, varianceOfSquares);
+        var summarySquared = ChainDiagnostics.Summarise(results.Select(r => r.Record.Store.SquaredDeviationMeans(mean)).ToList(), batch, settings.SamplesPerChain, varianceOfSquares);
         double meanSe = Math.Sqrt(variance / summary.Ess);
         double varianceSe = Math.Sqrt(varianceOfSquares / summarySquared.Ess);
         double rms = Math.Sqrt(variance);
@@ -119,12 +117,12 @@ public static class PairSampler
 
         var diagnostics = new SamplingDiagnostics(acceptance, summary.Tau, summary.Ess, summary.RHat, moments.Count, summary.BlockingStandardError,
             metropolis ? results.Average(r => r.Width) : null);
-        var histogram = BinCounter.Combine(results.Select(r => r.Bins).ToList(), summary.Ess);
+        var histogram = BinCounter.Combine(results.Select(r => r.Record.Bins).ToList(), summary.Ess);
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         return new PairVibrationReport(temperature, landscape.Geometry, well?.EquilibriumDistance, meanEstimate,
             well is null ? null : new Estimate(mean - well.EquilibriumDistance, meanSe), varianceEstimate, new Estimate(rms, rms > 0 ? varianceSe / (2 * rms) : 0),
             moments.Skewness, moments.ExcessKurtosis, harmonic, firstOrder, comparison, diagnostics, histogram, warnings.ToImmutable(), provenance,
-            DrawRecorder<double>.Combine(results.Select(r => r.Draws)));
+            DrawRecorder<double>.Combine(results.Select(r => r.Record.Draws)));
     }
 
     /// <summary>Runs the sampler at several temperatures with the same settings (the seed is shared; each temperature is an independent run).</summary>
@@ -186,13 +184,12 @@ public static class PairSampler
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static ChainResult RunMetropolisChain<TPotential>(PairMetropolisKernel<TPotential> kernel, double start, double width0, double target, double maxWidth,
-        SamplingSettings settings, ref RandomStream random, BinCounter bins, BatchMeansStore store, DrawRecorder<double> draws, ProgressReporter progress, CancellationToken ct)
+        SamplingSettings settings, ref RandomStream random, PairChainRecord record, ProgressReporter progress, CancellationToken ct)
         where TPotential : struct, IPairPotential
     {
         var adapter = new StepWidthAdapter(width0, target, maxWidth);
         var state = BurnIn.Run<PairMetropolisKernel<TPotential>, PairChainState>(kernel, kernel.StateAt(start), ref adapter, settings.BurnIn, ref random, progress, ct);
         double width = adapter.Width;
-        var moments = new BlockedMomentAccumulator();
         long acceptedCount = 0;
         long n = settings.SamplesPerChain;
         for (long i = 0; i < n; i++)
@@ -202,11 +199,7 @@ public static class PairSampler
             {
                 acceptedCount++;
             }
-            double r = state.Separation;
-            moments.Add(r);
-            bins.Add(r);
-            store.Add(r);
-            draws.Add(r);
+            record.Add(state.Separation);
             if ((i & 4095) == 0)
             {
                 ct.ThrowIfCancellationRequested();
@@ -214,21 +207,16 @@ public static class PairSampler
             }
         }
         progress.Finish();
-        return new ChainResult(moments.Complete(), bins, store, draws, acceptedCount, width);
+        return new ChainResult(record, acceptedCount, width);
     }
 
-    private static ChainResult RunDirectChain(InverseCdfTable table, SamplingSettings settings, ref RandomStream random, BinCounter bins, BatchMeansStore store,
-        DrawRecorder<double> draws, ProgressReporter progress, CancellationToken ct)
+    private static ChainResult RunDirectChain(InverseCdfTable table, SamplingSettings settings, ref RandomStream random, PairChainRecord record,
+        ProgressReporter progress, CancellationToken ct)
     {
-        var moments = new BlockedMomentAccumulator();
         long n = settings.SamplesPerChain;
         for (long i = 0; i < n; i++)
         {
-            double r = table.Draw(ref random);
-            moments.Add(r);
-            bins.Add(r);
-            store.Add(r);
-            draws.Add(r);
+            record.Add(table.Draw(ref random));
             if ((i & 4095) == 0)
             {
                 ct.ThrowIfCancellationRequested();
@@ -236,7 +224,39 @@ public static class PairSampler
             }
         }
         progress.Finish();
-        return new ChainResult(moments.Complete(), bins, store, draws, n, 0);
+        return new ChainResult(record, n, 0);
+    }
+}
+
+/// <summary>Everything a pair chain records per draw: blocked moments, histogram, batch means and retained draws.</summary>
+internal sealed class PairChainRecord
+{
+    private BlockedMomentAccumulator _moments;
+    private MomentAccumulator? _completed;
+
+    internal PairChainRecord(BinCounter bins, BatchMeansStore store, DrawRecorder<double> draws)
+    {
+        Bins = bins;
+        Store = store;
+        Draws = draws;
+    }
+
+    internal BinCounter Bins { get; }
+
+    internal BatchMeansStore Store { get; }
+
+    internal DrawRecorder<double> Draws { get; }
+
+    /// <summary>The merged moments; read once the chain has finished.</summary>
+    internal MomentAccumulator Moments => _completed ??= _moments.Complete();
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal void Add(double r)
+    {
+        _moments.Add(r);
+        Bins.Add(r);
+        Store.Add(r);
+        Draws.Add(r);
     }
 }
 

@@ -52,10 +52,7 @@ public static class SiteSampler
         IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
     {
-        Preconditions.CheckNotNull(landscape, nameof(landscape));
-        Preconditions.CheckNotNull(settings, nameof(settings));
-        settings.Validate();
-        PairAnalysis.CheckArguments(mass, temperature);
+        RunArguments.Check(landscape, settings, mass, temperature);
 
         var harmonic = SiteAnalysis.Harmonic(landscape, mass, temperature);
         var min = harmonic.Minimum;

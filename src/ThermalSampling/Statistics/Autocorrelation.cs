@@ -30,7 +30,10 @@ public static class Autocorrelation
 
     /// <summary>The normalised autocorrelation function ρ(t), t = 0 … N − 1, by FFT (MathNet.Numerics), zero-padded so it is not circular.</summary>
     /// <param name="series">The series; at least 2 values, all finite.</param>
-    public static double[] Function(ReadOnlySpan<double> series)
+    public static double[] Function(ReadOnlySpan<double> series) => Function(Centred(series, out _));
+
+    /// <summary>The series minus its mean, checked (at least 2 values, all finite); <paramref name="sumOfSquares"/> is Σ(x − x̄)².</summary>
+    private static double[] Centred(ReadOnlySpan<double> series, out double sumOfSquares)
     {
         int n = series.Length;
         if (n < 2)
@@ -44,6 +47,19 @@ public static class Autocorrelation
             mean += series[i];
         }
         mean /= n;
+        var d = new double[n];
+        sumOfSquares = 0;
+        for (int i = 0; i < n; i++)
+        {
+            d[i] = series[i] - mean;
+            sumOfSquares += d[i] * d[i];
+        }
+        return d;
+    }
+
+    private static double[] Function(double[] centred)
+    {
+        int n = centred.Length;
         int size = 1;
         while (size < 2 * n)
         {
@@ -52,7 +68,7 @@ public static class Autocorrelation
         var data = new Complex[size];
         for (int i = 0; i < n; i++)
         {
-            data[i] = new Complex(series[i] - mean, 0);
+            data[i] = new Complex(centred[i], 0);
         }
         Fourier.Forward(data, FourierOptions.NoScaling);
         for (int i = 0; i < size; i++)
@@ -84,28 +100,11 @@ public static class Autocorrelation
     public static AutocorrelationEstimate Estimate(ReadOnlySpan<double> series, double windowFactor = 5)
     {
         Preconditions.CheckRange(windowFactor, 1, 20, nameof(windowFactor));
-        int n = series.Length;
-        if (n < 2)
-        {
-            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture, $"series has {n} values; at least 2 are needed."), nameof(series));
-        }
-        // Short windows are the common case: sum the first lags directly (O(N·M), no allocation of FFT buffers), and
+        // Short windows are the common case: sum the first lags directly (O(N·M), no FFT buffers), and
         // fall back to the FFT autocorrelation only when the window has not closed by DirectLags. Both give the same ρ(t).
         const int DirectLags = 256;
-        var d = new double[n];
-        double mean = 0;
-        for (int i = 0; i < n; i++)
-        {
-            Preconditions.CheckFinite(series[i], "series");
-            mean += series[i];
-        }
-        mean /= n;
-        double c0 = 0;
-        for (int i = 0; i < n; i++)
-        {
-            d[i] = series[i] - mean;
-            c0 += d[i] * d[i];
-        }
+        var d = Centred(series, out double c0);
+        int n = d.Length;
         double tau = 1;
         int window = 0;
         bool found = false;
@@ -128,7 +127,7 @@ public static class Autocorrelation
             }
             if (!found && direct < n - 1)
             {
-                var rho = Function(series);
+                var rho = Function(d);
                 for (int m = direct + 1; m < n; m++)
                 {
                     tau += 2 * rho[m];
