@@ -2,6 +2,7 @@ using System;
 using BenchmarkDotNet.Attributes;
 using MathNet.Numerics.Distributions;
 using MathNet.Numerics.Statistics.Mcmc;
+using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
 using ThermalSampling.Randomness;
@@ -14,23 +15,47 @@ namespace ThermalSampling.Benchmarks;
 /// <summary>
 /// One 1D Lennard-Jones Metropolis step (proposal, energy, accept/reject, running sums), per chain-step, with the two
 /// alternatives a user would reach for in the same run: MathNet.Numerics' MetropolisSampler and a plain loop with
-/// System.Random and Math.Pow. Invented parameters: u0 = 0.0103 eV, r0 = 3.82 Å, 40 K, window [3.2, 6.0] Å.
+/// System.Random and Math.Pow. The library cases go through the public API (PairSampler.Run: 16 chains, every
+/// statistic, histogram and diagnostic included), so their time per chain-step includes the run's fixed cost
+/// (quadrature, diagnostics), measured on its own by <see cref="PublicApiFixedCost"/>.
+/// Invented parameters: u0 = 0.0103 eV, r0 = 3.82 Å, 40 K, window [3.2, 6.0] Å.
 /// </summary>
 [MemoryDiagnoser]
 public class MetropolisStepBenchmarks
 {
     private const int Steps = 200_000;
+    private const int Chains = 16;
+    private const int StepsPerChain = 2_000_000;
     private const double R0 = 3.82, U0 = 0.0103, Lower = 3.2, Upper = 6.0, Width = 0.12;
     private static readonly double Beta = 1 / Temperature.FromKelvin(40).ThermalEnergyInElectronVolts;
-    private PairMetropolisKernel<LennardJones> _kernel;
     private PairLandscape<LennardJones> _landscape = null!;
+    private ExactPairDistribution _exact = null!;
+    private InverseCdfTable _table = null!;
 
     [GlobalSetup]
     public void Setup()
     {
         var lj = LennardJones.FromMinimum(Length.FromAngstroms(R0), Energy.FromElectronVolts(U0));
-        _kernel = new PairMetropolisKernel<LennardJones>(lj, Lower, Upper, Beta, radial: false);
         _landscape = PairLandscape.Line(lj, Length.FromAngstroms(Lower), Length.FromAngstroms(Upper));
+        _exact = ExactPairDistribution.Compute(_landscape, Temperature.FromKelvin(40));
+        _table = InverseCdfTable.Build(_exact);
+    }
+
+    /// <summary>Building the direct sampler's inverse-CDF table (16 384 cells) from the exact distribution.</summary>
+    [Benchmark]
+    public InverseCdfTable DirectTableBuild() => InverseCdfTable.Build(_exact);
+
+    /// <summary>One draw from a built table (public InverseCdfTable.Draw), with a running sum.</summary>
+    [Benchmark(OperationsPerInvoke = Steps)]
+    public double DirectTableDraw()
+    {
+        var random = RandomStream.FromSeed(1);
+        double sum = 0;
+        for (int i = 0; i < Steps; i++)
+        {
+            sum += _table.Draw(ref random);
+        }
+        return sum;
     }
 
     private static double LogDensity(double r) =>
@@ -52,16 +77,65 @@ public class MetropolisStepBenchmarks
     }
 
     [Benchmark(OperationsPerInvoke = Steps)]
-    public double PlainLoopSystemRandom()
+    public double PlainLoopSystemRandom() => Baselines.PlainPairChain(Steps, R0, Width, LogDensity, null);
+
+    private double RunLibrary(int? lanes, int threads, long stepsPerChain = StepsPerChain)
     {
-#pragma warning disable CA5394
+        var settings = new SamplingSettings
+        {
+            Seed = 1, Chains = Chains, SamplesPerChain = stepsPerChain, BurnIn = 1000, InitialStepWidthInAngstroms = Width,
+            ChainsPerVector = lanes, MaxThreads = threads,
+        };
+        return PairSampler.Run(_landscape, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(40), settings).Mean.Value;
+    }
+
+    /// <summary>The widest vector this machine runs natively (8 chains per 512-bit register here), one thread.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double PublicApiVectorOneThread() => RunLibrary(null, 1);
+
+    /// <summary>4 chains per 256-bit register, one thread.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double PublicApi256BitOneThread() => RunLibrary(4, 1);
+
+    /// <summary>The scalar fallback (one chain at a time), one thread.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double PublicApiScalarOneThread() => RunLibrary(1, 1);
+
+    /// <summary>The widest vector, two threads (the machine's two cores).</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double PublicApiVectorTwoThreads() => RunLibrary(null, 2);
+
+    /// <summary>The scalar fallback on two threads.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double PublicApiScalarTwoThreads() => RunLibrary(1, 2);
+
+    /// <summary>A run of 16 × 1000 steps: the fixed cost (quadrature, start points, diagnostics) per run, not per step.</summary>
+    [Benchmark]
+    public double PublicApiFixedCost() => RunLibrary(null, 1, 1000);
+
+    /// <summary>Direct Boltzmann sampling through the public API, per independent draw (the table build included once per run).</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double PublicApiDirectOneThread()
+    {
+        var settings = new SamplingSettings { Seed = 1, Chains = Chains, SamplesPerChain = StepsPerChain, Method = SamplingMethod.Direct, MaxThreads = 1 };
+        return PairSampler.Run(_landscape, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(40), settings).Mean.Value;
+    }
+}
+
+/// <summary>The plain hand-written loop a user would write, shared by the benchmark and the ESS comparison.</summary>
+internal static class Baselines
+{
+    /// <summary>Box–Muller proposals, System.Random, running sums; optionally keeps every position.</summary>
+    internal static double PlainPairChain(int steps, double start, double width, Func<double, double> logDensity, double[]? keep)
+    {
+#pragma warning disable RS0030, CA5394
         var random = new Random(1);
-        double r = R0, lw = LogDensity(r), sum = 0, sum2 = 0;
-        for (int i = 0; i < Steps; i++)
+        double r = start, lw = logDensity(r), sum = 0, sum2 = 0;
+        for (int i = 0; i < steps; i++)
         {
             double u1 = 1 - random.NextDouble(), u2 = random.NextDouble();
-            double proposal = r + Width * Math.Sqrt(-2 * Math.Log(u1)) * Math.Cos(2 * Math.PI * u2);
-            double lwp = LogDensity(proposal);
+            double proposal = r + width * Math.Sqrt(-2 * Math.Log(u1)) * Math.Cos(2 * Math.PI * u2);
+            double lwp = logDensity(proposal);
             if (lwp >= lw || random.NextDouble() < Math.Exp(lwp - lw))
             {
                 r = proposal;
@@ -69,30 +143,13 @@ public class MetropolisStepBenchmarks
             }
             sum += r;
             sum2 += r * r;
+            if (keep is not null)
+            {
+                keep[i] = r;
+            }
         }
-#pragma warning restore CA5394
+#pragma warning restore RS0030, CA5394
         return sum + sum2;
-    }
-
-    [Benchmark(OperationsPerInvoke = Steps)]
-    public double LibraryKernel()
-    {
-        var random = RandomStream.FromSeed(1);
-        var state = _kernel.StateAt(R0);
-        var moments = new MomentAccumulator();
-        for (int i = 0; i < Steps; i++)
-        {
-            state = _kernel.Step(state, Width, ref random, out _);
-            moments.Add(state.Separation);
-        }
-        return moments.Mean;
-    }
-
-    [Benchmark(OperationsPerInvoke = Steps)]
-    public double PublicApiOneChain()
-    {
-        var settings = new SamplingSettings { Seed = 1, Chains = 1, SamplesPerChain = Steps, BurnIn = 0, InitialStepWidthInAngstroms = Width };
-        return PairSampler.Run(_landscape, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(40), settings).Mean.Value;
     }
 }
 

@@ -39,6 +39,17 @@ public readonly struct HarmonicBond : IPairPotential
     public string Description => string.Create(CultureInfo.InvariantCulture,
         $"harmonic bond (k = {_k:G6} eV/Å², r0 = {_r0:G6} Å)");
 
+    /// <summary>The energy in every lane, with the same operations as <see cref="Energy"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, Sampling.ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var x = TOps.Subtract(r, TOps.Broadcast(_r0));
+        return TOps.Multiply(TOps.Multiply(TOps.Broadcast(0.5 * _k), x), x);
+    }
+
     /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double Energy(double r)

@@ -65,6 +65,18 @@ public readonly struct LennardJones : IPairPotential
     public string Description => string.Create(CultureInfo.InvariantCulture,
         $"Lennard-Jones (r0 = {_r0:G6} Å, u0 = {_u0:G6} eV; sigma = {SigmaInAngstroms:G6} Å)");
 
+    /// <summary>The energy at separation <paramref name="r"/> in every lane, with the same operations as <see cref="EnergyAtSquaredDistance"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, Sampling.ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var s2 = TOps.Divide(TOps.Broadcast(_r0Squared), TOps.Multiply(r, r));
+        var s6 = TOps.Multiply(TOps.Multiply(s2, s2), s2);
+        return TOps.Multiply(TOps.Multiply(TOps.Broadcast(_u0), s6), TOps.Subtract(s6, TOps.Broadcast(2.0)));
+    }
+
     /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double Energy(double r) => EnergyAtSquaredDistance(r * r);

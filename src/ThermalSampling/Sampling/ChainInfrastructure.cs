@@ -121,6 +121,17 @@ internal sealed class BatchMeansStore
         }
     }
 
+    /// <summary>Adds a finished batch given by its sums of x − ref and (x − ref)² (the lane kernels' path; same arithmetic as <see cref="Add"/>).</summary>
+    internal void AddBatchSums(double sum1, double sum2)
+    {
+        if (_batch < First.Length)
+        {
+            First[_batch] = sum1 / BatchSize;
+            Second[_batch] = sum2 / BatchSize;
+            _batch++;
+        }
+    }
+
     /// <summary>Batch means of x itself.</summary>
     internal double[] Means()
     {
@@ -163,6 +174,8 @@ internal sealed class DrawRecorder<T>
         }
     }
 
+    internal int Capacity => _items.Length;
+
     internal ImmutableArray<T> ToImmutable() => ImmutableArray.Create(_items, 0, _count);
 
     internal static Reports.RetainedDraws<T> Combine(IEnumerable<DrawRecorder<T>> chains)
@@ -189,18 +202,25 @@ internal sealed class BinCounter
 
     internal double Upper { get; }
 
+    internal double Scale => _scale;
+
     internal long[] Counts { get; }
 
+    /// <summary>Counts <paramref name="x"/>; values outside [lower, upper] are not counted, and the upper edge (or a value rounding onto it) goes to the last bin.</summary>
     internal void Add(double x)
     {
-        int i = (int)((x - _lower) * _scale);
-        if (i >= 0 && i < Counts.Length)
+        if (x >= _lower && x <= Upper)
         {
-            Counts[i]++;
+            Counts[Math.Min((int)((x - _lower) * _scale), Counts.Length - 1)]++;
         }
-        else if (x == Upper)
+    }
+
+    /// <summary>Adds counts gathered elsewhere (one per bin).</summary>
+    internal void AddCounts(ReadOnlySpan<long> counts)
+    {
+        for (int i = 0; i < Counts.Length; i++)
         {
-            Counts[^1]++;
+            Counts[i] += counts[i];
         }
     }
 
@@ -276,13 +296,14 @@ internal static class ChainDiagnostics
     /// <summary>
     /// Per chain: Var(x̄_c) = Var(Y)·τ_Y/M from its M batch means Y; ESS_c = σ²/Var(x̄_c); pooled ESS = Σ ESS_c and
     /// τ = N/ESS. Blocking (Flyvbjerg–Petersen) on each Y series gives an independent standard error of the pooled mean.
-    /// R-hat is computed on the batch means.
+    /// R-hat is computed on the batch means, averaged in groups down to at most <see cref="RHatValuesPerChain"/> per chain.
     /// </summary>
     /// <param name="batchMeansPerChain">Batch means per chain, all of the same length.</param>
     /// <param name="batchSize">Draws per batch.</param>
     /// <param name="samplesPerChain">Recorded draws per chain.</param>
     /// <param name="variancePerDraw">The pooled variance of one draw.</param>
-    internal static Summary Summarise(IReadOnlyList<double[]> batchMeansPerChain, int batchSize, long samplesPerChain, double variancePerDraw)
+    /// <param name="withRHat">Whether to compute R-hat (the squared-deviation series need only their ESS).</param>
+    internal static Summary Summarise(IReadOnlyList<double[]> batchMeansPerChain, int batchSize, long samplesPerChain, double variancePerDraw, bool withRHat = true)
     {
         double ess = 0;
         bool reliable = true;
@@ -309,8 +330,36 @@ internal static class ChainDiagnostics
         }
         int chains = batchMeansPerChain.Count;
         double total = (double)chains * samplesPerChain;
-        double? rHat = chains >= 2 ? RHat.Compute(batchMeansPerChain) : null;
+        double? rHat = chains >= 2 && withRHat ? RHat.Compute(Coarsened(batchMeansPerChain, RHatValuesPerChain)) : null;
         return new Summary(total / ess, ess, Math.Sqrt(blockingVariance) / chains, reliable, reason, rHat);
+    }
+
+    /// <summary>R-hat's input per chain: more values add cost (a pooled rank sort) and no information about mixing.</summary>
+    internal const int RHatValuesPerChain = 4096;
+
+    /// <summary>Averages consecutive groups of g = ⌈length / cap⌉ values (longer batches of the same draws), dropping the remainder.</summary>
+    internal static IReadOnlyList<double[]> Coarsened(IReadOnlyList<double[]> series, int cap)
+    {
+        int n = series[0].Length;
+        int g = (n + cap - 1) / cap;
+        if (g <= 1)
+        {
+            return series;
+        }
+        return series.Select(y =>
+        {
+            var result = new double[n / g];
+            for (int i = 0; i < result.Length; i++)
+            {
+                double sum = 0;
+                for (int j = 0; j < g; j++)
+                {
+                    sum += y[i * g + j];
+                }
+                result[i] = sum / g;
+            }
+            return result;
+        }).ToList();
     }
 
     /// <summary>The standard error of the pooled mean of a batch-mean series, Σ_c Var(Y_c)·τ_c/M over chains, without needing the per-draw variance.</summary>

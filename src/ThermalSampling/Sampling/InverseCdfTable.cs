@@ -25,12 +25,28 @@ public sealed class InverseCdfTable
     private const double MaximumAllowedCdfError = 1e-4;
     private readonly double[] _edges;      // cell edges, Å (length cells + 1)
     private readonly double[] _cumulative; // CDF at each edge (length cells + 1), 0 … 1
+    private readonly int[] _guide;         // _guide[k] = the last edge index i with CDF(i) ≤ k/G (a guide table)
 
     private InverseCdfTable(double[] edges, double[] cumulative, double error)
     {
         _edges = edges;
         _cumulative = cumulative;
         CdfInterpolationError = error;
+        // Guide table (Chen & Asau, J. Chinese Inst. Engineers 1974; Devroye, Non-Uniform Random Variate Generation,
+        // 1986, §III.2.4): G = number of cells buckets of u, each pointing at the cell where its search starts, so a draw
+        // needs on average about two comparisons instead of a 14-step binary search with unpredictable branches.
+        int g = cumulative.Length - 1;
+        _guide = new int[g + 1];
+        int i = 0;
+        for (int k = 0; k <= g; k++)
+        {
+            double u = (double)k / g;
+            while (i + 1 < cumulative.Length - 1 && cumulative[i + 1] <= u)
+            {
+                i++;
+            }
+            _guide[k] = i;
+        }
     }
 
     /// <summary>The measured maximum |F_table − F_exact| at cell midpoints.</summary>
@@ -110,22 +126,16 @@ public sealed class InverseCdfTable
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double Draw(ref RandomStream random) => Invert(random.NextUnitInterval());
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private double Invert(double u)
     {
         var c = _cumulative;
-        int lo = 0, hi = c.Length - 1;
-        while (hi - lo > 1)
+        int lo = _guide[(int)(u * (_guide.Length - 1))];
+        while (lo + 2 < c.Length && c[lo + 1] <= u)
         {
-            int mid = (lo + hi) >> 1;
-            if (c[mid] <= u)
-            {
-                lo = mid;
-            }
-            else
-            {
-                hi = mid;
-            }
+            lo++;
         }
+        int hi = lo + 1;
         double width = c[hi] - c[lo];
         double f = width > 0 ? (u - c[lo]) / width : 0.5;
         return _edges[lo] + f * (_edges[hi] - _edges[lo]);

@@ -66,24 +66,34 @@ public static class PairSampler
         double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
         double width0 = settings.InitialStepWidthInAngstroms ?? harmonic?.ClassicalRmsInAngstroms ?? landscape.WindowWidthInAngstroms / 10;
         width0 = Math.Min(width0, landscape.WindowWidthInAngstroms);
-        var kernel = new PairMetropolisKernel<TPotential>(landscape.Potential, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms,
-            1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial);
         int chains = settings.Chains;
-
         var quantile = metropolis ? StartQuantiles(exact) : null;
-        var results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken, c =>
+        PairChainRecord NewRecord(int c) => new(
+            new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins),
+            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, well?.EquilibriumDistance ?? exact.MeanInAngstroms),
+            new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain));
+        ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
+
+        ChainResult[] results;
+        if (metropolis)
         {
-            var random = RandomStream.ForChain(settings.Seed, c);
-            double startQuantile = chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1);
-            var record = new PairChainRecord(
-                new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins),
-                new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, well?.EquilibriumDistance ?? exact.MeanInAngstroms),
-                new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain));
-            var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
-            return metropolis
-                ? RunMetropolisChain(kernel, quantile!(startQuantile), width0, target, landscape.WindowWidthInAngstroms, settings, ref random, record, report, cancellationToken)
-                : RunDirectChain(table!, settings, ref random, record, report, cancellationToken);
-        });
+            var plan = new PairLaneChains.Plan<TPotential>(landscape.Potential, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms,
+                1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial, width0, target,
+                landscape.WindowWidthInAngstroms, settings.BurnIn, settings.SamplesPerChain, settings.Seed);
+            int lanes = PairLaneChains.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
+            var groups = ChainScheduler.RunAll((chains + lanes - 1) / lanes, settings.MaxThreads, cancellationToken,
+                g => PairLaneChains.Run(lanes, plan, g * lanes, chains, c => quantile!(chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1)),
+                    NewRecord, NewReporter, cancellationToken));
+            results = groups.SelectMany(g => g).Select(o => new ChainResult(o.Record, o.Accepted, o.Width)).ToArray();
+        }
+        else
+        {
+            results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken, c =>
+            {
+                var random = RandomStream.ForChain(settings.Seed, c);
+                return RunDirectChain(table!, settings, ref random, NewRecord(c), NewReporter(c), cancellationToken);
+            });
+        }
 
         var moments = results[0].Record.Moments;
         for (int c = 1; c < chains; c++)
@@ -94,7 +104,7 @@ public static class PairSampler
         int batch = results[0].Record.Store.BatchSize;
         var summary = ChainDiagnostics.Summarise(results.Select(r => r.Record.Store.Means()).ToList(), batch, settings.SamplesPerChain, variance);
         double varianceOfSquares = Math.Max(moments.CentralMoment4 - moments.CentralMoment2 * moments.CentralMoment2, 0);
-        var summarySquared = ChainDiagnostics.Summarise(results.Select(r => r.Record.Store.SquaredDeviationMeans(mean)).ToList(), batch, settings.SamplesPerChain, varianceOfSquares);
+        var summarySquared = ChainDiagnostics.Summarise(results.Select(r => r.Record.Store.SquaredDeviationMeans(mean)).ToList(), batch, settings.SamplesPerChain, varianceOfSquares, withRHat: false);
         double meanSe = Math.Sqrt(variance / summary.Ess);
         double varianceSe = Math.Sqrt(varianceOfSquares / summarySquared.Ess);
         double rms = Math.Sqrt(variance);
@@ -182,34 +192,6 @@ public static class PairSampler
         };
     }
 
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private static ChainResult RunMetropolisChain<TPotential>(PairMetropolisKernel<TPotential> kernel, double start, double width0, double target, double maxWidth,
-        SamplingSettings settings, ref RandomStream random, PairChainRecord record, ProgressReporter progress, CancellationToken ct)
-        where TPotential : struct, IPairPotential
-    {
-        var adapter = new StepWidthAdapter(width0, target, maxWidth);
-        var state = BurnIn.Run<PairMetropolisKernel<TPotential>, PairChainState>(kernel, kernel.StateAt(start), ref adapter, settings.BurnIn, ref random, progress, ct);
-        double width = adapter.Width;
-        long acceptedCount = 0;
-        long n = settings.SamplesPerChain;
-        for (long i = 0; i < n; i++)
-        {
-            state = kernel.Step(state, width, ref random, out bool accepted);
-            if (accepted)
-            {
-                acceptedCount++;
-            }
-            record.Add(state.Separation);
-            if ((i & 4095) == 0)
-            {
-                ct.ThrowIfCancellationRequested();
-                progress.Report(settings.BurnIn + i);
-            }
-        }
-        progress.Finish();
-        return new ChainResult(record, acceptedCount, width);
-    }
-
     private static ChainResult RunDirectChain(InverseCdfTable table, SamplingSettings settings, ref RandomStream random, PairChainRecord record,
         ProgressReporter progress, CancellationToken ct)
     {
@@ -246,6 +228,10 @@ internal sealed class PairChainRecord
     internal BatchMeansStore Store { get; }
 
     internal DrawRecorder<double> Draws { get; }
+
+    /// <summary>Merges a block of raw power sums about <paramref name="reference"/> (the lane kernels' moment path).</summary>
+    internal void AddMomentBlock(int count, double reference, double s1, double s2, double s3, double s4)
+        => _moments.AddBlock(count, reference, s1, s2, s3, s4);
 
     /// <summary>The merged moments; read once the chain has finished.</summary>
     internal MomentAccumulator Moments => _completed ??= _moments.Complete();

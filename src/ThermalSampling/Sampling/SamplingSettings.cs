@@ -56,6 +56,13 @@ public sealed record SamplingSettings
     /// <summary>Worker threads, 1 to 1024; null means the processor count. Results do not depend on it.</summary>
     public int? MaxThreads { get; init; }
 
+    /// <summary>
+    /// Metropolis chains advanced together in one vector register: 1, 2, 4 or 8; null picks the widest the hardware runs
+    /// natively that still leaves every thread a register's worth of chains. Every chain's draws are the same bits at any
+    /// value, so this changes speed only (a width the hardware lacks still works, slowly). Direct sampling ignores it.
+    /// </summary>
+    public int? ChainsPerVector { get; init; }
+
     /// <summary>Throws one <see cref="ArgumentException"/> listing every invalid setting.</summary>
     public void Validate()
     {
@@ -79,6 +86,7 @@ public sealed record SamplingSettings
         Check(MaxDiagnosticValuesPerChain is >= 64 and <= 10_000_000, nameof(MaxDiagnosticValuesPerChain), MaxDiagnosticValuesPerChain, "64 to 10^7");
         Check(RetainedDrawsPerChain is >= 0 and <= 10_000_000, nameof(RetainedDrawsPerChain), RetainedDrawsPerChain, "0 to 10^7");
         Check(MaxThreads is null or (>= 1 and <= 1024), nameof(MaxThreads), MaxThreads ?? 0, "null or 1 to 1024");
+        Check(ChainsPerVector is null or 1 or 2 or 4 or 8, nameof(ChainsPerVector), ChainsPerVector ?? 0, "null, 1, 2, 4 or 8");
         if (errors.Count > 0)
         {
             throw new ArgumentException("Invalid sampling settings: " + string.Join(" ", errors), "settings");

@@ -11,7 +11,7 @@ namespace ThermalSampling.Statistics;
 /// </summary>
 internal struct BlockedMomentAccumulator
 {
-    private const int BlockSize = 4096;
+    internal const int BlockSize = 4096;
     private MomentAccumulator _total;
     private double _reference, _s1, _s2, _s3, _s4;
     private int _count;
@@ -47,14 +47,20 @@ internal struct BlockedMomentAccumulator
         {
             return;
         }
-        double n = _count, m = _s1 / n;
-        // Central sums of the block from its raw sums about the reference.
-        double m2 = _s2 - _s1 * m;
-        double m3 = _s3 - 3 * m * _s2 + 2 * m * m * _s1;
-        double m4 = _s4 - 4 * m * _s3 + 6 * m * m * _s2 - 3 * m * m * m * _s1;
-        var block = MomentAccumulator.FromSums(_count, _reference + m, m2 < 0 ? 0 : m2, m3, m4 < 0 ? 0 : m4);
-        _total = MomentAccumulator.Merge(_total, block);
+        AddBlock(_count, _reference, _s1, _s2, _s3, _s4);
         _count = 0;
         _s1 = _s2 = _s3 = _s4 = 0;
+    }
+
+    /// <summary>Merges a finished block given by its count and raw power sums of x − reference.</summary>
+    internal void AddBlock(int count, double reference, double s1, double s2, double s3, double s4)
+    {
+        double n = count, m = s1 / n;
+        // Central sums of the block from its raw sums about the reference.
+        double m2 = s2 - s1 * m;
+        double m3 = s3 - 3 * m * s2 + 2 * m * m * s1;
+        double m4 = s4 - 4 * m * s3 + 6 * m * m * s2 - 3 * m * m * m * s1;
+        var block = MomentAccumulator.FromSums(count, reference + m, m2 < 0 ? 0 : m2, m3, m4 < 0 ? 0 : m4);
+        _total = MomentAccumulator.Merge(_total, block);
     }
 }

@@ -38,9 +38,10 @@ public static class RHat
             split.Add(c[..half]);
             split.Add(c[(n - half)..]);
         }
-        double bulk = Classic(NormalScores(split));
+        var scores = new ScoreTable(2 * chains.Count * half);
+        double bulk = Classic(NormalScores(split, scores));
         double median = Median(split.SelectMany(c => c).ToArray());
-        double tail = Classic(NormalScores(split.Select(c => c.Select(x => Math.Abs(x - median)).ToArray()).ToList()));
+        double tail = Classic(NormalScores(split.Select(c => c.Select(x => Math.Abs(x - median)).ToArray()).ToList(), scores));
         return Math.Max(bulk, tail);
     }
 
@@ -51,35 +52,68 @@ public static class RHat
         return values.Length % 2 == 1 ? values[m] : 0.5 * (values[m - 1] + values[m]);
     }
 
-    /// <summary>Replaces each draw by Φ⁻¹((rank − 3/8)/(S + 1/4)) with average ranks for ties.</summary>
-    private static List<double[]> NormalScores(List<double[]> chains)
+    /// <summary>Φ⁻¹((rank − 3/8)/(S + 1/4)) for whole ranks, computed once and shared by the bulk and tail scores.</summary>
+    private sealed class ScoreTable(int total)
     {
-        int total = chains.Sum(c => c.Length);
-        var index = new (double Value, int Chain, int Position)[total];
-        int k = 0;
-        for (int c = 0; c < chains.Count; c++)
+        private readonly double[] _whole = Filled(total);
+
+        internal int Total => total;
+
+        internal double At(double rank)
         {
-            for (int i = 0; i < chains[c].Length; i++)
+            if (rank != Math.Floor(rank))
             {
-                Internal.Preconditions.CheckFinite(chains[c][i], "chains");
-                index[k++] = (chains[c][i], c, i);
+                return Score(rank); // an average rank of tied values
+            }
+            ref double z = ref _whole[(int)rank - 1];
+            if (double.IsNaN(z))
+            {
+                z = Score(rank);
+            }
+            return z;
+        }
+
+        private static double[] Filled(int n)
+        {
+            var a = new double[n];
+            Array.Fill(a, double.NaN); // not yet computed
+            return a;
+        }
+
+        private double Score(double rank) => Normal.InvCDF(0, 1, (rank - 0.375) / (total + 0.25));
+    }
+
+    /// <summary>Replaces each draw by its normal score with average ranks for ties (keys sorted with flat indices: no comparison delegate).</summary>
+    private static List<double[]> NormalScores(List<double[]> chains, ScoreTable scores)
+    {
+        int total = scores.Total;
+        int length = chains[0].Length;
+        var keys = new double[total];
+        var where = new int[total];
+        int k = 0;
+        foreach (var chain in chains)
+        {
+            foreach (double x in chain)
+            {
+                Internal.Preconditions.CheckFinite(x, "chains");
+                where[k] = k;
+                keys[k++] = x;
             }
         }
-        Array.Sort(index, (a, b) => a.Value.CompareTo(b.Value));
+        Array.Sort(keys, where);
         var result = chains.Select(c => new double[c.Length]).ToList();
         int start = 0;
         while (start < total)
         {
             int end = start;
-            while (end + 1 < total && index[end + 1].Value == index[start].Value)
+            while (end + 1 < total && keys[end + 1] == keys[start])
             {
                 end++;
             }
-            double rank = 0.5 * (start + end) + 1;
-            double z = Normal.InvCDF(0, 1, (rank - 0.375) / (total + 0.25));
+            double z = scores.At(0.5 * (start + end) + 1);
             for (int j = start; j <= end; j++)
             {
-                result[index[j].Chain][index[j].Position] = z;
+                result[where[j] / length][where[j] % length] = z;
             }
             start = end + 1;
         }

@@ -1,0 +1,315 @@
+using System;
+using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>
+/// The arithmetic a lane kernel needs, over <typeparamref name="TD"/> (one double per chain) and <typeparamref name="TB"/>
+/// (64 raw bits per chain). Implemented for Vector512, Vector256, Vector128 and a plain double, so one kernel body runs
+/// 8, 4, 2 or 1 chains in lockstep. Every operation is exactly rounded IEEE arithmetic (add, multiply, divide, fused
+/// multiply-add) or exact bit manipulation, and comparisons never see a NaN, so each lane computes bit for bit what
+/// the one-lane version computes: results never depend on the width the hardware picks.
+/// </summary>
+/// <remarks>
+/// Written by hand rather than through a library because it is the per-step loop; the generic static-abstract form lets
+/// the JIT specialise and inline each width with no calls left (.NET's own ISimdVector interface is not public).
+/// Masks are values of <typeparamref name="TD"/> with all bits set where true.
+/// </remarks>
+/// <typeparam name="TD">Doubles, one per lane.</typeparam>
+/// <typeparam name="TB">Raw 64-bit words, one per lane.</typeparam>
+internal interface ILaneOps<TD, TB>
+    where TD : struct
+    where TB : struct
+{
+    static abstract int Count { get; }
+
+    static abstract bool IsHardwareAccelerated { get; }
+
+    static abstract TD Broadcast(double x);
+
+    static abstract TD Add(TD a, TD b);
+
+    static abstract TD Subtract(TD a, TD b);
+
+    static abstract TD Multiply(TD a, TD b);
+
+    static abstract TD Divide(TD a, TD b);
+
+    /// <summary>a·b + c with one rounding.</summary>
+    static abstract TD MultiplyAdd(TD a, TD b, TD c);
+
+    static abstract TD LessThan(TD a, TD b);
+
+    static abstract TD LessOrEqual(TD a, TD b);
+
+    static abstract TD GreaterThan(TD a, TD b);
+
+    static abstract TD And(TD a, TD b);
+
+    static abstract TD Select(TD mask, TD ifTrue, TD ifFalse);
+
+    static abstract bool AllTrue(TD mask);
+
+    static abstract double Get(TD v, int lane);
+
+    static abstract TD Set(TD v, int lane, double x);
+
+    /// <summary>Writes the lanes to <paramref name="destination"/>[0 … Count − 1].</summary>
+    static abstract void Store(TD v, ref double destination);
+
+    static abstract TB Xor(TB a, TB b);
+
+    static abstract TB Or(TB a, TB b);
+
+    static abstract TB AddBits(TB a, TB b);
+
+    static abstract TB ShiftLeft(TB a, int count);
+
+    static abstract TB ShiftRight(TB a, int count);
+
+    static abstract TB BroadcastBits(ulong x);
+
+    /// <summary>Each lane truncated toward zero to a 64-bit integer (the lanes must be in [0, 2^53)).</summary>
+    static abstract TB Truncate(TD a);
+
+    /// <summary>Writes the words to <paramref name="destination"/>[0 … Count − 1].</summary>
+    static abstract void StoreBits(TB v, ref ulong destination);
+
+    static abstract TD BitsAsDouble(TB a);
+
+    static abstract TB DoubleAsBits(TD a);
+
+    static abstract ulong GetBits(TB v, int lane);
+
+    static abstract TB SetBits(TB v, int lane, ulong x);
+}
+
+/// <summary>Eight lanes in a 512-bit register.</summary>
+internal readonly struct Lanes8 : ILaneOps<Vector512<double>, Vector512<ulong>>
+{
+    public static int Count => 8;
+    public static bool IsHardwareAccelerated => Vector512.IsHardwareAccelerated;
+    public static Vector512<double> Broadcast(double x) => Vector512.Create(x);
+    public static Vector512<double> Add(Vector512<double> a, Vector512<double> b) => a + b;
+    public static Vector512<double> Subtract(Vector512<double> a, Vector512<double> b) => a - b;
+    public static Vector512<double> Multiply(Vector512<double> a, Vector512<double> b) => a * b;
+    public static Vector512<double> Divide(Vector512<double> a, Vector512<double> b) => a / b;
+    public static Vector512<double> MultiplyAdd(Vector512<double> a, Vector512<double> b, Vector512<double> c) => Vector512.FusedMultiplyAdd(a, b, c);
+    public static Vector512<double> LessThan(Vector512<double> a, Vector512<double> b) => Vector512.LessThan(a, b);
+    public static Vector512<double> LessOrEqual(Vector512<double> a, Vector512<double> b) => Vector512.LessThanOrEqual(a, b);
+    public static Vector512<double> GreaterThan(Vector512<double> a, Vector512<double> b) => Vector512.GreaterThan(a, b);
+    public static Vector512<double> And(Vector512<double> a, Vector512<double> b) => a & b;
+    public static Vector512<double> Select(Vector512<double> mask, Vector512<double> ifTrue, Vector512<double> ifFalse) => Vector512.ConditionalSelect(mask, ifTrue, ifFalse);
+    public static bool AllTrue(Vector512<double> mask) => Vector512.ExtractMostSignificantBits(mask) == 0xFFUL;
+    public static double Get(Vector512<double> v, int lane) => v.GetElement(lane);
+    public static Vector512<double> Set(Vector512<double> v, int lane, double x) => v.WithElement(lane, x);
+    public static void Store(Vector512<double> v, ref double destination) => v.StoreUnsafe(ref destination);
+    public static Vector512<ulong> Xor(Vector512<ulong> a, Vector512<ulong> b) => a ^ b;
+    public static Vector512<ulong> Or(Vector512<ulong> a, Vector512<ulong> b) => a | b;
+    public static Vector512<ulong> AddBits(Vector512<ulong> a, Vector512<ulong> b) => a + b;
+    public static Vector512<ulong> ShiftLeft(Vector512<ulong> a, int count) => Vector512.ShiftLeft(a, count);
+    public static Vector512<ulong> ShiftRight(Vector512<ulong> a, int count) => Vector512.ShiftRightLogical(a, count);
+    public static Vector512<ulong> BroadcastBits(ulong x) => Vector512.Create(x);
+    public static Vector512<ulong> Truncate(Vector512<double> a) => Vector512.ConvertToInt64(a).AsUInt64();
+    public static void StoreBits(Vector512<ulong> v, ref ulong destination) => v.StoreUnsafe(ref destination);
+    public static Vector512<double> BitsAsDouble(Vector512<ulong> a) => a.AsDouble();
+    public static Vector512<ulong> DoubleAsBits(Vector512<double> a) => a.AsUInt64();
+    public static ulong GetBits(Vector512<ulong> v, int lane) => v.GetElement(lane);
+    public static Vector512<ulong> SetBits(Vector512<ulong> v, int lane, ulong x) => v.WithElement(lane, x);
+}
+
+/// <summary>Four lanes in a 256-bit register.</summary>
+internal readonly struct Lanes4 : ILaneOps<Vector256<double>, Vector256<ulong>>
+{
+    public static int Count => 4;
+    public static bool IsHardwareAccelerated => Vector256.IsHardwareAccelerated;
+    public static Vector256<double> Broadcast(double x) => Vector256.Create(x);
+    public static Vector256<double> Add(Vector256<double> a, Vector256<double> b) => a + b;
+    public static Vector256<double> Subtract(Vector256<double> a, Vector256<double> b) => a - b;
+    public static Vector256<double> Multiply(Vector256<double> a, Vector256<double> b) => a * b;
+    public static Vector256<double> Divide(Vector256<double> a, Vector256<double> b) => a / b;
+    public static Vector256<double> MultiplyAdd(Vector256<double> a, Vector256<double> b, Vector256<double> c) => Vector256.FusedMultiplyAdd(a, b, c);
+    public static Vector256<double> LessThan(Vector256<double> a, Vector256<double> b) => Vector256.LessThan(a, b);
+    public static Vector256<double> LessOrEqual(Vector256<double> a, Vector256<double> b) => Vector256.LessThanOrEqual(a, b);
+    public static Vector256<double> GreaterThan(Vector256<double> a, Vector256<double> b) => Vector256.GreaterThan(a, b);
+    public static Vector256<double> And(Vector256<double> a, Vector256<double> b) => a & b;
+    public static Vector256<double> Select(Vector256<double> mask, Vector256<double> ifTrue, Vector256<double> ifFalse) => Vector256.ConditionalSelect(mask, ifTrue, ifFalse);
+    public static bool AllTrue(Vector256<double> mask) => Vector256.ExtractMostSignificantBits(mask) == 0xFU;
+    public static double Get(Vector256<double> v, int lane) => v.GetElement(lane);
+    public static Vector256<double> Set(Vector256<double> v, int lane, double x) => v.WithElement(lane, x);
+    public static void Store(Vector256<double> v, ref double destination) => v.StoreUnsafe(ref destination);
+    public static Vector256<ulong> Xor(Vector256<ulong> a, Vector256<ulong> b) => a ^ b;
+    public static Vector256<ulong> Or(Vector256<ulong> a, Vector256<ulong> b) => a | b;
+    public static Vector256<ulong> AddBits(Vector256<ulong> a, Vector256<ulong> b) => a + b;
+    public static Vector256<ulong> ShiftLeft(Vector256<ulong> a, int count) => Vector256.ShiftLeft(a, count);
+    public static Vector256<ulong> ShiftRight(Vector256<ulong> a, int count) => Vector256.ShiftRightLogical(a, count);
+    public static Vector256<ulong> BroadcastBits(ulong x) => Vector256.Create(x);
+    public static Vector256<ulong> Truncate(Vector256<double> a) => Vector256.ConvertToInt64(a).AsUInt64();
+    public static void StoreBits(Vector256<ulong> v, ref ulong destination) => v.StoreUnsafe(ref destination);
+    public static Vector256<double> BitsAsDouble(Vector256<ulong> a) => a.AsDouble();
+    public static Vector256<ulong> DoubleAsBits(Vector256<double> a) => a.AsUInt64();
+    public static ulong GetBits(Vector256<ulong> v, int lane) => v.GetElement(lane);
+    public static Vector256<ulong> SetBits(Vector256<ulong> v, int lane, ulong x) => v.WithElement(lane, x);
+}
+
+/// <summary>Two lanes in a 128-bit register.</summary>
+internal readonly struct Lanes2 : ILaneOps<Vector128<double>, Vector128<ulong>>
+{
+    public static int Count => 2;
+    public static bool IsHardwareAccelerated => Vector128.IsHardwareAccelerated;
+    public static Vector128<double> Broadcast(double x) => Vector128.Create(x);
+    public static Vector128<double> Add(Vector128<double> a, Vector128<double> b) => a + b;
+    public static Vector128<double> Subtract(Vector128<double> a, Vector128<double> b) => a - b;
+    public static Vector128<double> Multiply(Vector128<double> a, Vector128<double> b) => a * b;
+    public static Vector128<double> Divide(Vector128<double> a, Vector128<double> b) => a / b;
+    public static Vector128<double> MultiplyAdd(Vector128<double> a, Vector128<double> b, Vector128<double> c) => Vector128.FusedMultiplyAdd(a, b, c);
+    public static Vector128<double> LessThan(Vector128<double> a, Vector128<double> b) => Vector128.LessThan(a, b);
+    public static Vector128<double> LessOrEqual(Vector128<double> a, Vector128<double> b) => Vector128.LessThanOrEqual(a, b);
+    public static Vector128<double> GreaterThan(Vector128<double> a, Vector128<double> b) => Vector128.GreaterThan(a, b);
+    public static Vector128<double> And(Vector128<double> a, Vector128<double> b) => a & b;
+    public static Vector128<double> Select(Vector128<double> mask, Vector128<double> ifTrue, Vector128<double> ifFalse) => Vector128.ConditionalSelect(mask, ifTrue, ifFalse);
+    public static bool AllTrue(Vector128<double> mask) => Vector128.ExtractMostSignificantBits(mask) == 0x3U;
+    public static double Get(Vector128<double> v, int lane) => v.GetElement(lane);
+    public static Vector128<double> Set(Vector128<double> v, int lane, double x) => v.WithElement(lane, x);
+    public static void Store(Vector128<double> v, ref double destination) => v.StoreUnsafe(ref destination);
+    public static Vector128<ulong> Xor(Vector128<ulong> a, Vector128<ulong> b) => a ^ b;
+    public static Vector128<ulong> Or(Vector128<ulong> a, Vector128<ulong> b) => a | b;
+    public static Vector128<ulong> AddBits(Vector128<ulong> a, Vector128<ulong> b) => a + b;
+    public static Vector128<ulong> ShiftLeft(Vector128<ulong> a, int count) => Vector128.ShiftLeft(a, count);
+    public static Vector128<ulong> ShiftRight(Vector128<ulong> a, int count) => Vector128.ShiftRightLogical(a, count);
+    public static Vector128<ulong> BroadcastBits(ulong x) => Vector128.Create(x);
+    public static Vector128<ulong> Truncate(Vector128<double> a) => Vector128.ConvertToInt64(a).AsUInt64();
+    public static void StoreBits(Vector128<ulong> v, ref ulong destination) => v.StoreUnsafe(ref destination);
+    public static Vector128<double> BitsAsDouble(Vector128<ulong> a) => a.AsDouble();
+    public static Vector128<ulong> DoubleAsBits(Vector128<double> a) => a.AsUInt64();
+    public static ulong GetBits(Vector128<ulong> v, int lane) => v.GetElement(lane);
+    public static Vector128<ulong> SetBits(Vector128<ulong> v, int lane, ulong x) => v.WithElement(lane, x);
+}
+
+/// <summary>One lane in plain scalar registers: the fallback, and the reference the wider forms are tested against.</summary>
+internal readonly struct Lanes1 : ILaneOps<double, ulong>
+{
+    private static readonly double True = BitConverter.UInt64BitsToDouble(ulong.MaxValue);
+
+    public static int Count => 1;
+    public static bool IsHardwareAccelerated => true;
+    public static double Broadcast(double x) => x;
+    public static double Add(double a, double b) => a + b;
+    public static double Subtract(double a, double b) => a - b;
+    public static double Multiply(double a, double b) => a * b;
+    public static double Divide(double a, double b) => a / b;
+    public static double MultiplyAdd(double a, double b, double c) => Math.FusedMultiplyAdd(a, b, c);
+    public static double LessThan(double a, double b) => a < b ? True : 0.0;
+    public static double LessOrEqual(double a, double b) => a <= b ? True : 0.0;
+    public static double GreaterThan(double a, double b) => a > b ? True : 0.0;
+    public static double And(double a, double b) => BitConverter.UInt64BitsToDouble(BitConverter.DoubleToUInt64Bits(a) & BitConverter.DoubleToUInt64Bits(b));
+    public static double Select(double mask, double ifTrue, double ifFalse) => BitConverter.DoubleToUInt64Bits(mask) != 0 ? ifTrue : ifFalse;
+    public static bool AllTrue(double mask) => BitConverter.DoubleToUInt64Bits(mask) != 0;
+    public static double Get(double v, int lane) => v;
+    public static double Set(double v, int lane, double x) => x;
+    public static void Store(double v, ref double destination) => destination = v;
+    public static ulong Xor(ulong a, ulong b) => a ^ b;
+    public static ulong Or(ulong a, ulong b) => a | b;
+    public static ulong AddBits(ulong a, ulong b) => a + b;
+    public static ulong ShiftLeft(ulong a, int count) => a << count;
+    public static ulong ShiftRight(ulong a, int count) => a >> count;
+    public static ulong BroadcastBits(ulong x) => x;
+    public static ulong Truncate(double a) => (ulong)(long)a;
+    public static void StoreBits(ulong v, ref ulong destination) => destination = v;
+    public static double BitsAsDouble(ulong a) => BitConverter.UInt64BitsToDouble(a);
+    public static ulong DoubleAsBits(double a) => BitConverter.DoubleToUInt64Bits(a);
+    public static ulong GetBits(ulong v, int lane) => v;
+    public static ulong SetBits(ulong v, int lane, ulong x) => x;
+}
+
+/// <summary>
+/// Lane-parallel functions built on <see cref="ILaneOps{TD, TB}"/>, identical bit for bit at every width.
+/// </summary>
+internal static class LaneMath
+{
+    /// <summary>The argument below which <see cref="Exp{TOps, TD, TB}"/> returns 0.</summary>
+    internal const double ExpLowerLimit = -708.0;
+
+    /// <summary>The argument above which <see cref="Exp{TOps, TD, TB}"/> saturates at e^709.</summary>
+    internal const double ExpUpperLimit = 709.0;
+
+    private const double Log2E = 1.4426950408889634;
+    private const double Ln2High = 6.93147180369123816490e-01; // ln 2 split in two (fdlibm's constants): n·Ln2High is exact
+    private const double Ln2Low = 1.90821492927058770002e-10;
+    private const double Shifter = 6755399441055744.0;          // 1.5·2^52: adding it rounds to an integer held in the low bits
+
+    /// <summary>
+    /// e^x for x in [−708, 709] with a relative error below 1e−15 (tested against Math.Exp); 0 below −708 and e^709
+    /// above 709. Cody–Waite reduction x = n ln 2 + r, |r| ≤ ln 2 / 2, then the Taylor series of e^r to degree 13
+    /// (truncation error below 5e−18) by Horner's rule with fused multiply-adds, scaled by 2^n built in the exponent bits.
+    /// Written here because .NET's Vector512.Exp is not inlined (it spills the kernel's registers) and because the
+    /// kernels need the same bits at every vector width, which Math.Exp cannot promise against a vector exp.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD Exp<TOps, TD, TB>(TD x)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var upper = TOps.Broadcast(ExpUpperLimit);
+        var below = TOps.LessThan(x, TOps.Broadcast(ExpLowerLimit));
+        x = TOps.Select(TOps.GreaterThan(x, upper), upper, TOps.Select(below, TOps.Broadcast(ExpLowerLimit), x));
+        var shifter = TOps.Broadcast(Shifter);
+        var t = TOps.MultiplyAdd(x, TOps.Broadcast(Log2E), shifter);
+        var n = TOps.Subtract(t, shifter);
+        var r = TOps.MultiplyAdd(n, TOps.Broadcast(-Ln2High), x);
+        r = TOps.MultiplyAdd(n, TOps.Broadcast(-Ln2Low), r);
+        var p = TOps.Broadcast(1.0 / 6227020800.0);                    // 1/13!
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 479001600.0));  // 1/12!
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 39916800.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 3628800.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 362880.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 40320.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 5040.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 720.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 120.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 24.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0 / 6.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(0.5));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0));
+        p = TOps.MultiplyAdd(p, r, TOps.Broadcast(1.0));
+        // The low bits of t hold n + 1.5·2^52; the exponent field of 2^n is n + 1023.
+        var exponent = TOps.AddBits(TOps.DoubleAsBits(t), TOps.BroadcastBits(1023UL - BitConverter.DoubleToUInt64Bits(Shifter)));
+        var scale = TOps.BitsAsDouble(TOps.ShiftLeft(exponent, 52));
+        return TOps.Select(below, TOps.Broadcast(0.0), TOps.Multiply(p, scale));
+    }
+
+    /// <summary>One xoshiro256** step in every lane (Blackman &amp; Vigna, ACM TOMS 47(4), 2021): the same outputs as <see cref="Randomness.RandomStream.NextUInt64"/>.</summary>
+    /// <remarks>The state comes as four separate locals, not a struct, so that the JIT keeps them in registers.</remarks>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TB NextBits<TOps, TD, TB>(ref TB s0, ref TB s1, ref TB s2, ref TB s3)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        // result = rotl(s1·5, 7)·9, with the multiplications as shifts and adds (64-bit vector multiply is slow or missing).
+        var times5 = TOps.AddBits(TOps.ShiftLeft(s1, 2), s1);
+        var rotated = TOps.Or(TOps.ShiftLeft(times5, 7), TOps.ShiftRight(times5, 57));
+        var result = TOps.AddBits(TOps.ShiftLeft(rotated, 3), rotated);
+        var t = TOps.ShiftLeft(s1, 17);
+        s2 = TOps.Xor(s2, s0);
+        s3 = TOps.Xor(s3, s1);
+        s1 = TOps.Xor(s1, s2);
+        s0 = TOps.Xor(s0, s3);
+        s2 = TOps.Xor(s2, t);
+        s3 = TOps.Or(TOps.ShiftLeft(s3, 45), TOps.ShiftRight(s3, 19));
+        return result;
+    }
+
+    /// <summary>A uniform double in [0, 1) in every lane from the top 52 bits of the next output (exponent-field construction, exact at every width).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD NextUnit<TOps, TD, TB>(ref TB s0, ref TB s1, ref TB s2, ref TB s3)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var bits = TOps.Or(TOps.ShiftRight(NextBits<TOps, TD, TB>(ref s0, ref s1, ref s2, ref s3), 12), TOps.BroadcastBits(0x3FF0000000000000UL));
+        return TOps.Subtract(TOps.BitsAsDouble(bits), TOps.Broadcast(1.0));
+    }
+}

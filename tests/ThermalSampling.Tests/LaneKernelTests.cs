@@ -1,0 +1,291 @@
+using System;
+using System.Linq;
+using System.Runtime.Intrinsics;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Randomness;
+using ThermalSampling.Reports;
+using ThermalSampling.Sampling;
+using ThermalSampling.Units;
+using Xunit;
+
+namespace ThermalSampling.Tests;
+
+/// <summary>
+/// The multi-chain (vector lane) Metropolis kernels: the lane exponential against Math.Exp, the lane generator against
+/// the scalar stream, bit-for-bit agreement across lane widths and thread counts, and the sampled moments against
+/// exact quadrature (MathNet Gauss–Legendre through ExactPairDistribution).
+/// </summary>
+public sealed class LaneKernelTests
+{
+    private static readonly Mass ArgonMass = Mass.FromAtomicMassUnits(39.948);
+    private static readonly Mass IronMass = Mass.FromAtomicMassUnits(55.845);
+    private static readonly LennardJones Lj = LennardJones.FromMinimum(Length.FromAngstroms(3.8), Energy.FromKelvin(119.8)); // Sources.Argon (eps)
+    private static readonly Morse Iron = new(Energy.FromElectronVolts(0.4174), 1.3885, Length.FromAngstroms(2.845)); // Sources.GirifalcoWeizer
+    private static readonly Buckingham OxygenOxygen = new(Energy.FromElectronVolts(22764.0), Length.FromAngstroms(0.149), 27.88); // Sources.Buckingham
+
+    private static double Exp8(double x) => LaneMath.Exp<Lanes8, Vector512<double>, Vector512<ulong>>(Vector512.Create(x)).GetElement(3);
+
+    private static double Exp4(double x) => LaneMath.Exp<Lanes4, Vector256<double>, Vector256<ulong>>(Vector256.Create(x)).GetElement(1);
+
+    private static double Exp2(double x) => LaneMath.Exp<Lanes2, Vector128<double>, Vector128<ulong>>(Vector128.Create(x)).GetElement(1);
+
+    private static double Exp1(double x) => LaneMath.Exp<Lanes1, double, ulong>(x);
+
+    /// <summary>Reference: Math.Exp (the platform's correctly rounded or near-correctly rounded libm exp).</summary>
+    [Fact]
+    public void LaneExponentialIsWithin1e15OfMathExpOverItsRange()
+    {
+        var random = RandomStream.FromSeed(7);
+        double worst = 0;
+        for (int i = 0; i < 400_000; i++)
+        {
+            // Uniform over the whole range, plus the small arguments the acceptance test sees most.
+            double x = i % 2 == 0 ? LaneMath.ExpLowerLimit + (LaneMath.ExpUpperLimit - LaneMath.ExpLowerLimit) * random.NextUnitInterval() : -20 * random.NextUnitInterval();
+            double reference = Math.Exp(x);
+            double relative = Math.Abs(Exp1(x) - reference) / reference;
+            worst = Math.Max(worst, relative);
+        }
+        foreach (double x in new[] { -708.0, -707.9, -1e-300, 0.0, 1e-300, 1e-8, 0.5 * Math.Log(2), Math.Log(2), 1.0, 100.0, 708.9, 709.0 })
+        {
+            worst = Math.Max(worst, Math.Abs(Exp1(x) - Math.Exp(x)) / Math.Exp(x));
+        }
+        Assert.True(worst <= 1e-15, $"worst relative error {worst:G3}");
+        Assert.Equal(1.0, Exp1(0.0));
+    }
+
+    [Fact]
+    public void LaneExponentialIsZeroBelowItsRangeAndSaturatesAbove()
+    {
+        Assert.Equal(0.0, Exp1(-708.0000001));
+        Assert.Equal(0.0, Exp1(double.NegativeInfinity));
+        Assert.Equal(Exp1(709.0), Exp1(750.0));
+        Assert.Equal(Exp1(709.0), Exp1(double.PositiveInfinity));
+        Assert.True(double.IsFinite(Exp1(709.0)));
+    }
+
+    [Fact]
+    public void LaneExponentialGivesTheSameBitsAtEveryWidth()
+    {
+        var random = RandomStream.FromSeed(8);
+        for (int i = 0; i < 20_000; i++)
+        {
+            double x = -720 + 1440 * random.NextUnitInterval();
+            double one = Exp1(x);
+            Assert.Equal(one, Exp2(x));
+            Assert.Equal(one, Exp4(x));
+            Assert.Equal(one, Exp8(x));
+        }
+    }
+
+    [Fact]
+    public void LaneGeneratorReproducesTheScalarStreamInEveryLane()
+    {
+        Span<ulong> words = stackalloc ulong[4];
+        Vector512<ulong> s0 = default, s1 = default, s2 = default, s3 = default;
+        var streams = new RandomStream[8];
+        for (int lane = 0; lane < 8; lane++)
+        {
+            streams[lane] = RandomStream.ForChain(99, lane);
+            streams[lane].GetState(words);
+            s0 = s0.WithElement(lane, words[0]);
+            s1 = s1.WithElement(lane, words[1]);
+            s2 = s2.WithElement(lane, words[2]);
+            s3 = s3.WithElement(lane, words[3]);
+        }
+        for (int step = 0; step < 1000; step++)
+        {
+            var bits = LaneMath.NextBits<Lanes8, Vector512<double>, Vector512<ulong>>(ref s0, ref s1, ref s2, ref s3);
+            for (int lane = 0; lane < 8; lane++)
+            {
+                Assert.Equal(streams[lane].NextUInt64(), bits.GetElement(lane));
+            }
+        }
+    }
+
+    [Fact]
+    public void LaneUniformsAreInTheUnitIntervalWith52Bits()
+    {
+        ulong a = 0, b = 0, c = 0, d = 0x8000000000000000UL;
+        double u = LaneMath.NextUnit<Lanes1, double, ulong>(ref a, ref b, ref c, ref d);
+        Assert.InRange(u, 0.0, 1.0 - Math.Pow(2, -52));
+        var random = RandomStream.FromSeed(3);
+        Span<ulong> w = stackalloc ulong[4];
+        random.GetState(w);
+        (a, b, c, d) = (w[0], w[1], w[2], w[3]);
+        double sum = 0;
+        for (int i = 0; i < 100_000; i++)
+        {
+            double x = LaneMath.NextUnit<Lanes1, double, ulong>(ref a, ref b, ref c, ref d);
+            Assert.InRange(x, 0.0, 1.0 - Math.Pow(2, -52));
+            sum += x;
+        }
+        Assert.InRange(sum / 100_000, 0.5 - 4 * Math.Sqrt(1.0 / 12 / 100_000), 0.5 + 4 * Math.Sqrt(1.0 / 12 / 100_000));
+    }
+
+    [Fact]
+    public void LennardJonesLaneEnergyEqualsTheScalarEnergyExactly()
+    {
+        for (double r = 2.5; r < 9; r += 0.0137)
+        {
+            Assert.Equal(Lj.Energy(r), Lj.LaneEnergy<Lanes1, double, ulong>(r));
+            Assert.Equal(Lj.Energy(r), Lj.LaneEnergy<Lanes8, Vector512<double>, Vector512<ulong>>(Vector512.Create(r)).GetElement(5));
+        }
+    }
+
+    [Fact]
+    public void ExponentialLaneEnergiesAreWithin1e15OfTheScalarEnergies()
+    {
+        var bond = new HarmonicBond(3.0, Length.FromAngstroms(1.2));
+        for (double r = 1.0; r < 6; r += 0.0113)
+        {
+            Assert.Equal(bond.Energy(r), bond.LaneEnergy<Lanes1, double, ulong>(r));
+            double morse = Iron.Energy(r);
+            // The Morse energy is a difference that passes through 0; compare against the scale of its terms.
+            Assert.True(Math.Abs(Iron.LaneEnergy<Lanes1, double, ulong>(r) - morse) <= 4e-15 * (Math.Abs(morse) + Iron.WellDepthInElectronVolts * 3), $"Morse at {r}");
+        }
+        for (double r = 1.0; r < 3; r += 0.0071)
+        {
+            double buck = OxygenOxygen.Energy(r);
+            double scale = 22764.0 * Math.Exp(-r / 0.149) + 27.88 / Math.Pow(r, 6);
+            Assert.True(Math.Abs(OxygenOxygen.LaneEnergy<Lanes1, double, ulong>(r) - buck) <= 4e-15 * scale, $"Buckingham at {r}");
+        }
+    }
+
+    private static PairVibrationReport RunPair<T>(PairLandscape<T> landscape, Mass mass, double kelvin, int? lanes, int threads, int chains = 6,
+        long samples = 20_000, int retained = 0)
+        where T : struct, IPairPotential
+        => PairSampler.Run(landscape, mass, Temperature.FromKelvin(kelvin), new SamplingSettings
+        {
+            Seed = 2026, Chains = chains, SamplesPerChain = samples, BurnIn = 2000, ChainsPerVector = lanes, MaxThreads = threads,
+            RetainedDrawsPerChain = retained, MaxDiagnosticValuesPerChain = 4096,
+        });
+
+    private static void AssertIdentical(PairVibrationReport a, PairVibrationReport b)
+    {
+        Assert.Equal(a.Mean.Value, b.Mean.Value);
+        Assert.Equal(a.Variance.Value, b.Variance.Value);
+        Assert.Equal(a.Skewness, b.Skewness);
+        Assert.Equal(a.ExcessKurtosis, b.ExcessKurtosis);
+        Assert.Equal(a.Mean.StandardError, b.Mean.StandardError);
+        Assert.Equal(a.Diagnostics.AcceptanceRate, b.Diagnostics.AcceptanceRate);
+        Assert.Equal(a.Diagnostics.FinalStepWidthInAngstroms, b.Diagnostics.FinalStepWidthInAngstroms);
+        Assert.Equal(a.Diagnostics.RHat, b.Diagnostics.RHat);
+        Assert.Equal(a.Histogram.Density.ToArray(), b.Histogram.Density.ToArray());
+        Assert.Equal(a.Histogram.Count, b.Histogram.Count);
+        Assert.Equal(a.Draws.Chains.Length, b.Draws.Chains.Length);
+        for (int c = 0; c < a.Draws.Chains.Length; c++)
+        {
+            Assert.Equal(a.Draws.Chains[c].ToArray(), b.Draws.Chains[c].ToArray());
+        }
+    }
+
+    [Theory]
+    [InlineData("lj-line")]
+    [InlineData("morse-radial")]
+    [InlineData("buckingham-radial")]
+    [InlineData("function-line")]
+    public void EveryLaneWidthAndThreadCountGivesTheSameBits(string which)
+    {
+        Func<int?, int, PairVibrationReport> run = which switch
+        {
+            "lj-line" => (l, t) => RunPair(PairLandscape.Line(Lj, Length.FromAngstroms(3.2), Length.FromAngstroms(6.0)), ArgonMass, 60, l, t, retained: 300),
+            "morse-radial" => (l, t) => RunPair(PairLandscape.Radial(Iron, Length.FromAngstroms(2.0), Length.FromAngstroms(5.0)), IronMass, 900, l, t),
+            "buckingham-radial" => (l, t) => RunPair(PairLandscape.Radial(OxygenOxygen, Length.FromAngstroms(1.0), Length.FromAngstroms(2.0)), Mass.FromAtomicMassUnits(16), 300, l, t),
+            _ => (l, t) => RunPair(PairLandscape.Line(new FunctionPotential(r => 0.5 * 2.0 * (r - 1.5) * (r - 1.5), Length.FromAngstroms(0.1), Length.FromAngstroms(10), description: "invented quadratic"),
+                Length.FromAngstroms(1.0), Length.FromAngstroms(2.0)), Mass.FromAtomicMassUnits(12), 200, l, t),
+        };
+        var reference = run(1, 1);
+        foreach (var (lanes, threads) in new (int?, int)[] { (2, 1), (4, 1), (8, 1), (8, 2), (4, 2), (null, 2), (null, 1) })
+        {
+            AssertIdentical(reference, run(lanes, threads));
+        }
+    }
+
+    [Fact]
+    public void ChainCountsThatDoNotFillAVectorStillAgree()
+    {
+        var landscape = PairLandscape.Line(Lj, Length.FromAngstroms(3.2), Length.FromAngstroms(6.0));
+        foreach (int chains in new[] { 1, 3, 9 })
+        {
+            AssertIdentical(RunPair(landscape, ArgonMass, 40, 1, 1, chains, 5000), RunPair(landscape, ArgonMass, 40, 8, 2, chains, 5000));
+        }
+    }
+
+    /// <summary>Reference: the exact classical moments by quadrature (ExactPairDistribution, MathNet Gauss–Legendre); 4 standard errors.</summary>
+    [Theory]
+    [InlineData("lj-line", 40)]
+    [InlineData("lj-radial", 120)]
+    [InlineData("morse-radial", 1500)]
+    [InlineData("buckingham-line", 600)]
+    [InlineData("harmonic-radial", 300)]
+    public void VectorChainsReproduceTheExactMoments(string which, double kelvin)
+    {
+        var report = which switch
+        {
+            "lj-line" => RunPair(PairLandscape.Line(Lj, Length.FromAngstroms(3.2), Length.FromAngstroms(6.0)), ArgonMass, kelvin, 8, 2, 8, 60_000),
+            "lj-radial" => RunPair(PairLandscape.Radial(Lj, Length.FromAngstroms(3.2), Length.FromAngstroms(7.0)), ArgonMass, kelvin, 8, 2, 8, 60_000),
+            "morse-radial" => RunPair(PairLandscape.Radial(Iron, Length.FromAngstroms(2.0), Length.FromAngstroms(5.0)), IronMass, kelvin, 4, 2, 8, 60_000),
+            "buckingham-line" => RunPair(PairLandscape.Line(OxygenOxygen, Length.FromAngstroms(1.0), Length.FromAngstroms(2.0)), Mass.FromAtomicMassUnits(16), kelvin, 8, 1, 8, 60_000),
+            _ => RunPair(PairLandscape.Radial(new HarmonicBond(2.0, Length.FromAngstroms(1.5)), Length.FromAngstroms(0.5), Length.FromAngstroms(2.5)), Mass.FromAtomicMassUnits(12), kelvin, 2, 2, 8, 60_000),
+        };
+        Assert.InRange(report.Exact.ZScoreMean, -4, 4);
+        Assert.InRange(report.Exact.ZScoreVariance, -4, 4);
+        Assert.InRange(report.Diagnostics.AcceptanceRate!.Value, 0.25, 0.65);
+    }
+
+    /// <summary>A quadratic well that returns −∞ or NaN in a narrow band: reaches the kernel's own fault check directly (the public entry points refuse it earlier, in quadrature).</summary>
+    private readonly struct FaultyBand(double bad) : IPairPotential
+    {
+        public double Energy(double r) => r > 1.55 && r < 1.56 ? bad : (r - 1.5) * (r - 1.5);
+
+        public double EnergyAtSquaredDistance(double squaredDistance) => Energy(Math.Sqrt(squaredDistance));
+
+        public PairDerivatives Derivatives(double r) => new(Energy(r), 2 * (r - 1.5), 2, 0, 0);
+
+        public double DomainLower => 0;
+
+        public double DomainUpper => double.PositiveInfinity;
+
+        public PotentialWell? Well => new(1.5, 0, double.PositiveInfinity);
+
+        public string Description => "invented faulty band";
+    }
+
+    [Theory]
+    [InlineData(double.NaN, 8)]
+    [InlineData(double.NegativeInfinity, 8)]
+    [InlineData(double.NaN, 1)]
+    [InlineData(double.NegativeInfinity, 4)]
+    public void ANonFiniteEnergyStopsTheLaneKernelWithTheSeparation(double bad, int lanes)
+    {
+        var plan = new PairLaneChains.Plan<FaultyBand>(new FaultyBand(bad), 1.0, 2.0, 40.0, false, 0.3, 0.44, 1.0, 1000, 100_000, 5);
+        var ex = Assert.Throws<NonFiniteEnergyException>(() => PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.2 + 0.05 * c,
+            c => new PairChainRecord(new BinCounter(1.0, 2.0, 20), new BatchMeansStore(100_000, 1024, 1.5), new DrawRecorder<double>(100_000, 0)),
+            c => new ProgressReporter(null, c, 101_000, 300), default));
+        Assert.InRange(ex.Separation, 1.55, 1.56);
+        Assert.Contains("invented faulty band", ex.Message, StringComparison.Ordinal);
+    }
+
+    [Theory]
+    [InlineData(0)]
+    [InlineData(3)]
+    [InlineData(16)]
+    public void ChainsPerVectorOutsideItsValuesIsRefusedByName(int value)
+    {
+        var settings = new SamplingSettings { Seed = 1, ChainsPerVector = value };
+        var ex = Assert.Throws<ArgumentException>(settings.Validate);
+        Assert.Contains("ChainsPerVector", ex.Message, StringComparison.Ordinal);
+        Assert.Contains("1, 2, 4 or 8", ex.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void LaneChoiceFollowsHardwareAndThreads()
+    {
+        Assert.Equal(4, PairLaneChains.ChooseLanes(16, 2, 4));
+        Assert.Equal(1, PairLaneChains.ChooseLanes(1, 2, null));
+        int hardware = Vector512.IsHardwareAccelerated ? 8 : Vector256.IsHardwareAccelerated ? 4 : Vector128.IsHardwareAccelerated ? 2 : 1;
+        Assert.Equal(hardware, PairLaneChains.ChooseLanes(64, 2, null));
+        Assert.Equal(Math.Min(hardware, 2), PairLaneChains.ChooseLanes(4, 2, null));
+    }
+}
