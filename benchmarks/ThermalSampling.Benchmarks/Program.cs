@@ -8,12 +8,17 @@ namespace ThermalSampling.Benchmarks;
 /// <summary>
 /// Entry point. <c>dotnet run -c Release --project benchmarks/ThermalSampling.Benchmarks -- --filter '*'</c> runs every
 /// benchmark with a short job (a few minutes in all on two cores); add <c>--smoke</c> for a dry job that only proves the
-/// benchmarks build and run (what CI does; it times nothing).
+/// benchmarks build and run (what CI does; it times nothing); <c>--ess</c> prints effective samples per step of each sampler.
 /// </summary>
 public static class Program
 {
     public static void Main(string[] args)
     {
+        if (args.Contains("--ess"))
+        {
+            EffectiveSampleRates.Print();
+            return;
+        }
         bool smoke = args.Contains("--smoke");
         var job = smoke ? Job.Dry : Job.ShortRun;
         var config = DefaultConfig.Instance.AddJob(job.AsDefault());
