@@ -72,7 +72,17 @@ public readonly struct LennardJones : IPairPotential
         where TD : struct
         where TB : struct
     {
-        var s2 = TOps.Divide(TOps.Broadcast(_r0Squared), TOps.Multiply(r, r));
+        return LaneEnergyAtSquaredDistance<TOps, TD, TB>(TOps.Multiply(r, r));
+    }
+
+    /// <summary>The energy at squared distance <paramref name="r2"/> in every lane, with the same operations as <see cref="EnergyAtSquaredDistance"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD r2)
+        where TOps : struct, Sampling.ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var s2 = TOps.Divide(TOps.Broadcast(_r0Squared), r2);
         var s6 = TOps.Multiply(TOps.Multiply(s2, s2), s2);
         return TOps.Multiply(TOps.Multiply(TOps.Broadcast(_u0), s6), TOps.Subtract(s6, TOps.Broadcast(2.0)));
     }

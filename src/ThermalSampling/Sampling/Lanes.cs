@@ -36,6 +36,12 @@ internal interface ILaneOps<TD, TB>
 
     static abstract TD Divide(TD a, TD b);
 
+    static abstract TD Sqrt(TD a);
+
+    static abstract TD Abs(TD a);
+
+    static abstract TD Or(TD a, TD b);
+
     /// <summary>a·b + c with one rounding.</summary>
     static abstract TD MultiplyAdd(TD a, TD b, TD c);
 
@@ -95,6 +101,9 @@ internal readonly struct Lanes8 : ILaneOps<Vector512<double>, Vector512<ulong>>
     public static Vector512<double> Subtract(Vector512<double> a, Vector512<double> b) => a - b;
     public static Vector512<double> Multiply(Vector512<double> a, Vector512<double> b) => a * b;
     public static Vector512<double> Divide(Vector512<double> a, Vector512<double> b) => a / b;
+    public static Vector512<double> Sqrt(Vector512<double> a) => Vector512.Sqrt(a);
+    public static Vector512<double> Abs(Vector512<double> a) => Vector512.Abs(a);
+    public static Vector512<double> Or(Vector512<double> a, Vector512<double> b) => a | b;
     public static Vector512<double> MultiplyAdd(Vector512<double> a, Vector512<double> b, Vector512<double> c) => Vector512.FusedMultiplyAdd(a, b, c);
     public static Vector512<double> LessThan(Vector512<double> a, Vector512<double> b) => Vector512.LessThan(a, b);
     public static Vector512<double> LessOrEqual(Vector512<double> a, Vector512<double> b) => Vector512.LessThanOrEqual(a, b);
@@ -129,6 +138,9 @@ internal readonly struct Lanes4 : ILaneOps<Vector256<double>, Vector256<ulong>>
     public static Vector256<double> Subtract(Vector256<double> a, Vector256<double> b) => a - b;
     public static Vector256<double> Multiply(Vector256<double> a, Vector256<double> b) => a * b;
     public static Vector256<double> Divide(Vector256<double> a, Vector256<double> b) => a / b;
+    public static Vector256<double> Sqrt(Vector256<double> a) => Vector256.Sqrt(a);
+    public static Vector256<double> Abs(Vector256<double> a) => Vector256.Abs(a);
+    public static Vector256<double> Or(Vector256<double> a, Vector256<double> b) => a | b;
     public static Vector256<double> MultiplyAdd(Vector256<double> a, Vector256<double> b, Vector256<double> c) => Vector256.FusedMultiplyAdd(a, b, c);
     public static Vector256<double> LessThan(Vector256<double> a, Vector256<double> b) => Vector256.LessThan(a, b);
     public static Vector256<double> LessOrEqual(Vector256<double> a, Vector256<double> b) => Vector256.LessThanOrEqual(a, b);
@@ -163,6 +175,9 @@ internal readonly struct Lanes2 : ILaneOps<Vector128<double>, Vector128<ulong>>
     public static Vector128<double> Subtract(Vector128<double> a, Vector128<double> b) => a - b;
     public static Vector128<double> Multiply(Vector128<double> a, Vector128<double> b) => a * b;
     public static Vector128<double> Divide(Vector128<double> a, Vector128<double> b) => a / b;
+    public static Vector128<double> Sqrt(Vector128<double> a) => Vector128.Sqrt(a);
+    public static Vector128<double> Abs(Vector128<double> a) => Vector128.Abs(a);
+    public static Vector128<double> Or(Vector128<double> a, Vector128<double> b) => a | b;
     public static Vector128<double> MultiplyAdd(Vector128<double> a, Vector128<double> b, Vector128<double> c) => Vector128.FusedMultiplyAdd(a, b, c);
     public static Vector128<double> LessThan(Vector128<double> a, Vector128<double> b) => Vector128.LessThan(a, b);
     public static Vector128<double> LessOrEqual(Vector128<double> a, Vector128<double> b) => Vector128.LessThanOrEqual(a, b);
@@ -199,6 +214,9 @@ internal readonly struct Lanes1 : ILaneOps<double, ulong>
     public static double Subtract(double a, double b) => a - b;
     public static double Multiply(double a, double b) => a * b;
     public static double Divide(double a, double b) => a / b;
+    public static double Sqrt(double a) => Math.Sqrt(a);
+    public static double Abs(double a) => Math.Abs(a);
+    public static double Or(double a, double b) => BitConverter.UInt64BitsToDouble(BitConverter.DoubleToUInt64Bits(a) | BitConverter.DoubleToUInt64Bits(b));
     public static double MultiplyAdd(double a, double b, double c) => Math.FusedMultiplyAdd(a, b, c);
     public static double LessThan(double a, double b) => a < b ? True : 0.0;
     public static double LessOrEqual(double a, double b) => a <= b ? True : 0.0;

@@ -20,8 +20,7 @@ internal static class PairLaneChains
     /// <summary>What one chain of a lane group hands back.</summary>
     internal sealed record ChainOutcome(PairChainRecord Record, long Accepted, double Width);
 
-    /// <summary>Steps between cancellation checks and progress reports.</summary>
-    private const int ChunkSteps = 4096;
+    private const int ChunkSteps = LaneAdaptation.ChunkSteps;
 
     /// <summary>Everything fixed for a run.</summary>
     internal sealed record Plan<TPotential>(TPotential Potential, double Lower, double Upper, double Beta, bool Radial, double InitialWidth,
@@ -135,78 +134,21 @@ internal static class PairLaneChains
             w.Jacobian = _radial ? TOps.Multiply(r, r) : TOps.Broadcast(1.0);
         }
 
-        internal TD WidthFrom(TD logWidth)
-        {
-            var w = LaneMath.Exp<TOps, TD, TB>(logWidth);
-            var max = TOps.Broadcast(_maxWidth);
-            return TOps.Select(TOps.LessThan(w, max), w, max);
-        }
+        internal TD WidthFrom(TD logWidth) => LaneAdaptation.Width<TOps, TD, TB>(logWidth, _maxWidth);
 
-        /// <summary>The energy in every lane; potentials with a lane form use it, others are called lane by lane.</summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Energy(TD r)
-        {
-            TD e;
-            if (typeof(TPotential) == typeof(LennardJones))
-            {
-                e = ((LennardJones)(object)_potential).LaneEnergy<TOps, TD, TB>(r);
-            }
-            else if (typeof(TPotential) == typeof(Morse))
-            {
-                e = ((Morse)(object)_potential).LaneEnergy<TOps, TD, TB>(r);
-            }
-            else if (typeof(TPotential) == typeof(Buckingham))
-            {
-                e = ((Buckingham)(object)_potential).LaneEnergy<TOps, TD, TB>(r);
-            }
-            else if (typeof(TPotential) == typeof(HarmonicBond))
-            {
-                e = ((HarmonicBond)(object)_potential).LaneEnergy<TOps, TD, TB>(r);
-            }
-            else
-            {
-                e = r;
-                for (int lane = 0; lane < TOps.Count; lane++)
-                {
-                    e = TOps.Set(e, lane, _potential.Energy(TOps.Get(r, lane)));
-                }
-            }
-            return e;
-        }
+        private TD Energy(TD r) => LaneEnergy.AtDistance<TOps, TD, TB, TPotential>(_potential, r);
 
-        /// <summary>
-        /// Notes lanes whose energy is −∞ or NaN (faults; +∞, a hard core, is an ordinary rejection). The loops check the
-        /// record after each chunk of steps and throw, so no call sits in the inner loop (a call there would force every
-        /// vector register to be spilled); a faulty chunk is never turned into a result.
-        /// </summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private static void NoteFaults(TD r, TD e, ref Faults<TD> faults)
-        {
-            var ok = TOps.GreaterThan(e, TOps.Broadcast(double.NegativeInfinity));
-            faults.AllFinite = TOps.And(faults.AllFinite, ok);
-            faults.Separation = TOps.Select(ok, faults.Separation, r);
-            faults.Energy = TOps.Select(ok, faults.Energy, e);
-        }
+        private static void NoteFaults(TD r, TD e, ref LaneFaults<TD> faults) => LaneFaultCheck.Note<TOps, TD, TB>(ref faults, r, e);
 
-        private void ThrowIfFaulted(in Faults<TD> faults)
-        {
-            if (TOps.AllTrue(faults.AllFinite))
-            {
-                return;
-            }
-            int lane = 0;
-            while (lane < TOps.Count - 1 && TOps.Get(faults.Energy, lane) > double.NegativeInfinity)
-            {
-                lane++;
-            }
-            throw new NonFiniteEnergyException(TOps.Get(faults.Separation, lane), TOps.Get(faults.Energy, lane), _potential.Description);
-        }
+        private void ThrowIfFaulted(in LaneFaults<TD> faults) => LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _potential.Description);
 
-        private static Faults<TD> NoFaults => new() { AllFinite = TOps.LessOrEqual(TOps.Broadcast(0.0), TOps.Broadcast(0.0)) };
+        private static LaneFaults<TD> NoFaults => LaneFaultCheck.None<TOps, TD, TB>();
 
         /// <summary>One step in every lane; returns the acceptance mask. State comes as separate locals so that it stays in registers.</summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Step(ref TD position, ref TD energy, ref TD jacobian, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD width, ref Faults<TD> faults)
+        private TD Step(ref TD position, ref TD energy, ref TD jacobian, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD width, ref LaneFaults<TD> faults)
         {
             var u1 = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
             var u2 = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
@@ -245,10 +187,7 @@ internal static class PairLaneChains
                     p.Report(i);
                 }
                 int chunk = (int)Math.Min(ChunkSteps, steps - i);
-                for (int j = 0; j < chunk; j++)
-                {
-                    gains[j] = 2.0 / Math.Pow(i + j + 1 + 10, 0.6); // the adapter's gain at step t = i + j + 1
-                }
+                LaneAdaptation.FillGains(gains, i, chunk);
                 w.Faults = NoFaults;
                 logWidth = AdaptChunk(ref w, logWidth, gains, chunk);
                 ThrowIfFaulted(w.Faults);
@@ -266,16 +205,11 @@ internal static class PairLaneChains
             TD position = walk.Position, energy = walk.Energy, jacobian = walk.Jacobian;
             TB r0 = walk.R0, r1 = walk.R1, r2 = walk.R2, r3 = walk.R3;
             var faults = walk.Faults;
-            var target = TOps.Broadcast(_target);
             var logMax = TOps.Broadcast(Math.Log(_maxWidth));
-            var one = TOps.Broadcast(1.0);
-            var zero = TOps.Broadcast(0.0);
             for (int j = 0; j < chunk; j++)
             {
                 var accept = Step(ref position, ref energy, ref jacobian, ref r0, ref r1, ref r2, ref r3, WidthFrom(logWidth), ref faults);
-                // log w ← min(log w + (a − target)·gain, log w_max), in every lane.
-                logWidth = TOps.Add(logWidth, TOps.Multiply(TOps.Subtract(TOps.Select(accept, one, zero), target), TOps.Broadcast(gains[j])));
-                logWidth = TOps.Select(TOps.LessThan(logWidth, logMax), logWidth, logMax);
+                logWidth = LaneAdaptation.Update<TOps, TD, TB>(logWidth, accept, _target, gains[j], logMax);
             }
             walk.Position = position;
             walk.Energy = energy;
@@ -506,12 +440,6 @@ internal static class PairLaneChains
         internal TD Position, Energy, Jacobian;
         internal TB R0, R1, R2, R3;
         internal TD Accepted, S1, S2, S3, S4, B1, B2, BlockReference;
-        internal Faults<TD> Faults;
-    }
-
-    /// <summary>Where and what the last non-finite energy of a chunk was, per lane.</summary>
-    private struct Faults<TD> where TD : struct
-    {
-        internal TD AllFinite, Separation, Energy;
+        internal LaneFaults<TD> Faults;
     }
 }

@@ -1,0 +1,157 @@
+using System;
+using System.Runtime.CompilerServices;
+using ThermalSampling.Potentials;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>Pair energies in every lane: potentials with a lane form use it, others are called lane by lane.</summary>
+internal static class LaneEnergy
+{
+    /// <summary>V(r) in every lane.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD AtDistance<TOps, TD, TB, TPotential>(in TPotential potential, TD r)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        where TPotential : struct, IPairPotential
+    {
+        // typeof tests on a struct type parameter are constants to the JIT, and the (T)(object) casts do not box.
+        if (typeof(TPotential) == typeof(LennardJones))
+        {
+            return ((LennardJones)(object)potential).LaneEnergy<TOps, TD, TB>(r);
+        }
+        if (typeof(TPotential) == typeof(Morse))
+        {
+            return ((Morse)(object)potential).LaneEnergy<TOps, TD, TB>(r);
+        }
+        if (typeof(TPotential) == typeof(Buckingham))
+        {
+            return ((Buckingham)(object)potential).LaneEnergy<TOps, TD, TB>(r);
+        }
+        if (typeof(TPotential) == typeof(HarmonicBond))
+        {
+            return ((HarmonicBond)(object)potential).LaneEnergy<TOps, TD, TB>(r);
+        }
+        var e = r;
+        for (int lane = 0; lane < TOps.Count; lane++)
+        {
+            e = TOps.Set(e, lane, potential.Energy(TOps.Get(r, lane)));
+        }
+        return e;
+    }
+
+    /// <summary>V at squared distance <paramref name="r2"/> in every lane (Lennard-Jones needs no square root).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD AtSquaredDistance<TOps, TD, TB, TPotential>(in TPotential potential, TD r2)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        where TPotential : struct, IPairPotential
+    {
+        if (typeof(TPotential) == typeof(LennardJones))
+        {
+            return ((LennardJones)(object)potential).LaneEnergyAtSquaredDistance<TOps, TD, TB>(r2);
+        }
+        if (typeof(TPotential) == typeof(Morse) || typeof(TPotential) == typeof(Buckingham) || typeof(TPotential) == typeof(HarmonicBond))
+        {
+            return AtDistance<TOps, TD, TB, TPotential>(potential, TOps.Sqrt(r2));
+        }
+        var e = r2;
+        for (int lane = 0; lane < TOps.Count; lane++)
+        {
+            e = TOps.Set(e, lane, potential.EnergyAtSquaredDistance(TOps.Get(r2, lane)));
+        }
+        return e;
+    }
+}
+
+/// <summary>Where and what the last non-finite energy of a chunk was, per lane.</summary>
+/// <typeparam name="TD">The lane type.</typeparam>
+internal struct LaneFaults<TD> where TD : struct
+{
+    internal TD AllFinite, Separation, Energy;
+}
+
+/// <summary>
+/// Fault bookkeeping shared by the lane kernels: −∞ and NaN energies are noted in a mask (+∞, a hard core, is an ordinary
+/// rejection) and thrown after each chunk, so no call sits in an inner loop (a call there would force every vector
+/// register to be spilled, since all are caller-saved); a faulty chunk is never turned into a result.
+/// </summary>
+internal static class LaneFaultCheck
+{
+    internal static LaneFaults<TD> None<TOps, TD, TB>()
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => new() { AllFinite = TOps.LessOrEqual(TOps.Broadcast(0.0), TOps.Broadcast(0.0)) };
+
+    /// <summary>Notes lanes whose energy <paramref name="e"/> is −∞ or NaN, with <paramref name="where"/> (a separation or distance from the centre).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static void Note<TOps, TD, TB>(ref LaneFaults<TD> faults, TD where, TD e)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var ok = TOps.GreaterThan(e, TOps.Broadcast(double.NegativeInfinity));
+        faults.AllFinite = TOps.And(faults.AllFinite, ok);
+        faults.Separation = TOps.Select(ok, faults.Separation, where);
+        faults.Energy = TOps.Select(ok, faults.Energy, e);
+    }
+
+    internal static void ThrowIfAny<TOps, TD, TB>(in LaneFaults<TD> faults, string description)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        if (TOps.AllTrue(faults.AllFinite))
+        {
+            return;
+        }
+        int lane = 0;
+        while (lane < TOps.Count - 1 && TOps.Get(faults.Energy, lane) > double.NegativeInfinity)
+        {
+            lane++;
+        }
+        throw new NonFiniteEnergyException(TOps.Get(faults.Separation, lane), TOps.Get(faults.Energy, lane), description);
+    }
+}
+
+/// <summary><see cref="StepWidthAdapter"/>'s rule in every lane, for the lane kernels' burn-in.</summary>
+internal static class LaneAdaptation
+{
+    /// <summary>Steps between cancellation checks and progress reports in every lane kernel.</summary>
+    internal const int ChunkSteps = 4096;
+
+    /// <summary>The adapter's gains 2/(t + 10)^0.6 for steps t = first + 1 … first + count (computed outside the inner loop: Math.Pow is a call).</summary>
+    internal static void FillGains(double[] gains, long first, int count)
+    {
+        for (int j = 0; j < count; j++)
+        {
+            gains[j] = 2.0 / Math.Pow(first + j + 1 + 10, 0.6);
+        }
+    }
+
+    /// <summary>log w ← min(log w + (a − target)·gain, log w_max), in every lane.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD Update<TOps, TD, TB>(TD logWidth, TD accept, double target, double gain, TD logMax)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var hit = TOps.Select(accept, TOps.Broadcast(1.0), TOps.Broadcast(0.0));
+        logWidth = TOps.Add(logWidth, TOps.Multiply(TOps.Subtract(hit, TOps.Broadcast(target)), TOps.Broadcast(gain)));
+        return TOps.Select(TOps.LessThan(logWidth, logMax), logWidth, logMax);
+    }
+
+    /// <summary>min(e^(log w), w_max) in every lane.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD Width<TOps, TD, TB>(TD logWidth, double maxWidth)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var w = LaneMath.Exp<TOps, TD, TB>(logWidth);
+        var max = TOps.Broadcast(maxWidth);
+        return TOps.Select(TOps.LessThan(w, max), w, max);
+    }
+}
