@@ -288,4 +288,49 @@ public sealed class LaneKernelTests
         Assert.Equal(hardware, PairLaneChains.ChooseLanes(64, 2, null));
         Assert.Equal(Math.Min(hardware, 2), PairLaneChains.ChooseLanes(4, 2, null));
     }
+
+    private static SiteVibrationReport RunSite(SiteLandscape<LennardJones> landscape, double kelvin, int? lanes, int threads, int chains = 5,
+        long samples = 8_000, SamplingMethod method = SamplingMethod.Metropolis)
+        => SiteSampler.Run(landscape, ArgonMass, Temperature.FromKelvin(kelvin), new SamplingSettings
+        {
+            Seed = 77, Chains = chains, SamplesPerChain = samples, BurnIn = 2000, ChainsPerVector = lanes, MaxThreads = threads,
+            RetainedDrawsPerChain = 100, MaxDiagnosticValuesPerChain = 2048, Method = method,
+        });
+
+    private static SiteLandscape<LennardJones> Cage(int shells, Confinement confinement)
+        => SiteLandscape.Create(Lj, LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.8), shells), Position.Origin, confinement);
+
+    [Theory]
+    [InlineData(1, "sphere")]
+    [InlineData(2, "box")]
+    public void SiteChainsGiveTheSameBitsAtEveryWidthAndThreadCount(int shells, string shape)
+    {
+        var landscape = Cage(shells, shape == "sphere" ? Confinement.Sphere(Length.FromAngstroms(1.2)) : Confinement.Box(Length.FromAngstroms(0.9)));
+        var reference = RunSite(landscape, 60, 1, 1);
+        foreach (var (lanes, threads) in new (int?, int)[] { (2, 1), (4, 2), (8, 1), (8, 2), (null, 2) })
+        {
+            var other = RunSite(landscape, 60, lanes, threads);
+            Assert.Equal(reference.Mean, other.Mean);
+            Assert.Equal(reference.Covariance, other.Covariance);
+            Assert.Equal(reference.MeanSquareDisplacement, other.MeanSquareDisplacement);
+            Assert.Equal(reference.Diagnostics, other.Diagnostics);
+            Assert.Equal(reference.RadialHistogram.Density.ToArray(), other.RadialHistogram.Density.ToArray());
+            Assert.Equal(reference.Draws.Chains.SelectMany(c => c).ToArray(), other.Draws.Chains.SelectMany(c => c).ToArray());
+        }
+    }
+
+    /// <summary>Reference: the library's direct (rejection) sampler, an independent algorithm; 4 combined standard errors per diagonal element.</summary>
+    [Theory]
+    [InlineData(1)]
+    [InlineData(4)]
+    public void VectorSiteChainsAgreeWithDirectSampling(int shells)
+    {
+        var landscape = Cage(shells, Confinement.Sphere(Length.FromAngstroms(1.2)));
+        var metropolis = RunSite(landscape, 80, null, 2, 16, 40_000);
+        var direct = RunSite(landscape, 80, null, 2, 4, 40_000, SamplingMethod.Direct);
+        double combined = Math.Sqrt(Math.Pow(metropolis.MeanSquareDisplacement.StandardError, 2) + Math.Pow(direct.MeanSquareDisplacement.StandardError, 2));
+        Assert.InRange(metropolis.MeanSquareDisplacement.Value - direct.MeanSquareDisplacement.Value, -4 * combined, 4 * combined);
+        Assert.InRange(metropolis.Diagnostics.AcceptanceRate!.Value, 0.2, 0.45);
+        Assert.InRange(metropolis.Diagnostics.RHat!.Value, 0.99, 1.01);
+    }
 }

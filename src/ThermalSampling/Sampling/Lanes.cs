@@ -68,6 +68,8 @@ internal interface ILaneOps<TD, TB>
 
     static abstract TB Or(TB a, TB b);
 
+    static abstract TB AndBits(TB a, TB b);
+
     static abstract TB AddBits(TB a, TB b);
 
     static abstract TB ShiftLeft(TB a, int count);
@@ -116,6 +118,7 @@ internal readonly struct Lanes8 : ILaneOps<Vector512<double>, Vector512<ulong>>
     public static void Store(Vector512<double> v, ref double destination) => v.StoreUnsafe(ref destination);
     public static Vector512<ulong> Xor(Vector512<ulong> a, Vector512<ulong> b) => a ^ b;
     public static Vector512<ulong> Or(Vector512<ulong> a, Vector512<ulong> b) => a | b;
+    public static Vector512<ulong> AndBits(Vector512<ulong> a, Vector512<ulong> b) => a & b;
     public static Vector512<ulong> AddBits(Vector512<ulong> a, Vector512<ulong> b) => a + b;
     public static Vector512<ulong> ShiftLeft(Vector512<ulong> a, int count) => Vector512.ShiftLeft(a, count);
     public static Vector512<ulong> ShiftRight(Vector512<ulong> a, int count) => Vector512.ShiftRightLogical(a, count);
@@ -153,6 +156,7 @@ internal readonly struct Lanes4 : ILaneOps<Vector256<double>, Vector256<ulong>>
     public static void Store(Vector256<double> v, ref double destination) => v.StoreUnsafe(ref destination);
     public static Vector256<ulong> Xor(Vector256<ulong> a, Vector256<ulong> b) => a ^ b;
     public static Vector256<ulong> Or(Vector256<ulong> a, Vector256<ulong> b) => a | b;
+    public static Vector256<ulong> AndBits(Vector256<ulong> a, Vector256<ulong> b) => a & b;
     public static Vector256<ulong> AddBits(Vector256<ulong> a, Vector256<ulong> b) => a + b;
     public static Vector256<ulong> ShiftLeft(Vector256<ulong> a, int count) => Vector256.ShiftLeft(a, count);
     public static Vector256<ulong> ShiftRight(Vector256<ulong> a, int count) => Vector256.ShiftRightLogical(a, count);
@@ -190,6 +194,7 @@ internal readonly struct Lanes2 : ILaneOps<Vector128<double>, Vector128<ulong>>
     public static void Store(Vector128<double> v, ref double destination) => v.StoreUnsafe(ref destination);
     public static Vector128<ulong> Xor(Vector128<ulong> a, Vector128<ulong> b) => a ^ b;
     public static Vector128<ulong> Or(Vector128<ulong> a, Vector128<ulong> b) => a | b;
+    public static Vector128<ulong> AndBits(Vector128<ulong> a, Vector128<ulong> b) => a & b;
     public static Vector128<ulong> AddBits(Vector128<ulong> a, Vector128<ulong> b) => a + b;
     public static Vector128<ulong> ShiftLeft(Vector128<ulong> a, int count) => Vector128.ShiftLeft(a, count);
     public static Vector128<ulong> ShiftRight(Vector128<ulong> a, int count) => Vector128.ShiftRightLogical(a, count);
@@ -229,6 +234,7 @@ internal readonly struct Lanes1 : ILaneOps<double, ulong>
     public static void Store(double v, ref double destination) => destination = v;
     public static ulong Xor(ulong a, ulong b) => a ^ b;
     public static ulong Or(ulong a, ulong b) => a | b;
+    public static ulong AndBits(ulong a, ulong b) => a & b;
     public static ulong AddBits(ulong a, ulong b) => a + b;
     public static ulong ShiftLeft(ulong a, int count) => a << count;
     public static ulong ShiftRight(ulong a, int count) => a >> count;
@@ -318,6 +324,28 @@ internal static class LaneMath
         s2 = TOps.Xor(s2, t);
         s3 = TOps.Or(TOps.ShiftLeft(s3, 45), TOps.ShiftRight(s3, 19));
         return result;
+    }
+
+    /// <summary>
+    /// Two symmetric uniform offsets in (−1, 1) in every lane from one 64-bit output: each half k (32 bits) gives
+    /// (2k + 1)/2^32 − 1, a grid symmetric about 0, so a proposal built from it is exactly symmetric. For proposals only:
+    /// 32 bits of resolution are ample for a step, while acceptance tests use <see cref="NextUnit{TOps, TD, TB}"/>.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD NextOffsetPair<TOps, TD, TB>(ref TB s0, ref TB s1, ref TB s2, ref TB s3, out TD second)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var bits = NextBits<TOps, TD, TB>(ref s0, ref s1, ref s2, ref s3);
+        var exponent = TOps.BroadcastBits(0x4330000000000000UL); // 2^52: or-ing in k < 2^32 gives the double 2^52 + k exactly
+        var twoTo52 = TOps.Broadcast(4503599627370496.0);
+        var scale = TOps.Broadcast(1.0 / 2147483648.0);            // 2^−31
+        var offset = TOps.Broadcast(1.0 - 1.0 / 4294967296.0);     // 1 − 2^−32
+        var high = TOps.Subtract(TOps.BitsAsDouble(TOps.Or(TOps.ShiftRight(bits, 32), exponent)), twoTo52);
+        var low = TOps.Subtract(TOps.BitsAsDouble(TOps.Or(TOps.AndBits(bits, TOps.BroadcastBits(0xFFFFFFFFUL)), exponent)), twoTo52);
+        second = TOps.Subtract(TOps.Multiply(low, scale), offset);
+        return TOps.Subtract(TOps.Multiply(high, scale), offset);
     }
 
     /// <summary>A uniform double in [0, 1) in every lane from the top 52 bits of the next output (exponent-field construction, exact at every width).</summary>

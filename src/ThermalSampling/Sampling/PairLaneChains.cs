@@ -10,7 +10,7 @@ namespace ThermalSampling.Sampling;
 
 /// <summary>
 /// Random-walk Metropolis for line and radial pairs, several chains in lockstep (one per vector lane). Per step and lane:
-/// r' = r + w(2u₁ − 1) (uniform, symmetric proposal); r' outside the window is rejected; otherwise accepted when
+/// r' = r + w(2u₁ − 1 + 2^−52) (uniform on a grid symmetric about 0, so the proposal is exactly symmetric); r' outside the window is rejected; otherwise accepted when
 /// u₂·J(r) &lt; J(r')·e^(−(V(r') − V(r))/kT), with J = 1 (line) or r² (radial). During burn-in each lane's width follows
 /// <see cref="StepWidthAdapter"/>'s rule; then it freezes. Every chain uses its own stream
 /// (<see cref="RandomStream.ForChain"/>), so the draws of chain c are the same bits at any lane width and thread count.
@@ -153,7 +153,8 @@ internal static class PairLaneChains
             var u1 = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
             var u2 = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
             var one = TOps.Broadcast(1.0);
-            var proposal = TOps.MultiplyAdd(width, TOps.Subtract(TOps.Add(u1, u1), one), position);
+            // 2u − (1 − 2^−52): the 52-bit grid of u shifted half a cell, so the offsets are symmetric about 0 and so is the proposal.
+            var proposal = TOps.MultiplyAdd(width, TOps.Subtract(TOps.Add(u1, u1), TOps.Broadcast(1.0 - 1.0 / 4503599627370496.0)), position);
             var inside = TOps.And(TOps.LessOrEqual(TOps.Broadcast(_lower), proposal), TOps.LessOrEqual(proposal, TOps.Broadcast(_upper)));
             var candidate = TOps.Select(inside, proposal, position); // outside lanes evaluate the current point and are rejected below
             var candidateEnergy = Energy(candidate);

@@ -118,6 +118,26 @@ internal struct CovarianceAccumulator
         Cyz += dy * ez;
     }
 
+    /// <summary>A block of n positions from its raw sums about a reference point: Σd, Σd² and Σ of the cross products of d = p − ref.</summary>
+    internal static CovarianceAccumulator FromRawSums(long n, double refX, double refY, double refZ, double sx, double sy, double sz,
+        double sxx, double syy, double szz, double sxy, double sxz, double syz)
+    {
+        double mx = sx / n, my = sy / n, mz = sz / n;
+        return new CovarianceAccumulator
+        {
+            Count = n,
+            MeanX = refX + mx,
+            MeanY = refY + my,
+            MeanZ = refZ + mz,
+            Cxx = Math.Max(sxx - sx * mx, 0),
+            Cyy = Math.Max(syy - sy * my, 0),
+            Czz = Math.Max(szz - sz * mz, 0),
+            Cxy = sxy - sx * my,
+            Cxz = sxz - sx * mz,
+            Cyz = syz - sy * mz,
+        };
+    }
+
     internal static CovarianceAccumulator Merge(in CovarianceAccumulator a, in CovarianceAccumulator b)
     {
         if (a.Count == 0)

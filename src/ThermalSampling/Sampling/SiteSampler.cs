@@ -73,22 +73,37 @@ public static class SiteSampler
 
         Envelope? envelope = metropolis ? null : Envelope.Build(kernel, min, cholesky, logWeightMin, landscape, settings.Seed);
         int chains = settings.Chains;
-        var results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken, c =>
+        BatchMeansStore[] NewStores() => new[]
         {
-            var random = RandomStream.ForChain(settings.Seed, c);
-            var stores = new[]
+            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.X),
+            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Y),
+            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Z),
+        };
+        BinCounter NewRadial() => new(0, radialMax, settings.HistogramBins);
+        DrawRecorder<Position> NewDraws() => new(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
+        ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
+
+        ChainResult[] results;
+        if (metropolis)
+        {
+            var plan = new SiteLaneChains.Plan<TPotential>(landscape.Potential, landscape.PackedCoordinates.ToArray(), landscape.Centre, landscape.Confinement,
+                min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, WallBand(cholesky),
+                settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description);
+            int lanes = PairLaneChains.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
+            var groups = ChainScheduler.RunAll((chains + lanes - 1) / lanes, settings.MaxThreads, cancellationToken,
+                g => SiteLaneChains.Run(lanes, plan, g * lanes, chains, c => StartOfChain(landscape, min, cholesky, settings.Seed, c),
+                    c => (NewStores(), NewRadial(), NewDraws()), NewReporter, cancellationToken));
+            results = groups.SelectMany(g => g)
+                .Select(o => new ChainResult(o.Moments, o.Stores, o.Radial, o.Draws, o.Accepted, settings.SamplesPerChain, o.NearWall, o.Scale)).ToArray();
+        }
+        else
+        {
+            results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken, c =>
             {
-                new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.X),
-                new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Y),
-                new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Z),
-            };
-            var radial = new BinCounter(0, radialMax, settings.HistogramBins);
-            var draws = new DrawRecorder<Position>(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
-            var report = new ProgressReporter(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
-            return metropolis
-                ? RunMetropolisChain(kernel, landscape, min, cholesky, scale0, target, maxScale, settings, ref random, stores, radial, draws, report, cancellationToken)
-                : RunDirectChain(kernel, landscape, min, envelope!, settings, ref random, stores, radial, draws, report, cancellationToken);
-        });
+                var random = RandomStream.ForChain(settings.Seed, c);
+                return RunDirectChain(kernel, landscape, min, envelope!, settings, ref random, NewStores(), NewRadial(), NewDraws(), NewReporter(c), cancellationToken);
+            });
+        }
 
         var moments = results[0].Moments;
         for (int c = 1; c < chains; c++)
@@ -174,13 +189,12 @@ public static class SiteSampler
     private static bool NearWall(Confinement confinement, Position centre, double x, double y, double z, double band)
         => confinement.DistanceToWall(x - centre.X, y - centre.Y, z - centre.Z) < band;
 
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private static ChainResult RunMetropolisChain<TPotential>(SiteMetropolisKernel<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min,
-        Matrix<double> cholesky, double scale0, double target, double maxScale, SamplingSettings settings, ref RandomStream random,
-        BatchMeansStore[] stores, BinCounter radial, DrawRecorder<Position> draws, ProgressReporter progress, CancellationToken ct)
+    /// <summary>Chain c's over-dispersed start, about two harmonic standard deviations out and inside the confinement, and its stream after the draws that chose it.</summary>
+    private static (RandomStream Stream, Position Start) StartOfChain<TPotential>(SiteLandscape<TPotential> landscape, Position min, Matrix<double> cholesky,
+        ulong seed, int chain)
         where TPotential : struct, IPairPotential
     {
-        // Over-dispersed start: about two harmonic standard deviations out, inside the confinement.
+        var random = RandomStream.ForChain(seed, chain);
         var start = min;
         for (int attempt = 0; attempt < 100; attempt++)
         {
@@ -192,35 +206,7 @@ public static class SiteSampler
                 break;
             }
         }
-        var adapter = new StepWidthAdapter(scale0, target, maxScale);
-        var state = BurnIn.Run<SiteMetropolisKernel<TPotential>, SiteChainState>(kernel, kernel.StateAt(start), ref adapter, settings.BurnIn, ref random, progress, ct);
-        double scale = adapter.Width;
-        var moments = new CovarianceAccumulator();
-        long acceptedCount = 0, nearWall = 0;
-        var confinement = landscape.Confinement;
-        var centre = landscape.Centre;
-        double band = WallBand(cholesky);
-        for (long i = 0; i < settings.SamplesPerChain; i++)
-        {
-            state = kernel.Step(state, scale, ref random, out bool accepted);
-            if (accepted)
-            {
-                acceptedCount++;
-            }
-            Record(state.X, state.Y, state.Z, min, ref moments, stores, radial);
-            draws.Add(new Position(state.X, state.Y, state.Z));
-            if (NearWall(confinement, centre, state.X, state.Y, state.Z, band))
-            {
-                nearWall++;
-            }
-            if ((i & 4095) == 0)
-            {
-                ct.ThrowIfCancellationRequested();
-                progress.Report(settings.BurnIn + i);
-            }
-        }
-        progress.Finish();
-        return new ChainResult(moments, stores, radial, draws, acceptedCount, settings.SamplesPerChain, nearWall, scale);
+        return (random, start);
     }
 
     /// <summary>The near-wall band: one harmonic RMS spread per direction, √(tr Σ/3).</summary>

@@ -1,0 +1,481 @@
+using System;
+using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
+using System.Threading;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Randomness;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>
+/// Random-walk Metropolis for a particle among fixed sites, several chains in lockstep (one per vector lane). Per step
+/// and lane: p' = p + s·L·v with v uniform in (−1, 1)³ on a symmetric 32-bit grid (<see cref="LaneMath.NextOffsetPair{TOps, TD, TB}"/>) and L the Cholesky factor of the harmonic covariance (a
+/// symmetric proposal shaped like the well); p' outside the confinement is rejected; otherwise accepted when
+/// u₄ &lt; e^(−(V(p') − V(p))/kT). The scale s adapts per lane in burn-in by <see cref="StepWidthAdapter"/>'s rule and then
+/// freezes. Each chain uses its own stream, so its draws are the same bits at any lane width and thread count.
+/// </summary>
+internal static class SiteLaneChains
+{
+    private const int ChunkSteps = LaneAdaptation.ChunkSteps;
+    private const int BlockSize = 4096;
+
+    /// <summary>What one chain hands back.</summary>
+    internal sealed record ChainOutcome(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws,
+        long Accepted, long NearWall, double Scale);
+
+    /// <summary>Everything fixed for a run.</summary>
+    internal sealed record Plan<TPotential>(TPotential Potential, double[] Sites, Position Centre, Confinement Confinement, Position Minimum,
+        double L00, double L10, double L11, double L20, double L21, double L22, double Beta, double InitialScale, double TargetAcceptance,
+        double MaxScale, double WallBand, long BurnIn, long Samples, ulong Seed, string Description) where TPotential : struct, IPairPotential;
+
+    /// <summary>Per chain: its stream advanced past the start-point draws, and the start.</summary>
+    internal delegate (RandomStream Stream, Position Start) ChainStart(int chain);
+
+    /// <summary>Per chain: its three batch-mean stores, radial histogram and retained draws.</summary>
+    internal delegate (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws) ChainRecord(int chain);
+
+    internal static ChainOutcome[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, ChainStart start, ChainRecord record,
+        Func<int, ProgressReporter> progress, CancellationToken ct)
+        where TPotential : struct, IPairPotential
+        => lanes switch
+        {
+            8 => Run<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, start, record, progress, ct),
+            4 => Run<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, start, record, progress, ct),
+            2 => Run<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, start, record, progress, ct),
+            _ => Run<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, start, record, progress, ct),
+        };
+
+    private static ChainOutcome[] Run<TOps, TD, TB, TPotential>(Plan<TPotential> plan, int firstChain, int chains, ChainStart start, ChainRecord makeRecord,
+        Func<int, ProgressReporter> makeProgress, CancellationToken ct)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        where TPotential : struct, IPairPotential
+    {
+        int width = TOps.Count;
+        int live = Math.Min(width, chains - firstChain);
+        var records = new (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[live];
+        var reporters = new ProgressReporter[live];
+        var walk = default(SiteWalk<TD, TB>);
+        TD x = TOps.Broadcast(0), y = x, z = x;
+        Span<ulong> words = stackalloc ulong[4];
+        for (int lane = 0; lane < width; lane++)
+        {
+            int chain = Math.Min(firstChain + lane, chains - 1); // padding lanes repeat the last chain and are dropped
+            var (stream, p) = start(chain);
+            stream.GetState(words);
+            walk.R0 = TOps.SetBits(walk.R0, lane, words[0]);
+            walk.R1 = TOps.SetBits(walk.R1, lane, words[1]);
+            walk.R2 = TOps.SetBits(walk.R2, lane, words[2]);
+            walk.R3 = TOps.SetBits(walk.R3, lane, words[3]);
+            x = TOps.Set(x, lane, p.X);
+            y = TOps.Set(y, lane, p.Y);
+            z = TOps.Set(z, lane, p.Z);
+            if (lane < live)
+            {
+                records[lane] = makeRecord(chain);
+                reporters[lane] = makeProgress(chain);
+            }
+        }
+
+        var kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
+        kernel.Start(ref walk, x, y, z);
+        var logScale = kernel.BurnIn(ref walk, TOps.Broadcast(Math.Log(plan.InitialScale)), plan.BurnIn, reporters, ct);
+        var scale = LaneAdaptation.Width<TOps, TD, TB>(logScale, plan.MaxScale);
+        var moments = new CovarianceAccumulator[live];
+        kernel.Record(ref walk, scale, plan.BurnIn, plan.Samples, records, moments, reporters, ct);
+
+        var outcomes = new ChainOutcome[live];
+        for (int lane = 0; lane < live; lane++)
+        {
+            reporters[lane].Finish();
+            outcomes[lane] = new ChainOutcome(moments[lane], records[lane].Stores, records[lane].Radial, records[lane].Draws,
+                (long)TOps.Get(walk.Accepted, lane), (long)TOps.Get(walk.NearWall, lane), TOps.Get(scale, lane));
+        }
+        return outcomes;
+    }
+
+    private readonly struct Kernel<TOps, TD, TB, TPotential>
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        where TPotential : struct, IPairPotential
+    {
+        private readonly Plan<TPotential> _plan;
+        private readonly TPotential _potential;
+        private readonly double[] _sites;
+        private readonly bool _sphere;
+
+        internal Kernel(Plan<TPotential> plan)
+        {
+            _plan = plan;
+            _potential = plan.Potential;
+            _sites = plan.Sites;
+            _sphere = plan.Confinement.Shape == ConfinementShape.Sphere;
+        }
+
+        /// <summary>Σ_sites V(|p − site|²) in every lane, summed site by site in the landscape's order.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        private TD Energy(TD x, TD y, TD z)
+        {
+            var sites = _sites;
+            var e = TOps.Broadcast(0.0);
+            for (int i = 0; i + 2 < sites.Length; i += 3)
+            {
+                var dx = TOps.Subtract(x, TOps.Broadcast(sites[i]));
+                var dy = TOps.Subtract(y, TOps.Broadcast(sites[i + 1]));
+                var dz = TOps.Subtract(z, TOps.Broadcast(sites[i + 2]));
+                var r2 = TOps.Add(TOps.Add(TOps.Multiply(dx, dx), TOps.Multiply(dy, dy)), TOps.Multiply(dz, dz));
+                e = TOps.Add(e, LaneEnergy.AtSquaredDistance<TOps, TD, TB, TPotential>(_potential, r2));
+            }
+            return e;
+        }
+
+        /// <summary>The confinement test (<see cref="Confinement.Contains"/>'s arithmetic) and whether the point lies within
+        /// the wall band (distance to the wall below the band), without a square root.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        private TD Inside(TD dx, TD dy, TD dz, out TD nearWall)
+        {
+            double size = _plan.Confinement.SizeInAngstroms;
+            double innerEdge = Math.Max(size - _plan.WallBand, 0); // |d| beyond this is within the band of the wall
+            if (_sphere)
+            {
+                var r2 = TOps.Add(TOps.Add(TOps.Multiply(dx, dx), TOps.Multiply(dy, dy)), TOps.Multiply(dz, dz));
+                nearWall = TOps.GreaterThan(r2, TOps.Broadcast(innerEdge * innerEdge));
+                return TOps.LessOrEqual(r2, TOps.Broadcast(size * size));
+            }
+            var ax = TOps.Abs(dx);
+            var ay = TOps.Abs(dy);
+            var az = TOps.Abs(dz);
+            var largest = TOps.Select(TOps.LessThan(ax, ay), ay, ax);
+            largest = TOps.Select(TOps.LessThan(largest, az), az, largest);
+            nearWall = TOps.GreaterThan(largest, TOps.Broadcast(innerEdge));
+            return TOps.LessOrEqual(largest, TOps.Broadcast(size));
+        }
+
+        private static TD Distance(TD x, TD y, TD z) => TOps.Sqrt(TOps.Add(TOps.Add(TOps.Multiply(x, x), TOps.Multiply(y, y)), TOps.Multiply(z, z)));
+
+        internal void Start(ref SiteWalk<TD, TB> w, TD x, TD y, TD z)
+        {
+            var e = Energy(x, y, z);
+            var faults = LaneFaultCheck.None<TOps, TD, TB>();
+            LaneFaultCheck.Note<TOps, TD, TB>(ref faults, Distance(x, y, z), e);
+            LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _plan.Description);
+            w.X = x;
+            w.Y = y;
+            w.Z = z;
+            w.Energy = e;
+        }
+
+        /// <summary>One step in every lane; returns the acceptance mask.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        private TD Step(ref TD x, ref TD y, ref TD z, ref TD energy, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD scale, ref LaneFaults<TD> faults)
+        {
+            var a = TOps.Multiply(scale, LaneMath.NextOffsetPair<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, out var bUnit));
+            var b = TOps.Multiply(scale, bUnit);
+            var c = TOps.Multiply(scale, LaneMath.NextOffsetPair<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, out _));
+            var u = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
+            var px = TOps.MultiplyAdd(TOps.Broadcast(_plan.L00), a, x);
+            var py = TOps.MultiplyAdd(TOps.Broadcast(_plan.L11), b, TOps.MultiplyAdd(TOps.Broadcast(_plan.L10), a, y));
+            var pz = TOps.MultiplyAdd(TOps.Broadcast(_plan.L22), c, TOps.MultiplyAdd(TOps.Broadcast(_plan.L21), b, TOps.MultiplyAdd(TOps.Broadcast(_plan.L20), a, z)));
+            var centre = _plan.Centre;
+            var inside = Inside(TOps.Subtract(px, TOps.Broadcast(centre.X)), TOps.Subtract(py, TOps.Broadcast(centre.Y)), TOps.Subtract(pz, TOps.Broadcast(centre.Z)), out _);
+            // Outside lanes evaluate the current point and are rejected below.
+            px = TOps.Select(inside, px, x);
+            py = TOps.Select(inside, py, y);
+            pz = TOps.Select(inside, pz, z);
+            var candidate = Energy(px, py, pz);
+            LaneFaultCheck.Note<TOps, TD, TB>(ref faults, TOps.Broadcast(0.0), candidate);
+            var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(TOps.Broadcast(-_plan.Beta), TOps.Subtract(candidate, energy)));
+            var accept = TOps.And(inside, TOps.LessThan(u, ratio));
+            x = TOps.Select(accept, px, x);
+            y = TOps.Select(accept, py, y);
+            z = TOps.Select(accept, pz, z);
+            energy = TOps.Select(accept, candidate, energy);
+            return accept;
+        }
+
+        internal TD BurnIn(ref SiteWalk<TD, TB> w, TD logScale, long steps, ProgressReporter[] reporters, CancellationToken ct)
+        {
+            var gains = new double[ChunkSteps];
+            for (long i = 0; i < steps; i += ChunkSteps)
+            {
+                ct.ThrowIfCancellationRequested();
+                foreach (var p in reporters)
+                {
+                    p.Report(i);
+                }
+                int chunk = (int)Math.Min(ChunkSteps, steps - i);
+                LaneAdaptation.FillGains(gains, i, chunk);
+                w.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+                logScale = AdaptChunk(ref w, logScale, gains, chunk);
+                ThrowIfFaulted(w);
+            }
+            return logScale;
+        }
+
+        /// <summary>A chunk of burn-in, in a method with no calls inside so the walk stays in registers.</summary>
+        [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
+        private TD AdaptChunk(ref SiteWalk<TD, TB> w, TD logScale, double[] gains, int chunk)
+        {
+            TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy;
+            TB r0 = w.R0, r1 = w.R1, r2 = w.R2, r3 = w.R3;
+            var faults = w.Faults;
+            var logMax = TOps.Broadcast(Math.Log(_plan.MaxScale));
+            for (int j = 0; j < chunk; j++)
+            {
+                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale), ref faults);
+                logScale = LaneAdaptation.Update<TOps, TD, TB>(logScale, accept, _plan.TargetAcceptance, gains[j], logMax);
+            }
+            (w.X, w.Y, w.Z, w.Energy) = (x, y, z, energy);
+            (w.R0, w.R1, w.R2, w.R3) = (r0, r1, r2, r3);
+            w.Faults = faults;
+            return logScale;
+        }
+
+        private void ThrowIfFaulted(in SiteWalk<TD, TB> w)
+        {
+            // The fault's position is not kept per lane (registers are scarce here); the current position of the faulted lane is near it.
+            var f = w.Faults;
+            if (!TOps.AllTrue(f.AllFinite))
+            {
+                f.Separation = Distance(w.X, w.Y, w.Z);
+                LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(f, _plan.Description);
+            }
+        }
+
+        /// <summary>The recorded phase; chunks end at moment-block and progress boundaries, where the bookkeeping (which makes calls) happens.</summary>
+        internal void Record(ref SiteWalk<TD, TB> w, TD scale, long burnIn, long samples,
+            (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] records, CovarianceAccumulator[] moments,
+            ProgressReporter[] reporters, CancellationToken ct)
+        {
+            var first = records[0];
+            var tally = new SiteTally(first.Radial, first.Draws.Capacity, TOps.Count, records.Length);
+            int batchSize = first.Stores[0].BatchSize, inBatch = 0, inBlock = 0;
+            var zero = TOps.Broadcast(0.0);
+            w.Sums = default;
+            w.Batch = default;
+            w.Accepted = w.NearWall = zero;
+            long i = 0;
+            while (i < samples)
+            {
+                if ((i & (ChunkSteps - 1)) == 0)
+                {
+                    ct.ThrowIfCancellationRequested();
+                    foreach (var p in reporters)
+                    {
+                        p.Report(burnIn + i);
+                    }
+                }
+                int chunk = (int)Math.Min(BlockSize - inBlock, Math.Min(samples - i, ChunkSteps - (i & (ChunkSteps - 1))));
+                w.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+                int closed = RecordChunk(ref w, scale, chunk, i, ref inBatch, batchSize, tally);
+                ThrowIfFaulted(w);
+                for (int k = 0; k < closed; k++)
+                {
+                    for (int lane = 0; lane < records.Length; lane++)
+                    {
+                        for (int axis = 0; axis < 3; axis++)
+                        {
+                            records[lane].Stores[axis].AddBatchSums(tally.BatchSums[(6 * k + 2 * axis) * TOps.Count + lane], tally.BatchSums[(6 * k + 2 * axis + 1) * TOps.Count + lane]);
+                        }
+                    }
+                }
+                i += chunk;
+                inBlock += chunk;
+                if (inBlock == BlockSize || i == samples)
+                {
+                    for (int lane = 0; lane < records.Length; lane++)
+                    {
+                        var s = w.Sums;
+                        var block = CovarianceAccumulator.FromRawSums(inBlock, _plan.Minimum.X, _plan.Minimum.Y, _plan.Minimum.Z,
+                            TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane), TOps.Get(s.XX, lane), TOps.Get(s.YY, lane), TOps.Get(s.ZZ, lane),
+                            TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane));
+                        moments[lane] = CovarianceAccumulator.Merge(moments[lane], block);
+                    }
+                    w.Sums = default;
+                    inBlock = 0;
+                }
+            }
+            tally.CopyTo(records, samples);
+        }
+
+        /// <summary>A chunk of the recorded phase, with no calls inside; batches closed in it leave their sums in the tally.</summary>
+        [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
+        private int RecordChunk(ref SiteWalk<TD, TB> w, TD scale, int chunk, long done, ref int inBatch, int batchSize, SiteTally tally)
+        {
+            TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy;
+            TB r0 = w.R0, r1 = w.R1, r2 = w.R2, r3 = w.R3;
+            var faults = w.Faults;
+            // Individual locals, not the sum structs: a struct copy or clear here becomes a memcpy call, and any call in the
+            // loop sends every vector register to memory.
+            TD sX = w.Sums.X, sY = w.Sums.Y, sZ = w.Sums.Z, sXX = w.Sums.XX, sYY = w.Sums.YY, sZZ = w.Sums.ZZ, sXY = w.Sums.XY, sXZ = w.Sums.XZ, sYZ = w.Sums.YZ;
+            TD bX = w.Batch.X, bY = w.Batch.Y, bZ = w.Batch.Z, bXX = w.Batch.XX, bYY = w.Batch.YY, bZZ = w.Batch.ZZ;
+            TD accepted = w.Accepted, nearWall = w.NearWall;
+            var one = TOps.Broadcast(1.0);
+            var zero = TOps.Broadcast(0.0);
+            var minimum = _plan.Minimum;
+            var centre = _plan.Centre;
+            var binScale = TOps.Broadcast(tally.BinScale);
+            var binCount = TOps.Broadcast(tally.Bins);
+            var lastBin = TOps.Broadcast(tally.Bins - 1);
+            var laneOffsets = TOps.BroadcastBits(0);
+            for (int lane = 0; lane < TOps.Count; lane++)
+            {
+                laneOffsets = TOps.SetBits(laneOffsets, lane, (ulong)(Math.Min(lane, tally.Lanes - 1) * tally.Bins));
+            }
+            var counts = tally.Counts;
+            var index = tally.Index;
+            var scratch = tally.Scratch;
+            var kept = tally.Kept;
+            var batchSums = tally.BatchSums;
+            long keptStride = tally.Retained;
+            int lanes = tally.Lanes, closed = 0, filled = inBatch;
+            long retain = Math.Max(0, Math.Min(chunk, tally.Retained - done));
+            for (int j = 0; j < chunk; j++)
+            {
+                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, scale, ref faults);
+                accepted = TOps.Add(accepted, TOps.Select(accept, one, zero));
+
+                // Deviations from the harmonic minimum (within the confinement, so small): the covariance block sums (converted
+                // by CovarianceAccumulator.FromRawSums) and the batch sums per axis (BatchMeansStore's rule) share them.
+                var mx = TOps.Subtract(x, TOps.Broadcast(minimum.X));
+                var my = TOps.Subtract(y, TOps.Broadcast(minimum.Y));
+                var mz = TOps.Subtract(z, TOps.Broadcast(minimum.Z));
+                sX = TOps.Add(sX, mx);
+                sY = TOps.Add(sY, my);
+                sZ = TOps.Add(sZ, mz);
+                sXX = TOps.MultiplyAdd(mx, mx, sXX);
+                sYY = TOps.MultiplyAdd(my, my, sYY);
+                sZZ = TOps.MultiplyAdd(mz, mz, sZZ);
+                sXY = TOps.MultiplyAdd(mx, my, sXY);
+                sXZ = TOps.MultiplyAdd(mx, mz, sXZ);
+                sYZ = TOps.MultiplyAdd(my, mz, sYZ);
+                bX = TOps.Add(bX, mx);
+                bY = TOps.Add(bY, my);
+                bZ = TOps.Add(bZ, mz);
+                bXX = TOps.Add(bXX, TOps.Multiply(mx, mx));
+                bYY = TOps.Add(bYY, TOps.Multiply(my, my));
+                bZZ = TOps.Add(bZZ, TOps.Multiply(mz, mz));
+                if (++filled == batchSize)
+                {
+                    int at = 6 * closed * TOps.Count;
+                    TOps.Store(bX, ref batchSums[at]);
+                    TOps.Store(bXX, ref batchSums[at + TOps.Count]);
+                    TOps.Store(bY, ref batchSums[at + 2 * TOps.Count]);
+                    TOps.Store(bYY, ref batchSums[at + 3 * TOps.Count]);
+                    TOps.Store(bZ, ref batchSums[at + 4 * TOps.Count]);
+                    TOps.Store(bZZ, ref batchSums[at + 5 * TOps.Count]);
+                    bX = bY = bZ = bXX = bYY = bZZ = zero;
+                    closed++;
+                    filled = 0;
+                }
+
+                // The near-wall fraction (within the band of the wall) and the radial histogram about the minimum.
+                Inside(TOps.Subtract(x, TOps.Broadcast(centre.X)), TOps.Subtract(y, TOps.Broadcast(centre.Y)), TOps.Subtract(z, TOps.Broadcast(centre.Z)), out var near);
+                nearWall = TOps.Add(nearWall, TOps.Select(near, one, zero));
+                var t = TOps.Multiply(Distance(mx, my, mz), binScale);
+                t = TOps.Select(TOps.LessThan(t, binCount), t, lastBin);
+                TOps.StoreBits(TOps.AddBits(TOps.Truncate(t), laneOffsets), ref index[0]);
+                for (int lane = 0; lane < lanes; lane++)
+                {
+                    counts[index[lane]]++;
+                }
+                if (j < retain)
+                {
+                    long at = done + j;
+                    TOps.Store(x, ref scratch[0]);
+                    TOps.Store(y, ref scratch[TOps.Count]);
+                    TOps.Store(z, ref scratch[2 * TOps.Count]);
+                    for (int lane = 0; lane < lanes; lane++)
+                    {
+                        long row = 3 * (lane * keptStride + at);
+                        kept[row] = scratch[lane];
+                        kept[row + 1] = scratch[TOps.Count + lane];
+                        kept[row + 2] = scratch[2 * TOps.Count + lane];
+                    }
+                }
+            }
+            (w.X, w.Y, w.Z, w.Energy) = (x, y, z, energy);
+            (w.R0, w.R1, w.R2, w.R3) = (r0, r1, r2, r3);
+            w.Faults = faults;
+            w.Sums = new LaneSums3<TD> { X = sX, Y = sY, Z = sZ, XX = sXX, YY = sYY, ZZ = sZZ, XY = sXY, XZ = sXZ, YZ = sYZ };
+            w.Batch = new LaneSums3<TD> { X = bX, Y = bY, Z = bZ, XX = bXX, YY = bYY, ZZ = bZZ, XY = zero, XZ = zero, YZ = zero };
+            w.Accepted = accepted;
+            w.NearWall = nearWall;
+            inBatch = filled;
+            return closed;
+        }
+    }
+
+    /// <summary>Histogram counts, batch sums and retained draws of a lane group, in flat arrays the inner loop reaches without calls.</summary>
+    private sealed class SiteTally
+    {
+        internal SiteTally(BinCounter radial, int retained, int width, int lanes)
+        {
+            BinScale = radial.Scale;
+            Bins = radial.Counts.Length;
+            Lanes = lanes;
+            Retained = retained;
+            Counts = new long[lanes * Bins];
+            Index = new ulong[width];
+            Scratch = new double[3 * width];
+            Kept = new double[3L * lanes * retained];
+            BatchSums = new double[6 * width * ChunkSteps];
+        }
+
+        internal double BinScale { get; }
+
+        internal int Bins { get; }
+
+        internal int Lanes { get; }
+
+        internal int Retained { get; }
+
+        internal long[] Counts { get; }
+
+        internal ulong[] Index { get; }
+
+        internal double[] Scratch { get; }
+
+        internal double[] Kept { get; }
+
+        /// <summary>Batch k: sums of (x, (x)², y, y², z, z²) about the minimum, each a vector at (6k + i)·width.</summary>
+        internal double[] BatchSums { get; }
+
+        internal void CopyTo((BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] records, long samples)
+        {
+            long kept = Math.Min(samples, Retained);
+            for (int lane = 0; lane < Lanes; lane++)
+            {
+                records[lane].Radial.AddCounts(Counts.AsSpan(lane * Bins, Bins));
+                for (long k = 0; k < kept; k++)
+                {
+                    long row = 3 * (lane * (long)Retained + k);
+                    records[lane].Draws.Add(new Position(Kept[row], Kept[row + 1], Kept[row + 2]));
+                }
+            }
+        }
+    }
+}
+
+/// <summary>Nine running sums of a 3D walk: Σd, Σd² and the cross products, per lane.</summary>
+/// <typeparam name="TD">The lane type.</typeparam>
+internal struct LaneSums3<TD> where TD : struct
+{
+    internal TD X, Y, Z, XX, YY, ZZ, XY, XZ, YZ;
+}
+
+/// <summary>The running state of every lane of a site group.</summary>
+/// <typeparam name="TD">The lane type.</typeparam>
+/// <typeparam name="TB">The lane word type.</typeparam>
+internal struct SiteWalk<TD, TB>
+    where TD : struct
+    where TB : struct
+{
+    internal TD X, Y, Z, Energy, Accepted, NearWall;
+    internal TB R0, R1, R2, R3;
+    internal LaneSums3<TD> Sums, Batch;
+    internal LaneFaults<TD> Faults;
+}
