@@ -153,23 +153,33 @@ internal static class Baselines
     }
 }
 
-/// <summary>An fcc cage with 12 Lennard-Jones neighbours: one 3D Metropolis step, library kernel against a plain loop.</summary>
+/// <summary>
+/// A particle among fixed Lennard-Jones neighbours: the first 1, 4 and 10 fcc shells (12, 54 and 200 sites), per
+/// chain-step. Baseline: the plain loop a user would write (System.Random, Box–Muller, Math.Pow and Math.Sqrt per
+/// neighbour). Library: SiteSampler.Run through the public API, 16 chains, everything included.
+/// Invented parameters: u0 = 0.0103 eV, r0 = 3.8 Å, 40 K, sphere of 1.5 Å.
+/// </summary>
 [MemoryDiagnoser]
 public class SiteStepBenchmarks
 {
-    private const int Steps = 100_000;
+    private const int Steps = 50_000;
+    private const int Chains = 16;
+    private const int StepsPerChain = 400_000;
     private const double R0 = 3.8, U0 = 0.0103, Width = 0.08;
     private static readonly double Beta = 1 / Temperature.FromKelvin(40).ThermalEnergyInElectronVolts;
-    private SiteMetropolisKernel<LennardJones> _kernel;
     private double[] _sites = null!;
+    private SiteLandscape<LennardJones> _landscape = null!;
+
+    /// <summary>Neighbour shells: 1, 4 and 10 give 12, 54 and 200 sites.</summary>
+    [Params(1, 4, 10)]
+    public int Shells { get; set; }
 
     [GlobalSetup]
     public void Setup()
     {
         var lj = LennardJones.FromMinimum(Length.FromAngstroms(R0), Energy.FromElectronVolts(U0));
-        var cage = LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(R0));
-        var landscape = SiteLandscape.Create(lj, cage, Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.5)));
-        _kernel = new SiteMetropolisKernel<LennardJones>(landscape, Beta, (Width, 0, Width, 0, 0, Width));
+        var cage = LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(R0), Shells);
+        _landscape = SiteLandscape.Create(lj, cage, Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.5)));
         _sites = new double[cage.Length * 3];
         for (int i = 0; i < cage.Length; i++)
         {
@@ -192,7 +202,7 @@ public class SiteStepBenchmarks
     [Benchmark(Baseline = true, OperationsPerInvoke = Steps)]
     public double PlainLoopSystemRandom()
     {
-#pragma warning disable CA5394
+#pragma warning disable RS0030, CA5394
         var random = new Random(1);
         double x = 0, y = 0, z = 0, e = PlainEnergy(0, 0, 0), sum = 0;
         for (int i = 0; i < Steps; i++)
@@ -209,21 +219,25 @@ public class SiteStepBenchmarks
             }
             sum += x * x + y * y + z * z;
         }
-#pragma warning restore CA5394
+#pragma warning restore RS0030, CA5394
         return sum;
     }
 
-    [Benchmark(OperationsPerInvoke = Steps)]
-    public double LibraryKernel()
+    private double RunLibrary(int? lanes, int threads)
     {
-        var random = RandomStream.FromSeed(1);
-        var state = _kernel.StateAt(Position.Origin);
-        double sum = 0;
-        for (int i = 0; i < Steps; i++)
-        {
-            state = _kernel.Step(state, 1.0, ref random, out _);
-            sum += state.X * state.X + state.Y * state.Y + state.Z * state.Z;
-        }
-        return sum;
+        var settings = new SamplingSettings { Seed = 1, Chains = Chains, SamplesPerChain = StepsPerChain, BurnIn = 2000, ChainsPerVector = lanes, MaxThreads = threads };
+        return SiteSampler.Run(_landscape, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(40), settings).MeanSquareDisplacement.Value;
     }
+
+    /// <summary>The widest vector the machine runs natively, one thread.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double PublicApiVectorOneThread() => RunLibrary(null, 1);
+
+    /// <summary>The widest vector, two threads.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double PublicApiVectorTwoThreads() => RunLibrary(null, 2);
+
+    /// <summary>The scalar fallback, one thread.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double PublicApiScalarOneThread() => RunLibrary(1, 1);
 }

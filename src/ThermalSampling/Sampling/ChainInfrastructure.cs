@@ -12,65 +12,6 @@ using ThermalSampling.Statistics;
 namespace ThermalSampling.Sampling;
 
 /// <summary>
-/// Tunes the Metropolis proposal width during burn-in by a Robbins–Monro update of its logarithm,
-/// log w ← log w + (accepted − target)/(t + 10)^0.6, and is never used after burn-in, so the recorded chain is a
-/// time-homogeneous Markov chain with a frozen width.
-/// </summary>
-internal struct StepWidthAdapter
-{
-    private double _logWidth;
-    private long _t;
-    private readonly double _target;
-    private readonly double _maxWidth;
-
-    internal StepWidthAdapter(double initialWidth, double target, double maxWidth)
-    {
-        _logWidth = Math.Log(initialWidth);
-        _target = target;
-        _maxWidth = maxWidth;
-        _t = 0;
-    }
-
-    internal readonly double Width => Math.Min(Math.Exp(_logWidth), _maxWidth);
-
-    internal void Update(bool accepted)
-    {
-        _t++;
-        _logWidth += ((accepted ? 1.0 : 0.0) - _target) * 2.0 / Math.Pow(_t + 10, 0.6);
-        _logWidth = Math.Min(_logWidth, Math.Log(_maxWidth));
-    }
-}
-
-/// <summary>One Metropolis step of a kernel; lets the burn-in loop be written once and still be specialised per kernel.</summary>
-/// <typeparam name="TState">The chain state.</typeparam>
-internal interface IMetropolisStep<TState>
-{
-    TState Step(in TState state, double width, ref RandomStream random, out bool accepted);
-}
-
-/// <summary>The burn-in phase shared by all Metropolis drivers: steps with the adapting width, then the width freezes.</summary>
-internal static class BurnIn
-{
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
-    internal static TState Run<TKernel, TState>(in TKernel kernel, TState state, ref StepWidthAdapter adapter, long steps, ref RandomStream random,
-        ProgressReporter progress, CancellationToken ct)
-        where TKernel : struct, IMetropolisStep<TState>
-    {
-        for (long i = 0; i < steps; i++)
-        {
-            state = kernel.Step(state, adapter.Width, ref random, out bool accepted);
-            adapter.Update(accepted);
-            if ((i & 4095) == 0)
-            {
-                ct.ThrowIfCancellationRequested();
-                progress.Report(i);
-            }
-        }
-        return state;
-    }
-}
-
-/// <summary>
 /// Keeps a constant-size record of one chain for diagnostics: the means of consecutive batches of k draws
 /// (k = ⌈N / cap⌉) of (x − ref) and of (x − ref)². The mean of all draws is the mean of the batch means, so
 /// Var(x̄) = Var(batch mean)·τ_batch/M holds for any k, and the batch means of (x − μ)² follow exactly once μ is known.

@@ -116,7 +116,11 @@ internal static class LaneFaultCheck
     }
 }
 
-/// <summary><see cref="StepWidthAdapter"/>'s rule in every lane, for the lane kernels' burn-in.</summary>
+/// <summary>
+/// Tunes each lane's Metropolis proposal width during burn-in by a Robbins–Monro update of its logarithm,
+/// log w ← min(log w + (accepted − target)·2/(t + 10)^0.6, log w_max), and is never used after burn-in, so the recorded
+/// chain is a time-homogeneous Markov chain with a frozen width.
+/// </summary>
 internal static class LaneAdaptation
 {
     /// <summary>Steps between cancellation checks and progress reports in every lane kernel.</summary>

@@ -12,7 +12,7 @@ namespace ThermalSampling.Sampling;
 /// Random-walk Metropolis for line and radial pairs, several chains in lockstep (one per vector lane). Per step and lane:
 /// r' = r + w(2u₁ − 1 + 2^−52) (uniform on a grid symmetric about 0, so the proposal is exactly symmetric); r' outside the window is rejected; otherwise accepted when
 /// u₂·J(r) &lt; J(r')·e^(−(V(r') − V(r))/kT), with J = 1 (line) or r² (radial). During burn-in each lane's width follows
-/// <see cref="StepWidthAdapter"/>'s rule; then it freezes. Every chain uses its own stream
+/// <see cref="LaneAdaptation"/>'s rule; then it freezes. Every chain uses its own stream
 /// (<see cref="RandomStream.ForChain"/>), so the draws of chain c are the same bits at any lane width and thread count.
 /// </summary>
 internal static class PairLaneChains

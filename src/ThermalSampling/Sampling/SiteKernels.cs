@@ -19,7 +19,7 @@ public readonly record struct SiteChainState(double X, double Y, double Z, doubl
 /// well's anisotropy), reject outside the confinement, accept with probability min(1, e^(−ΔE/kT)).
 /// </summary>
 /// <typeparam name="TPotential">The potential, a struct so that the energy call inlines.</typeparam>
-public readonly struct SiteMetropolisKernel<TPotential> : IMetropolisStep<SiteChainState> where TPotential : struct, IPairPotential
+public readonly struct SiteMetropolisKernel<TPotential> where TPotential : struct, IPairPotential
 {
     private readonly TPotential _potential;
     private readonly double[] _sites;

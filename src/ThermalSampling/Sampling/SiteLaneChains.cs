@@ -12,7 +12,7 @@ namespace ThermalSampling.Sampling;
 /// Random-walk Metropolis for a particle among fixed sites, several chains in lockstep (one per vector lane). Per step
 /// and lane: p' = p + s·L·v with v uniform in (−1, 1)³ on a symmetric 32-bit grid (<see cref="LaneMath.NextOffsetPair{TOps, TD, TB}"/>) and L the Cholesky factor of the harmonic covariance (a
 /// symmetric proposal shaped like the well); p' outside the confinement is rejected; otherwise accepted when
-/// u₄ &lt; e^(−(V(p') − V(p))/kT). The scale s adapts per lane in burn-in by <see cref="StepWidthAdapter"/>'s rule and then
+/// u₄ &lt; e^(−(V(p') − V(p))/kT). The scale s adapts per lane in burn-in by <see cref="LaneAdaptation"/>'s rule and then
 /// freezes. Each chain uses its own stream, so its draws are the same bits at any lane width and thread count.
 /// </summary>
 internal static class SiteLaneChains
