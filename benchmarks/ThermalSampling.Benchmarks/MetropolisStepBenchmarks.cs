@@ -164,7 +164,7 @@ public class SiteStepBenchmarks
 {
     private const int Steps = 50_000;
     private const int Chains = 16;
-    private const int StepsPerChain = 400_000;
+    private const int StepsPerChain = 1_000_000;
     private const double R0 = 3.8, U0 = 0.0103, Width = 0.08;
     private static readonly double Beta = 1 / Temperature.FromKelvin(40).ThermalEnergyInElectronVolts;
     private double[] _sites = null!;
@@ -223,9 +223,9 @@ public class SiteStepBenchmarks
         return sum;
     }
 
-    private double RunLibrary(int? lanes, int threads)
+    private double RunLibrary(int? lanes, int threads, int stepsPerChain = StepsPerChain)
     {
-        var settings = new SamplingSettings { Seed = 1, Chains = Chains, SamplesPerChain = StepsPerChain, BurnIn = 2000, ChainsPerVector = lanes, MaxThreads = threads };
+        var settings = new SamplingSettings { Seed = 1, Chains = Chains, SamplesPerChain = stepsPerChain, BurnIn = 2000, ChainsPerVector = lanes, MaxThreads = threads };
         return SiteSampler.Run(_landscape, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(40), settings).MeanSquareDisplacement.Value;
     }
 
@@ -240,4 +240,8 @@ public class SiteStepBenchmarks
     /// <summary>The scalar fallback, one thread.</summary>
     [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
     public double PublicApiScalarOneThread() => RunLibrary(1, 1);
+
+    /// <summary>A run of 16 × 1000 steps: the fixed cost per run (harmonic analysis, starts, diagnostics of three coordinates).</summary>
+    [Benchmark]
+    public double PublicApiFixedCost() => RunLibrary(null, 1, 1000);
 }

@@ -276,7 +276,7 @@ internal static class ChainDiagnostics
     }
 
     /// <summary>R-hat's input per chain: more values add cost (a pooled rank sort) and no information about mixing.</summary>
-    internal const int RHatValuesPerChain = 4096;
+    internal const int RHatValuesPerChain = 1024;
 
     /// <summary>Averages consecutive groups of g = ⌈length / cap⌉ values (longer batches of the same draws), dropping the remainder.</summary>
     internal static IReadOnlyList<double[]> Coarsened(IReadOnlyList<double[]> series, int cap)

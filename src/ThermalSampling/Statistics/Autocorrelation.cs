@@ -1,6 +1,7 @@
 using System;
 using System.Globalization;
 using System.Numerics;
+using System.Runtime.Intrinsics;
 using MathNet.Numerics.IntegralTransforms;
 using ThermalSampling.Internal;
 
@@ -113,11 +114,7 @@ public static class Autocorrelation
             int direct = Math.Min(DirectLags, n - 1);
             for (int m = 1; m <= direct && !found; m++)
             {
-                double c = 0;
-                for (int i = 0; i + m < n; i++)
-                {
-                    c += d[i] * d[i + m];
-                }
+                double c = LagProduct(d, m);
                 tau += 2 * c / c0;
                 if (m >= windowFactor * tau)
                 {
@@ -162,5 +159,31 @@ public static class Autocorrelation
                 $"The series is only {n / tau:G3} autocorrelation times long (tau = {tau:G4}); at least {MinimumLengthInAutocorrelationTimes:G3} are needed for a trustworthy tau and error bar. Run about {Math.Ceiling(MinimumLengthInAutocorrelationTimes * tau / n):G3} times longer.");
         }
         return new AutocorrelationEstimate(Math.Max(tau, 1.0 / n), error, window, n, reason.Length == 0, reason);
+    }
+
+    /// <summary>
+    /// Σ_i d[i]·d[i + m], with eight partial sums in two 256-bit registers (and a scalar tail), in a fixed order: the
+    /// same bits on every machine. Hand-written because it is the diagnostics' hot loop (each report sums up to 256 lags
+    /// over every chain's batch means); the single-accumulator loop was latency-bound at one add per four cycles.
+    /// </summary>
+    private static double LagProduct(double[] d, int m)
+    {
+        int n = d.Length - m, i = 0;
+        var a = Vector256<double>.Zero;
+        var b = a;
+        ref double x = ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(d);
+        ref double y = ref System.Runtime.CompilerServices.Unsafe.Add(ref x, m);
+        for (; i + 8 <= n; i += 8)
+        {
+            a += Vector256.LoadUnsafe(ref x, (nuint)i) * Vector256.LoadUnsafe(ref y, (nuint)i);
+            b += Vector256.LoadUnsafe(ref x, (nuint)(i + 4)) * Vector256.LoadUnsafe(ref y, (nuint)(i + 4));
+        }
+        var sum = a + b;
+        double c = (sum.GetElement(0) + sum.GetElement(1)) + (sum.GetElement(2) + sum.GetElement(3));
+        for (; i < n; i++)
+        {
+            c += d[i] * d[i + m];
+        }
+        return c;
     }
 }
