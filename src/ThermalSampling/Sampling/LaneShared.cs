@@ -159,3 +159,69 @@ internal static class LaneAdaptation
         return TOps.Select(TOps.LessThan(w, max), w, max);
     }
 }
+
+/// <summary>
+/// The flat arrays a lane group's inner loop writes without calls: lane-major histogram counts, flat-index scratch,
+/// retained draws, the sums of the batches closed in a chunk, and scratch for one vector's lanes.
+/// </summary>
+internal class LaneTally
+{
+    /// <param name="bins">The histogram every chain of the group fills (its bins and scale).</param>
+    /// <param name="retained">Raw draws kept per chain.</param>
+    /// <param name="width">Lanes per vector.</param>
+    /// <param name="lanes">Live lanes (chains) of the group.</param>
+    /// <param name="coordinates">Values per draw (1 for a pair, 3 for a site).</param>
+    internal LaneTally(BinCounter bins, int retained, int width, int lanes, int coordinates)
+    {
+        BinScale = bins.Scale;
+        Bins = bins.Counts.Length;
+        Lanes = lanes;
+        Retained = retained;
+        Counts = new long[lanes * Bins];
+        Index = new ulong[width];
+        Scratch = new double[coordinates * width];
+        Kept = new double[(long)coordinates * lanes * retained];
+        BatchSums = new double[2 * coordinates * width * LaneAdaptation.ChunkSteps];
+    }
+
+    internal double BinScale { get; }
+
+    internal int Bins { get; }
+
+    internal int Lanes { get; }
+
+    internal int Retained { get; }
+
+    /// <summary>Lane-major bin counts.</summary>
+    internal long[] Counts { get; }
+
+    /// <summary>Scratch for one vector's flat histogram indices.</summary>
+    internal ulong[] Index { get; }
+
+    /// <summary>Scratch for one vector's lanes (per coordinate).</summary>
+    internal double[] Scratch { get; }
+
+    /// <summary>Lane-major retained draws (the first <see cref="Retained"/> of each chain, coordinates interleaved).</summary>
+    internal double[] Kept { get; }
+
+    /// <summary>Sums of deviation and squared deviation per coordinate of the batches closed in a chunk: batch k, value v at (2·coordinates·k + v)·width.</summary>
+    internal double[] BatchSums { get; }
+}
+
+/// <summary>Loads chains' streams into the lanes of the generator state.</summary>
+internal static class LaneSeeding
+{
+    internal static void Load<TOps, TD, TB>(ref TB r0, ref TB r1, ref TB r2, ref TB r3, int lane, in Randomness.RandomStream stream)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        Span<ulong> words = stackalloc ulong[4];
+        stream.GetState(words);
+        r0 = TOps.SetBits(r0, lane, words[0]);
+        r1 = TOps.SetBits(r1, lane, words[1]);
+        r2 = TOps.SetBits(r2, lane, words[2]);
+        r3 = TOps.SetBits(r3, lane, words[3]);
+    }
+}
+

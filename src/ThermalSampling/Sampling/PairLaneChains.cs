@@ -68,16 +68,10 @@ internal static class PairLaneChains
         var reporters = new ProgressReporter[live];
         var walk = default(Walk<TD, TB>);
         var r = TOps.Broadcast(0);
-        Span<ulong> words = stackalloc ulong[4];
         for (int lane = 0; lane < width; lane++)
         {
             int chain = Math.Min(firstChain + lane, chains - 1); // padding lanes repeat the last chain and are dropped
-            var stream = RandomStream.ForChain(plan.Seed, chain);
-            stream.GetState(words);
-            walk.R0 = TOps.SetBits(walk.R0, lane, words[0]);
-            walk.R1 = TOps.SetBits(walk.R1, lane, words[1]);
-            walk.R2 = TOps.SetBits(walk.R2, lane, words[2]);
-            walk.R3 = TOps.SetBits(walk.R3, lane, words[3]);
+            LaneSeeding.Load<TOps, TD, TB>(ref walk.R0, ref walk.R1, ref walk.R2, ref walk.R3, lane, RandomStream.ForChain(plan.Seed, chain));
             r = TOps.Set(r, lane, start(chain));
             if (lane < live)
             {
@@ -278,7 +272,7 @@ internal static class PairLaneChains
 
         /// <summary>
         /// One chunk of the recorded phase; like <see cref="AdaptChunk"/>, a separate method with no calls inside. Batches
-        /// that close inside the chunk leave their sums in <see cref="Tally.BatchSums"/>; returns how many closed.
+        /// that close inside the chunk leave their sums in <see cref="LaneTally.BatchSums"/>; returns how many closed.
         /// </summary>
         [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
         private int RecordChunk(ref Walk<TD, TB> walk, TD width, int chunk, long done, ref int inBatch, int batchSize, Tally tally)
@@ -296,7 +290,7 @@ internal static class PairLaneChains
             var binLower = TOps.Broadcast(tally.BinLower);
             var binScale = TOps.Broadcast(tally.BinScale);
             var counts = tally.Counts;
-            var scaled = tally.Scaled;
+            var scaled = tally.Scratch;
             var kept = tally.Kept;
             long keptStride = tally.Retained;
             int lanes = tally.Lanes;
@@ -375,49 +369,11 @@ internal static class PairLaneChains
     }
 
     /// <summary>The histogram counts and retained draws of a lane group, in flat arrays the inner loop can reach without calls.</summary>
-    private sealed class Tally
+    private sealed class Tally(PairChainRecord first, int width, int lanes) : LaneTally(first.Bins, first.Draws.Capacity, width, lanes, 1)
     {
-        internal Tally(PairChainRecord first, int width, int lanes)
-        {
-            BatchReference = first.Store.Reference;
-            BinLower = first.Bins.Lower;
-            BinScale = first.Bins.Scale;
-            Bins = first.Bins.Counts.Length;
-            Lanes = lanes;
-            Retained = first.Draws.Capacity;
-            Counts = new long[lanes * Bins];
-            Scaled = new double[width];
-            Index = new ulong[width];
-            BatchSums = new double[2 * width * ChunkSteps];
-            Kept = new double[lanes * Retained];
-        }
+        internal double BatchReference { get; } = first.Store.Reference;
 
-        internal double BatchReference { get; }
-
-        internal double BinLower { get; }
-
-        internal double BinScale { get; }
-
-        internal int Bins { get; }
-
-        internal int Lanes { get; }
-
-        internal int Retained { get; }
-
-        /// <summary>Lane-major bin counts.</summary>
-        internal long[] Counts { get; }
-
-        /// <summary>Scratch for one vector's lanes.</summary>
-        internal double[] Scaled { get; }
-
-        /// <summary>Sums of x − ref and (x − ref)² of the batches closed in a chunk: batch k's vectors at 2k·width and (2k + 1)·width.</summary>
-        internal double[] BatchSums { get; }
-
-        /// <summary>Scratch for one vector's flat histogram indices.</summary>
-        internal ulong[] Index { get; }
-
-        /// <summary>Lane-major retained draws (the first <see cref="Retained"/> of each chain).</summary>
-        internal double[] Kept { get; }
+        internal double BinLower { get; } = first.Bins.Lower;
 
         internal void CopyTo(PairChainRecord[] records, long samples)
         {

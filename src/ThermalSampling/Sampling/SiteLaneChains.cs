@@ -59,16 +59,11 @@ internal static class SiteLaneChains
         var reporters = new ProgressReporter[live];
         var walk = default(SiteWalk<TD, TB>);
         TD x = TOps.Broadcast(0), y = x, z = x;
-        Span<ulong> words = stackalloc ulong[4];
         for (int lane = 0; lane < width; lane++)
         {
             int chain = Math.Min(firstChain + lane, chains - 1); // padding lanes repeat the last chain and are dropped
             var (stream, p) = start(chain);
-            stream.GetState(words);
-            walk.R0 = TOps.SetBits(walk.R0, lane, words[0]);
-            walk.R1 = TOps.SetBits(walk.R1, lane, words[1]);
-            walk.R2 = TOps.SetBits(walk.R2, lane, words[2]);
-            walk.R3 = TOps.SetBits(walk.R3, lane, words[3]);
+            LaneSeeding.Load<TOps, TD, TB>(ref walk.R0, ref walk.R1, ref walk.R2, ref walk.R3, lane, stream);
             x = TOps.Set(x, lane, p.X);
             y = TOps.Set(y, lane, p.Y);
             z = TOps.Set(z, lane, p.Z);
@@ -410,40 +405,8 @@ internal static class SiteLaneChains
     }
 
     /// <summary>Histogram counts, batch sums and retained draws of a lane group, in flat arrays the inner loop reaches without calls.</summary>
-    private sealed class SiteTally
+    private sealed class SiteTally(BinCounter radial, int retained, int width, int lanes) : LaneTally(radial, retained, width, lanes, 3)
     {
-        internal SiteTally(BinCounter radial, int retained, int width, int lanes)
-        {
-            BinScale = radial.Scale;
-            Bins = radial.Counts.Length;
-            Lanes = lanes;
-            Retained = retained;
-            Counts = new long[lanes * Bins];
-            Index = new ulong[width];
-            Scratch = new double[3 * width];
-            Kept = new double[3L * lanes * retained];
-            BatchSums = new double[6 * width * ChunkSteps];
-        }
-
-        internal double BinScale { get; }
-
-        internal int Bins { get; }
-
-        internal int Lanes { get; }
-
-        internal int Retained { get; }
-
-        internal long[] Counts { get; }
-
-        internal ulong[] Index { get; }
-
-        internal double[] Scratch { get; }
-
-        internal double[] Kept { get; }
-
-        /// <summary>Batch k: sums of (x, (x)², y, y², z, z²) about the minimum, each a vector at (6k + i)·width.</summary>
-        internal double[] BatchSums { get; }
-
         internal void CopyTo((BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] records, long samples)
         {
             long kept = Math.Min(samples, Retained);
