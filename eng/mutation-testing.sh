@@ -13,7 +13,7 @@ cd tests/ThermalSampling.Tests
 dotnet tool run dotnet-stryker \
   --project ThermalSampling.csproj \
   --mutate '**/Potentials/**/*.cs' --mutate '**/Statistics/**/*.cs' \
-  --test-case-filter 'FullyQualifiedName~PotentialTests|FullyQualifiedName~StatisticsTests|FullyQualifiedName~RandomnessTests|FullyQualifiedName~TestingPackageTests|FullyQualifiedName~AnalysisTests|FullyQualifiedName~RHatAndBlockTests' \
+  --test-case-filter 'FullyQualifiedName~PotentialTests|FullyQualifiedName~StatisticsTests|FullyQualifiedName~RandomnessTests|FullyQualifiedName~TestingPackageTests|FullyQualifiedName~AnalysisTests|FullyQualifiedName~RHatAndBlockTests|FullyQualifiedName~WrapperAndBlockingTests' \
   --configuration Release \
   --reporter html --reporter json --reporter progress \
   --concurrency 2 \
