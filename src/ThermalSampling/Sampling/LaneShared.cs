@@ -126,6 +126,16 @@ internal static class LaneAdaptation
     /// <summary>Steps between cancellation checks and progress reports in every lane kernel.</summary>
     internal const int ChunkSteps = 4096;
 
+    /// <summary>At a chunk boundary, after <paramref name="done"/> steps of a phase: honour cancellation and report progress for every chain of the group.</summary>
+    internal static void AtChunkBoundary(ProgressReporter[] reporters, long done, System.Threading.CancellationToken ct)
+    {
+        ct.ThrowIfCancellationRequested();
+        foreach (var p in reporters)
+        {
+            p.Report(done);
+        }
+    }
+
     /// <summary>The adapter's gains 2/(t + 10)^0.6 for steps t = first + 1 … first + count (computed outside the inner loop: Math.Pow is a call).</summary>
     internal static void FillGains(double[] gains, long first, int count)
     {

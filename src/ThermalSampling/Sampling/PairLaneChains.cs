@@ -176,11 +176,7 @@ internal static class PairLaneChains
             var gains = new double[ChunkSteps];
             for (long i = 0; i < steps; i += ChunkSteps)
             {
-                ct.ThrowIfCancellationRequested();
-                foreach (var p in reporters)
-                {
-                    p.Report(i);
-                }
+                LaneAdaptation.AtChunkBoundary(reporters, i, ct);
                 int chunk = (int)Math.Min(ChunkSteps, steps - i);
                 LaneAdaptation.FillGains(gains, i, chunk);
                 w.Faults = NoFaults;
@@ -219,7 +215,8 @@ internal static class PairLaneChains
 
         /// <summary>
         /// The recorded phase: steps with the frozen width; each lane's positions go to its chain's record. Chunks end at
-        /// every moment-block, batch and progress boundary, where the bookkeeping (which makes calls) happens.
+        /// moment-block and progress boundaries (every 4096 steps), where the bookkeeping that makes calls happens; batches
+        /// close inside the chunk.
         /// </summary>
         internal void Record(ref Walk<TD, TB> w, TD width, long burnIn, long samples, PairChainRecord[] records, ProgressReporter[] reporters, CancellationToken ct)
         {
@@ -235,11 +232,7 @@ internal static class PairLaneChains
             {
                 if ((i & (ChunkSteps - 1)) == 0)
                 {
-                    ct.ThrowIfCancellationRequested();
-                    foreach (var p in reporters)
-                    {
-                        p.Report(burnIn + i);
-                    }
+                    LaneAdaptation.AtChunkBoundary(reporters, burnIn + i, ct);
                 }
                 // Up to the next boundary of a moment block or a progress chunk; batches close inside the chunk.
                 int chunk = (int)Math.Min(BlockedMomentAccumulator.BlockSize - inBlock, Math.Min(samples - i, ChunkSteps - (i & (ChunkSteps - 1))));

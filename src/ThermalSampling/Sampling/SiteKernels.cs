@@ -2,39 +2,24 @@ using System;
 using System.Runtime.CompilerServices;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
-using ThermalSampling.Randomness;
 
 namespace ThermalSampling.Sampling;
 
-/// <summary>The state of a 3D chain: the position and its log Boltzmann weight −E/kT.</summary>
-/// <param name="X">x, Å.</param>
-/// <param name="Y">y, Å.</param>
-/// <param name="Z">z, Å.</param>
-/// <param name="LogWeight">−E(x)/kT.</param>
-public readonly record struct SiteChainState(double X, double Y, double Z, double LogWeight);
-
 /// <summary>
-/// One random-walk Metropolis step for a particle among fixed sites: propose x' = x + s·L·ξ with ξ standard normal and
-/// L a fixed 3×3 lower-triangular shape (the Cholesky factor of the harmonic covariance, so the proposal follows the
-/// well's anisotropy), reject outside the confinement, accept with probability min(1, e^(−ΔE/kT)).
+/// The log Boltzmann weight −E/kT of a particle among fixed sites, −∞ outside the confinement: the direct sampler's
+/// target and envelope bound (the Metropolis chains use the lane kernels in <see cref="SiteLaneChains"/>).
 /// </summary>
 /// <typeparam name="TPotential">The potential, a struct so that the energy call inlines.</typeparam>
-public readonly struct SiteMetropolisKernel<TPotential> where TPotential : struct, IPairPotential
+internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPairPotential
 {
     private readonly TPotential _potential;
     private readonly double[] _sites;
     private readonly double _cx, _cy, _cz, _beta;
     private readonly Confinement _confinement;
-    private readonly double _l00, _l10, _l11, _l20, _l21, _l22;
     private readonly string _description;
 
-    /// <summary>Creates the kernel.</summary>
-    /// <param name="landscape">The landscape.</param>
-    /// <param name="beta">1/kT, 1/eV.</param>
-    /// <param name="shape">The proposal shape, a lower-triangular matrix given row by row as (L00, L10, L11, L20, L21, L22), Å.</param>
-    public SiteMetropolisKernel(SiteLandscape<TPotential> landscape, double beta, (double L00, double L10, double L11, double L20, double L21, double L22) shape)
+    internal SiteWeight(SiteLandscape<TPotential> landscape, double beta)
     {
-        Internal.Preconditions.CheckNotNull(landscape, nameof(landscape));
         _potential = landscape.Potential;
         _sites = landscape.PackedCoordinates.ToArray();
         _cx = landscape.Centre.X;
@@ -42,16 +27,12 @@ public readonly struct SiteMetropolisKernel<TPotential> where TPotential : struc
         _cz = landscape.Centre.Z;
         _confinement = landscape.Confinement;
         _beta = beta;
-        (_l00, _l10, _l11, _l20, _l21, _l22) = shape;
         _description = landscape.Potential.Description;
     }
 
-    /// <summary>−E/kT at (x, y, z), or −∞ outside the confinement.</summary>
-    /// <param name="x">x, Å.</param>
-    /// <param name="y">y, Å.</param>
-    /// <param name="z">z, Å.</param>
+    /// <summary>The log weight at (x, y, z), Å; throws <see cref="NonFiniteEnergyException"/> for a NaN or −∞ energy.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public double LogWeight(double x, double y, double z)
+    internal double LogWeight(double x, double y, double z)
     {
         if (!_confinement.Contains(x - _cx, y - _cy, z - _cz))
         {
@@ -69,28 +50,6 @@ public readonly struct SiteMetropolisKernel<TPotential> where TPotential : struc
             throw new NonFiniteEnergyException(Math.Sqrt(x * x + y * y + z * z), e, _description);
         }
         return -_beta * e;
-    }
-
-    /// <summary>The state at a position.</summary>
-    /// <param name="position">The position, Å, inside the confinement.</param>
-    public SiteChainState StateAt(Position position) => new(position.X, position.Y, position.Z, LogWeight(position.X, position.Y, position.Z));
-
-    /// <summary>One step with scale <paramref name="scale"/> applied to the proposal shape.</summary>
-    /// <param name="state">The current state.</param>
-    /// <param name="scale">The adaptive scale s.</param>
-    /// <param name="random">The chain's random stream.</param>
-    /// <param name="accepted">Whether the proposal was accepted.</param>
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public SiteChainState Step(in SiteChainState state, double scale, ref RandomStream random, out bool accepted)
-    {
-        double a = random.NextStandardNormal(), b = random.NextStandardNormal(), c = random.NextStandardNormal();
-        double x = state.X + scale * _l00 * a;
-        double y = state.Y + scale * (_l10 * a + _l11 * b);
-        double z = state.Z + scale * (_l20 * a + _l21 * b + _l22 * c);
-        double lw = LogWeight(x, y, z);
-        double delta = lw - state.LogWeight;
-        accepted = delta >= 0 || random.NextUnitInterval() < Math.Exp(delta);
-        return accepted ? new SiteChainState(x, y, z, lw) : state;
     }
 }
 

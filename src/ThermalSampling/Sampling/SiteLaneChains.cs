@@ -196,11 +196,7 @@ internal static class SiteLaneChains
             var gains = new double[ChunkSteps];
             for (long i = 0; i < steps; i += ChunkSteps)
             {
-                ct.ThrowIfCancellationRequested();
-                foreach (var p in reporters)
-                {
-                    p.Report(i);
-                }
+                LaneAdaptation.AtChunkBoundary(reporters, i, ct);
                 int chunk = (int)Math.Min(ChunkSteps, steps - i);
                 LaneAdaptation.FillGains(gains, i, chunk);
                 w.Faults = LaneFaultCheck.None<TOps, TD, TB>();
@@ -257,11 +253,7 @@ internal static class SiteLaneChains
             {
                 if ((i & (ChunkSteps - 1)) == 0)
                 {
-                    ct.ThrowIfCancellationRequested();
-                    foreach (var p in reporters)
-                    {
-                        p.Report(burnIn + i);
-                    }
+                    LaneAdaptation.AtChunkBoundary(reporters, burnIn + i, ct);
                 }
                 int chunk = (int)Math.Min(BlockSize - inBlock, Math.Min(samples - i, ChunkSteps - (i & (ChunkSteps - 1))));
                 w.Faults = LaneFaultCheck.None<TOps, TD, TB>();

@@ -59,7 +59,7 @@ public static class SiteSampler
         double beta = 1 / temperature.ThermalEnergyInElectronVolts;
         var cholesky = harmonic.ClassicalCovariance.ToMatrix().Cholesky().Factor;
         var shape = (cholesky[0, 0], cholesky[1, 0], cholesky[1, 1], cholesky[2, 0], cholesky[2, 1], cholesky[2, 2]);
-        var kernel = new SiteMetropolisKernel<TPotential>(landscape, beta, shape);
+        var kernel = new SiteWeight<TPotential>(landscape, beta);
         double logWeightMin = kernel.LogWeight(min.X, min.Y, min.Z);
         bool metropolis = settings.Method == SamplingMethod.Metropolis;
         double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
@@ -222,7 +222,7 @@ public static class SiteSampler
         radial.Add(Math.Sqrt(dx * dx + dy * dy + dz * dz));
     }
 
-    private static ChainResult RunDirectChain<TPotential>(SiteMetropolisKernel<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min,
+    private static ChainResult RunDirectChain<TPotential>(SiteWeight<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min,
         Envelope envelope, SamplingSettings settings, ref RandomStream random, BatchMeansStore[] stores, BinCounter radial, DrawRecorder<Position> draws, ProgressReporter progress, CancellationToken ct)
         where TPotential : struct, IPairPotential
     {
@@ -301,7 +301,7 @@ public static class SiteSampler
             return -0.5 * xi.DotProduct(xi);
         }
 
-        internal static Envelope Build<TPotential>(SiteMetropolisKernel<TPotential> kernel, Position min, Matrix<double> cholesky, double logWeightMin,
+        internal static Envelope Build<TPotential>(SiteWeight<TPotential> kernel, Position min, Matrix<double> cholesky, double logWeightMin,
             SiteLandscape<TPotential> landscape, ulong seed) where TPotential : struct, IPairPotential
         {
             var probe = new Envelope(min, EnvelopeInflation * cholesky, logWeightMin, 0);
