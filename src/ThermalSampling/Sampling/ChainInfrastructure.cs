@@ -2,6 +2,7 @@ using System;
 using System.Collections.Generic;
 using System.Collections.Immutable;
 using System.Linq;
+using System.Runtime.InteropServices;
 using System.Threading;
 using System.Threading.Tasks;
 using ThermalSampling.Analysis;
@@ -73,6 +74,27 @@ internal sealed class BatchMeansStore
         }
     }
 
+    /// <summary>Writes the closed batches and the open batch's sums.</summary>
+    internal void Save(StateWriter w)
+    {
+        w.Longs("BMIX", [_batch, _filled]);
+        w.Doubles("BMSU", [_sum1, _sum2]);
+        w.Doubles("BMM1", First.AsSpan(0, _batch));
+        w.Doubles("BMM2", Second.AsSpan(0, _batch));
+    }
+
+    /// <summary>Restores what <see cref="Save"/> wrote into a store made with the same sizes.</summary>
+    internal void Load(StateReader r)
+    {
+        var index = r.Longs("BMIX", 2);
+        _batch = (int)r.InRange(index[0], 0, First.Length, "the number of closed batches");
+        _filled = (int)r.InRange(index[1], 0, BatchSize - 1, "the draws in the open batch");
+        var sums = r.Doubles("BMSU", 2);
+        (_sum1, _sum2) = (sums[0], sums[1]);
+        r.DoublesInto("BMM1", First.AsSpan(0, _batch));
+        r.DoublesInto("BMM2", Second.AsSpan(0, _batch));
+    }
+
     /// <summary>Batch means of x itself.</summary>
     internal double[] Means()
     {
@@ -99,7 +121,7 @@ internal sealed class BatchMeansStore
 
 /// <summary>Keeps the first draws of a chain, up to a cap.</summary>
 /// <typeparam name="T">The draw type.</typeparam>
-internal sealed class DrawRecorder<T>
+internal sealed class DrawRecorder<T> where T : struct
 {
     private readonly T[] _items;
     private int _count;
@@ -116,6 +138,22 @@ internal sealed class DrawRecorder<T>
     }
 
     internal int Capacity => _items.Length;
+
+    /// <summary>Writes the kept draws, each as <paramref name="values"/> doubles (T must be doubles only).</summary>
+    internal void Save(StateWriter w, int values)
+        => w.Doubles("DRAW", MemoryMarshal.Cast<T, double>(_items.AsSpan(0, _count)));
+
+    /// <summary>Restores what <see cref="Save"/> wrote.</summary>
+    internal void Load(StateReader r, int values)
+    {
+        var doubles = r.Doubles("DRAW", -1, (long)values * _items.Length);
+        if (doubles.Length % values != 0)
+        {
+            throw new CheckpointException("The checkpoint's retained draws do not divide into whole draws.");
+        }
+        _count = doubles.Length / values;
+        doubles.AsSpan().CopyTo(MemoryMarshal.Cast<T, double>(_items.AsSpan()));
+    }
 
     internal ImmutableArray<T> ToImmutable() => ImmutableArray.Create(_items, 0, _count);
 
@@ -155,6 +193,10 @@ internal sealed class BinCounter
             Counts[Math.Min((int)((x - _lower) * _scale), Counts.Length - 1)]++;
         }
     }
+
+    internal void Save(StateWriter w) => w.Longs("BINS", Counts);
+
+    internal void Load(StateReader r) => r.Longs("BINS", Counts.Length).CopyTo(Counts, 0);
 
     /// <summary>Adds counts gathered elsewhere (one per bin).</summary>
     internal void AddCounts(ReadOnlySpan<long> counts)

@@ -67,6 +67,7 @@ internal static class LaneEnergy
 
 /// <summary>Where and what the last non-finite energy of a chunk was, per lane.</summary>
 /// <typeparam name="TD">The lane type.</typeparam>
+[System.Runtime.InteropServices.StructLayout(System.Runtime.InteropServices.LayoutKind.Sequential)]
 internal struct LaneFaults<TD> where TD : struct
 {
     internal TD AllFinite, Separation, Energy;
@@ -126,16 +127,6 @@ internal static class LaneAdaptation
     /// <summary>Steps between cancellation checks and progress reports in every lane kernel.</summary>
     internal const int ChunkSteps = 4096;
 
-    /// <summary>At a chunk boundary, after <paramref name="done"/> steps of a phase: honour cancellation and report progress for every chain of the group.</summary>
-    internal static void AtChunkBoundary(ProgressReporter[] reporters, long done, System.Threading.CancellationToken ct)
-    {
-        ct.ThrowIfCancellationRequested();
-        foreach (var p in reporters)
-        {
-            p.Report(done);
-        }
-    }
-
     /// <summary>The adapter's gains 2/(t + 10)^0.6 for steps t = first + 1 … first + count (computed outside the inner loop: Math.Pow is a call).</summary>
     internal static void FillGains(double[] gains, long first, int count)
     {
@@ -192,6 +183,31 @@ internal class LaneTally
         Scratch = new double[coordinates * width];
         Kept = new double[(long)coordinates * lanes * retained];
         BatchSums = new double[2 * coordinates * width * LaneAdaptation.ChunkSteps];
+        Coordinates = coordinates;
+    }
+
+    internal int Coordinates { get; }
+
+    /// <summary>Writes the counts and, per lane, the draws kept in the first <paramref name="recorded"/> recorded steps.</summary>
+    internal void Save(StateWriter w, long recorded)
+    {
+        w.Longs("LCNT", Counts);
+        long kept = Coordinates * Math.Min(recorded, Retained);
+        for (int lane = 0; lane < Lanes; lane++)
+        {
+            w.Doubles("LKEP", Kept.AsSpan((int)(lane * Coordinates * (long)Retained), (int)kept));
+        }
+    }
+
+    /// <summary>Restores what <see cref="Save"/> wrote.</summary>
+    internal void Load(StateReader r, long recorded)
+    {
+        r.Longs("LCNT", Counts.Length).CopyTo(Counts, 0);
+        long kept = Coordinates * Math.Min(recorded, Retained);
+        for (int lane = 0; lane < Lanes; lane++)
+        {
+            r.DoublesInto("LKEP", Kept.AsSpan((int)(lane * Coordinates * (long)Retained), (int)kept));
+        }
     }
 
     internal double BinScale { get; }

@@ -1,5 +1,6 @@
 using System;
 using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 using System.Threading;
 using ThermalSampling.Potentials;
@@ -43,57 +44,205 @@ internal static class PairLaneChains
         return lanes;
     }
 
-    /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond the chain count are computed and dropped).</summary>
+    /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond the chain count are computed and dropped),
+    /// from the start or from the group's checkpointed state.</summary>
     internal static ChainOutcome[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start,
-        Func<int, PairChainRecord> record, Func<int, ProgressReporter> progress, CancellationToken ct)
+        Func<int, PairChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
         => lanes switch
         {
-            8 => Run<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, start, record, progress, ct),
-            4 => Run<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, start, record, progress, ct),
-            2 => Run<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, start, record, progress, ct),
-            _ => Run<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, start, record, progress, ct),
+            8 => new Group<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
+            4 => new Group<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
+            2 => new Group<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
+            _ => new Group<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
         };
 
-    private static ChainOutcome[] Run<TOps, TD, TB, TPotential>(Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start,
-        Func<int, PairChainRecord> makeRecord, Func<int, ProgressReporter> makeProgress, CancellationToken ct)
+    /// <summary>
+    /// One lane group and everything it has done: the walk, the phase and step, the adapted widths, the open moment block
+    /// and batch, and each chain's record. Its state is written and read at chunk boundaries only (docs/checkpoints.md).
+    /// </summary>
+    private sealed class Group<TOps, TD, TB, TPotential> : IResumableGroup
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
         where TPotential : struct, IPairPotential
     {
-        int width = TOps.Count;
-        int live = Math.Min(width, chains - firstChain);
-        var records = new PairChainRecord[live];
-        var reporters = new ProgressReporter[live];
-        var walk = default(Walk<TD, TB>);
-        var r = TOps.Broadcast(0);
-        for (int lane = 0; lane < width; lane++)
+        private readonly Plan<TPotential> _plan;
+        private readonly int _firstChain, _chains, _live;
+        private readonly PairChainRecord[] _records;
+        private readonly ProgressReporter[] _reporters;
+        private readonly Kernel<TOps, TD, TB, TPotential> _kernel;
+        private readonly Tally _tally;
+        private Walk<TD, TB> _walk;
+        private TD _logWidth;
+        private GroupPhase _phase;
+        private long _step;
+        private int _inBlock, _inBatch;
+
+        internal Group(Plan<TPotential> plan, int firstChain, int chains, Func<int, PairChainRecord> makeRecord, Func<int, ProgressReporter> makeProgress)
         {
-            int chain = Math.Min(firstChain + lane, chains - 1); // padding lanes repeat the last chain and are dropped
-            LaneSeeding.Load<TOps, TD, TB>(ref walk.R0, ref walk.R1, ref walk.R2, ref walk.R3, lane, RandomStream.ForChain(plan.Seed, chain));
-            r = TOps.Set(r, lane, start(chain));
-            if (lane < live)
+            _plan = plan;
+            _firstChain = firstChain;
+            _chains = chains;
+            _live = Math.Min(TOps.Count, chains - firstChain);
+            _records = new PairChainRecord[_live];
+            _reporters = new ProgressReporter[_live];
+            for (int lane = 0; lane < _live; lane++)
             {
-                records[lane] = makeRecord(chain);
-                reporters[lane] = makeProgress(chain);
+                _records[lane] = makeRecord(firstChain + lane);
+                _reporters[lane] = makeProgress(firstChain + lane);
+            }
+            _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
+            _tally = new Tally(_records[0], TOps.Count, _live);
+        }
+
+        public long ChainStepsDone => _live * (_phase switch
+        {
+            GroupPhase.BurnIn => _step,
+            GroupPhase.Recording => _plan.BurnIn + _step,
+            _ => _plan.BurnIn + _plan.Samples,
+        });
+
+        internal ChainOutcome[] Run(Func<int, double> start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
+        {
+            var saved = checkpoints.SavedState(group);
+            if (saved is null)
+            {
+                var r = TOps.Broadcast(0);
+                for (int lane = 0; lane < TOps.Count; lane++)
+                {
+                    int chain = Math.Min(_firstChain + lane, _chains - 1); // padding lanes repeat the last chain and are dropped
+                    LaneSeeding.Load<TOps, TD, TB>(ref _walk.R0, ref _walk.R1, ref _walk.R2, ref _walk.R3, lane, RandomStream.ForChain(_plan.Seed, chain));
+                    r = TOps.Set(r, lane, start(chain));
+                }
+                _kernel.Start(ref _walk, r);
+                _logWidth = TOps.Broadcast(Math.Log(_plan.InitialWidth));
+            }
+            else
+            {
+                Load(new StateReader(saved, "pair chain group " + group.ToString(System.Globalization.CultureInfo.InvariantCulture)));
+            }
+            var boundary = new ChunkBoundary(_reporters, checkpoints, group, this, ct);
+            if (_phase == GroupPhase.BurnIn)
+            {
+                BurnIn(boundary);
+                _phase = GroupPhase.Recording;
+                _step = 0;
+                _inBlock = _inBatch = 0;
+                var zero = TOps.Broadcast(0.0);
+                _walk.S1 = _walk.S2 = _walk.S3 = _walk.S4 = _walk.B1 = _walk.B2 = _walk.Accepted = zero;
+                _walk.BlockReference = _walk.Position;
+            }
+            var stepWidth = _kernel.WidthFrom(_logWidth);
+            if (_phase == GroupPhase.Recording)
+            {
+                Record(stepWidth, boundary);
+                _phase = GroupPhase.Finished;
+            }
+            checkpoints.Finished(group, this);
+            _tally.CopyTo(_records, _plan.Samples);
+
+            var outcomes = new ChainOutcome[_live];
+            for (int lane = 0; lane < _live; lane++)
+            {
+                _reporters[lane].Finish();
+                outcomes[lane] = new ChainOutcome(_records[lane], (long)TOps.Get(_walk.Accepted, lane), TOps.Get(stepWidth, lane));
+            }
+            return outcomes;
+        }
+
+        private void BurnIn(ChunkBoundary boundary)
+        {
+            var gains = new double[ChunkSteps];
+            long steps = _plan.BurnIn;
+            for (; _step < steps; _step += ChunkSteps)
+            {
+                boundary.Reached(_step);
+                int chunk = (int)Math.Min(ChunkSteps, steps - _step);
+                LaneAdaptation.FillGains(gains, _step, chunk);
+                _walk.Faults = Kernel<TOps, TD, TB, TPotential>.NoFaults;
+                _logWidth = _kernel.AdaptChunk(ref _walk, _logWidth, gains, chunk);
+                _kernel.ThrowIfFaulted(_walk.Faults);
             }
         }
 
-        var kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
-        kernel.Start(ref walk, r);
-        var logWidth = kernel.BurnIn(ref walk, TOps.Broadcast(Math.Log(plan.InitialWidth)), plan.BurnIn, reporters, ct);
-        var stepWidth = kernel.WidthFrom(logWidth);
-        kernel.Record(ref walk, stepWidth, plan.BurnIn, plan.Samples, records, reporters, ct);
-        var accepted = walk.Accepted;
-
-        var outcomes = new ChainOutcome[live];
-        for (int lane = 0; lane < live; lane++)
+        /// <summary>
+        /// The recorded phase: steps with the frozen width; each lane's positions go to its chain's record. Chunks end at
+        /// moment-block and progress boundaries (every 4096 steps), where the bookkeeping that makes calls happens; batches
+        /// close inside the chunk.
+        /// </summary>
+        private void Record(TD width, ChunkBoundary boundary)
         {
-            reporters[lane].Finish();
-            outcomes[lane] = new ChainOutcome(records[lane], (long)TOps.Get(accepted, lane), TOps.Get(stepWidth, lane));
+            var zero = TOps.Broadcast(0.0);
+            var records = _records;
+            int batchSize = records[0].Store.BatchSize;
+            long samples = _plan.Samples;
+            while (_step < samples)
+            {
+                if ((_step & (ChunkSteps - 1)) == 0)
+                {
+                    boundary.Reached(_plan.BurnIn + _step);
+                }
+                // Up to the next boundary of a moment block or a progress chunk; batches close inside the chunk.
+                int chunk = (int)Math.Min(BlockedMomentAccumulator.BlockSize - _inBlock, Math.Min(samples - _step, ChunkSteps - (_step & (ChunkSteps - 1))));
+                _walk.Faults = Kernel<TOps, TD, TB, TPotential>.NoFaults;
+                int closed = _kernel.RecordChunk(ref _walk, width, chunk, _step, ref _inBatch, batchSize, _tally);
+                _kernel.ThrowIfFaulted(_walk.Faults);
+                for (int k = 0; k < closed; k++)
+                {
+                    for (int lane = 0; lane < records.Length; lane++)
+                    {
+                        records[lane].Store.AddBatchSums(_tally.BatchSums[2 * k * TOps.Count + lane], _tally.BatchSums[(2 * k + 1) * TOps.Count + lane]);
+                    }
+                }
+                _step += chunk;
+                _inBlock += chunk;
+                if (_inBlock == BlockedMomentAccumulator.BlockSize || _step == samples)
+                {
+                    for (int lane = 0; lane < records.Length; lane++)
+                    {
+                        records[lane].AddMomentBlock(_inBlock, TOps.Get(_walk.BlockReference, lane), TOps.Get(_walk.S1, lane), TOps.Get(_walk.S2, lane),
+                            TOps.Get(_walk.S3, lane), TOps.Get(_walk.S4, lane));
+                    }
+                    _walk.S1 = _walk.S2 = _walk.S3 = _walk.S4 = zero;
+                    _walk.BlockReference = _walk.Position;
+                    _inBlock = 0;
+                }
+            }
         }
-        return outcomes;
+
+        public void Save(StateWriter w)
+        {
+            w.Longs("PLGH", [TOps.Count, _live, (long)_phase, _step, _inBlock, _inBatch]);
+            LaneWalkWords.Save(w, ref _walk);
+            w.Words("LOGW", LaneWalkWords.Lanes<TOps, TD, TB>(_logWidth));
+            foreach (var record in _records)
+            {
+                record.Save(w);
+            }
+            _tally.Save(w, RecordedSteps);
+        }
+
+        private long RecordedSteps => _phase switch { GroupPhase.BurnIn => 0, GroupPhase.Recording => _step, _ => _plan.Samples };
+
+        private void Load(StateReader r)
+        {
+            var head = r.Longs("PLGH", 6);
+            r.InRange(head[0], TOps.Count, TOps.Count, "the lanes per vector");
+            r.InRange(head[1], _live, _live, "the chains of the group");
+            _phase = (GroupPhase)r.InRange(head[2], 0, 2, "the phase");
+            _step = r.InRange(head[3], 0, _phase == GroupPhase.BurnIn ? _plan.BurnIn : _plan.Samples, "the step");
+            _inBlock = (int)r.InRange(head[4], 0, BlockedMomentAccumulator.BlockSize - 1, "the open moment block");
+            _inBatch = (int)r.InRange(head[5], 0, _records[0].Store.BatchSize - 1, "the open batch");
+            LaneWalkWords.Load(r, ref _walk);
+            _logWidth = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words("LOGW", TOps.Count));
+            foreach (var record in _records)
+            {
+                record.Load(r);
+            }
+            _tally.Load(r, RecordedSteps);
+            r.End();
+        }
     }
 
     private readonly struct Kernel<TOps, TD, TB, TPotential>
@@ -136,9 +285,9 @@ internal static class PairLaneChains
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         private static void NoteFaults(TD r, TD e, ref LaneFaults<TD> faults) => LaneFaultCheck.Note<TOps, TD, TB>(ref faults, r, e);
 
-        private void ThrowIfFaulted(in LaneFaults<TD> faults) => LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _potential.Description);
+        internal void ThrowIfFaulted(in LaneFaults<TD> faults) => LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _potential.Description);
 
-        private static LaneFaults<TD> NoFaults => LaneFaultCheck.None<TOps, TD, TB>();
+        internal static LaneFaults<TD> NoFaults => LaneFaultCheck.None<TOps, TD, TB>();
 
         /// <summary>One step in every lane; returns the acceptance mask. State comes as separate locals so that it stays in registers.</summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -170,28 +319,12 @@ internal static class PairLaneChains
             return accept;
         }
 
-        /// <summary>Burn-in: steps with each lane's adapting width; returns the log widths reached.</summary>
-        internal TD BurnIn(ref Walk<TD, TB> w, TD logWidth, long steps, ProgressReporter[] reporters, CancellationToken ct)
-        {
-            var gains = new double[ChunkSteps];
-            for (long i = 0; i < steps; i += ChunkSteps)
-            {
-                LaneAdaptation.AtChunkBoundary(reporters, i, ct);
-                int chunk = (int)Math.Min(ChunkSteps, steps - i);
-                LaneAdaptation.FillGains(gains, i, chunk);
-                w.Faults = NoFaults;
-                logWidth = AdaptChunk(ref w, logWidth, gains, chunk);
-                ThrowIfFaulted(w.Faults);
-            }
-            return logWidth;
-        }
-
         /// <summary>
         /// One chunk of burn-in. A separate method with no calls inside, so that the JIT keeps the whole walk in
         /// registers (any call in the loop would force every vector register to memory: they are all caller-saved).
         /// </summary>
         [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
-        private TD AdaptChunk(ref Walk<TD, TB> walk, TD logWidth, double[] gains, int chunk)
+        internal TD AdaptChunk(ref Walk<TD, TB> walk, TD logWidth, double[] gains, int chunk)
         {
             TD position = walk.Position, energy = walk.Energy, jacobian = walk.Jacobian;
             TB r0 = walk.R0, r1 = walk.R1, r2 = walk.R2, r3 = walk.R3;
@@ -214,61 +347,11 @@ internal static class PairLaneChains
         }
 
         /// <summary>
-        /// The recorded phase: steps with the frozen width; each lane's positions go to its chain's record. Chunks end at
-        /// moment-block and progress boundaries (every 4096 steps), where the bookkeeping that makes calls happens; batches
-        /// close inside the chunk.
-        /// </summary>
-        internal void Record(ref Walk<TD, TB> w, TD width, long burnIn, long samples, PairChainRecord[] records, ProgressReporter[] reporters, CancellationToken ct)
-        {
-            var zero = TOps.Broadcast(0.0);
-            var records0 = records[0];
-            int batchSize = records0.Store.BatchSize;
-            var tally = new Tally(records0, TOps.Count, records.Length);
-            int inBlock = 0, inBatch = 0;
-            w.S1 = w.S2 = w.S3 = w.S4 = w.B1 = w.B2 = w.Accepted = zero;
-            w.BlockReference = w.Position;
-            long i = 0;
-            while (i < samples)
-            {
-                if ((i & (ChunkSteps - 1)) == 0)
-                {
-                    LaneAdaptation.AtChunkBoundary(reporters, burnIn + i, ct);
-                }
-                // Up to the next boundary of a moment block or a progress chunk; batches close inside the chunk.
-                int chunk = (int)Math.Min(BlockedMomentAccumulator.BlockSize - inBlock, Math.Min(samples - i, ChunkSteps - (i & (ChunkSteps - 1))));
-                w.Faults = NoFaults;
-                int closed = RecordChunk(ref w, width, chunk, i, ref inBatch, batchSize, tally);
-                ThrowIfFaulted(w.Faults);
-                for (int k = 0; k < closed; k++)
-                {
-                    for (int lane = 0; lane < records.Length; lane++)
-                    {
-                        records[lane].Store.AddBatchSums(tally.BatchSums[2 * k * TOps.Count + lane], tally.BatchSums[(2 * k + 1) * TOps.Count + lane]);
-                    }
-                }
-                i += chunk;
-                inBlock += chunk;
-                if (inBlock == BlockedMomentAccumulator.BlockSize || i == samples)
-                {
-                    for (int lane = 0; lane < records.Length; lane++)
-                    {
-                        records[lane].AddMomentBlock(inBlock, TOps.Get(w.BlockReference, lane), TOps.Get(w.S1, lane), TOps.Get(w.S2, lane),
-                            TOps.Get(w.S3, lane), TOps.Get(w.S4, lane));
-                    }
-                    w.S1 = w.S2 = w.S3 = w.S4 = zero;
-                    w.BlockReference = w.Position;
-                    inBlock = 0;
-                }
-            }
-            tally.CopyTo(records, samples);
-        }
-
-        /// <summary>
         /// One chunk of the recorded phase; like <see cref="AdaptChunk"/>, a separate method with no calls inside. Batches
         /// that close inside the chunk leave their sums in <see cref="LaneTally.BatchSums"/>; returns how many closed.
         /// </summary>
         [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
-        private int RecordChunk(ref Walk<TD, TB> walk, TD width, int chunk, long done, ref int inBatch, int batchSize, Tally tally)
+        internal int RecordChunk(ref Walk<TD, TB> walk, TD width, int chunk, long done, ref int inBatch, int batchSize, Tally tally)
         {
             int closed = 0, filled = inBatch;
             var batchSums = tally.BatchSums;
@@ -382,7 +465,9 @@ internal static class PairLaneChains
         }
     }
 
-    /// <summary>The running state of every lane of a group: position, energy, Jacobian, random stream, sums and faults.</summary>
+    /// <summary>The running state of every lane of a group: position, energy, Jacobian, random stream, sums and faults (saved
+    /// word for word, field by field in this order, lanes within a field: docs/checkpoints.md).</summary>
+    [StructLayout(LayoutKind.Sequential)]
     private struct Walk<TD, TB>
         where TD : struct
         where TB : struct

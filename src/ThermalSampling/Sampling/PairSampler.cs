@@ -43,7 +43,13 @@ public static class PairSampler
         where TPotential : struct, IPairPotential
     {
         RunArguments.Check(landscape, settings, mass, temperature);
+        return RunOne(landscape, mass, temperature, settings, progress, cancellationToken, null, 0);
+    }
 
+    private static PairVibrationReport RunOne<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex)
+        where TPotential : struct, IPairPotential
+    {
         var exact = ExactPairDistribution.Compute(landscape, temperature);
         bool metropolis = settings.Method == SamplingMethod.Metropolis;
         var table = metropolis ? null : InverseCdfTable.Build(exact);
@@ -80,20 +86,21 @@ public static class PairSampler
             var plan = new PairLaneChains.Plan<TPotential>(landscape.Potential, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms,
                 1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial, width0, target,
                 landscape.WindowWidthInAngstroms, settings.BurnIn, settings.SamplesPerChain, settings.Seed);
-            int lanes = PairLaneChains.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
-            var groups = ChainScheduler.RunAll((chains + lanes - 1) / lanes, settings.MaxThreads, cancellationToken,
+            int lanes = session?.Lanes ?? PairLaneChains.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
+            int groupCount = (chains + lanes - 1) / lanes;
+            var checkpoints = session?.Begin(temperatureIndex, groupCount) ?? GroupCheckpoints.None;
+            var groups = ChainScheduler.RunAll(groupCount, settings.MaxThreads, cancellationToken,
                 g => PairLaneChains.Run(lanes, plan, g * lanes, chains, c => quantile!(chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1)),
-                    NewRecord, NewReporter, cancellationToken));
+                    NewRecord, NewReporter, checkpoints, g, cancellationToken));
             results = groups.SelectMany(g => g).Select(o => new ChainResult(o.Record, o.Accepted, o.Width)).ToArray();
         }
         else
         {
-            results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken, c =>
-            {
-                var random = RandomStream.ForChain(settings.Seed, c);
-                return RunDirectChain(table!, settings, ref random, NewRecord(c), NewReporter(c), cancellationToken);
-            });
+            var checkpoints = session?.Begin(temperatureIndex, chains) ?? GroupCheckpoints.None;
+            results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken,
+                c => new DirectChain(table!, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
         }
+        session?.End(temperatureIndex);
 
         var moments = results[0].Record.Moments;
         for (int c = 1; c < chains; c++)
@@ -152,6 +159,90 @@ public static class PairSampler
     }
 
     /// <summary>
+    /// Runs the sweep and writes checkpoints as <paramref name="checkpoints"/> says, so that an interrupted sweep can be finished
+    /// with <see cref="Resume"/>. When cancelled it writes a last checkpoint, then throws <see cref="OperationCanceledException"/>.
+    /// The reports are the same bits as those of <see cref="Sweep{TPotential}(PairLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, IProgress{SamplingProgress}?, CancellationToken)"/>.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="checkpoints">Where and how often to write checkpoints.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation; honoured within one chunk of 4096 steps per group.</param>
+    public static ImmutableArray<PairVibrationReport> SweepWithCheckpoints<TPotential>(PairLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, CheckpointOptions checkpoints, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(checkpoints, nameof(checkpoints));
+        var (list, identity) = Prepare(landscape, mass, temperatures, settings);
+        var session = new CheckpointSession(identity, checkpoints, null, ChooseLanes(settings));
+        return RunSession(landscape, mass, list, settings, session, progress, cancellationToken);
+    }
+
+    /// <summary>
+    /// Finishes the sweep that wrote <paramref name="checkpoint"/>: each chain continues from its saved state to the
+    /// original <see cref="SamplingSettings.SamplesPerChain"/> (a resume adds no draws beyond the original run's), and the
+    /// reports of every temperature, finished before or after the checkpoint, are bit for bit those of the uninterrupted
+    /// sweep. The landscape, mass, temperatures and settings must be the original ones (worker threads may differ);
+    /// <paramref name="checkpoint"/> holds the temperatures and settings for convenience.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The original landscape.</param>
+    /// <param name="mass">The original mass.</param>
+    /// <param name="temperatures">The original temperatures.</param>
+    /// <param name="settings">The original settings.</param>
+    /// <param name="checkpoint">The checkpoint to continue from.</param>
+    /// <param name="checkpoints">Where to keep writing checkpoints, or null for none.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    /// <exception cref="CheckpointException">When the checkpoint comes from another library version or a different run (the message names each difference).</exception>
+    public static ImmutableArray<PairVibrationReport> Resume<TPotential>(PairLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, SamplingCheckpoint checkpoint, CheckpointOptions? checkpoints = null, IProgress<SamplingProgress>? progress = null,
+        CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(checkpoint, nameof(checkpoint));
+        var (list, identity) = Prepare(landscape, mass, temperatures, settings);
+        checkpoint.CheckBelongsTo(identity);
+        var session = new CheckpointSession(identity, checkpoints, checkpoint, checkpoint.ChainsPerVector);
+        return RunSession(landscape, mass, list, settings, session, progress, cancellationToken);
+    }
+
+    private static int ChooseLanes(SamplingSettings settings)
+        => settings.Method == SamplingMethod.Metropolis ? PairLaneChains.ChooseLanes(settings.Chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector) : 1;
+
+    private static (List<Temperature> List, SweepIdentity Identity) Prepare<TPotential>(PairLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings)
+        where TPotential : struct, IPairPotential
+    {
+        var list = TemperatureList.Check(temperatures);
+        foreach (var t in list)
+        {
+            RunArguments.Check(landscape, settings, mass, t);
+        }
+        return (list, CheckpointedSweep.Identity("pair", landscape.Description, Fingerprint(landscape), mass, list, settings));
+    }
+
+    /// <summary>The geometry, the exact window and the energies at 257 evenly spaced separations in it.</summary>
+    private static string Fingerprint<TPotential>(PairLandscape<TPotential> landscape) where TPotential : struct, IPairPotential
+    {
+        double lo = landscape.WindowLowerInAngstroms, hi = landscape.WindowUpperInAngstroms;
+        var values = new List<double> { landscape.Geometry == SeparationGeometry.Line ? 0 : 1, lo, hi };
+        for (int i = 0; i <= 256; i++)
+        {
+            values.Add(landscape.Potential.Energy(lo + (hi - lo) * i / 256));
+        }
+        return SweepIdentity.FingerprintOf(values);
+    }
+
+    private static ImmutableArray<PairVibrationReport> RunSession<TPotential>(PairLandscape<TPotential> landscape, Mass mass, List<Temperature> list,
+        SamplingSettings settings, CheckpointSession session, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken)
+        where TPotential : struct, IPairPotential
+        => CheckpointedSweep.Run(list.Count, session, t => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+
+    /// <summary>
     /// Start positions for over-dispersed chains: the exact CDF tabulated at 256 evenly spaced separations (one
     /// Gauss–Legendre pass) and inverted by linear interpolation. Starts need no more precision than that.
     /// </summary>
@@ -192,21 +283,47 @@ public static class PairSampler
         };
     }
 
-    private static ChainResult RunDirectChain(InverseCdfTable table, SamplingSettings settings, ref RandomStream random, PairChainRecord record,
-        ProgressReporter progress, CancellationToken ct)
+    /// <summary>One chain of direct draws from the inverse-CDF table, resumable at every 4096th draw.</summary>
+    private sealed class DirectChain(InverseCdfTable table, SamplingSettings settings, int chain, PairChainRecord record, ProgressReporter progress) : IResumableGroup
     {
-        long n = settings.SamplesPerChain;
-        for (long i = 0; i < n; i++)
+        private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
+        private long _done;
+
+        public long ChainStepsDone => _done;
+
+        internal ChainResult Run(GroupCheckpoints checkpoints, CancellationToken ct)
         {
-            record.Add(table.Draw(ref random));
-            if ((i & 4095) == 0)
+            if (checkpoints.SavedState(chain) is byte[] saved)
             {
-                ct.ThrowIfCancellationRequested();
-                progress.Report(i);
+                var r = new StateReader(saved, "direct chain " + chain.ToString(CultureInfo.InvariantCulture));
+                _random = RandomStream.FromState(r.Words("RAND", 4));
+                _done = r.InRange(r.Longs("DONE", 1)[0], 0, settings.SamplesPerChain, "the draws done");
+                record.Load(r);
+                r.End();
             }
+            var boundary = new ChunkBoundary([progress], checkpoints, chain, this, ct);
+            long n = settings.SamplesPerChain;
+            for (; _done < n; _done++)
+            {
+                if ((_done & 4095) == 0)
+                {
+                    boundary.Reached(_done);
+                }
+                record.Add(table.Draw(ref _random));
+            }
+            checkpoints.Finished(chain, this);
+            progress.Finish();
+            return new ChainResult(record, n, 0);
         }
-        progress.Finish();
-        return new ChainResult(record, n, 0);
+
+        public void Save(StateWriter w)
+        {
+            Span<ulong> state = stackalloc ulong[4];
+            _random.GetState(state);
+            w.Words("RAND", state);
+            w.Longs("DONE", [_done]);
+            record.Save(w);
+        }
     }
 }
 
@@ -232,6 +349,24 @@ internal sealed class PairChainRecord
     /// <summary>Merges a block of raw power sums about <paramref name="reference"/> (the lane kernels' moment path).</summary>
     internal void AddMomentBlock(int count, double reference, double s1, double s2, double s3, double s4)
         => _moments.AddBlock(count, reference, s1, s2, s3, s4);
+
+    /// <summary>Writes the moments, batch means, histogram and retained draws.</summary>
+    internal void Save(StateWriter w)
+    {
+        _moments.Save(w);
+        Store.Save(w);
+        Bins.Save(w);
+        Draws.Save(w, 1);
+    }
+
+    /// <summary>Restores what <see cref="Save"/> wrote.</summary>
+    internal void Load(StateReader r)
+    {
+        _moments.Load(r);
+        Store.Load(r);
+        Bins.Load(r);
+        Draws.Load(r, 1);
+    }
 
     /// <summary>The merged moments; read once the chain has finished.</summary>
     internal MomentAccumulator Moments => _completed ??= _moments.Complete();

@@ -97,6 +97,19 @@ internal struct CovarianceAccumulator
         };
     }
 
+    internal readonly void Save(StateWriter w)
+    {
+        w.Longs("COVN", [Count]);
+        w.Doubles("COVS", [MeanX, MeanY, MeanZ, Cxx, Cyy, Czz, Cxy, Cxz, Cyz]);
+    }
+
+    internal static CovarianceAccumulator Load(StateReader r)
+    {
+        long n = r.InRange(r.Longs("COVN", 1)[0], 0, long.MaxValue, "the covariance count");
+        var v = r.Doubles("COVS", 9);
+        return new CovarianceAccumulator { Count = n, MeanX = v[0], MeanY = v[1], MeanZ = v[2], Cxx = v[3], Cyy = v[4], Czz = v[5], Cxy = v[6], Cxz = v[7], Cyz = v[8] };
+    }
+
     internal static CovarianceAccumulator Merge(in CovarianceAccumulator a, in CovarianceAccumulator b)
     {
         if (a.Count == 0)

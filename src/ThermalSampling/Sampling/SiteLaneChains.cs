@@ -1,5 +1,6 @@
 using System;
 using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 using System.Threading;
 using ThermalSampling.Landscapes;
@@ -36,59 +37,218 @@ internal static class SiteLaneChains
     internal delegate (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws) ChainRecord(int chain);
 
     internal static ChainOutcome[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, ChainStart start, ChainRecord record,
-        Func<int, ProgressReporter> progress, CancellationToken ct)
+        Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
         => lanes switch
         {
-            8 => Run<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, start, record, progress, ct),
-            4 => Run<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, start, record, progress, ct),
-            2 => Run<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, start, record, progress, ct),
-            _ => Run<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, start, record, progress, ct),
+            8 => new Group<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
+            4 => new Group<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
+            2 => new Group<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
+            _ => new Group<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
         };
 
-    private static ChainOutcome[] Run<TOps, TD, TB, TPotential>(Plan<TPotential> plan, int firstChain, int chains, ChainStart start, ChainRecord makeRecord,
-        Func<int, ProgressReporter> makeProgress, CancellationToken ct)
+    /// <summary>One lane group and everything it has done; its state is written and read at chunk boundaries only (docs/checkpoints.md).</summary>
+    private sealed class Group<TOps, TD, TB, TPotential> : IResumableGroup
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
         where TPotential : struct, IPairPotential
     {
-        int width = TOps.Count;
-        int live = Math.Min(width, chains - firstChain);
-        var records = new (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[live];
-        var reporters = new ProgressReporter[live];
-        var walk = default(SiteWalk<TD, TB>);
-        TD x = TOps.Broadcast(0), y = x, z = x;
-        for (int lane = 0; lane < width; lane++)
+        private readonly Plan<TPotential> _plan;
+        private readonly int _firstChain, _chains, _live;
+        private readonly (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] _records;
+        private readonly CovarianceAccumulator[] _moments;
+        private readonly ProgressReporter[] _reporters;
+        private readonly Kernel<TOps, TD, TB, TPotential> _kernel;
+        private readonly SiteTally _tally;
+        private SiteWalk<TD, TB> _walk;
+        private TD _logScale;
+        private GroupPhase _phase;
+        private long _step;
+        private int _inBlock, _inBatch;
+
+        internal Group(Plan<TPotential> plan, int firstChain, int chains, ChainRecord makeRecord, Func<int, ProgressReporter> makeProgress)
         {
-            int chain = Math.Min(firstChain + lane, chains - 1); // padding lanes repeat the last chain and are dropped
-            var (stream, p) = start(chain);
-            LaneSeeding.Load<TOps, TD, TB>(ref walk.R0, ref walk.R1, ref walk.R2, ref walk.R3, lane, stream);
-            x = TOps.Set(x, lane, p.X);
-            y = TOps.Set(y, lane, p.Y);
-            z = TOps.Set(z, lane, p.Z);
-            if (lane < live)
+            _plan = plan;
+            _firstChain = firstChain;
+            _chains = chains;
+            _live = Math.Min(TOps.Count, chains - firstChain);
+            _records = new (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[_live];
+            _reporters = new ProgressReporter[_live];
+            for (int lane = 0; lane < _live; lane++)
             {
-                records[lane] = makeRecord(chain);
-                reporters[lane] = makeProgress(chain);
+                _records[lane] = makeRecord(firstChain + lane);
+                _reporters[lane] = makeProgress(firstChain + lane);
+            }
+            _moments = new CovarianceAccumulator[_live];
+            _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
+            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, _live);
+        }
+
+        public long ChainStepsDone => _live * (_phase switch
+        {
+            GroupPhase.BurnIn => _step,
+            GroupPhase.Recording => _plan.BurnIn + _step,
+            _ => _plan.BurnIn + _plan.Samples,
+        });
+
+        private long RecordedSteps => _phase switch { GroupPhase.BurnIn => 0, GroupPhase.Recording => _step, _ => _plan.Samples };
+
+        internal ChainOutcome[] Run(ChainStart start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
+        {
+            var saved = checkpoints.SavedState(group);
+            if (saved is null)
+            {
+                TD x = TOps.Broadcast(0), y = x, z = x;
+                for (int lane = 0; lane < TOps.Count; lane++)
+                {
+                    int chain = Math.Min(_firstChain + lane, _chains - 1); // padding lanes repeat the last chain and are dropped
+                    var (stream, p) = start(chain);
+                    LaneSeeding.Load<TOps, TD, TB>(ref _walk.R0, ref _walk.R1, ref _walk.R2, ref _walk.R3, lane, stream);
+                    x = TOps.Set(x, lane, p.X);
+                    y = TOps.Set(y, lane, p.Y);
+                    z = TOps.Set(z, lane, p.Z);
+                }
+                _kernel.Start(ref _walk, x, y, z);
+                _logScale = TOps.Broadcast(Math.Log(_plan.InitialScale));
+            }
+            else
+            {
+                Load(new StateReader(saved, "site chain group " + group.ToString(System.Globalization.CultureInfo.InvariantCulture)));
+            }
+            var boundary = new ChunkBoundary(_reporters, checkpoints, group, this, ct);
+            if (_phase == GroupPhase.BurnIn)
+            {
+                BurnIn(boundary);
+                _phase = GroupPhase.Recording;
+                _step = 0;
+                _inBlock = _inBatch = 0;
+                var zero = TOps.Broadcast(0.0);
+                _walk.Sums = default;
+                _walk.Batch = default;
+                _walk.Accepted = _walk.NearWall = zero;
+            }
+            var scale = LaneAdaptation.Width<TOps, TD, TB>(_logScale, _plan.MaxScale);
+            if (_phase == GroupPhase.Recording)
+            {
+                Record(scale, boundary);
+                _phase = GroupPhase.Finished;
+            }
+            checkpoints.Finished(group, this);
+            _tally.CopyTo(_records, _plan.Samples);
+
+            var outcomes = new ChainOutcome[_live];
+            for (int lane = 0; lane < _live; lane++)
+            {
+                _reporters[lane].Finish();
+                outcomes[lane] = new ChainOutcome(_moments[lane], _records[lane].Stores, _records[lane].Radial, _records[lane].Draws,
+                    (long)TOps.Get(_walk.Accepted, lane), (long)TOps.Get(_walk.NearWall, lane), TOps.Get(scale, lane));
+            }
+            return outcomes;
+        }
+
+        private void BurnIn(ChunkBoundary boundary)
+        {
+            var gains = new double[ChunkSteps];
+            long steps = _plan.BurnIn;
+            for (; _step < steps; _step += ChunkSteps)
+            {
+                boundary.Reached(_step);
+                int chunk = (int)Math.Min(ChunkSteps, steps - _step);
+                LaneAdaptation.FillGains(gains, _step, chunk);
+                _walk.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+                _logScale = _kernel.AdaptChunk(ref _walk, _logScale, gains, chunk);
+                _kernel.ThrowIfFaulted(_walk);
             }
         }
 
-        var kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
-        kernel.Start(ref walk, x, y, z);
-        var logScale = kernel.BurnIn(ref walk, TOps.Broadcast(Math.Log(plan.InitialScale)), plan.BurnIn, reporters, ct);
-        var scale = LaneAdaptation.Width<TOps, TD, TB>(logScale, plan.MaxScale);
-        var moments = new CovarianceAccumulator[live];
-        kernel.Record(ref walk, scale, plan.BurnIn, plan.Samples, records, moments, reporters, ct);
-
-        var outcomes = new ChainOutcome[live];
-        for (int lane = 0; lane < live; lane++)
+        /// <summary>The recorded phase; chunks end at moment-block and progress boundaries, where the bookkeeping (which makes calls) happens.</summary>
+        private void Record(TD scale, ChunkBoundary boundary)
         {
-            reporters[lane].Finish();
-            outcomes[lane] = new ChainOutcome(moments[lane], records[lane].Stores, records[lane].Radial, records[lane].Draws,
-                (long)TOps.Get(walk.Accepted, lane), (long)TOps.Get(walk.NearWall, lane), TOps.Get(scale, lane));
+            var records = _records;
+            int batchSize = records[0].Stores[0].BatchSize;
+            long samples = _plan.Samples;
+            var minimum = _plan.Minimum;
+            while (_step < samples)
+            {
+                if ((_step & (ChunkSteps - 1)) == 0)
+                {
+                    boundary.Reached(_plan.BurnIn + _step);
+                }
+                int chunk = (int)Math.Min(BlockSize - _inBlock, Math.Min(samples - _step, ChunkSteps - (_step & (ChunkSteps - 1))));
+                _walk.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+                int closed = _kernel.RecordChunk(ref _walk, scale, chunk, _step, ref _inBatch, batchSize, _tally);
+                _kernel.ThrowIfFaulted(_walk);
+                for (int k = 0; k < closed; k++)
+                {
+                    for (int lane = 0; lane < records.Length; lane++)
+                    {
+                        for (int axis = 0; axis < 3; axis++)
+                        {
+                            records[lane].Stores[axis].AddBatchSums(_tally.BatchSums[(6 * k + 2 * axis) * TOps.Count + lane], _tally.BatchSums[(6 * k + 2 * axis + 1) * TOps.Count + lane]);
+                        }
+                    }
+                }
+                _step += chunk;
+                _inBlock += chunk;
+                if (_inBlock == BlockSize || _step == samples)
+                {
+                    for (int lane = 0; lane < records.Length; lane++)
+                    {
+                        var s = _walk.Sums;
+                        var block = CovarianceAccumulator.FromRawSums(_inBlock, minimum.X, minimum.Y, minimum.Z,
+                            TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane), TOps.Get(s.XX, lane), TOps.Get(s.YY, lane), TOps.Get(s.ZZ, lane),
+                            TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane));
+                        _moments[lane] = CovarianceAccumulator.Merge(_moments[lane], block);
+                    }
+                    _walk.Sums = default;
+                    _inBlock = 0;
+                }
+            }
         }
-        return outcomes;
+
+        public void Save(StateWriter w)
+        {
+            w.Longs("SLGH", [TOps.Count, _live, (long)_phase, _step, _inBlock, _inBatch]);
+            LaneWalkWords.Save(w, ref _walk);
+            w.Words("LOGS", LaneWalkWords.Lanes<TOps, TD, TB>(_logScale));
+            for (int lane = 0; lane < _live; lane++)
+            {
+                _moments[lane].Save(w);
+                foreach (var store in _records[lane].Stores)
+                {
+                    store.Save(w);
+                }
+                _records[lane].Radial.Save(w);
+                _records[lane].Draws.Save(w, 3);
+            }
+            _tally.Save(w, RecordedSteps);
+        }
+
+        private void Load(StateReader r)
+        {
+            var head = r.Longs("SLGH", 6);
+            r.InRange(head[0], TOps.Count, TOps.Count, "the lanes per vector");
+            r.InRange(head[1], _live, _live, "the chains of the group");
+            _phase = (GroupPhase)r.InRange(head[2], 0, 2, "the phase");
+            _step = r.InRange(head[3], 0, _phase == GroupPhase.BurnIn ? _plan.BurnIn : _plan.Samples, "the step");
+            _inBlock = (int)r.InRange(head[4], 0, BlockSize - 1, "the open moment block");
+            _inBatch = (int)r.InRange(head[5], 0, _records[0].Stores[0].BatchSize - 1, "the open batch");
+            LaneWalkWords.Load(r, ref _walk);
+            _logScale = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words("LOGS", TOps.Count));
+            for (int lane = 0; lane < _live; lane++)
+            {
+                _moments[lane] = CovarianceAccumulator.Load(r);
+                foreach (var store in _records[lane].Stores)
+                {
+                    store.Load(r);
+                }
+                _records[lane].Radial.Load(r);
+                _records[lane].Draws.Load(r, 3);
+            }
+            _tally.Load(r, RecordedSteps);
+            r.End();
+        }
     }
 
     private readonly struct Kernel<TOps, TD, TB, TPotential>
@@ -191,24 +351,9 @@ internal static class SiteLaneChains
             return accept;
         }
 
-        internal TD BurnIn(ref SiteWalk<TD, TB> w, TD logScale, long steps, ProgressReporter[] reporters, CancellationToken ct)
-        {
-            var gains = new double[ChunkSteps];
-            for (long i = 0; i < steps; i += ChunkSteps)
-            {
-                LaneAdaptation.AtChunkBoundary(reporters, i, ct);
-                int chunk = (int)Math.Min(ChunkSteps, steps - i);
-                LaneAdaptation.FillGains(gains, i, chunk);
-                w.Faults = LaneFaultCheck.None<TOps, TD, TB>();
-                logScale = AdaptChunk(ref w, logScale, gains, chunk);
-                ThrowIfFaulted(w);
-            }
-            return logScale;
-        }
-
         /// <summary>A chunk of burn-in, in a method with no calls inside so the walk stays in registers.</summary>
         [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
-        private TD AdaptChunk(ref SiteWalk<TD, TB> w, TD logScale, double[] gains, int chunk)
+        internal TD AdaptChunk(ref SiteWalk<TD, TB> w, TD logScale, double[] gains, int chunk)
         {
             TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy;
             TB r0 = w.R0, r1 = w.R1, r2 = w.R2, r3 = w.R3;
@@ -225,7 +370,7 @@ internal static class SiteLaneChains
             return logScale;
         }
 
-        private void ThrowIfFaulted(in SiteWalk<TD, TB> w)
+        internal void ThrowIfFaulted(in SiteWalk<TD, TB> w)
         {
             // The fault's position is not kept per lane (registers are scarce here); the current position of the faulted lane is near it.
             var f = w.Faults;
@@ -236,61 +381,9 @@ internal static class SiteLaneChains
             }
         }
 
-        /// <summary>The recorded phase; chunks end at moment-block and progress boundaries, where the bookkeeping (which makes calls) happens.</summary>
-        internal void Record(ref SiteWalk<TD, TB> w, TD scale, long burnIn, long samples,
-            (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] records, CovarianceAccumulator[] moments,
-            ProgressReporter[] reporters, CancellationToken ct)
-        {
-            var first = records[0];
-            var tally = new SiteTally(first.Radial, first.Draws.Capacity, TOps.Count, records.Length);
-            int batchSize = first.Stores[0].BatchSize, inBatch = 0, inBlock = 0;
-            var zero = TOps.Broadcast(0.0);
-            w.Sums = default;
-            w.Batch = default;
-            w.Accepted = w.NearWall = zero;
-            long i = 0;
-            while (i < samples)
-            {
-                if ((i & (ChunkSteps - 1)) == 0)
-                {
-                    LaneAdaptation.AtChunkBoundary(reporters, burnIn + i, ct);
-                }
-                int chunk = (int)Math.Min(BlockSize - inBlock, Math.Min(samples - i, ChunkSteps - (i & (ChunkSteps - 1))));
-                w.Faults = LaneFaultCheck.None<TOps, TD, TB>();
-                int closed = RecordChunk(ref w, scale, chunk, i, ref inBatch, batchSize, tally);
-                ThrowIfFaulted(w);
-                for (int k = 0; k < closed; k++)
-                {
-                    for (int lane = 0; lane < records.Length; lane++)
-                    {
-                        for (int axis = 0; axis < 3; axis++)
-                        {
-                            records[lane].Stores[axis].AddBatchSums(tally.BatchSums[(6 * k + 2 * axis) * TOps.Count + lane], tally.BatchSums[(6 * k + 2 * axis + 1) * TOps.Count + lane]);
-                        }
-                    }
-                }
-                i += chunk;
-                inBlock += chunk;
-                if (inBlock == BlockSize || i == samples)
-                {
-                    for (int lane = 0; lane < records.Length; lane++)
-                    {
-                        var s = w.Sums;
-                        var block = CovarianceAccumulator.FromRawSums(inBlock, _plan.Minimum.X, _plan.Minimum.Y, _plan.Minimum.Z,
-                            TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane), TOps.Get(s.XX, lane), TOps.Get(s.YY, lane), TOps.Get(s.ZZ, lane),
-                            TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane));
-                        moments[lane] = CovarianceAccumulator.Merge(moments[lane], block);
-                    }
-                    w.Sums = default;
-                    inBlock = 0;
-                }
-            }
-            tally.CopyTo(records, samples);
-        }
-
         /// <summary>A chunk of the recorded phase, with no calls inside; batches closed in it leave their sums in the tally.</summary>
         [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
-        private int RecordChunk(ref SiteWalk<TD, TB> w, TD scale, int chunk, long done, ref int inBatch, int batchSize, SiteTally tally)
+        internal int RecordChunk(ref SiteWalk<TD, TB> w, TD scale, int chunk, long done, ref int inBatch, int batchSize, SiteTally tally)
         {
             TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy;
             TB r0 = w.R0, r1 = w.R1, r2 = w.R2, r3 = w.R3;
@@ -417,6 +510,7 @@ internal static class SiteLaneChains
 
 /// <summary>Nine running sums of a 3D walk: Σd, Σd² and the cross products, per lane.</summary>
 /// <typeparam name="TD">The lane type.</typeparam>
+[StructLayout(LayoutKind.Sequential)]
 internal struct LaneSums3<TD> where TD : struct
 {
     internal TD X, Y, Z, XX, YY, ZZ, XY, XZ, YZ;
@@ -425,6 +519,7 @@ internal struct LaneSums3<TD> where TD : struct
 /// <summary>The running state of every lane of a site group.</summary>
 /// <typeparam name="TD">The lane type.</typeparam>
 /// <typeparam name="TB">The lane word type.</typeparam>
+[StructLayout(LayoutKind.Sequential)]
 internal struct SiteWalk<TD, TB>
     where TD : struct
     where TB : struct

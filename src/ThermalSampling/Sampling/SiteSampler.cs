@@ -53,7 +53,13 @@ public static class SiteSampler
         where TPotential : struct, IPairPotential
     {
         RunArguments.Check(landscape, settings, mass, temperature);
+        return RunOne(landscape, mass, temperature, settings, progress, cancellationToken, null, 0);
+    }
 
+    private static SiteVibrationReport RunOne<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex)
+        where TPotential : struct, IPairPotential
+    {
         var harmonic = SiteAnalysis.Harmonic(landscape, mass, temperature);
         var min = harmonic.Minimum;
         double beta = 1 / temperature.ThermalEnergyInElectronVolts;
@@ -89,21 +95,22 @@ public static class SiteSampler
             var plan = new SiteLaneChains.Plan<TPotential>(landscape.Potential, landscape.PackedCoordinates.ToArray(), landscape.Centre, landscape.Confinement,
                 min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, WallBand(cholesky),
                 settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description);
-            int lanes = PairLaneChains.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
-            var groups = ChainScheduler.RunAll((chains + lanes - 1) / lanes, settings.MaxThreads, cancellationToken,
+            int lanes = session?.Lanes ?? PairLaneChains.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
+            int groupCount = (chains + lanes - 1) / lanes;
+            var checkpoints = session?.Begin(temperatureIndex, groupCount) ?? GroupCheckpoints.None;
+            var groups = ChainScheduler.RunAll(groupCount, settings.MaxThreads, cancellationToken,
                 g => SiteLaneChains.Run(lanes, plan, g * lanes, chains, c => StartOfChain(landscape, min, cholesky, settings.Seed, c),
-                    c => (NewStores(), NewRadial(), NewDraws()), NewReporter, cancellationToken));
+                    c => (NewStores(), NewRadial(), NewDraws()), NewReporter, checkpoints, g, cancellationToken));
             results = groups.SelectMany(g => g)
                 .Select(o => new ChainResult(o.Moments, o.Stores, o.Radial, o.Draws, o.Accepted, settings.SamplesPerChain, o.NearWall, o.Scale)).ToArray();
         }
         else
         {
-            results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken, c =>
-            {
-                var random = RandomStream.ForChain(settings.Seed, c);
-                return RunDirectChain(kernel, landscape, min, envelope!, settings, ref random, NewStores(), NewRadial(), NewDraws(), NewReporter(c), cancellationToken);
-            });
+            var checkpoints = session?.Begin(temperatureIndex, chains) ?? GroupCheckpoints.None;
+            results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken,
+                c => new DirectChain<TPotential>(kernel, landscape, min, envelope!, settings, c, NewStores(), NewRadial(), NewDraws(), NewReporter(c)).Run(checkpoints, cancellationToken));
         }
+        session?.End(temperatureIndex);
 
         var moments = results[0].Moments;
         for (int c = 1; c < chains; c++)
@@ -165,6 +172,80 @@ public static class SiteSampler
         where TPotential : struct, IPairPotential
         => TemperatureList.Check(temperatures).Select(t => Run(landscape, mass, t, settings, progress, cancellationToken)).ToImmutableArray();
 
+    /// <summary>
+    /// Runs the sweep and writes checkpoints as <paramref name="checkpoints"/> says, so that an interrupted sweep can be finished
+    /// with <see cref="Resume"/>. When cancelled it writes a last checkpoint, then throws <see cref="OperationCanceledException"/>.
+    /// The reports are the same bits as those of <see cref="Sweep{TPotential}(SiteLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, IProgress{SamplingProgress}?, CancellationToken)"/>.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="checkpoints">Where and how often to write checkpoints.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation; honoured within one chunk of 4096 steps per group.</param>
+    public static ImmutableArray<SiteVibrationReport> SweepWithCheckpoints<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, CheckpointOptions checkpoints, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(checkpoints, nameof(checkpoints));
+        var (list, identity) = Prepare(landscape, mass, temperatures, settings);
+        int lanes = settings.Method == SamplingMethod.Metropolis
+            ? PairLaneChains.ChooseLanes(settings.Chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector) : 1;
+        var session = new CheckpointSession(identity, checkpoints, null, lanes);
+        return CheckpointedSweep.Run(list.Count, session, t => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+    }
+
+    /// <summary>
+    /// Finishes the sweep that wrote <paramref name="checkpoint"/>: each chain continues from its saved state to the
+    /// original <see cref="SamplingSettings.SamplesPerChain"/> (a resume adds no draws beyond the original run's), and the
+    /// reports are bit for bit those of the uninterrupted sweep. The landscape, mass, temperatures and settings must be
+    /// the original ones (worker threads may differ).
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The original landscape.</param>
+    /// <param name="mass">The original mass.</param>
+    /// <param name="temperatures">The original temperatures.</param>
+    /// <param name="settings">The original settings.</param>
+    /// <param name="checkpoint">The checkpoint to continue from.</param>
+    /// <param name="checkpoints">Where to keep writing checkpoints, or null for none.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    /// <exception cref="CheckpointException">When the checkpoint comes from another library version or a different run (the message names each difference).</exception>
+    public static ImmutableArray<SiteVibrationReport> Resume<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, SamplingCheckpoint checkpoint, CheckpointOptions? checkpoints = null, IProgress<SamplingProgress>? progress = null,
+        CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(checkpoint, nameof(checkpoint));
+        var (list, identity) = Prepare(landscape, mass, temperatures, settings);
+        checkpoint.CheckBelongsTo(identity);
+        var session = new CheckpointSession(identity, checkpoints, checkpoint, checkpoint.ChainsPerVector);
+        return CheckpointedSweep.Run(list.Count, session, t => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+    }
+
+    private static (List<Temperature> List, SweepIdentity Identity) Prepare<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings)
+        where TPotential : struct, IPairPotential
+    {
+        var list = TemperatureList.Check(temperatures);
+        foreach (var t in list)
+        {
+            RunArguments.Check(landscape, settings, mass, t);
+        }
+        // The exact sites, centre and confinement, and the energies on a 9×9×9 grid across the confinement.
+        var values = new List<double> { (double)landscape.Confinement.Shape, landscape.Confinement.SizeInAngstroms, landscape.Centre.X, landscape.Centre.Y, landscape.Centre.Z };
+        values.AddRange(landscape.PackedCoordinates.ToArray());
+        double size = landscape.Confinement.SizeInAngstroms;
+        for (int i = 0; i < 729; i++)
+        {
+            var p = landscape.Centre + new Position(size * (i % 9 - 4) / 4.5, size * (i / 9 % 9 - 4) / 4.5, size * (i / 81 - 4) / 4.5);
+            values.Add(landscape.Energy(p));
+        }
+        return (list, CheckpointedSweep.Identity("sites", landscape.Description, SweepIdentity.FingerprintOf(values), mass, list, settings));
+    }
+
     /// <summary>Deterministic points on the confinement boundary (a Fibonacci sphere, projected onto the box for a box).</summary>
     internal static IEnumerable<Position> BoundaryPoints<TPotential>(SiteLandscape<TPotential> landscape, int count)
         where TPotential : struct, IPairPotential
@@ -222,49 +303,94 @@ public static class SiteSampler
         radial.Add(Math.Sqrt(dx * dx + dy * dy + dz * dz));
     }
 
-    private static ChainResult RunDirectChain<TPotential>(SiteWeight<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min,
-        Envelope envelope, SamplingSettings settings, ref RandomStream random, BatchMeansStore[] stores, BinCounter radial, DrawRecorder<Position> draws, ProgressReporter progress, CancellationToken ct)
+    /// <summary>One chain of envelope-rejection draws, resumable at every 4096th accepted draw.</summary>
+    private sealed class DirectChain<TPotential>(SiteWeight<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min, Envelope envelope,
+        SamplingSettings settings, int chain, BatchMeansStore[] stores, BinCounter radial, DrawRecorder<Position> draws, ProgressReporter progress) : IResumableGroup
         where TPotential : struct, IPairPotential
     {
-        var moments = new CovarianceAccumulator();
-        long proposals = 0, nearWall = 0;
-        double band = envelope.WallBand;
-        for (long i = 0; i < settings.SamplesPerChain; i++)
+        private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
+        private CovarianceAccumulator _moments;
+        private long _done, _proposals, _nearWall;
+
+        public long ChainStepsDone => _done;
+
+        internal ChainResult Run(GroupCheckpoints checkpoints, CancellationToken ct)
         {
-            while (true)
+            if (checkpoints.SavedState(chain) is byte[] saved)
             {
-                proposals++;
-                var (x, y, z, logQ) = envelope.Draw(ref random);
-                double logP = kernel.LogWeight(x, y, z) - envelope.LogWeightAtMinimum;
-                if (double.IsNegativeInfinity(logP))
+                Load(new StateReader(saved, "direct site chain " + chain.ToString(CultureInfo.InvariantCulture)));
+            }
+            var boundary = new ChunkBoundary([progress], checkpoints, chain, this, ct);
+            double band = envelope.WallBand;
+            for (; _done < settings.SamplesPerChain; _done++)
+            {
+                if ((_done & 4095) == 0)
                 {
-                    continue;
+                    boundary.Reached(_done);
                 }
-                double logRatio = logP - logQ;
-                if (logRatio > envelope.LogBound)
+                while (true)
                 {
-                    throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture,
-                        $"Direct sampling found a position where the Boltzmann weight exceeds its Gaussian envelope bound (log ratio {logRatio:G4} > {envelope.LogBound:G4}); the draws would be biased. Use Metropolis for this landscape."));
-                }
-                if (Math.Log(random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
-                {
-                    Record(x, y, z, min, ref moments, stores, radial);
-                    draws.Add(new Position(x, y, z));
-                    if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, band))
+                    _proposals++;
+                    var (x, y, z, logQ) = envelope.Draw(ref _random);
+                    double logP = kernel.LogWeight(x, y, z) - envelope.LogWeightAtMinimum;
+                    if (double.IsNegativeInfinity(logP))
                     {
-                        nearWall++;
+                        continue;
                     }
-                    break;
+                    double logRatio = logP - logQ;
+                    if (logRatio > envelope.LogBound)
+                    {
+                        throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture,
+                            $"Direct sampling found a position where the Boltzmann weight exceeds its Gaussian envelope bound (log ratio {logRatio:G4} > {envelope.LogBound:G4}); the draws would be biased. Use Metropolis for this landscape."));
+                    }
+                    if (Math.Log(_random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
+                    {
+                        Record(x, y, z, min, ref _moments, stores, radial);
+                        draws.Add(new Position(x, y, z));
+                        if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, band))
+                        {
+                            _nearWall++;
+                        }
+                        break;
+                    }
                 }
             }
-            if ((i & 4095) == 0)
-            {
-                ct.ThrowIfCancellationRequested();
-                progress.Report(i);
-            }
+            checkpoints.Finished(chain, this);
+            progress.Finish();
+            return new ChainResult(_moments, stores, radial, draws, settings.SamplesPerChain, _proposals, _nearWall, 0);
         }
-        progress.Finish();
-        return new ChainResult(moments, stores, radial, draws, settings.SamplesPerChain, proposals, nearWall, 0);
+
+        public void Save(StateWriter w)
+        {
+            Span<ulong> state = stackalloc ulong[4];
+            _random.GetState(state);
+            w.Words("RAND", state);
+            w.Longs("DONE", [_done, _proposals, _nearWall]);
+            _moments.Save(w);
+            foreach (var store in stores)
+            {
+                store.Save(w);
+            }
+            radial.Save(w);
+            draws.Save(w, 3);
+        }
+
+        private void Load(StateReader r)
+        {
+            _random = RandomStream.FromState(r.Words("RAND", 4));
+            var counts = r.Longs("DONE", 3);
+            _done = r.InRange(counts[0], 0, settings.SamplesPerChain, "the draws done");
+            _proposals = r.InRange(counts[1], _done, long.MaxValue, "the proposals");
+            _nearWall = r.InRange(counts[2], 0, _done, "the draws near the wall");
+            _moments = CovarianceAccumulator.Load(r);
+            foreach (var store in stores)
+            {
+                store.Load(r);
+            }
+            radial.Load(r);
+            draws.Load(r, 3);
+            r.End();
+        }
     }
 
     /// <summary>The Gaussian envelope N(min, 1.3²Σ) and its numerically established bound.</summary>

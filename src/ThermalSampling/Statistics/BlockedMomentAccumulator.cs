@@ -34,6 +34,23 @@ internal struct BlockedMomentAccumulator
         }
     }
 
+    /// <summary>Writes the merged total and the open block.</summary>
+    internal readonly void Save(Sampling.StateWriter w)
+    {
+        w.Longs("BMOC", [_total.Count, _count]);
+        w.Doubles("BMOS", [_total.Mean, _total.SumSquaredDeviations, _total.SumCubedDeviations, _total.SumFourthPowerDeviations, _reference, _s1, _s2, _s3, _s4]);
+    }
+
+    /// <summary>Restores what <see cref="Save"/> wrote.</summary>
+    internal void Load(Sampling.StateReader r)
+    {
+        var counts = r.Longs("BMOC", 2);
+        var v = r.Doubles("BMOS", 9);
+        _total = MomentAccumulator.FromSums(r.InRange(counts[0], 0, long.MaxValue, "the moment count"), v[0], v[1], v[2], v[3]);
+        _count = (int)r.InRange(counts[1], 0, BlockSize - 1, "the open block's count");
+        (_reference, _s1, _s2, _s3, _s4) = (v[4], v[5], v[6], v[7], v[8]);
+    }
+
     /// <summary>Everything added so far, merged.</summary>
     internal MomentAccumulator Complete()
     {

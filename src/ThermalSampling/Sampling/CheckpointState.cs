@@ -1,0 +1,446 @@
+using System;
+using System.Buffers.Binary;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Diagnostics;
+using System.Globalization;
+using System.IO;
+using System.Linq;
+using System.Runtime.InteropServices;
+using System.Text;
+using System.Threading;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>
+/// Writes one chain group's state as a sequence of sections: a 4-character ASCII tag, a signed 64-bit count and that many
+/// 64-bit little-endian values (doubles as their IEEE bits, so every value round-trips exactly). docs/checkpoints.md lists
+/// the sections of each group kind in order.
+/// </summary>
+internal sealed class StateWriter
+{
+    private readonly MemoryStream _out = new();
+    private readonly byte[] _word = new byte[8];
+
+    private void Header(string tag, long count)
+    {
+        _out.Write(Encoding.ASCII.GetBytes(tag));
+        BinaryPrimitives.WriteInt64LittleEndian(_word, count);
+        _out.Write(_word);
+    }
+
+    internal void Words(string tag, ReadOnlySpan<ulong> values)
+    {
+        Header(tag, values.Length);
+        var buffer = new byte[8 * values.Length];
+        for (int i = 0; i < values.Length; i++)
+        {
+            BinaryPrimitives.WriteUInt64LittleEndian(buffer.AsSpan(8 * i), values[i]);
+        }
+        _out.Write(buffer);
+    }
+
+    internal void Doubles(string tag, ReadOnlySpan<double> values) => Words(tag, MemoryMarshal.Cast<double, ulong>(values));
+
+    internal void Longs(string tag, ReadOnlySpan<long> values) => Words(tag, MemoryMarshal.Cast<long, ulong>(values));
+
+    internal byte[] ToArray() => _out.ToArray();
+}
+
+/// <summary>Reads what <see cref="StateWriter"/> wrote, checking every tag and count; a mismatch is a <see cref="CheckpointException"/>.</summary>
+internal sealed class StateReader
+{
+    private readonly byte[] _data;
+    private readonly string _what;
+    private int _at;
+
+    internal StateReader(byte[] data, string what)
+    {
+        _data = data;
+        _what = what;
+    }
+
+    private CheckpointException Problem(string message) => new($"The checkpoint's state of {_what} is not what this version expects: {message}");
+
+    /// <summary>Reads the section <paramref name="tag"/>; <paramref name="expected"/> is its exact count, or −1 for any count up to <paramref name="most"/>.</summary>
+    internal ulong[] Words(string tag, long expected, long most = -1)
+    {
+        if (_data.Length - _at < 12)
+        {
+            throw Problem($"section '{tag}' is missing.");
+        }
+        string found = Encoding.ASCII.GetString(_data, _at, 4);
+        if (found != tag)
+        {
+            throw Problem($"found section '{found}' where '{tag}' belongs.");
+        }
+        long count = BinaryPrimitives.ReadInt64LittleEndian(_data.AsSpan(_at + 4));
+        _at += 12;
+        if (expected >= 0 ? count != expected : count < 0 || count > most)
+        {
+            throw Problem(string.Create(CultureInfo.InvariantCulture,
+                $"section '{tag}' holds {count} values; expected {(expected >= 0 ? expected.ToString(CultureInfo.InvariantCulture) : "0 to " + most.ToString(CultureInfo.InvariantCulture))}."));
+        }
+        if ((_data.Length - _at) / 8 < count)
+        {
+            throw Problem($"section '{tag}' is cut short.");
+        }
+        var values = new ulong[count];
+        for (int i = 0; i < values.Length; i++)
+        {
+            values[i] = BinaryPrimitives.ReadUInt64LittleEndian(_data.AsSpan(_at + 8 * i));
+        }
+        _at += 8 * (int)count;
+        return values;
+    }
+
+    internal double[] Doubles(string tag, long expected, long most = -1) => Array.ConvertAll(Words(tag, expected, most), BitConverter.UInt64BitsToDouble);
+
+    internal long[] Longs(string tag, long expected, long most = -1) => Array.ConvertAll(Words(tag, expected, most), w => unchecked((long)w));
+
+    /// <summary>Reads a section into <paramref name="destination"/>, whose length is the expected count.</summary>
+    internal void DoublesInto(string tag, Span<double> destination) => Doubles(tag, destination.Length).CopyTo(destination);
+
+    /// <summary>Checks that nothing is left over.</summary>
+    internal void End()
+    {
+        if (_at != _data.Length)
+        {
+            throw Problem(string.Create(CultureInfo.InvariantCulture, $"{_data.Length - _at} bytes are left after the last section."));
+        }
+    }
+
+    /// <summary>A whole number in [<paramref name="lower"/>, <paramref name="upper"/>], or a <see cref="CheckpointException"/>.</summary>
+    internal long InRange(long value, long lower, long upper, string name)
+        => value >= lower && value <= upper ? value
+            : throw Problem(string.Create(CultureInfo.InvariantCulture, $"{name} = {value} is outside {lower} to {upper}."));
+}
+
+/// <summary>A chain group (a vector of lanes, or one direct chain) whose state can be written at a chunk boundary.</summary>
+internal interface IResumableGroup
+{
+    /// <summary>Writes everything that the group's further draws and its final outcome depend on.</summary>
+    void Save(StateWriter writer);
+
+    /// <summary>Steps done so far, summed over the group's chains (burn-in included), for the checkpoint's summary.</summary>
+    long ChainStepsDone { get; }
+}
+
+/// <summary>Where a chain group is: adapting (burn-in), recording, or finished.</summary>
+internal enum GroupPhase
+{
+    BurnIn = 0,
+    Recording = 1,
+    Finished = 2,
+}
+
+/// <summary>What a group does at each chunk boundary: checkpoint bookkeeping (which may throw on cancellation), then progress.</summary>
+internal sealed class ChunkBoundary(ProgressReporter[] reporters, GroupCheckpoints checkpoints, int group, IResumableGroup state, CancellationToken ct)
+{
+    internal void Reached(long done)
+    {
+        checkpoints.AtBoundary(group, state, ct);
+        foreach (var p in reporters)
+        {
+            p.Report(done);
+        }
+    }
+}
+
+/// <summary>Lane values and whole walks as 64-bit words (field by field, lanes within a field).</summary>
+internal static class LaneWalkWords
+{
+    internal static void Save<TWalk>(StateWriter w, ref TWalk walk) where TWalk : struct => w.Words("WALK", Words(ref walk));
+
+    internal static void Load<TWalk>(StateReader r, ref TWalk walk) where TWalk : struct
+    {
+        var words = Words(ref walk);
+        r.Words("WALK", words.Length).CopyTo(words);
+    }
+
+    private static Span<ulong> Words<TWalk>(ref TWalk walk) where TWalk : struct => MemoryMarshal.Cast<TWalk, ulong>(MemoryMarshal.CreateSpan(ref walk, 1));
+
+    internal static ulong[] Lanes<TOps, TD, TB>(TD values)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var words = new ulong[TOps.Count];
+        for (int lane = 0; lane < words.Length; lane++)
+        {
+            words[lane] = BitConverter.DoubleToUInt64Bits(TOps.Get(values, lane));
+        }
+        return words;
+    }
+
+    internal static TD FromLanes<TOps, TD, TB>(ulong[] words)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var values = TOps.Broadcast(0.0);
+        for (int lane = 0; lane < words.Length; lane++)
+        {
+            values = TOps.Set(values, lane, BitConverter.UInt64BitsToDouble(words[lane]));
+        }
+        return values;
+    }
+}
+
+/// <summary>One temperature's view of a <see cref="CheckpointSession"/> (or of none: then only cancellation is honoured).</summary>
+internal sealed class GroupCheckpoints
+{
+    internal static readonly GroupCheckpoints None = new(null, -1);
+
+    private readonly CheckpointSession? _session;
+    private readonly int _temperature;
+
+    internal GroupCheckpoints(CheckpointSession? session, int temperature)
+    {
+        _session = session;
+        _temperature = temperature;
+    }
+
+    /// <summary>The group's state to continue from, or null to start it afresh; marks the group as running.</summary>
+    internal byte[]? SavedState(int group) => _session?.Started(_temperature, group);
+
+    /// <summary>At a chunk boundary: writes the group's state if a checkpoint is due or the run is cancelled; throws when cancelled.</summary>
+    internal void AtBoundary(int group, IResumableGroup state, CancellationToken ct)
+    {
+        if (_session is null)
+        {
+            ct.ThrowIfCancellationRequested();
+            return;
+        }
+        _session.AtBoundary(_temperature, group, state, ct);
+    }
+
+    /// <summary>The group is done: its final state stands for it in every later checkpoint.</summary>
+    internal void Finished(int group, IResumableGroup state) => _session?.Deposit(_temperature, group, state, finished: true);
+}
+
+/// <summary>
+/// Checkpoint bookkeeping of one sweep. Every group hands in its state at a chunk boundary when a checkpoint is requested
+/// (on a timer, or at once when the run starts) or when the run is cancelled; the group that completes the set writes
+/// the checkpoint. Groups are independent, so a checkpoint holds each group at its own step: resuming continues each one
+/// from there, and the results are those of the uninterrupted run.
+/// </summary>
+internal sealed class CheckpointSession
+{
+    private readonly object _lock = new();
+    private readonly CheckpointOptions? _options;
+    private readonly SweepIdentity _identity;
+    private readonly byte[]?[]?[] _states;
+    private readonly long[]?[] _steps;
+    private readonly bool[] _finished;
+    private int _current = -1;
+    private int[] _served = [];
+    private bool[] _running = [], _done = [];
+    private int _generation, _written;
+    private bool _writing;
+    private long _due;
+
+    /// <param name="identity">What is being run.</param>
+    /// <param name="options">Where and how often to write; null writes nothing (a resume without further checkpoints).</param>
+    /// <param name="resumeFrom">The checkpoint to continue from, already checked against <paramref name="identity"/>.</param>
+    /// <param name="lanes">Lanes per vector for every group of the sweep.</param>
+    internal CheckpointSession(SweepIdentity identity, CheckpointOptions? options, SamplingCheckpoint? resumeFrom, int lanes)
+    {
+        _identity = identity;
+        _options = options;
+        Lanes = lanes;
+        int n = identity.Temperatures.Length;
+        _states = resumeFrom is null ? new byte[]?[]?[n] : resumeFrom.CopyStates();
+        _finished = resumeFrom is null ? new bool[n] : resumeFrom.CopyFinished();
+        _steps = resumeFrom is null ? new long[]?[n] : resumeFrom.CopySteps();
+        _due = Stopwatch.GetTimestamp(); // the first checkpoint as soon as the groups reach their first boundary
+    }
+
+    internal int Lanes { get; }
+
+    internal CheckpointOptions? Options => _options;
+
+    /// <summary>Starts temperature <paramref name="temperature"/> with <paramref name="groups"/> groups.</summary>
+    internal GroupCheckpoints Begin(int temperature, int groups)
+    {
+        lock (_lock)
+        {
+            var states = _states[temperature] ??= new byte[]?[groups];
+            if (states.Length != groups)
+            {
+                throw new CheckpointException(string.Create(CultureInfo.InvariantCulture,
+                    $"The checkpoint holds {states.Length} chain groups for temperature {temperature + 1}; this run has {groups}."));
+            }
+            _steps[temperature] ??= new long[groups];
+            _current = temperature;
+            _served = new int[groups];
+            _running = new bool[groups];
+            _done = new bool[groups];
+        }
+        return new GroupCheckpoints(this, temperature);
+    }
+
+    /// <summary>Temperature <paramref name="temperature"/> has finished; its groups' final states stay in later checkpoints.</summary>
+    internal void End(int temperature)
+    {
+        lock (_lock)
+        {
+            _finished[temperature] = true;
+            _current = -1;
+        }
+    }
+
+    internal byte[]? Started(int temperature, int group)
+    {
+        lock (_lock)
+        {
+            _running[group] = true;
+            _served[group] = -1;
+            return _states[temperature]![group];
+        }
+    }
+
+    internal void AtBoundary(int temperature, int group, IResumableGroup state, CancellationToken ct)
+    {
+        if (ct.IsCancellationRequested)
+        {
+            if (_options is not null)
+            {
+                Deposit(temperature, group, state, finished: false, write: false);
+            }
+            ct.ThrowIfCancellationRequested();
+        }
+        if (_options is null)
+        {
+            return;
+        }
+        if (Volatile.Read(ref _generation) > _served[group])
+        {
+            Deposit(temperature, group, state, finished: false);
+        }
+        else if (!Volatile.Read(ref _writing) && Stopwatch.GetTimestamp() >= Volatile.Read(ref _due))
+        {
+            lock (_lock)
+            {
+                if (!_writing && _generation == _written && Stopwatch.GetTimestamp() >= _due)
+                {
+                    _generation++;
+                    _due = long.MaxValue;
+                }
+            }
+            Deposit(temperature, group, state, finished: false);
+        }
+    }
+
+    /// <summary>Records the group's state; when that completes a requested checkpoint, writes it (on this thread).</summary>
+    internal void Deposit(int temperature, int group, IResumableGroup state, bool finished, bool write = true)
+    {
+        if (_options is null)
+        {
+            return;
+        }
+        var writer = new StateWriter();
+        state.Save(writer);
+        var blob = writer.ToArray();
+        SamplingCheckpoint? due = null;
+        int generation;
+        lock (_lock)
+        {
+            _states[temperature]![group] = blob;
+            _steps[temperature]![group] = state.ChainStepsDone;
+            _served[group] = _generation;
+            _done[group] |= finished;
+            generation = _generation;
+            if (write && !_writing && _generation > _written && EveryGroupServed())
+            {
+                _writing = true;
+                due = Assemble();
+            }
+        }
+        if (due is not null)
+        {
+            try
+            {
+                _options.Save(due);
+            }
+            finally
+            {
+                lock (_lock)
+                {
+                    _written = generation;
+                    _writing = false;
+                    _due = Stopwatch.GetTimestamp() + (long)(_options.Interval.TotalSeconds * Stopwatch.Frequency);
+                }
+            }
+        }
+    }
+
+    private bool EveryGroupServed()
+    {
+        for (int g = 0; g < _served.Length; g++)
+        {
+            if (_running[g] && !_done[g] && _served[g] < _generation)
+            {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /// <summary>After a cancellation (every running group has handed in its state): writes the checkpoint.</summary>
+    internal void SaveAfterCancellation()
+    {
+        if (_options is null)
+        {
+            return;
+        }
+        SamplingCheckpoint snapshot;
+        lock (_lock)
+        {
+            snapshot = Assemble();
+        }
+        _options.Save(snapshot);
+    }
+
+    private SamplingCheckpoint Assemble()
+    {
+        var states = new byte[]?[]?[_states.Length];
+        for (int t = 0; t < states.Length; t++)
+        {
+            states[t] = (byte[]?[]?)_states[t]?.Clone();
+        }
+        var steps = new long[]?[_steps.Length];
+        for (int t = 0; t < steps.Length; t++)
+        {
+            steps[t] = (long[]?)_steps[t]?.Clone();
+        }
+        return new SamplingCheckpoint(_identity, Lanes, states, steps, (bool[])_finished.Clone(), _options?.ApplicationData);
+    }
+}
+
+/// <summary>The temperature loop of a checkpointed sweep, shared by the pair and site samplers.</summary>
+internal static class CheckpointedSweep
+{
+    internal static ImmutableArray<TReport> Run<TReport>(int count, CheckpointSession session, Func<int, TReport> runOne)
+    {
+        var reports = ImmutableArray.CreateBuilder<TReport>(count);
+        for (int t = 0; t < count; t++)
+        {
+            try
+            {
+                reports.Add(runOne(t));
+            }
+            catch (OperationCanceledException)
+            {
+                session.SaveAfterCancellation();
+                throw;
+            }
+        }
+        return reports.MoveToImmutable();
+    }
+
+    internal static SweepIdentity Identity(string kind, string description, string fingerprint, Units.Mass mass, List<Units.Temperature> temperatures,
+        SamplingSettings settings)
+        => new(kind, description, fingerprint, mass.InAtomicMassUnits, temperatures.Select(t => t.InKelvin).ToImmutableArray(), settings,
+            Reports.Provenance.CurrentLibraryVersion);
+}

@@ -1,0 +1,601 @@
+using System;
+using System.Buffers.Binary;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Globalization;
+using System.IO;
+using System.Linq;
+using System.Security.Cryptography;
+using System.Text;
+using System.Text.Json;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>
+/// Where and how often a sweep writes checkpoints. A checkpoint is written as soon as every chain group has reached its
+/// first chunk boundary, then every <see cref="Interval"/>, and once more when the run is cancelled (before
+/// <see cref="OperationCanceledException"/> reaches the caller). Writing blocks only the chain group that completes the
+/// set; the others keep sampling.
+/// </summary>
+public sealed class CheckpointOptions
+{
+    /// <summary>Checkpoints handed to <paramref name="save"/> (which may keep them in memory, send them elsewhere or write them).</summary>
+    /// <param name="interval">Time between checkpoints, 0 to 1 day (0: at every chunk boundary, for tests).</param>
+    /// <param name="save">Called with each checkpoint, on a worker thread, one call at a time; an exception from it stops the run.</param>
+    public CheckpointOptions(TimeSpan interval, Action<SamplingCheckpoint> save)
+    {
+        ArgumentNullException.ThrowIfNull(save);
+        if (interval < TimeSpan.Zero || interval > TimeSpan.FromDays(1))
+        {
+            throw new ArgumentOutOfRangeException(nameof(interval), interval, $"interval = {interval} is out of range; valid: 0 to 1 day.");
+        }
+        Interval = interval;
+        Save = save;
+    }
+
+    /// <summary>Checkpoints written atomically to <paramref name="path"/> with <see cref="SamplingCheckpoint.WriteToFile"/>.</summary>
+    /// <param name="path">The checkpoint file; its folder must exist.</param>
+    /// <param name="interval">Time between checkpoints, 0 to 1 day.</param>
+    public static CheckpointOptions ToFile(string path, TimeSpan interval)
+    {
+        ArgumentException.ThrowIfNullOrWhiteSpace(path);
+        string full = Path.GetFullPath(path);
+        string? folder = Path.GetDirectoryName(full);
+        if (folder is null || !Directory.Exists(folder))
+        {
+            throw new ArgumentException($"path = '{path}': the folder '{folder}' does not exist.", nameof(path));
+        }
+        return new CheckpointOptions(interval, c => c.WriteToFile(full));
+    }
+
+    /// <summary>Time between checkpoints.</summary>
+    public TimeSpan Interval { get; }
+
+    /// <summary>Receives each checkpoint.</summary>
+    public Action<SamplingCheckpoint> Save { get; }
+
+    /// <summary>Text stored verbatim in every checkpoint (an application's own settings, such as a scenario file); at most 16 MiB of UTF-8.</summary>
+    public string? ApplicationData { get; init; }
+}
+
+/// <summary>A checkpoint that cannot be read or does not belong to the run it is offered to.</summary>
+public sealed class CheckpointException : Exception
+{
+    /// <summary>Creates the exception.</summary>
+    /// <param name="message">What is wrong, in a sentence a user can act on.</param>
+    public CheckpointException(string message) : base(message)
+    {
+    }
+
+    /// <summary>Creates the exception with its cause.</summary>
+    /// <param name="message">What is wrong.</param>
+    /// <param name="inner">The cause.</param>
+    public CheckpointException(string message, Exception inner) : base(message, inner)
+    {
+    }
+}
+
+/// <summary>
+/// The complete state of a sweep at one moment: every chain group's walk, random stream, adapted step width and
+/// statistics, at its last chunk boundary (groups run independently, so each is at its own step). Resuming from it
+/// finishes the same sweep: the reports are bit for bit those of the uninterrupted run. The file format (one line of
+/// JSON metadata, a binary body, a SHA-256 checksum) is described in docs/checkpoints.md.
+/// </summary>
+public sealed class SamplingCheckpoint
+{
+    /// <summary>The "format" value that opens every checkpoint's metadata.</summary>
+    public const string FormatName = "thermal-sampling-checkpoint";
+
+    /// <summary>The version of the file layout this library writes and reads.</summary>
+    public const int FormatVersion = 1;
+
+    private const int MaximumMetadataBytes = 32 * 1024 * 1024;
+    private const int ChecksumBytes = 32;
+
+    private readonly byte[]?[]?[] _states;
+    private readonly long[]?[] _steps;
+    private readonly bool[] _finished;
+
+    internal SamplingCheckpoint(SweepIdentity identity, int lanes, byte[]?[]?[] states, long[]?[] steps, bool[] finished, string? applicationData)
+    {
+        Identity = identity;
+        ChainsPerVector = lanes;
+        _states = states;
+        _steps = steps;
+        _finished = finished;
+        ApplicationData = applicationData;
+    }
+
+    internal SweepIdentity Identity { get; }
+
+    /// <summary>The library version that wrote it; only the same version resumes it.</summary>
+    public string LibraryVersion => Identity.LibraryVersion;
+
+    /// <summary>"pair" (line or radial) or "sites".</summary>
+    public string LandscapeKind => Identity.Kind;
+
+    /// <summary>The landscape's description.</summary>
+    public string Landscape => Identity.Landscape;
+
+    /// <summary>The particle's mass.</summary>
+    public Mass Mass => Mass.FromAtomicMassUnits(Identity.MassInAtomicMassUnits);
+
+    /// <summary>The sweep's temperatures, in order.</summary>
+    public ImmutableArray<Temperature> Temperatures => Identity.Temperatures.Select(Temperature.FromKelvin).ToImmutableArray();
+
+    /// <summary>The sweep's settings.</summary>
+    public SamplingSettings Settings => Identity.Settings;
+
+    /// <summary>Metropolis chains per vector in every group; a resume uses the same.</summary>
+    public int ChainsPerVector { get; }
+
+    /// <summary>Temperatures whose chains have all finished.</summary>
+    public int FinishedTemperatures => _finished.Count(f => f);
+
+    /// <summary>Steps done, over all chains and temperatures (burn-in included).</summary>
+    public long ChainStepsDone => _steps.Sum(s => s?.Sum() ?? 0);
+
+    /// <summary>Steps the whole sweep takes, over all chains and temperatures.</summary>
+    public long ChainStepsTotal => Identity.ChainStepsTotal;
+
+    /// <summary>The text given as <see cref="CheckpointOptions.ApplicationData"/>, or null.</summary>
+    public string? ApplicationData { get; }
+
+    internal byte[]?[]?[] CopyStates() => _states.Select(s => (byte[]?[]?)s?.Clone()).ToArray();
+
+    internal long[]?[] CopySteps() => _steps.Select(s => (long[]?)s?.Clone()).ToArray();
+
+    internal bool[] CopyFinished() => (bool[])_finished.Clone();
+
+    /// <summary>Throws a <see cref="CheckpointException"/> naming every way in which <paramref name="run"/> differs from what was checkpointed.</summary>
+    internal void CheckBelongsTo(SweepIdentity run)
+    {
+        var differences = Identity.Differences(run);
+        if (differences.Count > 0)
+        {
+            throw new CheckpointException("The checkpoint belongs to a different run: " + string.Join(" ", differences) + " Resume with exactly the original landscape, mass, temperatures and settings.");
+        }
+    }
+
+    /// <summary>Writes the checkpoint to <paramref name="stream"/> (metadata line, body, SHA-256 of both).</summary>
+    /// <param name="stream">A writable stream.</param>
+    public void WriteTo(Stream stream)
+    {
+        ArgumentNullException.ThrowIfNull(stream);
+        var body = Body();
+        var metadata = Metadata(body.Length);
+        using var hash = IncrementalHash.CreateHash(HashAlgorithmName.SHA256);
+        hash.AppendData(metadata);
+        hash.AppendData(body);
+        stream.Write(metadata);
+        stream.Write(body);
+        stream.Write(hash.GetHashAndReset());
+        stream.Flush();
+    }
+
+    /// <summary>
+    /// Writes the checkpoint to <paramref name="path"/> atomically: to a temporary file beside it, flushed to the disk,
+    /// then renamed over the old one. A crash while writing leaves the previous checkpoint intact.
+    /// </summary>
+    /// <param name="path">The checkpoint file.</param>
+    public void WriteToFile(string path)
+    {
+        ArgumentException.ThrowIfNullOrWhiteSpace(path);
+        string temporary = path + ".writing";
+        using (var file = new FileStream(temporary, FileMode.Create, FileAccess.Write, FileShare.None, 1 << 16))
+        {
+            WriteTo(file);
+            file.Flush(flushToDisk: true);
+        }
+        File.Move(temporary, path, overwrite: true);
+    }
+
+    /// <summary>Reads a checkpoint written by <see cref="WriteToFile"/>.</summary>
+    /// <param name="path">The checkpoint file.</param>
+    /// <exception cref="CheckpointException">When the file is not a checkpoint, is cut short, fails its checksum, or comes from another format version.</exception>
+    public static SamplingCheckpoint ReadFromFile(string path)
+    {
+        ArgumentException.ThrowIfNullOrWhiteSpace(path);
+        if (!File.Exists(path))
+        {
+            throw new CheckpointException($"The checkpoint file '{path}' does not exist.");
+        }
+        using var file = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16);
+        return ReadFrom(file);
+    }
+
+    /// <summary>Reads a checkpoint written by <see cref="WriteTo"/>; nothing is loaded unless the length and checksum are right.</summary>
+    /// <param name="stream">A readable stream, positioned at the checkpoint's first byte.</param>
+    /// <exception cref="CheckpointException">When the data is not a checkpoint, is cut short, fails its checksum, or comes from another format version.</exception>
+    public static SamplingCheckpoint ReadFrom(Stream stream)
+    {
+        ArgumentNullException.ThrowIfNull(stream);
+        using var hash = IncrementalHash.CreateHash(HashAlgorithmName.SHA256);
+        var line = ReadMetadataLine(stream);
+        hash.AppendData(line);
+        JsonElement meta;
+        try
+        {
+            using var document = JsonDocument.Parse(line);
+            meta = document.RootElement.Clone();
+        }
+        catch (JsonException ex)
+        {
+            throw new CheckpointException("The checkpoint's metadata line is not valid JSON (the file is damaged).", ex);
+        }
+        if (meta.ValueKind != JsonValueKind.Object || !meta.TryGetProperty("format", out var format) || format.ValueKind != JsonValueKind.String || format.GetString() != FormatName)
+        {
+            throw new CheckpointException($"This is not a checkpoint: its metadata does not start with \"format\": \"{FormatName}\".");
+        }
+        int version = Get(meta, "formatVersion", JsonValueKind.Number).GetInt32();
+        if (version != FormatVersion)
+        {
+            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint has format version {version}; this library reads version {FormatVersion}."));
+        }
+        long bodyBytes = Get(meta, "bodyBytes", JsonValueKind.Number).GetInt64();
+        if (bodyBytes < 0 || bodyBytes > Array.MaxLength)
+        {
+            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint announces a body of {bodyBytes} bytes; valid: 0 to {Array.MaxLength}."));
+        }
+        if (stream.CanSeek && stream.Length - stream.Position < bodyBytes + ChecksumBytes)
+        {
+            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture,
+                $"The checkpoint is cut short: {stream.Length - stream.Position} bytes follow the metadata, which announces {bodyBytes} + {ChecksumBytes} (body and checksum). The write was interrupted; use an earlier checkpoint."));
+        }
+        var body = ReadExactly(stream, (int)bodyBytes, "body");
+        hash.AppendData(body);
+        var checksum = ReadExactly(stream, ChecksumBytes, "checksum");
+        if (!CryptographicOperations.FixedTimeEquals(checksum, hash.GetHashAndReset()))
+        {
+            throw new CheckpointException("The checkpoint fails its SHA-256 checksum: the file is damaged. Nothing was loaded; use an earlier checkpoint.");
+        }
+        if (stream.ReadByte() >= 0)
+        {
+            throw new CheckpointException("The checkpoint has bytes after its checksum: the file is damaged or two files were joined.");
+        }
+        return Parse(meta, body);
+    }
+
+    private static byte[] ReadMetadataLine(Stream stream)
+    {
+        var line = new MemoryStream();
+        while (true)
+        {
+            int b = stream.ReadByte();
+            if (b < 0)
+            {
+                throw new CheckpointException(line.Length == 0 ? "The checkpoint is empty." : "The checkpoint is cut short inside its metadata line.");
+            }
+            line.WriteByte((byte)b);
+            if (b == '\n')
+            {
+                return line.ToArray();
+            }
+            if (line.Length > MaximumMetadataBytes)
+            {
+                throw new CheckpointException($"The checkpoint's metadata line is longer than {MaximumMetadataBytes} bytes: this is not a checkpoint.");
+            }
+        }
+    }
+
+    private static byte[] ReadExactly(Stream stream, int count, string what)
+    {
+        // Grows with the data actually read, so a damaged length never allocates more than the stream holds.
+        var result = new MemoryStream();
+        var buffer = new byte[Math.Min(count, 1 << 20)];
+        while (result.Length < count)
+        {
+            int n = stream.Read(buffer, 0, (int)Math.Min(buffer.Length, count - result.Length));
+            if (n == 0)
+            {
+                throw new CheckpointException(string.Create(CultureInfo.InvariantCulture,
+                    $"The checkpoint is cut short in its {what}: {result.Length} of {count} bytes. The write was interrupted; use an earlier checkpoint."));
+            }
+            result.Write(buffer, 0, n);
+        }
+        return result.ToArray();
+    }
+
+    private static JsonElement Get(JsonElement meta, string name, JsonValueKind kind)
+    {
+        if (!meta.TryGetProperty(name, out var value) || value.ValueKind != kind)
+        {
+            throw new CheckpointException($"The checkpoint's metadata lacks \"{name}\" (or it has the wrong type).");
+        }
+        return value;
+    }
+
+    private byte[] Body()
+    {
+        var body = new MemoryStream();
+        var word = new byte[8];
+        void Long(long v)
+        {
+            BinaryPrimitives.WriteInt64LittleEndian(word, v);
+            body.Write(word);
+        }
+        for (int t = 0; t < _states.Length; t++)
+        {
+            var groups = _states[t];
+            body.WriteByte((byte)(groups is null ? 0 : _finished[t] ? 2 : 1));
+            if (groups is null)
+            {
+                continue;
+            }
+            Long(groups.Length);
+            for (int g = 0; g < groups.Length; g++)
+            {
+                Long(_steps[t]?[g] ?? 0);
+                Long(groups[g]?.Length ?? -1);
+                body.Write(groups[g] ?? []);
+            }
+        }
+        return body.ToArray();
+    }
+
+    private byte[] Metadata(long bodyBytes)
+    {
+        var buffer = new MemoryStream();
+        // Relaxed escaping keeps the line readable (a version's '+' stays '+'); control characters are still escaped.
+        using (var w = new Utf8JsonWriter(buffer, new JsonWriterOptions { Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping }))
+        {
+            w.WriteStartObject();
+            w.WriteString("format", FormatName);
+            w.WriteNumber("formatVersion", FormatVersion);
+            w.WriteString("libraryVersion", Identity.LibraryVersion);
+            w.WriteString("landscapeKind", Identity.Kind);
+            w.WriteString("landscape", Identity.Landscape);
+            w.WriteString("landscapeFingerprint", Identity.Fingerprint);
+            w.WriteNumber("massInAtomicMassUnits", Identity.MassInAtomicMassUnits);
+            w.WriteStartArray("temperaturesInKelvin");
+            foreach (double t in Identity.Temperatures)
+            {
+                w.WriteNumberValue(t);
+            }
+            w.WriteEndArray();
+            w.WritePropertyName("settings");
+            SweepIdentity.WriteSettings(w, Identity.Settings);
+            w.WriteNumber("chainsPerVector", ChainsPerVector);
+            w.WriteNumber("temperaturesFinished", FinishedTemperatures);
+            w.WriteNumber("chainStepsDone", ChainStepsDone);
+            w.WriteNumber("chainStepsTotal", ChainStepsTotal);
+            w.WriteString("writtenUtc", DateTimeOffset.UtcNow.ToString("yyyy-MM-ddTHH:mm:ss.fffZ", CultureInfo.InvariantCulture));
+            if (ApplicationData is null)
+            {
+                w.WriteNull("applicationData");
+            }
+            else
+            {
+                w.WriteString("applicationData", ApplicationData);
+            }
+            w.WriteNumber("bodyBytes", bodyBytes);
+            w.WriteEndObject();
+        }
+        buffer.WriteByte((byte)'\n'); // the JSON writer escapes control characters, so this is the only newline
+        return buffer.ToArray();
+    }
+
+    private static SamplingCheckpoint Parse(JsonElement meta, byte[] body)
+    {
+        SweepIdentity identity;
+        int lanes;
+        string? application;
+        try
+        {
+            var temperatures = Get(meta, "temperaturesInKelvin", JsonValueKind.Array).EnumerateArray().Select(e => e.GetDouble()).ToImmutableArray();
+            identity = new SweepIdentity(Get(meta, "landscapeKind", JsonValueKind.String).GetString()!, Get(meta, "landscape", JsonValueKind.String).GetString()!,
+                Get(meta, "landscapeFingerprint", JsonValueKind.String).GetString()!, Get(meta, "massInAtomicMassUnits", JsonValueKind.Number).GetDouble(),
+                temperatures, SweepIdentity.ReadSettings(Get(meta, "settings", JsonValueKind.Object)), Get(meta, "libraryVersion", JsonValueKind.String).GetString()!);
+            lanes = Get(meta, "chainsPerVector", JsonValueKind.Number).GetInt32();
+            application = meta.TryGetProperty("applicationData", out var a) && a.ValueKind == JsonValueKind.String ? a.GetString() : null;
+        }
+        catch (Exception ex) when (ex is FormatException or InvalidOperationException or ArgumentException)
+        {
+            throw new CheckpointException("The checkpoint's metadata has a value of the wrong kind: " + ex.Message, ex);
+        }
+        if (lanes is not (1 or 2 or 4 or 8))
+        {
+            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint's chainsPerVector = {lanes}; valid: 1, 2, 4 or 8."));
+        }
+        int n = identity.Temperatures.Length;
+        var states = new byte[]?[]?[n];
+        var steps = new long[]?[n];
+        var finished = new bool[n];
+        int at = 0;
+        long Long()
+        {
+            if (body.Length - at < 8)
+            {
+                throw new CheckpointException("The checkpoint's body ends early (its metadata and body disagree).");
+            }
+            long v = BinaryPrimitives.ReadInt64LittleEndian(body.AsSpan(at));
+            at += 8;
+            return v;
+        }
+        for (int t = 0; t < n; t++)
+        {
+            if (at >= body.Length)
+            {
+                throw new CheckpointException("The checkpoint's body ends before its last temperature.");
+            }
+            int status = body[at++];
+            if (status > 2)
+            {
+                throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint's temperature {t + 1} has status {status}; valid: 0, 1 or 2."));
+            }
+            finished[t] = status == 2;
+            if (status == 0)
+            {
+                continue;
+            }
+            long groups = Long();
+            if (groups < 1 || groups > identity.Settings.Chains)
+            {
+                throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint's temperature {t + 1} has {groups} chain groups; valid: 1 to {identity.Settings.Chains}."));
+            }
+            states[t] = new byte[]?[groups];
+            steps[t] = new long[groups];
+            for (int g = 0; g < groups; g++)
+            {
+                steps[t]![g] = Long();
+                long length = Long();
+                if (length < -1 || length > body.Length - at || (finished[t] && length < 0))
+                {
+                    throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint's state of group {g} at temperature {t + 1} has length {length}, which does not fit the body."));
+                }
+                states[t]![g] = length < 0 ? null : body.AsSpan(at, (int)length).ToArray();
+                at += (int)Math.Max(length, 0);
+            }
+        }
+        if (at != body.Length)
+        {
+            throw new CheckpointException("The checkpoint's body has bytes after its last temperature.");
+        }
+        return new SamplingCheckpoint(identity, lanes, states, steps, finished, application);
+    }
+}
+
+/// <summary>Everything that makes two sweeps the same run: a checkpoint is resumed only by a run with the same identity.</summary>
+/// <param name="Kind">"pair" or "sites".</param>
+/// <param name="Landscape">The landscape's description.</param>
+/// <param name="Fingerprint">SHA-256 (hex) of the landscape's exact geometry and of its energies at fixed points.</param>
+/// <param name="MassInAtomicMassUnits">The mass.</param>
+/// <param name="Temperatures">The temperatures, K.</param>
+/// <param name="Settings">The settings (worker threads and chains per vector do not change results and are not compared).</param>
+/// <param name="LibraryVersion">The library version.</param>
+internal sealed record SweepIdentity(string Kind, string Landscape, string Fingerprint, double MassInAtomicMassUnits, ImmutableArray<double> Temperatures,
+    SamplingSettings Settings, string LibraryVersion)
+{
+    internal long ChainStepsPerTemperature => Settings.Chains * ((Settings.Method == SamplingMethod.Metropolis ? Settings.BurnIn : 0) + Settings.SamplesPerChain);
+
+    internal long ChainStepsTotal => ChainStepsPerTemperature * Temperatures.Length;
+
+    /// <summary>The fingerprint of a sequence of exact numbers.</summary>
+    internal static string FingerprintOf(IEnumerable<double> values)
+    {
+        using var hash = IncrementalHash.CreateHash(HashAlgorithmName.SHA256);
+        var word = new byte[8];
+        foreach (double v in values)
+        {
+            BinaryPrimitives.WriteUInt64LittleEndian(word, BitConverter.DoubleToUInt64Bits(v));
+            hash.AppendData(word);
+        }
+        return Convert.ToHexString(hash.GetHashAndReset()).ToLowerInvariant();
+    }
+
+    private static IEnumerable<(string Name, string Value)> Compared(SamplingSettings s)
+    {
+        string R(double? v) => v is double d ? d.ToString("R", CultureInfo.InvariantCulture) : "null";
+        yield return (nameof(s.Seed), s.Seed.ToString(CultureInfo.InvariantCulture));
+        yield return (nameof(s.Method), s.Method.ToString());
+        yield return (nameof(s.Chains), s.Chains.ToString(CultureInfo.InvariantCulture));
+        yield return (nameof(s.SamplesPerChain), s.SamplesPerChain.ToString(CultureInfo.InvariantCulture));
+        yield return (nameof(s.BurnIn), s.BurnIn.ToString(CultureInfo.InvariantCulture));
+        yield return (nameof(s.TargetAcceptance), R(s.TargetAcceptance));
+        yield return (nameof(s.InitialStepWidthInAngstroms), R(s.InitialStepWidthInAngstroms));
+        yield return (nameof(s.HistogramBins), s.HistogramBins.ToString(CultureInfo.InvariantCulture));
+        yield return (nameof(s.MaxDiagnosticValuesPerChain), s.MaxDiagnosticValuesPerChain.ToString(CultureInfo.InvariantCulture));
+        yield return (nameof(s.RetainedDrawsPerChain), s.RetainedDrawsPerChain.ToString(CultureInfo.InvariantCulture));
+    }
+
+    /// <summary>Each difference between this (the checkpoint) and <paramref name="run"/>, as a sentence.</summary>
+    internal List<string> Differences(SweepIdentity run)
+    {
+        var c = CultureInfo.InvariantCulture;
+        var list = new List<string>();
+        if (LibraryVersion != run.LibraryVersion)
+        {
+            list.Add($"it was written by library version {LibraryVersion}, and this is {run.LibraryVersion}.");
+        }
+        if (Kind != run.Kind)
+        {
+            list.Add($"it is of a {Kind} landscape, and this run is of a {run.Kind} landscape.");
+        }
+        else if (Fingerprint != run.Fingerprint)
+        {
+            list.Add($"its landscape ({Landscape}) differs from this run's ({run.Landscape}) in its potential, window, sites or confinement.");
+        }
+        if (MassInAtomicMassUnits.CompareTo(run.MassInAtomicMassUnits) != 0)
+        {
+            list.Add(string.Format(c, "its mass is {0:R} u, and this run's is {1:R} u.", MassInAtomicMassUnits, run.MassInAtomicMassUnits));
+        }
+        if (!Temperatures.SequenceEqual(run.Temperatures))
+        {
+            list.Add(string.Format(c, "its temperatures are [{0}] K, and this run's are [{1}] K.",
+                string.Join(", ", Temperatures.Select(t => t.ToString("R", c))), string.Join(", ", run.Temperatures.Select(t => t.ToString("R", c)))));
+        }
+        foreach (var (a, b) in Compared(Settings).Zip(Compared(run.Settings)))
+        {
+            if (a.Value != b.Value)
+            {
+                list.Add($"its {a.Name} is {a.Value}, and this run's is {b.Value}.");
+            }
+        }
+        return list;
+    }
+
+    internal static void WriteSettings(Utf8JsonWriter w, SamplingSettings s)
+    {
+        w.WriteStartObject();
+        w.WriteNumber("seed", s.Seed);
+        w.WriteString("method", s.Method.ToString());
+        w.WriteNumber("chains", s.Chains);
+        w.WriteNumber("samplesPerChain", s.SamplesPerChain);
+        w.WriteNumber("burnIn", s.BurnIn);
+        WriteOptional(w, "targetAcceptance", s.TargetAcceptance);
+        WriteOptional(w, "initialStepWidthInAngstroms", s.InitialStepWidthInAngstroms);
+        w.WriteNumber("histogramBins", s.HistogramBins);
+        w.WriteNumber("maxDiagnosticValuesPerChain", s.MaxDiagnosticValuesPerChain);
+        w.WriteNumber("retainedDrawsPerChain", s.RetainedDrawsPerChain);
+        WriteOptional(w, "maxThreads", s.MaxThreads);
+        WriteOptional(w, "chainsPerVector", s.ChainsPerVector);
+        w.WriteEndObject();
+    }
+
+    private static void WriteOptional(Utf8JsonWriter w, string name, double? value)
+    {
+        if (value is double v)
+        {
+            w.WriteNumber(name, v);
+        }
+        else
+        {
+            w.WriteNull(name);
+        }
+    }
+
+    internal static SamplingSettings ReadSettings(JsonElement e)
+    {
+        double? Optional(string name) => e.TryGetProperty(name, out var v) && v.ValueKind == JsonValueKind.Number ? v.GetDouble() : null;
+        JsonElement Required(string name) => e.TryGetProperty(name, out var v) ? v : throw new CheckpointException($"The checkpoint's settings lack \"{name}\".");
+        if (!Enum.TryParse<SamplingMethod>(Required("method").GetString(), ignoreCase: false, out var method))
+        {
+            throw new CheckpointException("The checkpoint's settings name an unknown method.");
+        }
+        var settings = new SamplingSettings
+        {
+            Seed = Required("seed").GetUInt64(),
+            Method = method,
+            Chains = Required("chains").GetInt32(),
+            SamplesPerChain = Required("samplesPerChain").GetInt64(),
+            BurnIn = Required("burnIn").GetInt64(),
+            TargetAcceptance = Optional("targetAcceptance"),
+            InitialStepWidthInAngstroms = Optional("initialStepWidthInAngstroms"),
+            HistogramBins = Required("histogramBins").GetInt32(),
+            MaxDiagnosticValuesPerChain = Required("maxDiagnosticValuesPerChain").GetInt32(),
+            RetainedDrawsPerChain = Required("retainedDrawsPerChain").GetInt32(),
+            MaxThreads = Optional("maxThreads") is double t ? (int)t : null,
+            ChainsPerVector = Optional("chainsPerVector") is double l ? (int)l : null,
+        };
+        try
+        {
+            settings.Validate();
+        }
+        catch (ArgumentException ex)
+        {
+            throw new CheckpointException("The checkpoint's settings are invalid: " + ex.Message, ex);
+        }
+        return settings;
+    }
+}
