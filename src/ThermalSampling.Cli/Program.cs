@@ -24,13 +24,17 @@ public static class Program
         Usage:
           thermal-sampling demo     [--format F] [--figures DIR] [--threads N] [--quiet]
           thermal-sampling run      SCENARIO.json [--format F] [--output FILE] [--samples FILE.csv] [--plot FILE.png|svg] [--seed N] [--threads N] [--quiet]
+                                    [--checkpoint FILE [--checkpoint-every 30s|1s|5m]]
           thermal-sampling sweep    SCENARIO.json --from K --to K --steps N [same options as run]
+          thermal-sampling resume   CHECKPOINT [--format F] [--output FILE] [--samples FILE.csv] [--plot FILE] [--threads N] [--quiet] [--checkpoint-every T]
           thermal-sampling validate SCENARIO.json
           thermal-sampling --version | --help
 
         demo      Runs two built-in, invented scenarios (an adatom at an fcc(111) hollow site and the same atom on a line).
         run       Samples the scenario at every temperature and writes the vibration report.
         sweep     Like run, with the temperatures replaced by --steps values evenly spaced from --from to --to (K).
+        resume    Finishes a run or sweep from its checkpoint and writes exactly the report the uninterrupted run would
+                  have written (same output options unless given again); keeps checkpointing to the same file.
         validate  Checks a scenario file without running it; lists every problem with its JSON path.
 
         --format   table (default for demo), json (default for run and sweep), markdown or csv
@@ -41,10 +45,16 @@ public static class Program
         --seed     override sampling.seed from the file
         --threads  worker threads (results do not depend on it)
         --quiet    no progress output (progress goes to standard error: bars on a terminal, lines otherwise)
+        --checkpoint        write the run's state to FILE (atomically) as it goes, and when stopped with Ctrl+C
+        --checkpoint-every  how often: a number and a unit, ms, s, m or h (default 60s)
         """;
 
     private sealed record Options(string Command, string? File, string Format, string? Output, string? Samples, ulong? Seed, int? Threads, bool Quiet,
-        double? From, double? To, int? Steps, string? Plot = null, string? Figures = null);
+        double? From, double? To, int? Steps, string? Plot = null, string? Figures = null, string? Checkpoint = null, TimeSpan? CheckpointEvery = null,
+        bool FormatGiven = false);
+
+    /// <summary>How often a checkpoint is written when --checkpoint-every is not given.</summary>
+    private static readonly TimeSpan DefaultCheckpointInterval = TimeSpan.FromSeconds(60);
 
     /// <summary>Where <c>demo</c> writes its figures unless told otherwise.</summary>
     public const string DefaultDemoFigureFolder = "thermal-sampling-demo-figures";
@@ -111,6 +121,10 @@ public static class Program
                 stderr.WriteLine($"figures: {folder}");
                 return code;
             }
+            if (o.Command == "resume")
+            {
+                return Resume(o, stdout, stderr, interactiveProgress, cancellationToken);
+            }
             var loaded = Load(o.File!, stderr);
             if (loaded is null)
             {
@@ -121,14 +135,23 @@ public static class Program
                 stderr.WriteLine($"{o.File}: valid scenario ({loaded.TemperaturesInKelvin.Length} temperature(s), {loaded.Potential.Form} potential, {loaded.Landscape.Kind} landscape).");
                 return Success;
             }
-            if (o.Command == "sweep")
+            loaded = WithSweepTemperatures(loaded, o);
+            CheckpointPlan? plan = null;
+            if (o.Checkpoint is not null)
             {
-                var temperatures = Enumerable.Range(0, o.Steps!.Value)
-                    .Select(i => o.Steps == 1 ? o.From!.Value : o.From!.Value + (o.To!.Value - o.From.Value) * i / (o.Steps.Value - 1))
-                    .ToArray();
-                loaded = loaded with { TemperaturesInKelvin = System.Collections.Immutable.ImmutableArray.Create(temperatures) };
+                string path = o.Checkpoint;
+                var options = new CheckpointOptions(o.CheckpointEvery ?? DefaultCheckpointInterval, c => c.WriteToFile(path))
+                {
+                    ApplicationData = RunRecord.Write(o, File.ReadAllBytes(o.File!)),
+                };
+                plan = new CheckpointPlan(options, null);
             }
-            return Execute(Configure(loaded, o), o, stdout, stderr, interactiveProgress, cancellationToken);
+            return Execute(Configure(loaded, o), o, stdout, stderr, interactiveProgress, cancellationToken, plan);
+        }
+        catch (CheckpointException ex)
+        {
+            stderr.WriteLine($"error: {file}: {ex.Message}");
+            return InvalidInput;
         }
         catch (ScenarioException ex)
         {
@@ -144,6 +167,63 @@ public static class Program
             stderr.WriteLine($"error: {ex.Message}");
             return Failure;
         }
+    }
+
+    private static Scenario WithSweepTemperatures(Scenario scenario, Options o)
+    {
+        if (o.Command != "sweep")
+        {
+            return scenario;
+        }
+        var temperatures = Enumerable.Range(0, o.Steps!.Value)
+            .Select(i => o.Steps == 1 ? o.From!.Value : o.From!.Value + (o.To!.Value - o.From.Value) * i / (o.Steps.Value - 1))
+            .ToArray();
+        return scenario with { TemperaturesInKelvin = System.Collections.Immutable.ImmutableArray.Create(temperatures) };
+    }
+
+    /// <summary>
+    /// <c>resume</c>: the run's own options and scenario come from the checkpoint; output options given now replace the
+    /// stored ones, and anything that changes the computation (seed, retained draws) stays as it was.
+    /// </summary>
+    private static int Resume(Options given, Stream stdout, TextWriter stderr, bool interactive, CancellationToken ct)
+    {
+        var checkpoint = SamplingCheckpoint.ReadFromFile(given.File!);
+        if (!RunRecord.TryRead(checkpoint.ApplicationData, out var original, out var scenarioBytes))
+        {
+            stderr.WriteLine($"error: {given.File}: this checkpoint was not written by 'thermal-sampling run' or 'sweep' (it carries no scenario); resume it from the library with PairSampler.Resume or SiteSampler.Resume.");
+            return InvalidInput;
+        }
+        var scenario = WithSweepTemperatures(ScenarioReader.Read(scenarioBytes), original);
+        var computed = Configure(scenario, original with { Threads = given.Threads ?? original.Threads });
+        if (given.Samples is not null && computed.Sampling.RetainedDrawsPerChain == 0)
+        {
+            stderr.WriteLine($"error: --samples: the run was started without --samples, so its raw draws were not kept; they cannot be written now.");
+            return InvalidInput;
+        }
+        if (given.Plot is not null && computed.Landscape.Kind == "sites" && computed.Sampling.RetainedDrawsPerChain == 0)
+        {
+            stderr.WriteLine($"error: --plot: the run was started without --plot or --samples, so the draws the site figures need were not kept.");
+            return InvalidInput;
+        }
+        var o = original with
+        {
+            Command = original.Command,
+            Format = given.FormatGiven ? given.Format : original.Format,
+            Output = given.Output ?? original.Output,
+            Samples = given.Samples ?? original.Samples,
+            Plot = given.Plot ?? original.Plot,
+            Quiet = given.Quiet || original.Quiet,
+            Threads = given.Threads ?? original.Threads,
+            CheckpointEvery = given.CheckpointEvery ?? original.CheckpointEvery,
+        };
+        string path = Path.GetFullPath(given.File!);
+        var options = new CheckpointOptions(o.CheckpointEvery ?? DefaultCheckpointInterval, c => c.WriteToFile(path)) { ApplicationData = checkpoint.ApplicationData };
+        if (!o.Quiet)
+        {
+            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture,
+                $"resuming: {checkpoint.ChainStepsDone} of {checkpoint.ChainStepsTotal} chain steps done, {checkpoint.FinishedTemperatures} of {checkpoint.Temperatures.Length} temperature(s) finished."));
+        }
+        return Execute(computed, o with { Checkpoint = path }, stdout, stderr, interactive, ct, new CheckpointPlan(options, checkpoint));
     }
 
     private static Scenario Configure(Scenario scenario, Options o)
@@ -174,21 +254,26 @@ public static class Program
         return ScenarioReader.Read(File.ReadAllBytes(file));
     }
 
-    private static int Execute(Scenario scenario, Options o, Stream stdout, TextWriter stderr, bool interactive, CancellationToken ct)
+    private static int Execute(Scenario scenario, Options o, Stream stdout, TextWriter stderr, bool interactive, CancellationToken ct, CheckpointPlan? plan = null)
     {
         ScenarioResults results;
         if (o.Quiet)
         {
-            results = ScenarioRunner.Run(scenario, null, ct, o.Plot);
+            results = ScenarioRunner.Run(scenario, null, ct, o.Plot, plan);
         }
         else if (interactive)
         {
             long steps = (scenario.Sampling.Method == SamplingMethod.Metropolis ? scenario.Sampling.BurnIn : 0) + scenario.Sampling.SamplesPerChain;
-            results = InteractiveProgress.Run(scenario.Sampling.Chains, scenario.TemperaturesInKelvin.Length, steps, p => ScenarioRunner.Run(scenario, p, ct, o.Plot));
+            results = InteractiveProgress.Run(scenario.Sampling.Chains, scenario.TemperaturesInKelvin.Length, steps, p => ScenarioRunner.Run(scenario, p, ct, o.Plot, plan));
         }
         else
         {
-            results = ScenarioRunner.Run(scenario, new LineProgress(stderr, scenario.Sampling.Chains), ct, o.Plot);
+            results = ScenarioRunner.Run(scenario, new LineProgress(stderr, scenario.Sampling.Chains), ct, o.Plot, plan);
+        }
+        if (results.Cancelled && plan is not null)
+        {
+            stderr.WriteLine($"cancelled: the run's state is saved in {o.Checkpoint}; finish it with: thermal-sampling resume {o.Checkpoint}");
+            return Failure;
         }
         foreach (string figure in results.Figures ?? Array.Empty<string>())
         {
@@ -227,13 +312,14 @@ public static class Program
     {
         options = null!;
         string command = args[0];
-        if (command is not ("run" or "sweep" or "validate" or "demo"))
+        if (command is not ("run" or "sweep" or "validate" or "demo" or "resume"))
         {
-            stderr.WriteLine($"error: unknown command '{command}'. Commands: demo, run, sweep, validate.");
+            stderr.WriteLine($"error: unknown command '{command}'. Commands: demo, run, sweep, resume, validate.");
             stderr.WriteLine(Usage);
             return false;
         }
-        string? file = null, output = null, samples = null, format = null, plot = null, figures = null;
+        string? file = null, output = null, samples = null, format = null, plot = null, figures = null, checkpoint = null;
+        TimeSpan? every = null;
         ulong? seed = null;
         int? threads = null, steps = null;
         double? from = null, to = null;
@@ -270,6 +356,21 @@ public static class Program
                     break;
                 case "--quiet":
                     quiet = true;
+                    break;
+                case "--checkpoint":
+                    checkpoint = Next() ?? Missing(errors, a, "a file name");
+                    if (checkpoint is not null && !Directory.Exists(Path.GetDirectoryName(Path.GetFullPath(checkpoint))))
+                    {
+                        errors.Add($"--checkpoint '{checkpoint}': the folder '{Path.GetDirectoryName(Path.GetFullPath(checkpoint))}' does not exist.");
+                    }
+                    break;
+                case "--checkpoint-every":
+                    string? text = Next();
+                    every = RunRecord.ParseInterval(text);
+                    if (every is null)
+                    {
+                        errors.Add($"--checkpoint-every '{text}' is not a duration; give a number and a unit, such as 500ms, 30s, 5m or 2h (at most 24h).");
+                    }
                     break;
                 case "--seed":
                     if (ulong.TryParse(Next(), NumberStyles.None, CultureInfo.InvariantCulture, out ulong s))
@@ -331,9 +432,25 @@ public static class Program
                     break;
             }
         }
-        if (command != "demo" && file is null)
+        if (command == "resume" && file is null)
+        {
+            errors.Add("resume needs a checkpoint file: thermal-sampling resume CHECKPOINT");
+        }
+        else if (command != "demo" && file is null)
         {
             errors.Add($"{command} needs a scenario file: thermal-sampling {command} SCENARIO.json");
+        }
+        if (checkpoint is not null && command is not ("run" or "sweep"))
+        {
+            errors.Add(command == "resume" ? "resume keeps writing to the checkpoint it reads; --checkpoint belongs to run and sweep." : "--checkpoint belongs to run and sweep.");
+        }
+        if (every is not null && checkpoint is null && command != "resume")
+        {
+            errors.Add("--checkpoint-every needs --checkpoint FILE.");
+        }
+        if (command == "resume" && seed is not null)
+        {
+            errors.Add("--seed cannot change on resume: the checkpoint continues the original seed's chains.");
         }
         if (figures is not null && command != "demo")
         {
@@ -366,7 +483,8 @@ public static class Program
         {
             return false;
         }
-        options = new Options(command, file, format ?? (command == "demo" ? "table" : "json"), output, samples, seed, threads, quiet, from, to, steps, plot, figures);
+        options = new Options(command, file, format ?? (command == "demo" ? "table" : "json"), output, samples, seed, threads, quiet, from, to, steps, plot, figures,
+            checkpoint is null ? null : Path.GetFullPath(checkpoint), every, format is not null);
         return true;
     }
 
@@ -374,5 +492,102 @@ public static class Program
     {
         errors.Add($"{option} needs {what}.");
         return null;
+    }
+
+    /// <summary>
+    /// What a checkpoint of a CLI run carries so that <c>resume CHECKPOINT</c> needs nothing else: the scenario file's
+    /// bytes and the command line's options, as JSON in the checkpoint's application data.
+    /// </summary>
+    private static class RunRecord
+    {
+        private const string Tool = "thermal-sampling";
+
+        internal static string Write(Options o, byte[] scenario)
+        {
+            var buffer = new MemoryStream();
+            using (var w = new System.Text.Json.Utf8JsonWriter(buffer))
+            {
+                w.WriteStartObject();
+                w.WriteString("tool", Tool);
+                w.WriteString("command", o.Command);
+                w.WriteString("scenarioFile", o.File);
+                w.WriteBase64String("scenario", scenario);
+                void Number(string name, double? v)
+                {
+                    if (v is double d)
+                    {
+                        w.WriteNumber(name, d);
+                    }
+                }
+                void Text(string name, string? v)
+                {
+                    if (v is not null)
+                    {
+                        w.WriteString(name, v);
+                    }
+                }
+                Number("from", o.From);
+                Number("to", o.To);
+                Number("steps", o.Steps);
+                Text("seed", o.Seed?.ToString(CultureInfo.InvariantCulture));
+                Number("threads", o.Threads);
+                w.WriteString("format", o.Format);
+                Text("output", o.Output);
+                Text("samples", o.Samples);
+                Text("plot", o.Plot);
+                w.WriteBoolean("quiet", o.Quiet);
+                Number("checkpointEverySeconds", o.CheckpointEvery?.TotalSeconds);
+                w.WriteEndObject();
+            }
+            return System.Text.Encoding.UTF8.GetString(buffer.ToArray());
+        }
+
+        internal static bool TryRead(string? data, out Options options, out byte[] scenario)
+        {
+            options = null!;
+            scenario = [];
+            if (data is null)
+            {
+                return false;
+            }
+            try
+            {
+                using var document = System.Text.Json.JsonDocument.Parse(data);
+                var e = document.RootElement;
+                if (!e.TryGetProperty("tool", out var tool) || tool.GetString() != Tool)
+                {
+                    return false;
+                }
+                double? Number(string name) => e.TryGetProperty(name, out var v) ? v.GetDouble() : null;
+                string? Text(string name) => e.TryGetProperty(name, out var v) ? v.GetString() : null;
+                scenario = e.GetProperty("scenario").GetBytesFromBase64();
+                options = new Options(e.GetProperty("command").GetString()!, Text("scenarioFile"), e.GetProperty("format").GetString()!, Text("output"), Text("samples"),
+                    Text("seed") is string seed ? ulong.Parse(seed, CultureInfo.InvariantCulture) : null, (int?)Number("threads"), e.GetProperty("quiet").GetBoolean(),
+                    Number("from"), Number("to"), (int?)Number("steps"), Text("plot"), null, null,
+                    Number("checkpointEverySeconds") is double every ? TimeSpan.FromSeconds(every) : null);
+                return options.Command is "run" or "sweep" && Renderers.Formats.Contains(options.Format);
+            }
+            catch (Exception ex) when (ex is System.Text.Json.JsonException or InvalidOperationException or FormatException or KeyNotFoundException or OverflowException)
+            {
+                return false;
+            }
+        }
+
+        /// <summary>"500ms", "30s", "5m", "2h" (a positive number and a unit, at most a day), or null.</summary>
+        internal static TimeSpan? ParseInterval(string? text)
+        {
+            if (text is null)
+            {
+                return null;
+            }
+            (string unit, double seconds) = text.EndsWith("ms", StringComparison.Ordinal) ? ("ms", 1e-3)
+                : text.EndsWith('s') ? ("s", 1.0) : text.EndsWith('m') ? ("m", 60.0) : text.EndsWith('h') ? ("h", 3600.0) : ("", 0);
+            if (unit.Length == 0 || !double.TryParse(text.AsSpan(0, text.Length - unit.Length), NumberStyles.AllowDecimalPoint, CultureInfo.InvariantCulture, out double n))
+            {
+                return null;
+            }
+            double total = n * seconds;
+            return total > 0 && total <= 86_400 ? TimeSpan.FromSeconds(total) : null;
+        }
     }
 }

@@ -24,23 +24,29 @@ internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibr
     internal int Finished => Pairs.Count + Sites.Count;
 }
 
+/// <summary>Checkpointing of a CLI run: where to write, and the checkpoint to continue from (for <c>resume</c>).</summary>
+/// <param name="Options">Where and how often to write.</param>
+/// <param name="ResumeFrom">The checkpoint to continue from, or null to start afresh.</param>
+internal sealed record CheckpointPlan(CheckpointOptions Options, SamplingCheckpoint? ResumeFrom);
+
 /// <summary>Turns a validated scenario into library calls, specialised on the concrete potential type.</summary>
 internal static class ScenarioRunner
 {
-    internal static ScenarioResults Run(Scenario scenario, IProgress<SamplingProgress>? progress, CancellationToken ct, string? plotPath = null)
+    internal static ScenarioResults Run(Scenario scenario, IProgress<SamplingProgress>? progress, CancellationToken ct, string? plotPath = null,
+        CheckpointPlan? checkpoint = null)
     {
         var p = scenario.Potential;
         return p.Form switch
         {
             "lennard-jones" => Dispatch(scenario, Guard(() => p.Parameters.ContainsKey("sigma")
                 ? LennardJones.FromSigmaEpsilon(Length.FromAngstroms(p.Parameters["sigma"]), Energy.FromElectronVolts(p.Parameters["epsilon"]))
-                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])), "$.potential"), progress, ct, plotPath),
+                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])), "$.potential"), progress, ct, plotPath, checkpoint),
             "morse" => Dispatch(scenario, Guard(() => new Morse(Energy.FromElectronVolts(p.Parameters["wellDepth"]), p.Parameters["width"],
-                Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath),
+                Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath, checkpoint),
             "buckingham" => Dispatch(scenario, Guard(() => new Buckingham(Energy.FromElectronVolts(p.Parameters["A"]), Length.FromAngstroms(p.Parameters["rho"]),
-                p.Parameters["C"]), "$.potential"), progress, ct, plotPath),
-            "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath),
-            "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), progress, ct, plotPath),
+                p.Parameters["C"]), "$.potential"), progress, ct, plotPath, checkpoint),
+            "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath, checkpoint),
+            "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), progress, ct, plotPath, checkpoint),
             _ => throw new ScenarioException(new[] { $"$.potential.form: '{p.Form}' is not a known form." }),
         };
     }
@@ -70,7 +76,7 @@ internal static class ScenarioRunner
     };
 
     private static ScenarioResults Dispatch<TPotential>(Scenario scenario, TPotential potential, IProgress<SamplingProgress>? progress, CancellationToken ct,
-        string? plotPath)
+        string? plotPath, CheckpointPlan? checkpoint)
         where TPotential : struct, IPairPotential
     {
         var l = scenario.Landscape;
@@ -83,7 +89,11 @@ internal static class ScenarioRunner
                 var landscape = PairLandscape.Create(potential, l.Kind == "line" ? SeparationGeometry.Line : SeparationGeometry.Radial,
                     Length.FromAngstroms(l.WindowLower), Length.FromAngstroms(l.WindowUpper));
                 var reports = new List<PairVibrationReport>();
-                bool cancelled = RunEach(temperatures, t => reports.Add(PairSampler.Run(landscape, mass, t, scenario.Sampling, progress, ct)));
+                bool cancelled = checkpoint is null
+                    ? RunEach(temperatures, t => reports.Add(PairSampler.Run(landscape, mass, t, scenario.Sampling, progress, ct)))
+                    : RunAll(() => reports.AddRange(checkpoint.ResumeFrom is null
+                        ? PairSampler.SweepWithCheckpoints(landscape, mass, temperatures, scenario.Sampling, checkpoint.Options, progress, ct)
+                        : PairSampler.Resume(landscape, mass, temperatures, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
                 var figures = plotPath is null ? null : FigureWriter.WritePair(reports, landscape, plotPath);
                 return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled, figures);
             }
@@ -113,7 +123,11 @@ internal static class ScenarioRunner
             }
             var siteLandscape = SiteLandscape.Create(potential, sites, centre, l.Confinement!.Value);
             var siteReports = new List<SiteVibrationReport>();
-            bool siteCancelled = RunEach(temperatures, t => siteReports.Add(SiteSampler.Run(siteLandscape, mass, t, scenario.Sampling, progress, ct)));
+            bool siteCancelled = checkpoint is null
+                ? RunEach(temperatures, t => siteReports.Add(SiteSampler.Run(siteLandscape, mass, t, scenario.Sampling, progress, ct)))
+                : RunAll(() => siteReports.AddRange(checkpoint.ResumeFrom is null
+                    ? SiteSampler.SweepWithCheckpoints(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.Options, progress, ct)
+                    : SiteSampler.Resume(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
             var siteFigures = plotPath is null ? null : FigureWriter.WriteSite(siteReports, plotPath);
             return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled, siteFigures);
         }
@@ -124,6 +138,20 @@ internal static class ScenarioRunner
         catch (LandscapeException ex)
         {
             throw new ScenarioException(new[] { $"$.landscape: {ex.Message}" });
+        }
+    }
+
+    /// <summary>Runs a checkpointed sweep; a cancellation leaves its state in the checkpoint (and no reports).</summary>
+    private static bool RunAll(Action run)
+    {
+        try
+        {
+            run();
+            return false;
+        }
+        catch (OperationCanceledException)
+        {
+            return true;
         }
     }
 
