@@ -86,6 +86,25 @@ public readonly struct FunctionPotential : IPairPotential
     /// <inheritdoc/>
     public double EnergyAtSquaredDistance(double squaredDistance) => _energy(Math.Sqrt(squaredDistance));
 
+    /// <summary>
+    /// A 7-point stencil of spacing about <paramref name="step"/> that stays inside the domain: centred where there is room
+    /// for three steps on each side, otherwise one-sided towards the roomier end with the step shrunk to fit six, so the
+    /// delegate is never called outside [DomainLower, DomainUpper]. MathNet rounds an absolute step up to a power of two
+    /// (0.1 becomes 0.125), so the room is measured for steps twice as long as asked. A fresh object per call:
+    /// NumericalDerivative keeps its step as mutable state.
+    /// </summary>
+    private NumericalDerivative Stencil(double step, double r)
+    {
+        double below = r - _lower, above = _upper - r;
+        if (below >= 6 * step && above >= 6 * step)
+        {
+            return new NumericalDerivative(7, 3) { StepType = StepType.Absolute, StepSize = step };
+        }
+        bool forward = above >= below;
+        double room = forward ? above : below;
+        return new NumericalDerivative(7, forward ? 0 : 6) { StepType = StepType.Absolute, StepSize = Math.Min(step, room / 12) };
+    }
+
     /// <inheritdoc/>
     public PairDerivatives Derivatives(double r)
     {
@@ -95,11 +114,9 @@ public readonly struct FunctionPotential : IPairPotential
         }
         double v = SafeEnergy(r);
         Func<double, double> f = SafeEnergy;
-        // Step relative to the domain size keeps the stencil inside the domain near its ends as far as possible.
         double scale = Math.Max(Math.Abs(r), 1e-3);
-        // A fresh stencil per call: NumericalDerivative keeps its step size as mutable state.
-        var fine = new NumericalDerivative(7, 3) { StepType = StepType.Absolute, StepSize = 2e-3 * scale };
-        var coarse = new NumericalDerivative(7, 3) { StepType = StepType.Absolute, StepSize = 1e-2 * scale };
+        var fine = Stencil(2e-3 * scale, r);
+        var coarse = Stencil(1e-2 * scale, r);
         double d1 = fine.EvaluateDerivative(f, r, 1, v);
         double d2 = fine.EvaluateDerivative(f, r, 2, v);
         double d3 = coarse.EvaluateDerivative(f, r, 3, v);

@@ -25,7 +25,7 @@ public readonly struct TabulatedPotential : IPairPotential
     private readonly CubicSpline _spline;
     private readonly double _lower;
     private readonly double _upper;
-    private readonly double _spacing;
+    private readonly double[] _knots;
     private readonly PotentialWell? _well;
     private readonly int _count;
 
@@ -65,7 +65,7 @@ public readonly struct TabulatedPotential : IPairPotential
         _lower = r[0];
         _upper = r[^1];
         _count = r.Length;
-        _spacing = (_upper - _lower) / (r.Length - 1);
+        _knots = r;
         var spline = _spline;
         double? r0 = WellLocator.FindLowestMinimum(spline.Interpolate, spline.Differentiate, _lower, _upper, 20 * r.Length);
         _well = r0 is double rm ? new PotentialWell(rm, spline.Interpolate(rm), v[^1] - spline.Interpolate(rm)) : null;
@@ -93,7 +93,15 @@ public readonly struct TabulatedPotential : IPairPotential
     /// <inheritdoc/>
     public PairDerivatives Derivatives(double r)
     {
-        double h = 0.5 * _spacing;
+        // V″ of a cubic spline is piecewise linear with kinks at the knots, so V‴ and V⁗ come from differences of V″
+        // over a stencil that spans at least one whole cell on each side: the widest of the cell holding r and its
+        // neighbours. (Half a cell, as before, gave V⁗ = 0 mid-cell and 2V⁗ at a knot.)
+        int cell = Math.Clamp(Array.BinarySearch(_knots, r) is int k && k >= 0 ? k : ~k - 1, 0, _knots.Length - 2);
+        double h = 0;
+        for (int c = Math.Max(cell - 1, 0); c <= Math.Min(cell + 1, _knots.Length - 2); c++)
+        {
+            h = Math.Max(h, _knots[c + 1] - _knots[c]);
+        }
         double lo = Math.Max(_lower, r - h), hi = Math.Min(_upper, r + h);
         double mid = 0.5 * (lo + hi);
         double half = 0.5 * (hi - lo);
