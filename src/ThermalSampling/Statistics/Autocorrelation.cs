@@ -109,7 +109,14 @@ public static class Autocorrelation
         double tau = 1;
         int window = 0;
         bool found = false;
-        if (c0 > 0)
+        // A series of identical values is constant even when c0 is not exactly 0: its computed mean can be off by an ulp,
+        // and the deviations that leaves all have one sign, which would read as perfect correlation.
+        bool constant = true;
+        for (int i = 1; i < series.Length && constant; i++)
+        {
+            constant = series[i] == series[0];
+        }
+        if (c0 > 0 && !constant)
         {
             int direct = Math.Min(DirectLags, n - 1);
             for (int m = 1; m <= direct && !found; m++)
