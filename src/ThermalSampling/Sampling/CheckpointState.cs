@@ -134,6 +134,58 @@ internal enum GroupPhase
     Finished = 2,
 }
 
+/// <summary>
+/// Where a lane group is in its run, shared by the pair and site groups: the phase, the step within it, the open moment
+/// block and batch, and the header section that records them in a checkpoint.
+/// </summary>
+internal abstract class LaneGroupProgress : IResumableGroup
+{
+    private readonly long _burnIn, _samples;
+    private readonly int _width, _live;
+
+    private protected LaneGroupProgress(long burnIn, long samples, int width, int live)
+    {
+        (_burnIn, _samples, _width, _live) = (burnIn, samples, width, live);
+    }
+
+    private protected GroupPhase Phase;
+    private protected long Step;
+    private protected int InBlock, InBatch;
+
+    public long ChainStepsDone => _live * (Phase switch
+    {
+        GroupPhase.BurnIn => Step,
+        GroupPhase.Recording => _burnIn + Step,
+        _ => _burnIn + _samples,
+    });
+
+    /// <summary>Recorded steps so far (the retained draws and histogram counts a checkpoint must hold).</summary>
+    private protected long RecordedSteps => Phase switch { GroupPhase.BurnIn => 0, GroupPhase.Recording => Step, _ => _samples };
+
+    public abstract void Save(StateWriter writer);
+
+    /// <summary>Burn-in is over: the recorded phase starts at step 0 with an empty moment block and batch.</summary>
+    private protected void StartRecording()
+    {
+        Phase = GroupPhase.Recording;
+        Step = 0;
+        InBlock = InBatch = 0;
+    }
+
+    private protected void SaveProgress(StateWriter w, string tag) => w.Longs(tag, [_width, _live, (long)Phase, Step, InBlock, InBatch]);
+
+    private protected void LoadProgress(StateReader r, string tag, int batchSize)
+    {
+        var head = r.Longs(tag, 6);
+        r.InRange(head[0], _width, _width, "the lanes per vector");
+        r.InRange(head[1], _live, _live, "the chains of the group");
+        Phase = (GroupPhase)r.InRange(head[2], 0, 2, "the phase");
+        Step = r.InRange(head[3], 0, Phase == GroupPhase.BurnIn ? _burnIn : _samples, "the step");
+        InBlock = (int)r.InRange(head[4], 0, Statistics.BlockedMomentAccumulator.BlockSize - 1, "the open moment block");
+        InBatch = (int)r.InRange(head[5], 0, batchSize - 1, "the open batch");
+    }
+}
+
 /// <summary>What a group does at each chunk boundary: checkpoint bookkeeping (which may throw on cancellation), then progress.</summary>
 internal sealed class ChunkBoundary(ProgressReporter[] reporters, GroupCheckpoints checkpoints, int group, IResumableGroup state, CancellationToken ct)
 {

@@ -61,7 +61,7 @@ internal static class PairLaneChains
     /// One lane group and everything it has done: the walk, the phase and step, the adapted widths, the open moment block
     /// and batch, and each chain's record. Its state is written and read at chunk boundaries only (docs/checkpoints.md).
     /// </summary>
-    private sealed class Group<TOps, TD, TB, TPotential> : IResumableGroup
+    private sealed class Group<TOps, TD, TB, TPotential> : LaneGroupProgress
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
@@ -75,11 +75,9 @@ internal static class PairLaneChains
         private readonly Tally _tally;
         private Walk<TD, TB> _walk;
         private TD _logWidth;
-        private GroupPhase _phase;
-        private long _step;
-        private int _inBlock, _inBatch;
 
         internal Group(Plan<TPotential> plan, int firstChain, int chains, Func<int, PairChainRecord> makeRecord, Func<int, ProgressReporter> makeProgress)
+            : base(plan.BurnIn, plan.Samples, TOps.Count, Math.Min(TOps.Count, chains - firstChain))
         {
             _plan = plan;
             _firstChain = firstChain;
@@ -95,13 +93,6 @@ internal static class PairLaneChains
             _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
             _tally = new Tally(_records[0], TOps.Count, _live);
         }
-
-        public long ChainStepsDone => _live * (_phase switch
-        {
-            GroupPhase.BurnIn => _step,
-            GroupPhase.Recording => _plan.BurnIn + _step,
-            _ => _plan.BurnIn + _plan.Samples,
-        });
 
         internal ChainOutcome[] Run(Func<int, double> start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         {
@@ -123,21 +114,19 @@ internal static class PairLaneChains
                 Load(new StateReader(saved, "pair chain group " + group.ToString(System.Globalization.CultureInfo.InvariantCulture)));
             }
             var boundary = new ChunkBoundary(_reporters, checkpoints, group, this, ct);
-            if (_phase == GroupPhase.BurnIn)
+            if (Phase == GroupPhase.BurnIn)
             {
                 BurnIn(boundary);
-                _phase = GroupPhase.Recording;
-                _step = 0;
-                _inBlock = _inBatch = 0;
+                StartRecording();
                 var zero = TOps.Broadcast(0.0);
                 _walk.S1 = _walk.S2 = _walk.S3 = _walk.S4 = _walk.B1 = _walk.B2 = _walk.Accepted = zero;
                 _walk.BlockReference = _walk.Position;
             }
             var stepWidth = _kernel.WidthFrom(_logWidth);
-            if (_phase == GroupPhase.Recording)
+            if (Phase == GroupPhase.Recording)
             {
                 Record(stepWidth, boundary);
-                _phase = GroupPhase.Finished;
+                Phase = GroupPhase.Finished;
             }
             checkpoints.Finished(group, this);
             _tally.CopyTo(_records, _plan.Samples);
@@ -155,11 +144,11 @@ internal static class PairLaneChains
         {
             var gains = new double[ChunkSteps];
             long steps = _plan.BurnIn;
-            for (; _step < steps; _step += ChunkSteps)
+            for (; Step < steps; Step += ChunkSteps)
             {
-                boundary.Reached(_step);
-                int chunk = (int)Math.Min(ChunkSteps, steps - _step);
-                LaneAdaptation.FillGains(gains, _step, chunk);
+                boundary.Reached(Step);
+                int chunk = (int)Math.Min(ChunkSteps, steps - Step);
+                LaneAdaptation.FillGains(gains, Step, chunk);
                 _walk.Faults = Kernel<TOps, TD, TB, TPotential>.NoFaults;
                 _logWidth = _kernel.AdaptChunk(ref _walk, _logWidth, gains, chunk);
                 _kernel.ThrowIfFaulted(_walk.Faults);
@@ -177,16 +166,16 @@ internal static class PairLaneChains
             var records = _records;
             int batchSize = records[0].Store.BatchSize;
             long samples = _plan.Samples;
-            while (_step < samples)
+            while (Step < samples)
             {
-                if ((_step & (ChunkSteps - 1)) == 0)
+                if ((Step & (ChunkSteps - 1)) == 0)
                 {
-                    boundary.Reached(_plan.BurnIn + _step);
+                    boundary.Reached(_plan.BurnIn + Step);
                 }
                 // Up to the next boundary of a moment block or a progress chunk; batches close inside the chunk.
-                int chunk = (int)Math.Min(BlockedMomentAccumulator.BlockSize - _inBlock, Math.Min(samples - _step, ChunkSteps - (_step & (ChunkSteps - 1))));
+                int chunk = (int)Math.Min(BlockedMomentAccumulator.BlockSize - InBlock, Math.Min(samples - Step, ChunkSteps - (Step & (ChunkSteps - 1))));
                 _walk.Faults = Kernel<TOps, TD, TB, TPotential>.NoFaults;
-                int closed = _kernel.RecordChunk(ref _walk, width, chunk, _step, ref _inBatch, batchSize, _tally);
+                int closed = _kernel.RecordChunk(ref _walk, width, chunk, Step, ref InBatch, batchSize, _tally);
                 _kernel.ThrowIfFaulted(_walk.Faults);
                 for (int k = 0; k < closed; k++)
                 {
@@ -195,25 +184,25 @@ internal static class PairLaneChains
                         records[lane].Store.AddBatchSums(_tally.BatchSums[2 * k * TOps.Count + lane], _tally.BatchSums[(2 * k + 1) * TOps.Count + lane]);
                     }
                 }
-                _step += chunk;
-                _inBlock += chunk;
-                if (_inBlock == BlockedMomentAccumulator.BlockSize || _step == samples)
+                Step += chunk;
+                InBlock += chunk;
+                if (InBlock == BlockedMomentAccumulator.BlockSize || Step == samples)
                 {
                     for (int lane = 0; lane < records.Length; lane++)
                     {
-                        records[lane].AddMomentBlock(_inBlock, TOps.Get(_walk.BlockReference, lane), TOps.Get(_walk.S1, lane), TOps.Get(_walk.S2, lane),
+                        records[lane].AddMomentBlock(InBlock, TOps.Get(_walk.BlockReference, lane), TOps.Get(_walk.S1, lane), TOps.Get(_walk.S2, lane),
                             TOps.Get(_walk.S3, lane), TOps.Get(_walk.S4, lane));
                     }
                     _walk.S1 = _walk.S2 = _walk.S3 = _walk.S4 = zero;
                     _walk.BlockReference = _walk.Position;
-                    _inBlock = 0;
+                    InBlock = 0;
                 }
             }
         }
 
-        public void Save(StateWriter w)
+        public override void Save(StateWriter w)
         {
-            w.Longs("PLGH", [TOps.Count, _live, (long)_phase, _step, _inBlock, _inBatch]);
+            SaveProgress(w, "PLGH");
             LaneWalkWords.Save(w, ref _walk);
             w.Words("LOGW", LaneWalkWords.Lanes<TOps, TD, TB>(_logWidth));
             foreach (var record in _records)
@@ -223,17 +212,9 @@ internal static class PairLaneChains
             _tally.Save(w, RecordedSteps);
         }
 
-        private long RecordedSteps => _phase switch { GroupPhase.BurnIn => 0, GroupPhase.Recording => _step, _ => _plan.Samples };
-
         private void Load(StateReader r)
         {
-            var head = r.Longs("PLGH", 6);
-            r.InRange(head[0], TOps.Count, TOps.Count, "the lanes per vector");
-            r.InRange(head[1], _live, _live, "the chains of the group");
-            _phase = (GroupPhase)r.InRange(head[2], 0, 2, "the phase");
-            _step = r.InRange(head[3], 0, _phase == GroupPhase.BurnIn ? _plan.BurnIn : _plan.Samples, "the step");
-            _inBlock = (int)r.InRange(head[4], 0, BlockedMomentAccumulator.BlockSize - 1, "the open moment block");
-            _inBatch = (int)r.InRange(head[5], 0, _records[0].Store.BatchSize - 1, "the open batch");
+            LoadProgress(r, "PLGH", _records[0].Store.BatchSize);
             LaneWalkWords.Load(r, ref _walk);
             _logWidth = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words("LOGW", TOps.Count));
             foreach (var record in _records)

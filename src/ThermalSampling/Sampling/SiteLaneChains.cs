@@ -48,7 +48,7 @@ internal static class SiteLaneChains
         };
 
     /// <summary>One lane group and everything it has done; its state is written and read at chunk boundaries only (docs/checkpoints.md).</summary>
-    private sealed class Group<TOps, TD, TB, TPotential> : IResumableGroup
+    private sealed class Group<TOps, TD, TB, TPotential> : LaneGroupProgress
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
@@ -63,11 +63,9 @@ internal static class SiteLaneChains
         private readonly SiteTally _tally;
         private SiteWalk<TD, TB> _walk;
         private TD _logScale;
-        private GroupPhase _phase;
-        private long _step;
-        private int _inBlock, _inBatch;
 
         internal Group(Plan<TPotential> plan, int firstChain, int chains, ChainRecord makeRecord, Func<int, ProgressReporter> makeProgress)
+            : base(plan.BurnIn, plan.Samples, TOps.Count, Math.Min(TOps.Count, chains - firstChain))
         {
             _plan = plan;
             _firstChain = firstChain;
@@ -84,15 +82,6 @@ internal static class SiteLaneChains
             _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
             _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, _live);
         }
-
-        public long ChainStepsDone => _live * (_phase switch
-        {
-            GroupPhase.BurnIn => _step,
-            GroupPhase.Recording => _plan.BurnIn + _step,
-            _ => _plan.BurnIn + _plan.Samples,
-        });
-
-        private long RecordedSteps => _phase switch { GroupPhase.BurnIn => 0, GroupPhase.Recording => _step, _ => _plan.Samples };
 
         internal ChainOutcome[] Run(ChainStart start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         {
@@ -117,22 +106,20 @@ internal static class SiteLaneChains
                 Load(new StateReader(saved, "site chain group " + group.ToString(System.Globalization.CultureInfo.InvariantCulture)));
             }
             var boundary = new ChunkBoundary(_reporters, checkpoints, group, this, ct);
-            if (_phase == GroupPhase.BurnIn)
+            if (Phase == GroupPhase.BurnIn)
             {
                 BurnIn(boundary);
-                _phase = GroupPhase.Recording;
-                _step = 0;
-                _inBlock = _inBatch = 0;
+                StartRecording();
                 var zero = TOps.Broadcast(0.0);
                 _walk.Sums = default;
                 _walk.Batch = default;
                 _walk.Accepted = _walk.NearWall = zero;
             }
             var scale = LaneAdaptation.Width<TOps, TD, TB>(_logScale, _plan.MaxScale);
-            if (_phase == GroupPhase.Recording)
+            if (Phase == GroupPhase.Recording)
             {
                 Record(scale, boundary);
-                _phase = GroupPhase.Finished;
+                Phase = GroupPhase.Finished;
             }
             checkpoints.Finished(group, this);
             _tally.CopyTo(_records, _plan.Samples);
@@ -151,11 +138,11 @@ internal static class SiteLaneChains
         {
             var gains = new double[ChunkSteps];
             long steps = _plan.BurnIn;
-            for (; _step < steps; _step += ChunkSteps)
+            for (; Step < steps; Step += ChunkSteps)
             {
-                boundary.Reached(_step);
-                int chunk = (int)Math.Min(ChunkSteps, steps - _step);
-                LaneAdaptation.FillGains(gains, _step, chunk);
+                boundary.Reached(Step);
+                int chunk = (int)Math.Min(ChunkSteps, steps - Step);
+                LaneAdaptation.FillGains(gains, Step, chunk);
                 _walk.Faults = LaneFaultCheck.None<TOps, TD, TB>();
                 _logScale = _kernel.AdaptChunk(ref _walk, _logScale, gains, chunk);
                 _kernel.ThrowIfFaulted(_walk);
@@ -169,15 +156,15 @@ internal static class SiteLaneChains
             int batchSize = records[0].Stores[0].BatchSize;
             long samples = _plan.Samples;
             var minimum = _plan.Minimum;
-            while (_step < samples)
+            while (Step < samples)
             {
-                if ((_step & (ChunkSteps - 1)) == 0)
+                if ((Step & (ChunkSteps - 1)) == 0)
                 {
-                    boundary.Reached(_plan.BurnIn + _step);
+                    boundary.Reached(_plan.BurnIn + Step);
                 }
-                int chunk = (int)Math.Min(BlockSize - _inBlock, Math.Min(samples - _step, ChunkSteps - (_step & (ChunkSteps - 1))));
+                int chunk = (int)Math.Min(BlockSize - InBlock, Math.Min(samples - Step, ChunkSteps - (Step & (ChunkSteps - 1))));
                 _walk.Faults = LaneFaultCheck.None<TOps, TD, TB>();
-                int closed = _kernel.RecordChunk(ref _walk, scale, chunk, _step, ref _inBatch, batchSize, _tally);
+                int closed = _kernel.RecordChunk(ref _walk, scale, chunk, Step, ref InBatch, batchSize, _tally);
                 _kernel.ThrowIfFaulted(_walk);
                 for (int k = 0; k < closed; k++)
                 {
@@ -189,27 +176,27 @@ internal static class SiteLaneChains
                         }
                     }
                 }
-                _step += chunk;
-                _inBlock += chunk;
-                if (_inBlock == BlockSize || _step == samples)
+                Step += chunk;
+                InBlock += chunk;
+                if (InBlock == BlockSize || Step == samples)
                 {
                     for (int lane = 0; lane < records.Length; lane++)
                     {
                         var s = _walk.Sums;
-                        var block = CovarianceAccumulator.FromRawSums(_inBlock, minimum.X, minimum.Y, minimum.Z,
+                        var block = CovarianceAccumulator.FromRawSums(InBlock, minimum.X, minimum.Y, minimum.Z,
                             TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane), TOps.Get(s.XX, lane), TOps.Get(s.YY, lane), TOps.Get(s.ZZ, lane),
                             TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane));
                         _moments[lane] = CovarianceAccumulator.Merge(_moments[lane], block);
                     }
                     _walk.Sums = default;
-                    _inBlock = 0;
+                    InBlock = 0;
                 }
             }
         }
 
-        public void Save(StateWriter w)
+        public override void Save(StateWriter w)
         {
-            w.Longs("SLGH", [TOps.Count, _live, (long)_phase, _step, _inBlock, _inBatch]);
+            SaveProgress(w, "SLGH");
             LaneWalkWords.Save(w, ref _walk);
             w.Words("LOGS", LaneWalkWords.Lanes<TOps, TD, TB>(_logScale));
             for (int lane = 0; lane < _live; lane++)
@@ -227,13 +214,7 @@ internal static class SiteLaneChains
 
         private void Load(StateReader r)
         {
-            var head = r.Longs("SLGH", 6);
-            r.InRange(head[0], TOps.Count, TOps.Count, "the lanes per vector");
-            r.InRange(head[1], _live, _live, "the chains of the group");
-            _phase = (GroupPhase)r.InRange(head[2], 0, 2, "the phase");
-            _step = r.InRange(head[3], 0, _phase == GroupPhase.BurnIn ? _plan.BurnIn : _plan.Samples, "the step");
-            _inBlock = (int)r.InRange(head[4], 0, BlockSize - 1, "the open moment block");
-            _inBatch = (int)r.InRange(head[5], 0, _records[0].Stores[0].BatchSize - 1, "the open batch");
+            LoadProgress(r, "SLGH", _records[0].Stores[0].BatchSize);
             LaneWalkWords.Load(r, ref _walk);
             _logScale = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words("LOGS", TOps.Count));
             for (int lane = 0; lane < _live; lane++)
