@@ -27,7 +27,6 @@ public readonly struct TabulatedPotential : IPairPotential
     private readonly double _upper;
     private readonly double[] _knots;
     private readonly PotentialWell? _well;
-    private readonly int _count;
 
     /// <summary>Builds a tabulated potential.</summary>
     /// <param name="separationsAngstrom">r values in Å, strictly increasing, finite, at least 0, at least <see cref="MinimumPointCount"/> of them.</param>
@@ -64,7 +63,6 @@ public readonly struct TabulatedPotential : IPairPotential
         _spline = CubicSpline.InterpolateNaturalSorted(r, v);
         _lower = r[0];
         _upper = r[^1];
-        _count = r.Length;
         _knots = r;
         var spline = _spline;
         double? r0 = WellLocator.FindLowestMinimum(spline.Interpolate, spline.Differentiate, _lower, _upper, 20 * r.Length);
@@ -82,7 +80,7 @@ public readonly struct TabulatedPotential : IPairPotential
 
     /// <inheritdoc/>
     public string Description => string.Create(CultureInfo.InvariantCulture,
-        $"tabulated potential ({_count} points on [{_lower:G6}, {_upper:G6}] Å, natural cubic spline)");
+        $"tabulated potential ({_knots.Length} points on [{_lower:G6}, {_upper:G6}] Å, natural cubic spline)");
 
     /// <inheritdoc/>
     public double Energy(double r) => _spline.Interpolate(r);

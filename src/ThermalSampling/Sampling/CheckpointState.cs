@@ -141,18 +141,21 @@ internal enum GroupPhase
 internal abstract class LaneGroupProgress : IResumableGroup
 {
     private readonly long _burnIn, _samples;
-    private readonly int _width, _live;
+    private readonly int _width;
 
     private protected LaneGroupProgress(long burnIn, long samples, int width, int live)
     {
-        (_burnIn, _samples, _width, _live) = (burnIn, samples, width, live);
+        (_burnIn, _samples, _width, Live) = (burnIn, samples, width, live);
     }
+
+    /// <summary>Chains of the group that are counted (padding lanes are not).</summary>
+    private protected int Live { get; }
 
     private protected GroupPhase Phase;
     private protected long Step;
     private protected int InBlock, InBatch;
 
-    public long ChainStepsDone => _live * (Phase switch
+    public long ChainStepsDone => Live * (Phase switch
     {
         GroupPhase.BurnIn => Step,
         GroupPhase.Recording => _burnIn + Step,
@@ -172,13 +175,13 @@ internal abstract class LaneGroupProgress : IResumableGroup
         InBlock = InBatch = 0;
     }
 
-    private protected void SaveProgress(StateWriter w, string tag) => w.Longs(tag, [_width, _live, (long)Phase, Step, InBlock, InBatch]);
+    private protected void SaveProgress(StateWriter w, string tag) => w.Longs(tag, [_width, Live, (long)Phase, Step, InBlock, InBatch]);
 
     private protected void LoadProgress(StateReader r, string tag, int batchSize)
     {
         var head = r.Longs(tag, 6);
         r.InRange(head[0], _width, _width, "the lanes per vector");
-        r.InRange(head[1], _live, _live, "the chains of the group");
+        r.InRange(head[1], Live, Live, "the chains of the group");
         Phase = (GroupPhase)r.InRange(head[2], 0, 2, "the phase");
         Step = r.InRange(head[3], 0, Phase == GroupPhase.BurnIn ? _burnIn : _samples, "the step");
         InBlock = (int)r.InRange(head[4], 0, Statistics.BlockedMomentAccumulator.BlockSize - 1, "the open moment block");

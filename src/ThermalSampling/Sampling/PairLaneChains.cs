@@ -68,7 +68,7 @@ internal static class PairLaneChains
         where TPotential : struct, IPairPotential
     {
         private readonly Plan<TPotential> _plan;
-        private readonly int _firstChain, _chains, _live;
+        private readonly int _firstChain, _chains;
         private readonly PairChainRecord[] _records;
         private readonly ProgressReporter[] _reporters;
         private readonly Kernel<TOps, TD, TB, TPotential> _kernel;
@@ -82,16 +82,15 @@ internal static class PairLaneChains
             _plan = plan;
             _firstChain = firstChain;
             _chains = chains;
-            _live = Math.Min(TOps.Count, chains - firstChain);
-            _records = new PairChainRecord[_live];
-            _reporters = new ProgressReporter[_live];
-            for (int lane = 0; lane < _live; lane++)
+            _records = new PairChainRecord[Live];
+            _reporters = new ProgressReporter[Live];
+            for (int lane = 0; lane < Live; lane++)
             {
                 _records[lane] = makeRecord(firstChain + lane);
                 _reporters[lane] = makeProgress(firstChain + lane);
             }
             _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
-            _tally = new Tally(_records[0], TOps.Count, _live);
+            _tally = new Tally(_records[0], TOps.Count, Live);
         }
 
         internal ChainOutcome[] Run(Func<int, double> start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
@@ -131,8 +130,8 @@ internal static class PairLaneChains
             checkpoints.Finished(group, this);
             _tally.CopyTo(_records, _plan.Samples);
 
-            var outcomes = new ChainOutcome[_live];
-            for (int lane = 0; lane < _live; lane++)
+            var outcomes = new ChainOutcome[Live];
+            for (int lane = 0; lane < Live; lane++)
             {
                 _reporters[lane].Finish();
                 outcomes[lane] = new ChainOutcome(_records[lane], (long)TOps.Get(_walk.Accepted, lane), TOps.Get(stepWidth, lane));

@@ -55,7 +55,7 @@ internal static class SiteLaneChains
         where TPotential : struct, IPairPotential
     {
         private readonly Plan<TPotential> _plan;
-        private readonly int _firstChain, _chains, _live;
+        private readonly int _firstChain, _chains;
         private readonly (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] _records;
         private readonly CovarianceAccumulator[] _moments;
         private readonly ProgressReporter[] _reporters;
@@ -70,17 +70,16 @@ internal static class SiteLaneChains
             _plan = plan;
             _firstChain = firstChain;
             _chains = chains;
-            _live = Math.Min(TOps.Count, chains - firstChain);
-            _records = new (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[_live];
-            _reporters = new ProgressReporter[_live];
-            for (int lane = 0; lane < _live; lane++)
+            _records = new (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[Live];
+            _reporters = new ProgressReporter[Live];
+            for (int lane = 0; lane < Live; lane++)
             {
                 _records[lane] = makeRecord(firstChain + lane);
                 _reporters[lane] = makeProgress(firstChain + lane);
             }
-            _moments = new CovarianceAccumulator[_live];
+            _moments = new CovarianceAccumulator[Live];
             _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
-            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, _live);
+            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live);
         }
 
         internal ChainOutcome[] Run(ChainStart start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
@@ -124,8 +123,8 @@ internal static class SiteLaneChains
             checkpoints.Finished(group, this);
             _tally.CopyTo(_records, _plan.Samples);
 
-            var outcomes = new ChainOutcome[_live];
-            for (int lane = 0; lane < _live; lane++)
+            var outcomes = new ChainOutcome[Live];
+            for (int lane = 0; lane < Live; lane++)
             {
                 _reporters[lane].Finish();
                 outcomes[lane] = new ChainOutcome(_moments[lane], _records[lane].Stores, _records[lane].Radial, _records[lane].Draws,
@@ -199,7 +198,7 @@ internal static class SiteLaneChains
             SaveProgress(w, "SLGH");
             LaneWalkWords.Save(w, ref _walk);
             w.Words("LOGS", LaneWalkWords.Lanes<TOps, TD, TB>(_logScale));
-            for (int lane = 0; lane < _live; lane++)
+            for (int lane = 0; lane < Live; lane++)
             {
                 _moments[lane].Save(w);
                 foreach (var store in _records[lane].Stores)
@@ -217,7 +216,7 @@ internal static class SiteLaneChains
             LoadProgress(r, "SLGH", _records[0].Stores[0].BatchSize);
             LaneWalkWords.Load(r, ref _walk);
             _logScale = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words("LOGS", TOps.Count));
-            for (int lane = 0; lane < _live; lane++)
+            for (int lane = 0; lane < Live; lane++)
             {
                 _moments[lane] = CovarianceAccumulator.Load(r);
                 foreach (var store in _records[lane].Stores)
