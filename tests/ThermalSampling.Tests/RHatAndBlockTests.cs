@@ -150,4 +150,60 @@ public sealed class RHatAndBlockTests
         Assert.Equal(a.SumFourthPowerDeviations, b.SumFourthPowerDeviations, 1e-8 * a.SumFourthPowerDeviations);
         Assert.Equal(0, new BlockedMomentAccumulator().Complete().Count);
     }
+    /// <summary>AR(1) x_t = φx_{t−1} + ε_t with unit normal ε (MathNet), started from its stationary law N(0, 1/(1 − φ²)).</summary>
+    private static double[] StationaryAr1(MathNet.Numerics.Random.Xoshiro256StarStar random, double phi, int n)
+    {
+        var x = new double[n];
+        x[0] = Normal.Sample(random, 0, 1 / Math.Sqrt(1 - phi * phi));
+        for (int t = 1; t < n; t++)
+        {
+            x[t] = phi * x[t - 1] + Normal.Sample(random, 0, 1);
+        }
+        return x;
+    }
+
+    /// <summary>
+    /// The exact variance of the mean of N draws of a stationary AR(1): γ(t) = φ^|t|/(1 − φ²), so
+    /// Var(x̄) = [γ(0) + 2Σ_{t=1}^{N−1}(1 − t/N)γ(t)]/N ([common practice, no source]: the autocovariance of AR(1) and
+    /// the variance of a mean of correlated draws, as in any time-series text).
+    /// </summary>
+    private static double ExactVarianceOfAr1Mean(double phi, int n)
+    {
+        double sum = 1, power = 1;
+        for (int t = 1; t < n; t++)
+        {
+            power *= phi;
+            sum += 2 * (1 - (double)t / n) * power;
+        }
+        return sum / (1 - phi * phi) / n;
+    }
+
+    [Fact]
+    public void PooledErrorOfTheMeanIsThatOfThePlainAverageOfTheChains()
+    {
+        // Four chains that mix at different rates (φ = 0, 0.5, 0.8, 0.9: τ = 1, 3, 9, 19), as chains that adapted different
+        // widths do. The pooled mean is the plain average of the chain means, so its variance is Σ_c Var(x̄_c)/16, which
+        // the slowest chain dominates. Summing per-chain effective sample sizes instead gives 1/Σ_c(1/Var(x̄_c)), about
+        // ten times too small here. 400 replicates: the slowest chain's Var(x̄_c) estimate scatters by about 30% per
+        // replicate (τ·√(2(2M + 1)/N) with M ≈ 5τ), so the average carries about 1.5%; ±8% is five of those.
+        double[] phis = { 0, 0.5, 0.8, 0.9 };
+        const int n = 4096, replicates = 400;
+        double exact = phis.Sum(phi => ExactVarianceOfAr1Mean(phi, n)) / (phis.Length * phis.Length);
+        var random = new MathNet.Numerics.Random.Xoshiro256StarStar(2026);
+        double reportedSum = 0;
+        var pooledMeans = new List<double>();
+        for (int r = 0; r < replicates; r++)
+        {
+            var chains = phis.Select(phi => StationaryAr1(random, phi, n)).ToList();
+            double variancePerDraw = chains.SelectMany(c => c).Variance();
+            var summary = ThermalSampling.Sampling.ChainDiagnostics.Summarise(chains, 1, n, variancePerDraw);
+            reportedSum += variancePerDraw / summary.Ess;
+            Assert.Equal(phis.Length * (double)n / summary.Ess, summary.Tau, 12);
+            pooledMeans.Add(chains.Average(c => c.Average()));
+        }
+        double ratio = reportedSum / replicates / exact;
+        Assert.True(ratio >= 0.92 && ratio <= 1.08, $"reported Var(mean) / exact = {ratio:F3}");
+        // The reference itself: the spread of the 400 pooled means (χ² with 399 degrees of freedom: ±4σ is about ±28%).
+        Assert.InRange(pooledMeans.Variance() / exact, 0.72, 1.28);
+    }
 }

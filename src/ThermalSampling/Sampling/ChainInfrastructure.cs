@@ -277,8 +277,13 @@ internal static class ChainDiagnostics
     internal sealed record Summary(double Tau, double Ess, double BlockingStandardError, bool AllReliable, string Reason, double? RHat);
 
     /// <summary>
-    /// Per chain: Var(x̄_c) = Var(Y)·τ_Y/M from its M batch means Y; ESS_c = σ²/Var(x̄_c); pooled ESS = Σ ESS_c and
-    /// τ = N/ESS. Blocking (Flyvbjerg–Petersen) on each Y series gives an independent standard error of the pooled mean.
+    /// Per chain: Var(x̄_c) = Var(Y)·τ_Y/M from its M batch means Y, and ESS_c = σ²/Var(x̄_c). The pooled mean is the
+    /// plain average of the C chain means (every chain records the same number of draws), so Var(x̄) = Σ_c Var(x̄_c)/C²,
+    /// ESS = σ²/Var(x̄) = C²/Σ_c(1/ESS_c) and τ = CN/ESS. Adding the ESS_c instead would give 1/Σ_c(1/Var(x̄_c)), the
+    /// variance of an inverse-variance weighted mean, which is smaller than that of the plain average whenever the chains'
+    /// estimates differ (by noise or because each chain adapted its own width): with four chains of 4000 draws the error
+    /// bars of the mean came out about 9% too small. Blocking (Flyvbjerg–Petersen) on each Y series gives an independent
+    /// standard error of the pooled mean.
     /// R-hat is computed on the batch means, averaged in groups down to at most <see cref="RHatValuesPerChain"/> per chain.
     /// </summary>
     /// <param name="batchMeansPerChain">Batch means per chain, all of the same length.</param>
@@ -288,7 +293,7 @@ internal static class ChainDiagnostics
     /// <param name="withRHat">Whether to compute R-hat (the squared-deviation series need only their ESS).</param>
     internal static Summary Summarise(IReadOnlyList<double[]> batchMeansPerChain, int batchSize, long samplesPerChain, double variancePerDraw, bool withRHat = true)
     {
-        double ess = 0;
+        double sumOfInverseChainEss = 0;
         bool reliable = true;
         string reason = "";
         double blockingVariance = 0;
@@ -302,7 +307,9 @@ internal static class ChainDiagnostics
             }
             varY /= y.Length - 1;
             double varianceOfChainMean = varY * Math.Max(est.IntegratedTime, 1.0 / y.Length) / y.Length;
-            ess += variancePerDraw > 0 && varianceOfChainMean > 0 ? Math.Min(variancePerDraw / varianceOfChainMean, samplesPerChain * 10.0) : samplesPerChain;
+            // ESS_c = σ²/Var(x̄_c), at most ten times the draw count (an anticorrelated series can claim more); a constant chain counts its draws.
+            double chainEss = variancePerDraw > 0 && varianceOfChainMean > 0 ? Math.Min(variancePerDraw / varianceOfChainMean, samplesPerChain * 10.0) : samplesPerChain;
+            sumOfInverseChainEss += 1 / chainEss;
             if (!est.IsReliable && reliable)
             {
                 reliable = false;
@@ -313,6 +320,7 @@ internal static class ChainDiagnostics
         }
         int chains = batchMeansPerChain.Count;
         double total = (double)chains * samplesPerChain;
+        double ess = (double)chains * chains / sumOfInverseChainEss; // σ²/Var(x̄) with Var(x̄) = Σ_c (σ²/ESS_c)/C²
         double? rHat = chains >= 2 && withRHat ? RHat.Compute(Coarsened(batchMeansPerChain, RHatValuesPerChain)) : null;
         return new Summary(total / ess, ess, Math.Sqrt(blockingVariance) / chains, reliable, reason, rHat);
     }
