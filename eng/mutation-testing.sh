@@ -28,7 +28,7 @@ elif [[ $mode == checkpoints ]]; then
 else
   mutate=(--mutate '**/Sampling/**/*.cs' --mutate '!**/Sampling/Lanes.cs' --mutate '!**/Sampling/LaneShared.cs'
           --mutate '!**/Sampling/PairLaneChains.cs' --mutate '!**/Sampling/SiteLaneChains.cs')
-  filter="FullyQualifiedName~LaneKernelTests|FullyQualifiedName~PairSamplerTests.Inverse_cdf|FullyQualifiedName~PairSamplerTests.Direct|FullyQualifiedName~SiteSamplerTests|FullyQualifiedName~HostileInputTests|$fast_checkpoints"
+  filter="FullyQualifiedName~LaneKernelTests|FullyQualifiedName~RHatAndBlockTests|FullyQualifiedName~PairSamplerTests.Inverse_cdf|FullyQualifiedName~PairSamplerTests.Direct|FullyQualifiedName~SiteSamplerTests|FullyQualifiedName~HostileInputTests|$fast_checkpoints"
 fi
 dotnet tool restore > /dev/null
 cd tests/ThermalSampling.Tests
