@@ -8,7 +8,8 @@
 #   SiteLaneChains.cs). Under Stryker's per-expression mutant switches those inner loops run tens of times slower, and
 #   every sampler test runs through them, so mutating them would take hours; they are checked bit for bit against the
 #   scalar path at every width (LaneKernelTests) and against exact quadrature instead. Even so this mode has about 1500
-#   mutants and takes about 90 minutes on two cores (the direct samplers' loops and the batch stores are hot).
+#   mutants to test and ran for more than two hours on two cores without finishing (the direct samplers' loops and the batch
+#   stores are hot). The checkpoints mode below scores two of its files on their own.
 # checkpoints: the checkpoint code only (Checkpoints.cs, CheckpointState.cs) against the fast checkpoint tests, minutes.
 set -euo pipefail
 cd "$(dirname "$0")/.."
