@@ -150,6 +150,7 @@ public sealed class RHatAndBlockTests
         Assert.Equal(a.SumFourthPowerDeviations, b.SumFourthPowerDeviations, 1e-8 * a.SumFourthPowerDeviations);
         Assert.Equal(0, new BlockedMomentAccumulator().Complete().Count);
     }
+
     /// <summary>AR(1) x_t = φx_{t−1} + ε_t with unit normal ε (MathNet), started from its stationary law N(0, 1/(1 − φ²)).</summary>
     private static double[] StationaryAr1(MathNet.Numerics.Random.Xoshiro256StarStar random, double phi, int n)
     {
