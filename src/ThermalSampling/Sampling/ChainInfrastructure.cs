@@ -300,13 +300,7 @@ internal static class ChainDiagnostics
         foreach (var y in batchMeansPerChain)
         {
             var est = Autocorrelation.Estimate(y);
-            double varY = 0, meanY = y.Average();
-            foreach (double v in y)
-            {
-                varY += (v - meanY) * (v - meanY);
-            }
-            varY /= y.Length - 1;
-            double varianceOfChainMean = varY * Math.Max(est.IntegratedTime, 1.0 / y.Length) / y.Length;
+            double varianceOfChainMean = VarianceOfChainMean(y, est);
             // ESS_c = σ²/Var(x̄_c), at most ten times the draw count (an anticorrelated series can claim more); a constant chain counts its draws.
             double chainEss = variancePerDraw > 0 && varianceOfChainMean > 0 ? Math.Min(variancePerDraw / varianceOfChainMean, samplesPerChain * 10.0) : samplesPerChain;
             sumOfInverseChainEss += 1 / chainEss;
@@ -359,15 +353,21 @@ internal static class ChainDiagnostics
         double sum = 0;
         foreach (var y in batchMeansPerChain)
         {
-            double meanY = y.Average(), varY = 0;
-            foreach (double v in y)
-            {
-                varY += (v - meanY) * (v - meanY);
-            }
-            varY /= y.Length - 1;
-            sum += varY * Math.Max(Autocorrelation.Estimate(y).IntegratedTime, 1.0 / y.Length) / y.Length;
+            sum += VarianceOfChainMean(y, Autocorrelation.Estimate(y));
         }
         return Math.Sqrt(sum) / batchMeansPerChain.Count;
+    }
+
+    /// <summary>Var(x̄_c) = Var(Y)·τ_Y/M of one chain from its M batch means Y and their autocorrelation estimate.</summary>
+    private static double VarianceOfChainMean(double[] y, AutocorrelationEstimate est)
+    {
+        double meanY = y.Average(), varY = 0;
+        foreach (double v in y)
+        {
+            varY += (v - meanY) * (v - meanY);
+        }
+        varY /= y.Length - 1;
+        return varY * Math.Max(est.IntegratedTime, 1.0 / y.Length) / y.Length;
     }
 
     internal static void AddConvergenceWarnings(ImmutableArray<Warning>.Builder warnings, Summary s, double? acceptance, double? target)
