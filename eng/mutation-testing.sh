@@ -30,13 +30,13 @@ elif [[ $mode == checkpoints ]]; then
   filter="$fast_checkpoints"
 elif [[ $mode == pair ]]; then
   mutate=(--mutate '**/Sampling/PairSampler.cs' --mutate '**/Sampling/InverseCdfTable.cs')
-  filter="FullyQualifiedName~PairSamplerTests|FullyQualifiedName~HostileInputTests|(FullyQualifiedName~LaneKernelTests&FullyQualifiedName!~Site)|($fast_checkpoints&FullyQualifiedName~Pair)"
+  filter="FullyQualifiedName~PairSamplerTests|FullyQualifiedName~PairSamplerEdgeTests|FullyQualifiedName~HostileInputTests|(FullyQualifiedName~LaneKernelTests&FullyQualifiedName!~Site)|$fast_checkpoints"
 elif [[ $mode == site ]]; then
   mutate=(--mutate '**/Sampling/SiteSampler.cs' --mutate '**/Sampling/SiteKernels.cs')
   filter="FullyQualifiedName~SiteSamplerTests|FullyQualifiedName~HostileInputTests|(FullyQualifiedName~LaneKernelTests&FullyQualifiedName~Site)|($fast_checkpoints&FullyQualifiedName~Site)"
 else
   mutate=(--mutate '**/Sampling/ChainInfrastructure.cs' --mutate '**/Sampling/SamplingSettings.cs')
-  filter="FullyQualifiedName~RHatAndBlockTests|FullyQualifiedName~PairSamplerTests|FullyQualifiedName~SiteSamplerTests|FullyQualifiedName~HostileInputTests|$fast_checkpoints"
+  filter="FullyQualifiedName~RHatAndBlockTests|FullyQualifiedName~PairSamplerTests|FullyQualifiedName~PairSamplerEdgeTests|FullyQualifiedName~HostileInputTests|$fast_checkpoints"
 fi
 dotnet tool restore > /dev/null
 cd tests/ThermalSampling.Tests

@@ -1,0 +1,199 @@
+using System;
+using System.Collections.Generic;
+using System.IO;
+using System.Linq;
+using ThermalSampling.Analysis;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Reports;
+using ThermalSampling.Sampling;
+using ThermalSampling.Units;
+using Xunit;
+
+namespace ThermalSampling.Tests;
+
+/// <summary>
+/// Small, fast checks of the pair sampler's edges: the inverse-CDF table's ends and refusal, the fallbacks when the
+/// minimum is outside the window, the "disagrees with exact" warning, argument checks of the checkpointed entry points,
+/// the landscape fingerprint and the progress schedule. Written against the survivors of the pair mutation run
+/// (docs/validation.md).
+/// </summary>
+public class PairSamplerEdgeTests
+{
+    private static readonly Mass ArgonMass = Mass.FromAtomicMassUnits(39.948);
+    private static readonly Morse Iron = new(Energy.FromElectronVolts(0.4174), 1.3885, Length.FromAngstroms(2.845)); // Sources.GirifalcoWeizer
+    private static readonly PairLandscape<Morse> IronLine = PairLandscape.Line(Iron, Length.FromAngstroms(2.0), Length.FromAngstroms(5.0));
+
+    private static SamplingSettings Small(SamplingMethod method, long samples = 4096) => new()
+    {
+        Seed = 11, Method = method, Chains = 2, SamplesPerChain = samples, BurnIn = 0, MaxThreads = 1,
+    };
+
+    [Fact]
+    public void Inverse_cdf_table_has_the_window_at_its_ends_and_follows_the_exact_cdf_at_its_break_points()
+    {
+        var exact = ExactPairDistribution.Compute(IronLine, Temperature.FromKelvin(600));
+        var table = InverseCdfTable.Build(exact);
+        // About 16384 cells, at least four per quadrature piece (the construction's own rule, common practice, no source).
+        Assert.InRange(table.CellCount, 16384, 16384 + 4 * (exact.BreakPoints.Length + 1));
+        Assert.Equal(2.0, table.Quantile(0), 12);
+        Assert.Equal(5.0, table.Quantile(1), 12);
+        foreach (double bad in new[] { -0.1, 1.1, double.NaN })
+        {
+            Assert.Equal("probability", Assert.Throws<ArgumentOutOfRangeException>(() => table.Quantile(bad)).ParamName);
+        }
+        Assert.Equal(0, table.CumulativeProbability(1.0));
+        Assert.Equal(0, table.CumulativeProbability(2.0));
+        Assert.Equal(1, table.CumulativeProbability(5.0));
+        Assert.Equal(1, table.CumulativeProbability(7.0));
+        // Break points are cell edges, where the table's CDF is exact up to the quadrature's error.
+        var inside = exact.BreakPoints.Where(b => b > 2.0 && b < 5.0).ToArray();
+        Assert.NotEmpty(inside);
+        foreach (double b in inside)
+        {
+            Assert.Equal(exact.CumulativeProbability(b), table.CumulativeProbability(b), 1e-9);
+        }
+        // Between edges: the quantile inverts the table's CDF, and both follow the exact CDF within the measured error.
+        foreach (double p in new[] { 1e-4, 0.1, 0.37, 0.5, 0.9, 0.9999 })
+        {
+            double r = table.Quantile(p);
+            Assert.Equal(p, table.CumulativeProbability(r), 1e-9);
+            Assert.Equal(p, exact.CumulativeProbability(r), 4 * table.CdfInterpolationError + 1e-9);
+        }
+    }
+
+    [Fact]
+    public void Inverse_cdf_table_refuses_a_density_that_varies_too_fast_for_its_cells()
+    {
+        // Invented: a particle pressed against the window's inner edge by a constant force, V = F·(r − 1 Å), so strong
+        // that its density exp(−F(r − 1)/kT) decays within 1e-7 Å, far less than one cell: a uniform density per cell
+        // cannot represent it, and the table must refuse rather than sample it wrongly.
+        double kt = Temperature.FromKelvin(300).ThermalEnergyInElectronVolts, force = kt / 1e-7;
+        var pressed = new FunctionPotential(r => force * (r - 1), Length.FromAngstroms(0.5), Length.FromAngstroms(6.0),
+            r => new PairDerivatives(force * (r - 1), force, 0, 0, 0), "invented constant force");
+        var exact = ExactPairDistribution.Compute(PairLandscape.Line(pressed, Length.FromAngstroms(1.0), Length.FromAngstroms(5.0)), Temperature.FromKelvin(300));
+        var ex = Assert.Throws<InvalidOperationException>(() => InverseCdfTable.Build(exact));
+        Assert.Contains("Narrow the window or use Metropolis", ex.Message);
+        Assert.Contains("limit 0.0001", ex.Message);
+    }
+
+    [Fact]
+    public void A_window_without_the_minimum_is_sampled_with_a_warning_and_a_tenth_of_the_window_as_first_step()
+    {
+        // Invented: the repulsive side of the iron Morse pair only, 2.0–2.6 Å (the minimum is at 2.845 Å).
+        var wall = PairLandscape.Line(Iron, Length.FromAngstroms(2.0), Length.FromAngstroms(2.6));
+        var report = PairSampler.Run(wall, ArgonMass, Temperature.FromKelvin(300), Small(SamplingMethod.Metropolis));
+        Assert.Contains(report.Warnings, w => w.Code == WarningCodes.MinimumOutsideWindow);
+        Assert.Null(report.Harmonic);
+        Assert.Null(report.MinimumInAngstroms);
+        // No burn-in, so the step width is never adapted: it stays at the fallback, a tenth of the window.
+        Assert.Equal(0.06, report.Diagnostics.FinalStepWidthInAngstroms!.Value, 12);
+    }
+
+    [Fact]
+    public void A_chain_that_cannot_move_is_reported_as_disagreeing_with_the_exact_answer()
+    {
+        // One chain, no burn-in and a step of 1e-5 Å: it stays near its start (the median) and its variance is far too small.
+        var settings = Small(SamplingMethod.Metropolis, samples: 8192) with { Chains = 1, InitialStepWidthInAngstroms = 1e-5 };
+        var report = PairSampler.Run(IronLine, ArgonMass, Temperature.FromKelvin(600), settings);
+        Assert.True(Math.Abs(report.Exact.ZScoreVariance) > 4, $"z of the variance {report.Exact.ZScoreVariance}");
+        var warning = Assert.Single(report.Warnings, w => w.Code == WarningCodes.DisagreesWithExact);
+        Assert.Contains("Trust the exact value", warning.Message);
+    }
+
+    [Fact]
+    public void Checkpointed_entry_points_check_their_arguments_before_running()
+    {
+        var temperatures = new[] { Temperature.FromKelvin(300) };
+        var options = new CheckpointOptions(TimeSpan.FromHours(1), _ => { });
+        var settings = Small(SamplingMethod.Direct);
+        Assert.Equal("checkpoints", Assert.Throws<ArgumentNullException>(() =>
+            PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, temperatures, settings, null!)).ParamName);
+        Assert.Equal("checkpoint", Assert.Throws<ArgumentNullException>(() =>
+            PairSampler.Resume(IronLine, ArgonMass, temperatures, settings, null!)).ParamName);
+        Assert.Equal("landscape", Assert.Throws<ArgumentNullException>(() =>
+            PairSampler.SweepWithCheckpoints<Morse>(null!, ArgonMass, temperatures, settings, options)).ParamName);
+        var ex = Assert.ThrowsAny<ArgumentException>(() =>
+            PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, temperatures, settings with { Chains = 0 }, options));
+        Assert.Contains("Chains", ex.Message);
+    }
+
+    [Fact]
+    public void Temperature_lists_must_be_non_empty_and_bounded()
+    {
+        var settings = Small(SamplingMethod.Direct);
+        var empty = Assert.Throws<ArgumentException>(() => PairSampler.Sweep(IronLine, ArgonMass, Array.Empty<Temperature>(), settings));
+        Assert.Equal("temperatures", empty.ParamName);
+        Assert.Contains("empty", empty.Message);
+        var many = Enumerable.Range(1, 100_001).Select(i => Temperature.FromKelvin(i));
+        var tooMany = Assert.Throws<ArgumentException>(() => PairSampler.Sweep(IronLine, ArgonMass, many, settings));
+        Assert.Equal("temperatures", tooMany.ParamName);
+        Assert.Contains("more than 100000", tooMany.Message);
+    }
+
+    [Fact]
+    public void A_direct_run_records_one_chain_per_vector_in_its_checkpoint()
+    {
+        var saved = new List<SamplingCheckpoint>();
+        // The first checkpoint is written at the chains' second chunk boundary (draw 4096).
+        var settings = Small(SamplingMethod.Direct, samples: 3 * 4096) with { Chains = 8, MaxThreads = 2 };
+        PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, [Temperature.FromKelvin(300)], settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
+        Assert.NotEmpty(saved);
+        Assert.All(saved, c => Assert.Equal(1, c.ChainsPerVector));
+    }
+
+    [Fact]
+    public void The_landscape_fingerprint_sees_a_change_at_any_one_of_its_nodes()
+    {
+        // Invented: the iron Morse pair as a delegate, and the same with a bump 0.3 node spacings wide at node 129 of 256,
+        // zero at every other node. A checkpoint of one must not resume the other.
+        const double lo = 2.0, hi = 5.0;
+        double node = lo + (hi - lo) * 129 / 256, halfWidth = 0.3 * (hi - lo) / 256;
+        double Bump(double r) => Math.Abs(r - node) < halfWidth ? 1e-3 * Math.Pow(1 - Math.Abs(r - node) / halfWidth, 2) : 0;
+        var plain = new FunctionPotential(r => Iron.Energy(r), Length.FromAngstroms(1.5), Length.FromAngstroms(6.0), description: "invented delegate");
+        var bumped = new FunctionPotential(r => Iron.Energy(r) + Bump(r), Length.FromAngstroms(1.5), Length.FromAngstroms(6.0), description: "invented delegate");
+        var a = PairLandscape.Line(plain, Length.FromAngstroms(lo), Length.FromAngstroms(hi));
+        var b = PairLandscape.Line(bumped, Length.FromAngstroms(lo), Length.FromAngstroms(hi));
+        for (int i = 0; i <= 256; i++)
+        {
+            double r = lo + (hi - lo) * i / 256;
+            Assert.True(i == 129 ? Bump(r) > 0 : Bump(r) == 0, $"node {i}");
+        }
+        var temperatures = new[] { Temperature.FromKelvin(300) };
+        var settings = Small(SamplingMethod.Direct, samples: 3 * 4096);
+        var saved = new List<SamplingCheckpoint>();
+        PairSampler.SweepWithCheckpoints(a, ArgonMass, temperatures, settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
+        var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(b, ArgonMass, temperatures, settings, saved[0]));
+        Assert.Contains("differs from this run's", ex.Message);
+        Assert.Contains("in its potential, window, sites or confinement", ex.Message);
+        Assert.DoesNotContain("its mass is", ex.Message);
+        Assert.Single(PairSampler.Resume(a, ArgonMass, temperatures, settings, saved[0]));
+    }
+
+    [Fact]
+    public void Direct_chains_report_progress_every_4096_draws_and_once_at_the_end()
+    {
+        // 10 × 4096 draws: the throttle interval is max(N/200, 4096) = 4096, so reports come at 0, 4096, …, 36864 and N.
+        long n = 10 * 4096;
+        var seen = new List<SamplingProgress>();
+        var sink = new Recorder(p =>
+        {
+            lock (seen)
+            {
+                seen.Add(p);
+            }
+        });
+        PairSampler.Run(IronLine, ArgonMass, Temperature.FromKelvin(300), Small(SamplingMethod.Direct, samples: n), sink);
+        foreach (int chain in new[] { 0, 1 })
+        {
+            var done = seen.Where(p => p.ChainIndex == chain).Select(p => p.ChainStepsDone).ToArray();
+            Assert.Equal(Enumerable.Range(0, 10).Select(k => 4096L * k).Append(n), done);
+            Assert.All(seen.Where(p => p.ChainIndex == chain), p => Assert.Equal(n, p.ChainStepsTotal));
+        }
+    }
+
+    private sealed class Recorder(Action<SamplingProgress> action) : IProgress<SamplingProgress>
+    {
+        public void Report(SamplingProgress value) => action(value);
+    }
+}
