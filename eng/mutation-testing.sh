@@ -47,5 +47,6 @@ dotnet tool run dotnet-stryker \
   --configuration Release \
   --reporter html --reporter json --reporter progress \
   --concurrency 2 \
+  --config-file ../../eng/stryker-config.json \
   --output "../../artifacts/mutation/$mode" \
   "$@"
