@@ -176,7 +176,7 @@ public class PairSamplerEdgeTests
         // 10 × 4096 draws: the throttle interval is max(N/200, 4096) = 4096, so reports come at 0, 4096, …, 36864 and N.
         long n = 10 * 4096;
         var seen = new List<SamplingProgress>();
-        var sink = new Recorder(p =>
+        var sink = new PairSamplerTests.SyncProgress(p =>
         {
             lock (seen)
             {
@@ -190,10 +190,5 @@ public class PairSamplerEdgeTests
             Assert.Equal(Enumerable.Range(0, 10).Select(k => 4096L * k).Append(n), done);
             Assert.All(seen.Where(p => p.ChainIndex == chain), p => Assert.Equal(n, p.ChainStepsTotal));
         }
-    }
-
-    private sealed class Recorder(Action<SamplingProgress> action) : IProgress<SamplingProgress>
-    {
-        public void Report(SamplingProgress value) => action(value);
     }
 }

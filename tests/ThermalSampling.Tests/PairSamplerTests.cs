@@ -257,7 +257,7 @@ public class PairSamplerTests
         }
     }
 
-    private sealed class SyncProgress(Action<SamplingProgress> action) : IProgress<SamplingProgress>
+    internal sealed class SyncProgress(Action<SamplingProgress> action) : IProgress<SamplingProgress>
     {
         public void Report(SamplingProgress value) => action(value);
     }
