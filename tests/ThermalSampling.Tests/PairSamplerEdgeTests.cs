@@ -1,6 +1,5 @@
 using System;
 using System.Collections.Generic;
-using System.IO;
 using System.Linq;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
@@ -34,7 +33,7 @@ public class PairSamplerEdgeTests
     {
         var exact = ExactPairDistribution.Compute(IronLine, Temperature.FromKelvin(600));
         var table = InverseCdfTable.Build(exact);
-        // About 16384 cells, at least four per quadrature piece (the construction's own rule, common practice, no source).
+        // About 16384 cells, at least four per quadrature piece (the construction documented on InverseCdfTable).
         Assert.InRange(table.CellCount, 16384, 16384 + 4 * (exact.BreakPoints.Length + 1));
         Assert.Equal(2.0, table.Quantile(0), 12);
         Assert.Equal(5.0, table.Quantile(1), 12);
