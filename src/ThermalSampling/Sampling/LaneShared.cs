@@ -4,6 +4,7 @@ using ThermalSampling.Potentials;
 
 namespace ThermalSampling.Sampling;
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Pair energies in every lane: potentials with a lane form use it, others are called lane by lane.</summary>
 internal static class LaneEnergy
 {
@@ -65,6 +66,7 @@ internal static class LaneEnergy
     }
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Where and what the last non-finite energy of a chunk was, per lane.</summary>
 /// <typeparam name="TD">The lane type.</typeparam>
 [System.Runtime.InteropServices.StructLayout(System.Runtime.InteropServices.LayoutKind.Sequential)]
@@ -73,6 +75,7 @@ internal struct LaneFaults<TD> where TD : struct
     internal TD AllFinite, Separation, Energy;
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>
 /// Fault bookkeeping shared by the lane kernels: −∞ and NaN energies are noted in a mask (+∞, a hard core, is an ordinary
 /// rejection) and thrown after each chunk, so no call sits in an inner loop (a call there would force every vector
@@ -117,6 +120,7 @@ internal static class LaneFaultCheck
     }
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>
 /// Tunes each lane's Metropolis proposal width during burn-in by a Robbins–Monro update of its logarithm,
 /// log w ← min(log w + (accepted − target)·2/(t + 10)^0.6, log w_max), and is never used after burn-in, so the recorded
@@ -161,6 +165,7 @@ internal static class LaneAdaptation
     }
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>
 /// The flat arrays a lane group's inner loop writes without calls: lane-major histogram counts, flat-index scratch,
 /// retained draws, the sums of the batches closed in a chunk, and scratch for one vector's lanes.
@@ -234,6 +239,7 @@ internal class LaneTally
     internal double[] BatchSums { get; }
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Loads chains' streams into the lanes of the generator state.</summary>
 internal static class LaneSeeding
 {

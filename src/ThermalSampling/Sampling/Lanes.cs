@@ -4,6 +4,7 @@ using System.Runtime.Intrinsics;
 
 namespace ThermalSampling.Sampling;
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>
 /// The arithmetic a lane kernel needs, over <typeparamref name="TD"/> (one double per chain) and <typeparamref name="TB"/>
 /// (64 raw bits per chain). Implemented for Vector512, Vector256, Vector128 and a plain double, so one kernel body runs
@@ -93,6 +94,7 @@ internal interface ILaneOps<TD, TB>
     static abstract TB SetBits(TB v, int lane, ulong x);
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Eight lanes in a 512-bit register.</summary>
 internal readonly struct Lanes8 : ILaneOps<Vector512<double>, Vector512<ulong>>
 {
@@ -131,6 +133,7 @@ internal readonly struct Lanes8 : ILaneOps<Vector512<double>, Vector512<ulong>>
     public static Vector512<ulong> SetBits(Vector512<ulong> v, int lane, ulong x) => v.WithElement(lane, x);
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Four lanes in a 256-bit register.</summary>
 internal readonly struct Lanes4 : ILaneOps<Vector256<double>, Vector256<ulong>>
 {
@@ -169,6 +172,7 @@ internal readonly struct Lanes4 : ILaneOps<Vector256<double>, Vector256<ulong>>
     public static Vector256<ulong> SetBits(Vector256<ulong> v, int lane, ulong x) => v.WithElement(lane, x);
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Two lanes in a 128-bit register.</summary>
 internal readonly struct Lanes2 : ILaneOps<Vector128<double>, Vector128<ulong>>
 {
@@ -207,6 +211,7 @@ internal readonly struct Lanes2 : ILaneOps<Vector128<double>, Vector128<ulong>>
     public static Vector128<ulong> SetBits(Vector128<ulong> v, int lane, ulong x) => v.WithElement(lane, x);
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>One lane in plain scalar registers: the fallback, and the reference the wider forms are tested against.</summary>
 internal readonly struct Lanes1 : ILaneOps<double, ulong>
 {
@@ -260,6 +265,7 @@ internal readonly struct Lanes1 : ILaneOps<double, ulong>
     public static ulong SetBits(ulong v, int lane, ulong x) => x;
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>
 /// Lane-parallel functions built on <see cref="ILaneOps{TD, TB}"/>, identical bit for bit at every width.
 /// </summary>

@@ -9,6 +9,7 @@ using ThermalSampling.Statistics;
 
 namespace ThermalSampling.Sampling;
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>
 /// Random-walk Metropolis for line and radial pairs, several chains in lockstep (one per vector lane). Per step and lane:
 /// r' = r + w(2u₁ − 1 + 2^−52) (uniform on a grid symmetric about 0, so the proposal is exactly symmetric); r' outside the window is rejected; otherwise accepted when

@@ -9,6 +9,7 @@ using ThermalSampling.Randomness;
 
 namespace ThermalSampling.Sampling;
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>
 /// Random-walk Metropolis for a particle among fixed sites, several chains in lockstep (one per vector lane). Per step
 /// and lane: p' = p + s·L·v with v uniform in (−1, 1)³ on a symmetric 32-bit grid (<see cref="LaneMath.NextOffsetPair{TOps, TD, TB}"/>) and L the Cholesky factor of the harmonic covariance (a
@@ -488,6 +489,7 @@ internal static class SiteLaneChains
     }
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Nine running sums of a 3D walk: Σd, Σd² and the cross products, per lane.</summary>
 /// <typeparam name="TD">The lane type.</typeparam>
 [StructLayout(LayoutKind.Sequential)]
@@ -496,6 +498,7 @@ internal struct LaneSums3<TD> where TD : struct
     internal TD X, Y, Z, XX, YY, ZZ, XY, XZ, YZ;
 }
 
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>The running state of every lane of a site group.</summary>
 /// <typeparam name="TD">The lane type.</typeparam>
 /// <typeparam name="TB">The lane word type.</typeparam>
