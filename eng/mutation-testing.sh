@@ -40,6 +40,8 @@ else
   mutate=(--mutate '**/Sampling/ChainInfrastructure.cs' --mutate '**/Sampling/SamplingSettings.cs')
   filter="FullyQualifiedName~RHatAndBlockTests|FullyQualifiedName~PairSamplerTests|FullyQualifiedName~PairSamplerEdgeTests|FullyQualifiedName~HostileInputTests|$fast_checkpoints"
 fi
+# Serial test classes, so that Stryker credits each mutant to the tests that really reach it (see the test project file).
+export ThermalSamplingSerialTests=true
 dotnet tool restore > /dev/null
 cd tests/ThermalSampling.Tests
 dotnet tool run dotnet-stryker \

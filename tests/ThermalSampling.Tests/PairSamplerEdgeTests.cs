@@ -131,6 +131,19 @@ public class PairSamplerEdgeTests
     }
 
     [Fact]
+    public void Temperature_lists_refuse_null_and_zero_and_take_exactly_the_maximum()
+    {
+        var settings = Small(SamplingMethod.Direct);
+        Assert.Equal("temperatures", Assert.Throws<ArgumentNullException>(() => PairSampler.Sweep(IronLine, ArgonMass, null!, settings)).ParamName);
+        // default(Temperature) is 0 K, which no factory method makes.
+        var zero = Assert.Throws<ArgumentOutOfRangeException>(() => PairSampler.Sweep(IronLine, ArgonMass, [Temperature.FromKelvin(300), default], settings));
+        Assert.Equal("temperatures", zero.ParamName);
+        Assert.Contains("greater than 0", zero.Message);
+        // The limit itself is allowed (checked on the list alone: running 100 000 temperatures is not the point).
+        Assert.Equal(TemperatureList.MaximumCount, TemperatureList.Check(Enumerable.Range(1, TemperatureList.MaximumCount).Select(i => Temperature.FromKelvin(i))).Count);
+    }
+
+    [Fact]
     public void A_direct_run_records_one_chain_per_vector_in_its_checkpoint()
     {
         var saved = new List<SamplingCheckpoint>();
