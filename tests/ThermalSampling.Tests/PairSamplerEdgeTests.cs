@@ -14,7 +14,8 @@ namespace ThermalSampling.Tests;
 /// <summary>
 /// Small, fast checks of the pair sampler's edges: the inverse-CDF table's ends and refusal, the fallbacks when the
 /// minimum is outside the window, the "disagrees with exact" warning, argument checks of the checkpointed entry points,
-/// the landscape fingerprint and the progress schedule. Written against the survivors of the pair mutation run
+/// the landscape fingerprint, the progress schedule, the start quantiles, the acceptance target, the error bars of
+/// independent draws and the checkpoint's lane width. Written against the survivors of the pair mutation runs
 /// (docs/validation.md).
 /// </summary>
 public class PairSamplerEdgeTests
@@ -98,6 +99,9 @@ public class PairSamplerEdgeTests
         Assert.True(Math.Abs(report.Exact.ZScoreVariance) > 4, $"z of the variance {report.Exact.ZScoreVariance}");
         var warning = Assert.Single(report.Warnings, w => w.Code == WarningCodes.DisagreesWithExact);
         Assert.Contains("Trust the exact value", warning.Message);
+        // Steps of 1e-5 Å are almost all accepted, far from the default target: that is reported too.
+        Assert.True(report.Diagnostics.AcceptanceRate > 0.95, $"acceptance {report.Diagnostics.AcceptanceRate}");
+        Assert.Contains(report.Warnings, w => w.Code == WarningCodes.AcceptanceOffTarget);
     }
 
     [Fact]
@@ -154,22 +158,26 @@ public class PairSamplerEdgeTests
         Assert.All(saved, c => Assert.Equal(1, c.ChainsPerVector));
     }
 
-    [Fact]
-    public void The_landscape_fingerprint_sees_a_change_at_any_one_of_its_nodes()
+    [Theory]
+    [InlineData(0)]
+    [InlineData(129)]
+    [InlineData(256)]
+    public void The_landscape_fingerprint_sees_a_change_at_any_one_of_its_nodes(int bumpNode)
     {
-        // Invented: the iron Morse pair as a delegate, and the same with a bump 0.3 node spacings wide at node 129 of 256,
-        // zero at every other node. A checkpoint of one must not resume the other.
+        // Invented: the iron Morse pair as a delegate, and the same with a bump 0.3 node spacings wide at one of the 257
+        // nodes (the window's ends included), zero at every other node. A checkpoint of one must not resume the other.
         const double lo = 2.0, hi = 5.0;
-        double node = lo + (hi - lo) * 129 / 256, halfWidth = 0.3 * (hi - lo) / 256;
+        double node = lo + (hi - lo) * bumpNode / 256, halfWidth = 0.3 * (hi - lo) / 256;
         double Bump(double r) => Math.Abs(r - node) < halfWidth ? 1e-3 * Math.Pow(1 - Math.Abs(r - node) / halfWidth, 2) : 0;
-        var plain = new FunctionPotential(r => Iron.Energy(r), Length.FromAngstroms(1.5), Length.FromAngstroms(6.0), description: "invented delegate");
+        // Both add a bump term, so both turn an underflowed −0.0 into +0.0 alike: only the bump itself differs.
+        var plain = new FunctionPotential(r => Iron.Energy(r) + 0 * Bump(r), Length.FromAngstroms(1.5), Length.FromAngstroms(6.0), description: "invented delegate");
         var bumped = new FunctionPotential(r => Iron.Energy(r) + Bump(r), Length.FromAngstroms(1.5), Length.FromAngstroms(6.0), description: "invented delegate");
         var a = PairLandscape.Line(plain, Length.FromAngstroms(lo), Length.FromAngstroms(hi));
         var b = PairLandscape.Line(bumped, Length.FromAngstroms(lo), Length.FromAngstroms(hi));
         for (int i = 0; i <= 256; i++)
         {
             double r = lo + (hi - lo) * i / 256;
-            Assert.True(i == 129 ? Bump(r) > 0 : Bump(r) == 0, $"node {i}");
+            Assert.True(i == bumpNode ? Bump(r) > 0 : Bump(r) == 0, $"node {i}");
         }
         var temperatures = new[] { Temperature.FromKelvin(300) };
         var settings = Small(SamplingMethod.Direct, samples: 3 * 4096);
@@ -180,6 +188,114 @@ public class PairSamplerEdgeTests
         Assert.Contains("in its potential, window, sites or confinement", ex.Message);
         Assert.DoesNotContain("its mass is", ex.Message);
         Assert.Single(PairSampler.Resume(a, ArgonMass, temperatures, settings, saved[0]));
+    }
+
+    [Fact]
+    public void The_landscape_fingerprint_sees_a_window_change_that_the_description_rounds_away()
+    {
+        // Invented: a flat well (V = 0 everywhere), so every node energy is the same whatever the window; the windows
+        // [2, 5] and [2.0000001, 5] Å print alike to six digits. Only the window itself tells the two runs apart.
+        var flat = new FunctionPotential(_ => 0, Length.FromAngstroms(1.0), Length.FromAngstroms(6.0),
+            _ => new PairDerivatives(0, 0, 0, 0, 0), "invented flat well");
+        var a = PairLandscape.Line(flat, Length.FromAngstroms(2.0), Length.FromAngstroms(5.0));
+        var b = PairLandscape.Line(flat, Length.FromAngstroms(2.0000001), Length.FromAngstroms(5.0));
+        Assert.Equal(a.Description, b.Description);
+        var temperatures = new[] { Temperature.FromKelvin(300) };
+        var settings = Small(SamplingMethod.Direct, samples: 3 * 4096);
+        var saved = new List<SamplingCheckpoint>();
+        PairSampler.SweepWithCheckpoints(a, ArgonMass, temperatures, settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
+        var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(b, ArgonMass, temperatures, settings, saved[0]));
+        Assert.Contains("in its potential, window, sites or confinement", ex.Message);
+    }
+
+    [Fact]
+    public void A_metropolis_checkpoint_records_the_lane_width_the_run_used()
+    {
+        // Eight chains on one thread: the widest native register that still gives the thread full vectors
+        // (8 with AVX-512, 4 with AVX2, 2 with SSE2 or NEON), never the one-chain fallback on vector hardware.
+        var settings = Small(SamplingMethod.Metropolis, samples: 3 * 4096) with { Chains = 8, MaxThreads = 1 };
+        int expected = PairLaneChains.ChooseLanes(8, 1, null);
+        if (System.Runtime.Intrinsics.Vector128.IsHardwareAccelerated)
+        {
+            Assert.True(expected > 1, $"lanes {expected}");
+        }
+        var saved = new List<SamplingCheckpoint>();
+        PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, [Temperature.FromKelvin(300)], settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
+        Assert.NotEmpty(saved);
+        Assert.All(saved, c => Assert.Equal(expected, c.ChainsPerVector));
+    }
+
+    [Fact]
+    public void Direct_draws_give_the_independent_draw_error_bars_and_keep_the_first_draws()
+    {
+        // Direct draws are independent, so the standard errors must be those of N independent values (common practice,
+        // no source): SE(mean) = σ/√N and SE(σ²) = σ²·√((κ + 2)/N), with κ the excess kurtosis. The estimated ESS is
+        // only an estimate, hence 15 %. The RMS error is the delta method's SE(σ²)/(2σ), and the shift is ⟨r⟩ − r0.
+        const int chains = 2, n = 1 << 16;
+        var settings = Small(SamplingMethod.Direct, samples: n) with { RetainedDrawsPerChain = 50 };
+        var report = PairSampler.Run(IronLine, ArgonMass, Temperature.FromKelvin(600), settings);
+        double total = chains * (double)n, variance = report.Variance.Value;
+        Assert.Equal(chains * (long)n, report.Diagnostics.Draws);
+        Assert.Equal(Math.Sqrt(variance / total), report.Mean.StandardError, 0.15 * Math.Sqrt(variance / total));
+        double varianceSe = variance * Math.Sqrt((report.ExcessKurtosis + 2) / total);
+        Assert.Equal(varianceSe, report.Variance.StandardError, 0.15 * varianceSe);
+        Assert.Equal(Math.Sqrt(variance), report.Rms.Value, 15);
+        Assert.Equal(report.Variance.StandardError / (2 * report.Rms.Value), report.Rms.StandardError, 15);
+        Assert.Equal(report.Mean.Value - report.MinimumInAngstroms!.Value, report.MeanShift!.Value, 15);
+        Assert.Equal(report.Mean.StandardError, report.MeanShift.StandardError);
+        Assert.Equal(chains, report.Draws.Chains.Length);
+        Assert.All(report.Draws.Chains, c => Assert.Equal(50, c.Length));
+        Assert.All(report.Draws.Chains, c => Assert.All(c, r => Assert.InRange(r, 2.0, 5.0)));
+        Assert.NotEqual(report.Draws.Chains[0][0], report.Draws.Chains[1][0]);
+    }
+
+    [Fact]
+    public void Metropolis_chains_start_at_spread_quantiles_of_the_exact_distribution()
+    {
+        // Over-dispersed starts: chain c of C begins at the exact distribution's quantile 0.01 + 0.98·c/(C − 1), one
+        // chain at the median. A step of 1e-9 Å and no burn-in keep each chain's first draw at its start.
+        var t = Temperature.FromKelvin(600);
+        var exact = ExactPairDistribution.Compute(IronLine, t);
+        foreach (int chains in new[] { 1, 3 })
+        {
+            var settings = Small(SamplingMethod.Metropolis, samples: 4096) with { Chains = chains, InitialStepWidthInAngstroms = 1e-9, RetainedDrawsPerChain = 1 };
+            var report = PairSampler.Run(IronLine, ArgonMass, t, settings);
+            for (int c = 0; c < chains; c++)
+            {
+                double p = chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1);
+                Assert.Equal(p, exact.CumulativeProbability(report.Draws.Chains[c][0]), 2e-3);
+            }
+        }
+    }
+
+    [Theory]
+    [InlineData(0.25)]
+    [InlineData(0.7)]
+    public void Metropolis_adapts_its_step_to_the_requested_acceptance(double target)
+    {
+        // The step width adapts during burn-in (Robbins–Monro on log w), so after a long burn-in the sampling phase
+        // accepts close to the target (common practice, no source; 0.05 is a margin for the chains' noise).
+        var settings = Small(SamplingMethod.Metropolis, samples: 20_000) with { BurnIn = 20_000, TargetAcceptance = target };
+        var report = PairSampler.Run(IronLine, ArgonMass, Temperature.FromKelvin(600), settings);
+        Assert.InRange(report.Diagnostics.AcceptanceRate!.Value, target - 0.05, target + 0.05);
+        Assert.DoesNotContain(report.Warnings, w => w.Code == WarningCodes.AcceptanceOffTarget);
+    }
+
+    [Fact]
+    public void Metropolis_progress_counts_burn_in_in_the_total()
+    {
+        var seen = new List<SamplingProgress>();
+        var sink = new PairSamplerTests.SyncProgress(p =>
+        {
+            lock (seen)
+            {
+                seen.Add(p);
+            }
+        });
+        PairSampler.Run(IronLine, ArgonMass, Temperature.FromKelvin(300), Small(SamplingMethod.Metropolis, samples: 8192) with { BurnIn = 4096 }, sink);
+        Assert.NotEmpty(seen);
+        Assert.All(seen, p => Assert.Equal(4096 + 8192, p.ChainStepsTotal));
+        Assert.Contains(seen, p => p.ChainStepsDone == 4096 + 8192);
     }
 
     [Fact]
