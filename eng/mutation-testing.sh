@@ -6,12 +6,13 @@
 # core (default): Potentials and Statistics, against the fast unit-test classes.
 # The Sampling namespace is split into four modes of two files each; the whole namespace in one run (about 1 500
 # mutants) ran for more than two hours without finishing, and Stryker writes its report only at the end. One two-file
-# mode (pair) took 47 minutes on two cores with the default timeout; with the 30 s of slack in eng/stryker-config.json
-# (needed: two test hosts share two cores, and survivors ran past the default limit) expect longer. Run it in a
-# separate clone on an otherwise idle machine.
+# mode (pair) takes about 48 minutes on two cores with the 30 s of slack in eng/stryker-config.json (needed: two test
+# hosts share two cores, and survivors ran past the default limit). Run it in a separate clone on an otherwise idle
+# machine.
 #   pair: PairSampler.cs, InverseCdfTable.cs      site: SiteSampler.cs, SiteKernels.cs
 #   chains: ChainInfrastructure.cs, SamplingSettings.cs      checkpoints: Checkpoints.cs, CheckpointState.cs
-# The vector-lane kernel files (Lanes.cs, LaneShared.cs, PairLaneChains.cs, SiteLaneChains.cs) are in no mode. Under
+# The vector-lane kernel files (Lanes.cs, LaneShared.cs, PairLaneChains.cs, SiteLaneChains.cs) are in no mode, and
+# carry "Stryker disable all" comments so that no mode puts mutants in them. Under
 # Stryker's per-expression mutant switches those inner loops run tens of times slower, and every sampler test runs through
 # them; they are checked bit for bit against the scalar path at every width (LaneKernelTests) and against exact
 # quadrature instead.

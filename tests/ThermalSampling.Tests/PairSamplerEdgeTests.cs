@@ -122,6 +122,19 @@ public class PairSamplerEdgeTests
     }
 
     [Fact]
+    public void A_single_run_checks_its_arguments_before_any_work()
+    {
+        var t = Temperature.FromKelvin(300);
+        var settings = Small(SamplingMethod.Metropolis);
+        Assert.Equal("landscape", Assert.Throws<ArgumentNullException>(() => PairSampler.Run<Morse>(null!, ArgonMass, t, settings)).ParamName);
+        Assert.Equal("settings", Assert.Throws<ArgumentNullException>(() => PairSampler.Run(IronLine, ArgonMass, t, null!)).ParamName);
+        // Without the check, zero chains would fail deep inside with an index error instead of naming the setting.
+        Assert.Contains("Chains", Assert.ThrowsAny<ArgumentException>(() => PairSampler.Run(IronLine, ArgonMass, t, settings with { Chains = 0 })).Message);
+        Assert.Contains("mass", Assert.ThrowsAny<ArgumentException>(() => PairSampler.Run(IronLine, default, t, settings)).Message);
+        Assert.Contains("temperature", Assert.ThrowsAny<ArgumentException>(() => PairSampler.Run(IronLine, ArgonMass, default, settings)).Message);
+    }
+
+    [Fact]
     public void Temperature_lists_must_be_non_empty_and_bounded()
     {
         var settings = Small(SamplingMethod.Direct);
