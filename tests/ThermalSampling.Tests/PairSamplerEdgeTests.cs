@@ -171,6 +171,17 @@ public class PairSamplerEdgeTests
         Assert.All(saved, c => Assert.Equal(1, c.ChainsPerVector));
     }
 
+    private static readonly Temperature[] Room = [Temperature.FromKelvin(300)];
+    private static readonly SamplingSettings ShortDirect = Small(SamplingMethod.Direct, samples: 3 * 4096);
+
+    /// <summary>The first checkpoint of a short direct run of <paramref name="landscape"/> at 300 K.</summary>
+    private static SamplingCheckpoint FirstCheckpoint<T>(PairLandscape<T> landscape) where T : struct, IPairPotential
+    {
+        var saved = new List<SamplingCheckpoint>();
+        PairSampler.SweepWithCheckpoints(landscape, ArgonMass, Room, ShortDirect, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
+        return saved[0];
+    }
+
     [Theory]
     [InlineData(0)]
     [InlineData(129)]
@@ -192,15 +203,12 @@ public class PairSamplerEdgeTests
             double r = lo + (hi - lo) * i / 256;
             Assert.True(i == bumpNode ? Bump(r) > 0 : Bump(r) == 0, $"node {i}");
         }
-        var temperatures = new[] { Temperature.FromKelvin(300) };
-        var settings = Small(SamplingMethod.Direct, samples: 3 * 4096);
-        var saved = new List<SamplingCheckpoint>();
-        PairSampler.SweepWithCheckpoints(a, ArgonMass, temperatures, settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
-        var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(b, ArgonMass, temperatures, settings, saved[0]));
+        var checkpoint = FirstCheckpoint(a);
+        var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(b, ArgonMass, Room, ShortDirect, checkpoint));
         Assert.Contains("differs from this run's", ex.Message);
         Assert.Contains("in its potential, window, sites or confinement", ex.Message);
         Assert.DoesNotContain("its mass is", ex.Message);
-        Assert.Single(PairSampler.Resume(a, ArgonMass, temperatures, settings, saved[0]));
+        Assert.Single(PairSampler.Resume(a, ArgonMass, Room, ShortDirect, checkpoint));
     }
 
     [Fact]
@@ -213,11 +221,8 @@ public class PairSamplerEdgeTests
         var a = PairLandscape.Line(flat, Length.FromAngstroms(2.0), Length.FromAngstroms(5.0));
         var b = PairLandscape.Line(flat, Length.FromAngstroms(2.0000001), Length.FromAngstroms(5.0));
         Assert.Equal(a.Description, b.Description);
-        var temperatures = new[] { Temperature.FromKelvin(300) };
-        var settings = Small(SamplingMethod.Direct, samples: 3 * 4096);
-        var saved = new List<SamplingCheckpoint>();
-        PairSampler.SweepWithCheckpoints(a, ArgonMass, temperatures, settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
-        var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(b, ArgonMass, temperatures, settings, saved[0]));
+        var checkpoint = FirstCheckpoint(a);
+        var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(b, ArgonMass, Room, ShortDirect, checkpoint));
         Assert.Contains("in its potential, window, sites or confinement", ex.Message);
     }
 
