@@ -166,12 +166,25 @@ public class PairSamplerEdgeTests
         var saved = new List<SamplingCheckpoint>();
         // The first checkpoint is written at the chains' second chunk boundary (draw 4096).
         var settings = Small(SamplingMethod.Direct, samples: 3 * 4096) with { Chains = 8, MaxThreads = 2 };
-        PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, [Temperature.FromKelvin(300)], settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
+        PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, Room, settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
         Assert.NotEmpty(saved);
         Assert.All(saved, c => Assert.Equal(1, c.ChainsPerVector));
     }
 
     private static readonly Temperature[] Room = [Temperature.FromKelvin(300)];
+
+    /// <summary>A synchronous progress sink and the list of every report it received.</summary>
+    private static (List<SamplingProgress> Seen, PairSamplerTests.SyncProgress Sink) ProgressLog()
+    {
+        var seen = new List<SamplingProgress>();
+        return (seen, new PairSamplerTests.SyncProgress(p =>
+        {
+            lock (seen)
+            {
+                seen.Add(p);
+            }
+        }));
+    }
     private static readonly SamplingSettings ShortDirect = Small(SamplingMethod.Direct, samples: 3 * 4096);
 
     /// <summary>The first checkpoint of a short direct run of <paramref name="landscape"/> at 300 K.</summary>
@@ -238,7 +251,7 @@ public class PairSamplerEdgeTests
             Assert.True(expected > 1, $"lanes {expected}");
         }
         var saved = new List<SamplingCheckpoint>();
-        PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, [Temperature.FromKelvin(300)], settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
+        PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, Room, settings, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
         Assert.NotEmpty(saved);
         Assert.All(saved, c => Assert.Equal(expected, c.ChainsPerVector));
     }
@@ -302,14 +315,7 @@ public class PairSamplerEdgeTests
     [Fact]
     public void Metropolis_progress_counts_burn_in_in_the_total()
     {
-        var seen = new List<SamplingProgress>();
-        var sink = new PairSamplerTests.SyncProgress(p =>
-        {
-            lock (seen)
-            {
-                seen.Add(p);
-            }
-        });
+        var (seen, sink) = ProgressLog();
         PairSampler.Run(IronLine, ArgonMass, Temperature.FromKelvin(300), Small(SamplingMethod.Metropolis, samples: 8192) with { BurnIn = 4096 }, sink);
         Assert.NotEmpty(seen);
         Assert.All(seen, p => Assert.Equal(4096 + 8192, p.ChainStepsTotal));
@@ -321,14 +327,7 @@ public class PairSamplerEdgeTests
     {
         // 10 × 4096 draws: the throttle interval is max(N/200, 4096) = 4096, so reports come at 0, 4096, …, 36864 and N.
         long n = 10 * 4096;
-        var seen = new List<SamplingProgress>();
-        var sink = new PairSamplerTests.SyncProgress(p =>
-        {
-            lock (seen)
-            {
-                seen.Add(p);
-            }
-        });
+        var (seen, sink) = ProgressLog();
         PairSampler.Run(IronLine, ArgonMass, Temperature.FromKelvin(300), Small(SamplingMethod.Direct, samples: n), sink);
         foreach (int chain in new[] { 0, 1 })
         {
