@@ -36,7 +36,7 @@ elif [[ $mode == pair ]]; then
   filter="FullyQualifiedName~PairSamplerTests|FullyQualifiedName~PairSamplerEdgeTests|FullyQualifiedName~HostileInputTests|(FullyQualifiedName~LaneKernelTests&FullyQualifiedName!~Site)|$fast_checkpoints"
 elif [[ $mode == site ]]; then
   mutate=(--mutate '**/Sampling/SiteSampler.cs' --mutate '**/Sampling/SiteKernels.cs')
-  filter="FullyQualifiedName~SiteSamplerTests|FullyQualifiedName~HostileInputTests|(FullyQualifiedName~LaneKernelTests&FullyQualifiedName~Site)|$fast_checkpoints"
+  filter="FullyQualifiedName~SiteSamplerTests|FullyQualifiedName~SiteSamplerEdgeTests|FullyQualifiedName~HostileInputTests|(FullyQualifiedName~LaneKernelTests&FullyQualifiedName~Site)|$fast_checkpoints"
 else
   mutate=(--mutate '**/Sampling/ChainInfrastructure.cs' --mutate '**/Sampling/SamplingSettings.cs')
   filter="FullyQualifiedName~RHatAndBlockTests|FullyQualifiedName~PairSamplerTests|FullyQualifiedName~PairSamplerEdgeTests|FullyQualifiedName~HostileInputTests|$fast_checkpoints"

@@ -1,0 +1,490 @@
+using System;
+using System.Collections.Generic;
+using System.Globalization;
+using System.Linq;
+using System.Text.RegularExpressions;
+using ThermalSampling.Analysis;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Randomness;
+using ThermalSampling.Reports;
+using ThermalSampling.Sampling;
+using ThermalSampling.Units;
+using Xunit;
+
+namespace ThermalSampling.Tests;
+
+/// <summary>
+/// Small, fast checks of the site sampler's edges, written against what the site mutation mode can change
+/// (docs/validation.md): every reported number rebuilt from the retained draws, the wall and escape warnings, the
+/// boundary probe points, the Metropolis starts and step widths, the acceptance target, the progress totals, the
+/// argument checks, the landscape fingerprint, the covariance accumulator and the log weight.
+/// </summary>
+public class SiteSamplerEdgeTests
+{
+    private static readonly Mass ArgonMass = Mass.FromAtomicMassUnits(39.948);
+    private static readonly LennardJones Lj = LennardJones.FromMinimum(Length.FromAngstroms(3.8), Energy.FromKelvin(119.8)); // Sources.Argon (eps)
+    private static readonly Temperature Thirty = Temperature.FromKelvin(30);
+    private static readonly Temperature[] ThirtyOnly = [Thirty];
+
+    private static Position[] CageSites() => LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.8)).ToArray();
+
+    /// <summary>Argon in its fcc neighbour cage (minimum at the origin), confined around <paramref name="centre"/>.</summary>
+    private static SiteLandscape<LennardJones> Cage(Position centre, Confinement confinement) => SiteLandscape.Create(Lj, CageSites(), centre, confinement);
+
+    private static readonly SiteLandscape<LennardJones> PlainCage = Cage(Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.2)));
+
+    private static SamplingSettings Small(SamplingMethod method, long samples = 4096) => new()
+    {
+        Seed = 11, Method = method, Chains = 2, SamplesPerChain = samples, BurnIn = 0, MaxThreads = 1,
+    };
+
+    private static Position[] AllDraws(SiteVibrationReport report) => report.Draws.Chains.SelectMany(c => c).ToArray();
+
+    public static TheoryData<string> Shapes => new() { "sphere", "box" };
+
+    [Theory]
+    [MemberData(nameof(Shapes))]
+    public void Direct_draws_rebuild_every_reported_number(string shape)
+    {
+        // Every draw is kept, so the report's moments and histogram can be recomputed from them. The confinement is
+        // centred 0.1 Å off the minimum, so the radial histogram must reach the far wall: size (sphere) or size·√3 (box
+        // corner), plus the offset. Direct draws are independent, so the error bars must be those of N independent values
+        // (common practice, no source): σ_i/√N for each mean component and √(Var|u − ū|²/N) for the MSD; 15 % allows for
+        // the estimated ESS.
+        const int n = 1 << 15, bins = 40;
+        var confinement = shape == "sphere" ? Confinement.Sphere(Length.FromAngstroms(1.2)) : Confinement.Box(Length.FromAngstroms(0.9));
+        var centre = new Position(0.1, 0, 0);
+        var landscape = Cage(centre, confinement);
+        var settings = Small(SamplingMethod.Direct, samples: n) with { RetainedDrawsPerChain = n, HistogramBins = bins };
+        var report = SiteSampler.Run(landscape, ArgonMass, Thirty, settings);
+        var draws = AllDraws(report);
+        int total = draws.Length;
+        Assert.Equal(2 * n, total);
+        Assert.Equal(total, report.Diagnostics.Draws);
+
+        double mx = draws.Average(p => p.X), my = draws.Average(p => p.Y), mz = draws.Average(p => p.Z);
+        Assert.Equal(mx, report.Mean.X, 1e-13);
+        Assert.Equal(my, report.Mean.Y, 1e-13);
+        Assert.Equal(mz, report.Mean.Z, 1e-13);
+        double C(Func<Position, double> a, Func<Position, double> b, double ma, double mb) => draws.Sum(p => (a(p) - ma) * (b(p) - mb)) / (total - 1);
+        var cov = report.Covariance;
+        Assert.Equal(C(p => p.X, p => p.X, mx, mx), cov.XX, 1e-9 * cov.XX);
+        Assert.Equal(C(p => p.Y, p => p.Y, my, my), cov.YY, 1e-9 * cov.XX);
+        Assert.Equal(C(p => p.Z, p => p.Z, mz, mz), cov.ZZ, 1e-9 * cov.XX);
+        Assert.Equal(C(p => p.X, p => p.Y, mx, my), cov.XY, 1e-9 * cov.XX);
+        Assert.Equal(C(p => p.X, p => p.Z, mx, mz), cov.XZ, 1e-9 * cov.XX);
+        Assert.Equal(C(p => p.Y, p => p.Z, my, mz), cov.YZ, 1e-9 * cov.XX);
+        double msd = report.MeanSquareDisplacement.Value;
+        Assert.Equal(cov.XX + cov.YY + cov.ZZ, msd, 1e-12 * msd);
+        Assert.Equal(report.Mean - report.Minimum, report.MeanShift);
+
+        Assert.Equal(Math.Sqrt(cov.XX / total), report.MeanStandardError.X, 0.15 * Math.Sqrt(cov.XX / total));
+        Assert.Equal(Math.Sqrt(cov.YY / total), report.MeanStandardError.Y, 0.15 * Math.Sqrt(cov.YY / total));
+        Assert.Equal(Math.Sqrt(cov.ZZ / total), report.MeanStandardError.Z, 0.15 * Math.Sqrt(cov.ZZ / total));
+        var q = draws.Select(p => (p.X - mx) * (p.X - mx) + (p.Y - my) * (p.Y - my) + (p.Z - mz) * (p.Z - mz)).ToArray();
+        double qMean = q.Average(), qVar = q.Sum(v => (v - qMean) * (v - qMean)) / (total - 1);
+        Assert.Equal(Math.Sqrt(qVar / total), report.MeanSquareDisplacement.StandardError, 0.15 * Math.Sqrt(qVar / total));
+        double b = 8 * Math.PI * Math.PI * msd / 3; // Sources.DebyeWaller
+        Assert.Equal(b, report.DebyeWallerB.Value, 1e-12 * b);
+        Assert.Equal(b * report.MeanSquareDisplacement.StandardError / msd, report.DebyeWallerB.StandardError, 1e-12 * b);
+
+        var h = report.RadialHistogram;
+        double offset = (report.Minimum - centre).Norm;
+        Assert.Equal(0.1, offset, 1e-6);
+        double reach = shape == "sphere" ? 1.2 : 0.9 * Math.Sqrt(3);
+        Assert.Equal(0, h.Lower);
+        Assert.Equal(reach + offset, h.Upper, 1e-12);
+        Assert.Equal(bins, h.Density.Length);
+        Assert.Equal(total, h.Count);
+        var counts = new long[bins];
+        double scale = bins / (h.Upper - h.Lower);
+        foreach (var p in draws)
+        {
+            double r = (p - report.Minimum).Norm;
+            counts[Math.Min((int)(r * scale), bins - 1)]++;
+        }
+        for (int i = 0; i < bins; i++)
+        {
+            Assert.Equal(counts[i] / (double)total / h.BinWidth, h.Density[i], 1e-9 * (1 + h.Density[i]));
+        }
+
+        // Envelope draws outside the confinement or rejected are proposals too; the run stays far above the 0.1 % floor.
+        Assert.InRange(report.Diagnostics.AcceptanceRate!.Value, 0.05, 0.999);
+        Assert.Null(report.Diagnostics.FinalStepWidthInAngstroms);
+        Assert.NotNull(report.Diagnostics.RHat);
+        Assert.NotEqual(report.Draws.Chains[0][0], report.Draws.Chains[1][0]);
+    }
+
+    [Theory]
+    [InlineData(SamplingMethod.Metropolis)]
+    [InlineData(SamplingMethod.Direct)]
+    public void A_tight_confinement_is_reported_with_the_fraction_of_draws_beside_its_wall_and_the_escape_barrier(SamplingMethod method)
+    {
+        // Invented: the argon cage at 30 K held in a sphere of 0.3 Å, under three harmonic RMS spreads. The wall mass is
+        // the fraction of draws within one harmonic RMS spread √(tr Σ/3) of the wall; every draw is kept, so it can be
+        // counted here and must print the same. The escape barrier is the lowest energy on the confinement's surface above
+        // the minimum, found here by an independent 181 × 360 grid in angles.
+        const int n = 1 << 14;
+        var sphere = Confinement.Sphere(Length.FromAngstroms(0.3));
+        var landscape = Cage(Position.Origin, sphere);
+        var settings = Small(method, samples: n) with { BurnIn = 4096, RetainedDrawsPerChain = n };
+        var report = SiteSampler.Run(landscape, ArgonMass, Thirty, settings);
+        double band = Math.Sqrt(report.Harmonic.ClassicalMeanSquareDisplacement / 3);
+        var draws = AllDraws(report);
+        double near = draws.Count(p => sphere.DistanceToWall(p.X, p.Y, p.Z) < band) / (double)draws.Length;
+        Assert.InRange(near, 0.1, 0.9);
+        var wall = Assert.Single(report.Warnings, w => w.Code == WarningCodes.WallMass);
+        Assert.Contains("hold about " + near.ToString("P2", CultureInfo.InvariantCulture), wall.Message);
+
+        double lowest = double.PositiveInfinity;
+        for (int i = 0; i <= 180; i++)
+        {
+            for (int j = 0; j < 360; j++)
+            {
+                double theta = Math.PI * i / 180, phi = 2 * Math.PI * j / 360;
+                var p = new Position(0.3 * Math.Sin(theta) * Math.Cos(phi), 0.3 * Math.Sin(theta) * Math.Sin(phi), 0.3 * Math.Cos(theta));
+                lowest = Math.Min(lowest, landscape.Energy(p));
+            }
+        }
+        double barrier = lowest - report.Harmonic.MinimumEnergyInElectronVolts;
+        var escape = Assert.Single(report.Warnings, w => w.Code == WarningCodes.EscapeRisk);
+        var match = Regex.Match(escape.Message, @"well depth \(([-0-9.eE+]+) eV\)");
+        Assert.True(match.Success, escape.Message);
+        Assert.Equal(barrier, double.Parse(match.Groups[1].Value, CultureInfo.InvariantCulture), 2e-3 * barrier);
+    }
+
+    [Fact]
+    public void A_roomy_confinement_raises_no_wall_or_escape_warning()
+    {
+        // The plain cage at 30 K in 1.2 Å: about ten RMS spreads to the wall, where the energy is far above kT.
+        var report = SiteSampler.Run(PlainCage, ArgonMass, Thirty, Small(SamplingMethod.Direct, samples: 8192));
+        Assert.DoesNotContain(report.Warnings, w => w.Code == WarningCodes.WallMass);
+        Assert.DoesNotContain(report.Warnings, w => w.Code == WarningCodes.EscapeRisk);
+    }
+
+    [Theory]
+    [MemberData(nameof(Shapes))]
+    public void Boundary_probe_points_lie_on_the_wall_and_cover_it_evenly(string shape)
+    {
+        // A golden-angle (Fibonacci) spiral of unit vectors, z = 1 − 2(i + ½)/n, put on the wall just inside it
+        // (common practice, no source). Even coverage: each octant gets an eighth of the points within 1 %.
+        const int n = 2000;
+        var centre = new Position(0.3, -0.2, 0.1);
+        var confinement = shape == "sphere" ? Confinement.Sphere(Length.FromAngstroms(1.2)) : Confinement.Box(Length.FromAngstroms(0.9));
+        var points = SiteSampler.BoundaryPoints(Cage(centre, confinement), n).ToArray();
+        Assert.Equal(n, points.Length);
+        var octants = new int[8];
+        for (int i = 0; i < n; i++)
+        {
+            var d = points[i] - centre;
+            if (shape == "sphere")
+            {
+                Assert.Equal(1.2, d.Norm, 1e-11);
+                Assert.Equal(1.2 * (1 - 2 * (i + 0.5) / n), d.Z, 1e-11);
+            }
+            else
+            {
+                Assert.Equal(0.9, Math.Max(Math.Abs(d.X), Math.Max(Math.Abs(d.Y), Math.Abs(d.Z))), 1e-11);
+            }
+            Assert.True(confinement.Contains(d.X, d.Y, d.Z), $"point {i} is outside");
+            octants[(d.X > 0 ? 1 : 0) + (d.Y > 0 ? 2 : 0) + (d.Z > 0 ? 4 : 0)]++;
+        }
+        Assert.All(octants, k => Assert.InRange(k, n / 8 - 20, n / 8 + 20));
+    }
+
+    [Fact]
+    public void Metropolis_chains_start_two_harmonic_spreads_out_along_their_own_streams()
+    {
+        // Chain c starts at min + 2·L·ξ, with L the Cholesky factor of the harmonic covariance and ξ the first three
+        // normal deviates of chain c's stream (retried until inside). A step of 1e-9 Å and no burn-in keep each chain's
+        // first draw at its start, and the reported step width stays the one asked for.
+        var settings = Small(SamplingMethod.Metropolis) with { Chains = 3, InitialStepWidthInAngstroms = 1e-9, RetainedDrawsPerChain = 1 };
+        var report = SiteSampler.Run(PlainCage, ArgonMass, Thirty, settings);
+        var l = report.Harmonic.ClassicalCovariance.ToMatrix().Cholesky().Factor;
+        var min = report.Minimum;
+        double sigma = Math.Sqrt(report.Harmonic.ClassicalMeanSquareDisplacement / 3);
+        for (int c = 0; c < 3; c++)
+        {
+            var random = RandomStream.ForChain(11, c);
+            double a = 2 * random.NextStandardNormal(), b = 2 * random.NextStandardNormal(), z = 2 * random.NextStandardNormal();
+            var expected = min + new Position(l[0, 0] * a, l[1, 0] * a + l[1, 1] * b, l[2, 0] * a + l[2, 1] * b + l[2, 2] * z);
+            var first = report.Draws.Chains[c][0];
+            Assert.True((first - expected).Norm < 1e-7, $"chain {c}: {first} against {expected}");
+            Assert.True((first - min).Norm > 0.5 * sigma, $"chain {c} starts at the minimum");
+        }
+        Assert.Equal(1e-9, report.Diagnostics.FinalStepWidthInAngstroms!.Value, 1e-20);
+    }
+
+    [Fact]
+    public void Metropolis_step_widths_default_to_the_optimal_scaling_and_are_capped_at_twice_the_confinement()
+    {
+        // Without burn-in the width is never adapted. The default is 2.38/√d times the narrowest harmonic spread, d = 3
+        // ([paper] Roberts, Gelman & Gilks 1997); a width asked for beyond 2 × the confinement size is cut to it.
+        var plain = SiteSampler.Run(PlainCage, ArgonMass, Thirty, Small(SamplingMethod.Metropolis));
+        double sigmaMin = Math.Sqrt(plain.Harmonic.Modes.Min(m => m.ClassicalVarianceInAngstromsSquared));
+        Assert.Equal(2.38 / Math.Sqrt(3) * sigmaMin, plain.Diagnostics.FinalStepWidthInAngstroms!.Value, 1e-12);
+        var wide = SiteSampler.Run(PlainCage, ArgonMass, Thirty, Small(SamplingMethod.Metropolis) with { InitialStepWidthInAngstroms = 100 });
+        Assert.Equal(2 * 1.2, wide.Diagnostics.FinalStepWidthInAngstroms!.Value, 1e-12);
+        Assert.True(wide.Diagnostics.AcceptanceRate < 0.05, $"acceptance {wide.Diagnostics.AcceptanceRate}");
+        Assert.Contains(wide.Warnings, w => w.Code == WarningCodes.AcceptanceOffTarget);
+    }
+
+    [Theory]
+    [InlineData(null)]
+    [InlineData(0.5)]
+    public void Metropolis_adapts_its_step_to_the_requested_acceptance(double? target)
+    {
+        // After a long burn-in the sampling phase accepts close to the target, 0.31 by default (common practice, no
+        // source; 0.05 is a margin for the chains' noise).
+        var settings = Small(SamplingMethod.Metropolis, samples: 20_000) with { BurnIn = 20_000, TargetAcceptance = target };
+        var report = SiteSampler.Run(PlainCage, ArgonMass, Thirty, settings);
+        double expected = target ?? SiteSampler.DefaultTargetAcceptance;
+        Assert.Equal(0.31, SiteSampler.DefaultTargetAcceptance);
+        Assert.InRange(report.Diagnostics.AcceptanceRate!.Value, expected - 0.05, expected + 0.05);
+        Assert.DoesNotContain(report.Warnings, w => w.Code == WarningCodes.AcceptanceOffTarget);
+    }
+
+    [Theory]
+    [InlineData(SamplingMethod.Metropolis, 4096 + 8192)]
+    [InlineData(SamplingMethod.Direct, 8192)]
+    public void Progress_counts_burn_in_only_for_metropolis(SamplingMethod method, long expectedTotal)
+    {
+        var seen = new List<SamplingProgress>();
+        var sink = new PairSamplerTests.SyncProgress(p =>
+        {
+            lock (seen)
+            {
+                seen.Add(p);
+            }
+        });
+        SiteSampler.Run(PlainCage, ArgonMass, Thirty, Small(method, samples: 8192) with { BurnIn = 4096 }, sink);
+        Assert.NotEmpty(seen);
+        Assert.All(seen, p => Assert.Equal(expectedTotal, p.ChainStepsTotal));
+        Assert.Contains(seen, p => p.ChainStepsDone == expectedTotal && p.ChainIndex == 1);
+    }
+
+    [Fact]
+    public void Every_entry_point_checks_its_arguments_before_any_work()
+    {
+        var settings = Small(SamplingMethod.Direct);
+        var options = new CheckpointOptions(TimeSpan.FromHours(1), _ => { });
+        Assert.Equal("landscape", Assert.Throws<ArgumentNullException>(() => SiteSampler.Run<LennardJones>(null!, ArgonMass, Thirty, settings)).ParamName);
+        Assert.Equal("settings", Assert.Throws<ArgumentNullException>(() => SiteSampler.Run(PlainCage, ArgonMass, Thirty, null!)).ParamName);
+        Assert.Contains("Chains", Assert.ThrowsAny<ArgumentException>(() => SiteSampler.Run(PlainCage, ArgonMass, Thirty, settings with { Chains = 0 })).Message);
+        Assert.Contains("mass", Assert.ThrowsAny<ArgumentException>(() => SiteSampler.Run(PlainCage, default, Thirty, settings)).Message);
+        Assert.Contains("temperature", Assert.ThrowsAny<ArgumentException>(() => SiteSampler.Run(PlainCage, ArgonMass, default, settings)).Message);
+        Assert.Equal("temperatures", Assert.Throws<ArgumentException>(() => SiteSampler.Sweep(PlainCage, ArgonMass, Array.Empty<Temperature>(), settings)).ParamName);
+        Assert.Equal("checkpoints", Assert.Throws<ArgumentNullException>(() =>
+            SiteSampler.SweepWithCheckpoints(PlainCage, ArgonMass, ThirtyOnly, settings, null!)).ParamName);
+        Assert.Equal("checkpoint", Assert.Throws<ArgumentNullException>(() =>
+            SiteSampler.Resume(PlainCage, ArgonMass, ThirtyOnly, settings, null!)).ParamName);
+        // A checkpointed sweep checks its settings and every temperature before it runs any.
+        Assert.Contains("Chains", Assert.ThrowsAny<ArgumentException>(() =>
+            SiteSampler.SweepWithCheckpoints(PlainCage, ArgonMass, ThirtyOnly, settings with { Chains = 0 }, options)).Message);
+        Assert.Contains("greater than 0", Assert.ThrowsAny<ArgumentException>(() =>
+            SiteSampler.SweepWithCheckpoints(PlainCage, ArgonMass, [Thirty, default], settings, options)).Message);
+    }
+
+    private static readonly SamplingSettings ShortDirect = Small(SamplingMethod.Direct, samples: 3 * 4096);
+
+    /// <summary>The first checkpoint of a short direct run of <paramref name="landscape"/> at 30 K.</summary>
+    private static SamplingCheckpoint FirstCheckpoint(SiteLandscape<LennardJones> landscape)
+    {
+        var saved = new List<SamplingCheckpoint>();
+        SiteSampler.SweepWithCheckpoints(landscape, ArgonMass, ThirtyOnly, ShortDirect, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
+        return saved[0];
+    }
+
+    public static TheoryData<string> Changes => new() { "centre", "size", "site" };
+
+    [Theory]
+    [MemberData(nameof(Changes))]
+    public void The_landscape_fingerprint_sees_changes_the_description_rounds_away(string change)
+    {
+        // Invented: the cage confined around (0.1, 0, 0) Å, and the same with the centre, the size or one site moved by
+        // 1e-7 Å, which the description (six significant digits) does not show. A checkpoint of the one must not resume
+        // the other.
+        var original = Cage(new Position(0.1, 0, 0), Confinement.Sphere(Length.FromAngstroms(1.2)));
+        var sites = CageSites();
+        var centre = new Position(0.1, 0, 0);
+        double size = 1.2;
+        switch (change)
+        {
+            case "centre": centre = new Position(0.1000001, 0, 0); break;
+            case "size": size = 1.2000001; break;
+            default: sites[5] = sites[5] + new Position(0, 1e-7, 0); break;
+        }
+        var changed = SiteLandscape.Create(Lj, sites, centre, Confinement.Sphere(Length.FromAngstroms(size)));
+        Assert.Equal(original.Description, changed.Description);
+        var checkpoint = FirstCheckpoint(original);
+        var ex = Assert.Throws<CheckpointException>(() => SiteSampler.Resume(changed, ArgonMass, ThirtyOnly, ShortDirect, checkpoint));
+        Assert.Contains("in its potential, window, sites or confinement", ex.Message);
+        Assert.Single(SiteSampler.Resume(original, ArgonMass, ThirtyOnly, ShortDirect, checkpoint));
+    }
+
+    [Fact]
+    public void The_landscape_fingerprint_sees_the_confinement_shape()
+    {
+        // A sphere and a box of the same size share every fingerprint energy (the grid ignores the walls); the shape
+        // itself must tell them apart, whatever the description says.
+        var box = Cage(Position.Origin, Confinement.Box(Length.FromAngstroms(1.2)));
+        var checkpoint = FirstCheckpoint(PlainCage);
+        var ex = Assert.Throws<CheckpointException>(() => SiteSampler.Resume(box, ArgonMass, ThirtyOnly, ShortDirect, checkpoint));
+        Assert.Contains("in its potential, window, sites or confinement", ex.Message);
+    }
+
+    /// <summary>Correlated, offset 3D points (invented).</summary>
+    private static (double X, double Y, double Z)[] Points(int count, ulong seed)
+    {
+        var random = RandomStream.FromSeed(seed);
+        var points = new (double, double, double)[count];
+        for (int i = 0; i < count; i++)
+        {
+            double x = 2 + random.NextStandardNormal(), y = -1 + 0.5 * x + random.NextStandardNormal(), z = 3 + 0.2 * y - 0.3 * x + 0.1 * random.NextStandardNormal();
+            points[i] = (x, y, z);
+        }
+        return points;
+    }
+
+    private static CovarianceAccumulator Accumulate(IEnumerable<(double X, double Y, double Z)> points)
+    {
+        var acc = new CovarianceAccumulator();
+        foreach (var (x, y, z) in points)
+        {
+            acc.Add(x, y, z);
+        }
+        return acc;
+    }
+
+    private static void AssertSame(in CovarianceAccumulator expected, in CovarianceAccumulator actual, double tolerance)
+    {
+        Assert.Equal(expected.Count, actual.Count);
+        double[] e = [expected.MeanX, expected.MeanY, expected.MeanZ, expected.Cxx, expected.Cyy, expected.Czz, expected.Cxy, expected.Cxz, expected.Cyz];
+        double[] a = [actual.MeanX, actual.MeanY, actual.MeanZ, actual.Cxx, actual.Cyy, actual.Czz, actual.Cxy, actual.Cxz, actual.Cyz];
+        for (int i = 0; i < e.Length; i++)
+        {
+            Assert.True(Math.Abs(e[i] - a[i]) <= tolerance * (1 + Math.Abs(e[i])), $"field {i}: {e[i]} against {a[i]}");
+        }
+    }
+
+    [Fact]
+    public void The_covariance_accumulator_matches_a_two_pass_computation_in_every_element()
+    {
+        // Two-pass mean and co-moments (common practice, no source) of 1000 correlated points, offset from the origin.
+        var points = Points(1000, 5);
+        var acc = Accumulate(points);
+        double mx = points.Average(p => p.X), my = points.Average(p => p.Y), mz = points.Average(p => p.Z);
+        double S(Func<(double X, double Y, double Z), double> f) => points.Sum(f);
+        var expected = new CovarianceAccumulator
+        {
+            Count = 1000, MeanX = mx, MeanY = my, MeanZ = mz,
+            Cxx = S(p => (p.X - mx) * (p.X - mx)), Cyy = S(p => (p.Y - my) * (p.Y - my)), Czz = S(p => (p.Z - mz) * (p.Z - mz)),
+            Cxy = S(p => (p.X - mx) * (p.Y - my)), Cxz = S(p => (p.X - mx) * (p.Z - mz)), Cyz = S(p => (p.Y - my) * (p.Z - mz)),
+        };
+        AssertSame(expected, acc, 1e-10);
+        var cov = acc.Covariance();
+        Assert.Equal(expected.Cxx / 999, cov.XX, 1e-12);
+        Assert.Equal(expected.Cyy / 999, cov.YY, 1e-12);
+        Assert.Equal(expected.Czz / 999, cov.ZZ, 1e-12);
+        Assert.Equal(expected.Cxy / 999, cov.XY, 1e-12);
+        Assert.Equal(expected.Cxz / 999, cov.XZ, 1e-12);
+        Assert.Equal(expected.Cyz / 999, cov.YZ, 1e-12);
+
+        // One point: a zero covariance, not a division by zero.
+        var one = Accumulate(points.Take(1));
+        Assert.Equal(new SymmetricTensor(0, 0, 0, 0, 0, 0), one.Covariance());
+        Assert.Equal(points[0].X, one.MeanX);
+    }
+
+    [Fact]
+    public void Merged_covariance_accumulators_equal_a_single_pass_in_every_element()
+    {
+        var points = Points(1000, 9);
+        var whole = Accumulate(points);
+        foreach (int cut in new[] { 1, 377, 999 })
+        {
+            AssertSame(whole, CovarianceAccumulator.Merge(Accumulate(points.Take(cut)), Accumulate(points.Skip(cut))), 1e-10);
+        }
+        var empty = new CovarianceAccumulator();
+        AssertSame(whole, CovarianceAccumulator.Merge(empty, whole), 0);
+        AssertSame(whole, CovarianceAccumulator.Merge(whole, empty), 0);
+        var none = CovarianceAccumulator.Merge(empty, empty);
+        Assert.Equal(0, none.Count);
+        Assert.False(double.IsNaN(none.MeanX) || double.IsNaN(none.Cxx), "two empty accumulators merge to an empty one, not NaN");
+    }
+
+    [Fact]
+    public void Covariance_blocks_from_raw_sums_about_a_reference_equal_the_streaming_accumulator()
+    {
+        // The vector chains sum deviations from the minimum; FromRawSums must turn those sums into the same block.
+        var points = Points(500, 13);
+        (double X, double Y, double Z) r = (1.9, -0.8, 3.1);
+        double sx = 0, sy = 0, sz = 0, sxx = 0, syy = 0, szz = 0, sxy = 0, sxz = 0, syz = 0;
+        foreach (var (x, y, z) in points)
+        {
+            double dx = x - r.X, dy = y - r.Y, dz = z - r.Z;
+            sx += dx; sy += dy; sz += dz;
+            sxx += dx * dx; syy += dy * dy; szz += dz * dz;
+            sxy += dx * dy; sxz += dx * dz; syz += dy * dz;
+        }
+        var block = CovarianceAccumulator.FromRawSums(points.Length, r.X, r.Y, r.Z, sx, sy, sz, sxx, syy, szz, sxy, sxz, syz);
+        AssertSame(Accumulate(points), block, 1e-9);
+        // Rounding can make Σd² − (Σd)²/n a hair negative for a constant coordinate: the diagonal is clamped at zero.
+        var flat = CovarianceAccumulator.FromRawSums(3, 0, 0, 0, 0.3, 0.3, 0.3, 0.03 - 1e-17, 0.03 - 1e-17, 0.03 - 1e-17, 0.03, 0.03, 0.03);
+        Assert.Equal(0, flat.Cxx);
+        Assert.Equal(0, flat.Cyy);
+        Assert.Equal(0, flat.Czz);
+    }
+
+    [Fact]
+    public void A_covariance_accumulator_survives_a_checkpoint_round_trip_bit_for_bit()
+    {
+        var acc = Accumulate(Points(321, 17));
+        var writer = new StateWriter();
+        acc.Save(writer);
+        var reader = new StateReader(writer.ToArray(), "test accumulator");
+        var loaded = CovarianceAccumulator.Load(reader);
+        reader.End();
+        AssertSame(acc, loaded, 0);
+    }
+
+    [Fact]
+    public void The_log_weight_is_minus_beta_times_the_energy_inside_and_minus_infinity_outside()
+    {
+        var landscape = Cage(new Position(0.05, 0, 0), Confinement.Sphere(Length.FromAngstroms(0.5)));
+        double beta = 1 / Thirty.ThermalEnergyInElectronVolts;
+        var weight = new SiteWeight<LennardJones>(landscape, beta);
+        foreach (var p in new[] { new Position(0, 0, 0), new Position(0.3, -0.2, 0.1), new Position(0.54, 0, 0) })
+        {
+            Assert.Equal(-beta * landscape.Energy(p), weight.LogWeight(p.X, p.Y, p.Z), 1e-12 * Math.Abs(beta * landscape.Energy(p)));
+        }
+        // Just outside the wall, on both sides of the off-origin centre.
+        Assert.Equal(double.NegativeInfinity, weight.LogWeight(0.5501, 0, 0));
+        Assert.Equal(double.NegativeInfinity, weight.LogWeight(-0.4501, 0, 0));
+        Assert.Equal(double.NegativeInfinity, weight.LogWeight(0.05, 0.5001, 0));
+        Assert.Equal(double.NegativeInfinity, weight.LogWeight(0.05, 0, -0.5001));
+    }
+
+    [Fact]
+    public void The_log_weight_refuses_a_nan_or_minus_infinite_energy_and_names_the_potential()
+    {
+        // Invented: a Buckingham pair (A = 1000 eV, ρ = 0.3 Å, C = 20 eV·Å⁶) falls to −∞ on top of a site, and its sum
+        // with Lennard-Jones is ∞ − ∞ = NaN there. The confinement (4 Å) takes in the cage's sites, so both can be reached.
+        var buckingham = new Buckingham(Energy.FromElectronVolts(1000), Length.FromAngstroms(0.3), 20);
+        var site = CageSites()[0];
+        var wide = Confinement.Sphere(Length.FromAngstroms(4));
+        var falling = new SiteWeight<Buckingham>(SiteLandscape.Create(buckingham, CageSites(), Position.Origin, wide), 1);
+        Assert.True(double.IsFinite(falling.LogWeight(0, 0, 0)));
+        var minusInfinity = Assert.Throws<NonFiniteEnergyException>(() => falling.LogWeight(site.X, site.Y, site.Z));
+        Assert.Equal(double.NegativeInfinity, minusInfinity.ReturnedEnergy);
+        Assert.Contains(buckingham.Description, minusInfinity.Message);
+        var sum = new SumPotential<LennardJones, Buckingham>(Lj, buckingham);
+        var undefined = new SiteWeight<SumPotential<LennardJones, Buckingham>>(SiteLandscape.Create(sum, CageSites(), Position.Origin, wide), 1);
+        var nan = Assert.Throws<NonFiniteEnergyException>(() => undefined.LogWeight(site.X, site.Y, site.Z));
+        Assert.True(double.IsNaN(nan.ReturnedEnergy));
+        // A plain +∞ (Lennard-Jones on top of a site) is a zero weight, not an error.
+        var lj = new SiteWeight<LennardJones>(SiteLandscape.Create(Lj, CageSites(), Position.Origin, wide), 1);
+        Assert.Equal(double.NegativeInfinity, lj.LogWeight(site.X, site.Y, site.Z));
+    }
+}
