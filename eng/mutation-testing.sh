@@ -39,7 +39,7 @@ elif [[ $mode == site ]]; then
   filter="FullyQualifiedName~SiteSamplerTests|FullyQualifiedName~SiteSamplerEdgeTests|FullyQualifiedName~HostileInputTests|(FullyQualifiedName~LaneKernelTests&FullyQualifiedName~Site)|$fast_checkpoints"
 else
   mutate=(--mutate '**/Sampling/ChainInfrastructure.cs' --mutate '**/Sampling/SamplingSettings.cs')
-  filter="FullyQualifiedName~RHatAndBlockTests|FullyQualifiedName~PairSamplerTests|FullyQualifiedName~PairSamplerEdgeTests|FullyQualifiedName~HostileInputTests|$fast_checkpoints"
+  filter="FullyQualifiedName~ChainInfrastructureTests|FullyQualifiedName~RHatAndBlockTests|FullyQualifiedName~PairSamplerTests|FullyQualifiedName~PairSamplerEdgeTests|FullyQualifiedName~HostileInputTests|$fast_checkpoints"
 fi
 # Serial test classes, so that Stryker credits each mutant to the tests that really reach it (see the test project file).
 export ThermalSamplingSerialTests=true

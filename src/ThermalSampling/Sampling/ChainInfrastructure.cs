@@ -361,6 +361,12 @@ internal static class ChainDiagnostics
     /// <summary>Var(x̄_c) = Var(Y)·τ_Y/M of one chain from its M batch means Y and their autocorrelation estimate.</summary>
     private static double VarianceOfChainMean(double[] y, AutocorrelationEstimate est)
     {
+        // Identical values (a chain that never moved) have no variance, even though their computed mean can be an ulp off
+        // and leave ulp-sized deviations, which would claim an effective sample size of ten times the draws.
+        if (Array.TrueForAll(y, v => v == y[0]))
+        {
+            return 0;
+        }
         double meanY = y.Average(), varY = 0;
         foreach (double v in y)
         {
