@@ -46,6 +46,7 @@ public class PairSamplerEdgeTests
         Assert.Equal(0, table.CumulativeProbability(2.0));
         Assert.Equal(1, table.CumulativeProbability(5.0));
         Assert.Equal(1, table.CumulativeProbability(7.0));
+        Assert.Equal("exact", Assert.Throws<ArgumentNullException>(() => InverseCdfTable.Build(null!)).ParamName);
         // Break points are cell edges, where the table's CDF is exact up to the quadrature's error.
         var inside = exact.BreakPoints.Where(b => b > 2.0 && b < 5.0).ToArray();
         Assert.NotEmpty(inside);
@@ -278,6 +279,9 @@ public class PairSamplerEdgeTests
         Assert.All(report.Draws.Chains, c => Assert.Equal(50, c.Length));
         Assert.All(report.Draws.Chains, c => Assert.All(c, r => Assert.InRange(r, 2.0, 5.0)));
         Assert.NotEqual(report.Draws.Chains[0][0], report.Draws.Chains[1][0]);
+        // Direct draws have no proposal width and no acceptance rate.
+        Assert.Null(report.Diagnostics.FinalStepWidthInAngstroms);
+        Assert.Null(report.Diagnostics.AcceptanceRate);
     }
 
     [Fact]
@@ -326,9 +330,10 @@ public class PairSamplerEdgeTests
     public void Direct_chains_report_progress_every_4096_draws_and_once_at_the_end()
     {
         // 10 × 4096 draws: the throttle interval is max(N/200, 4096) = 4096, so reports come at 0, 4096, …, 36864 and N.
+        // A burn-in setting does not apply to direct draws and is not in the total.
         long n = 10 * 4096;
         var (seen, sink) = ProgressLog();
-        PairSampler.Run(IronLine, ArgonMass, Temperature.FromKelvin(300), Small(SamplingMethod.Direct, samples: n), sink);
+        PairSampler.Run(IronLine, ArgonMass, Temperature.FromKelvin(300), Small(SamplingMethod.Direct, samples: n) with { BurnIn = 4096 }, sink);
         foreach (int chain in new[] { 0, 1 })
         {
             var done = seen.Where(p => p.ChainIndex == chain).Select(p => p.ChainStepsDone).ToArray();
