@@ -471,7 +471,8 @@ public static class SiteSampler
                 }
             }
             double acceptance = sumAccept / probes;
-            if (inside == 0 || acceptance < 1e-3)
+            // Written so that a NaN bound or acceptance is refused too: the sampling loop below could never accept against it.
+            if (inside == 0 || !(acceptance >= 1e-3) || !double.IsFinite(bound))
             {
                 throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture,
                     $"Direct sampling would accept only {acceptance:P3} of its Gaussian envelope draws (log bound {bound:G4}): the well is too far from harmonic inside this confinement. Use Metropolis."));
