@@ -92,8 +92,13 @@ public sealed class RHatAndBlockTests
     {
         Assert.Contains("chains", Assert.Throws<ArgumentException>(() => RHat.Compute(new[] { new double[10] })).Message, StringComparison.Ordinal);
         Assert.Throws<ArgumentException>(() => RHat.Compute(new[] { new double[10], new double[9] }));
-        Assert.Throws<ArgumentException>(() => RHat.Compute(new[] { new double[3], new double[3] }));
-        Assert.ThrowsAny<ArgumentException>(() => RHat.Compute(new[] { new[] { 1.0, 2, 3, double.NaN }, new[] { 1.0, 2, 3, 4 } }));
+        var tooShort = Assert.Throws<ArgumentException>(() => RHat.Compute(new[] { new double[3], new double[3] }));
+        Assert.Equal("chains", tooShort.ParamName);
+        Assert.Contains("at least 4 draws each", tooShort.Message);
+        Assert.Equal("chains", Assert.ThrowsAny<ArgumentException>(() => RHat.Compute(new[] { new[] { 1.0, 2, 3, double.NaN }, new[] { 1.0, 2, 3, 4 } })).ParamName);
+        Assert.Equal("chains", Assert.Throws<ArgumentNullException>(() => RHat.Compute(null!)).ParamName);
+        // Four draws each is the documented minimum, and is accepted.
+        Assert.True(double.IsFinite(RHat.Compute(new[] { new[] { 1.0, 2, 3, 4 }, new[] { 1.5, 2.5, 3.5, 0.5 } })));
     }
 
     /// <summary>Reference: MathNet's DescriptiveStatistics (an independent library), over several blocks of 4096 and a partial one.</summary>

@@ -52,6 +52,9 @@ public sealed class WrapperAndBlockingTests
         Assert.Equal(0.0, cut.Energy(rc), 15);
         Assert.Equal(0.0, cut.Energy(rc - 1e-9), 12);
         Assert.Equal(0.0, cut.EnergyAtSquaredDistance(rc * rc));
+        // Beyond the cut-off it is zero, not the inner energy minus the shift (which is zero only at r_c itself).
+        Assert.Equal(0.0, cut.Energy(rc + 1));
+        Assert.Equal(0.0, cut.EnergyAtSquaredDistance((rc + 1) * (rc + 1)));
         Assert.Equal(default, cut.Derivatives(rc + 1));
         var well = cut.Well!;
         Assert.Equal(Lj.Energy(3.8) - shift, well.MinimumEnergy, 15);
