@@ -175,7 +175,7 @@ public class PairSamplerEdgeTests
     private static readonly Temperature[] Room = [Temperature.FromKelvin(300)];
 
     /// <summary>A synchronous progress sink and the list of every report it received.</summary>
-    private static (List<SamplingProgress> Seen, PairSamplerTests.SyncProgress Sink) ProgressLog()
+    internal static (List<SamplingProgress> Seen, PairSamplerTests.SyncProgress Sink) ProgressLog()
     {
         var seen = new List<SamplingProgress>();
         return (seen, new PairSamplerTests.SyncProgress(p =>

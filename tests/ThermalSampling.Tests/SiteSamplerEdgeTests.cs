@@ -250,14 +250,7 @@ public class SiteSamplerEdgeTests
     [InlineData(SamplingMethod.Direct, 8192)]
     public void Progress_counts_burn_in_only_for_metropolis(SamplingMethod method, long expectedTotal)
     {
-        var seen = new List<SamplingProgress>();
-        var sink = new PairSamplerTests.SyncProgress(p =>
-        {
-            lock (seen)
-            {
-                seen.Add(p);
-            }
-        });
+        var (seen, sink) = PairSamplerEdgeTests.ProgressLog();
         SiteSampler.Run(PlainCage, ArgonMass, Thirty, Small(method, samples: 8192) with { BurnIn = 4096 }, sink);
         Assert.NotEmpty(seen);
         Assert.All(seen, p => Assert.Equal(expectedTotal, p.ChainStepsTotal));
