@@ -445,18 +445,25 @@ public class SiteSamplerEdgeTests
     [Fact]
     public void The_log_weight_is_minus_beta_times_the_energy_inside_and_minus_infinity_outside()
     {
-        var landscape = Cage(new Position(0.05, 0, 0), Confinement.Sphere(Length.FromAngstroms(0.5)));
+        // Invented: the fcc(111) hollow's sites, which have no centre of symmetry (a mirrored site would give another
+        // energy), confined in 0.5 Å around a centre off the start in all three directions.
+        var g = LatticeSites.FccSurface(SurfaceFacet.Fcc111, AdsorptionSiteKind.Hollow, Length.FromAngstroms(3.8));
+        var c = g.Start + new Position(0.05, -0.04, 0.03);
+        var landscape = SiteLandscape.Create(Lj, g.Sites, c, Confinement.Sphere(Length.FromAngstroms(0.5)));
         double beta = 1 / Thirty.ThermalEnergyInElectronVolts;
         var weight = new SiteWeight<LennardJones>(landscape, beta);
-        foreach (var p in new[] { new Position(0, 0, 0), new Position(0.3, -0.2, 0.1), new Position(0.54, 0, 0) })
+        foreach (var d in new[] { new Position(0, 0, 0), new Position(0.3, -0.2, 0.1), new Position(0.49, 0, 0), new Position(0, 0, -0.49) })
         {
+            var p = c + d;
             Assert.Equal(-beta * landscape.Energy(p), weight.LogWeight(p.X, p.Y, p.Z), 1e-12 * Math.Abs(beta * landscape.Energy(p)));
         }
-        // Just outside the wall, on both sides of the off-origin centre.
-        Assert.Equal(double.NegativeInfinity, weight.LogWeight(0.5501, 0, 0));
-        Assert.Equal(double.NegativeInfinity, weight.LogWeight(-0.4501, 0, 0));
-        Assert.Equal(double.NegativeInfinity, weight.LogWeight(0.05, 0.5001, 0));
-        Assert.Equal(double.NegativeInfinity, weight.LogWeight(0.05, 0, -0.5001));
+        // Just outside the wall, along each axis on both sides of the off-start centre.
+        foreach (var d in new[] { new Position(0.5001, 0, 0), new Position(-0.5001, 0, 0), new Position(0, 0.5001, 0), new Position(0, -0.5001, 0),
+            new Position(0, 0, 0.5001), new Position(0, 0, -0.5001) })
+        {
+            var p = c + d;
+            Assert.Equal(double.NegativeInfinity, weight.LogWeight(p.X, p.Y, p.Z));
+        }
     }
 
     [Fact]
@@ -471,11 +478,13 @@ public class SiteSamplerEdgeTests
         Assert.True(double.IsFinite(falling.LogWeight(0, 0, 0)));
         var minusInfinity = Assert.Throws<NonFiniteEnergyException>(() => falling.LogWeight(site.X, site.Y, site.Z));
         Assert.Equal(double.NegativeInfinity, minusInfinity.ReturnedEnergy);
+        Assert.Equal(0, minusInfinity.Separation); // the failing pair's separation, not the position's distance from the origin
         Assert.Contains(buckingham.Description, minusInfinity.Message);
         var sum = new SumPotential<LennardJones, Buckingham>(Lj, buckingham);
         var undefined = new SiteWeight<SumPotential<LennardJones, Buckingham>>(SiteLandscape.Create(sum, CageSites(), Position.Origin, wide), 1);
         var nan = Assert.Throws<NonFiniteEnergyException>(() => undefined.LogWeight(site.X, site.Y, site.Z));
         Assert.True(double.IsNaN(nan.ReturnedEnergy));
+        Assert.Equal(0, nan.Separation);
         // A plain +∞ (Lennard-Jones on top of a site) is a zero weight, not an error.
         var lj = new SiteWeight<LennardJones>(SiteLandscape.Create(Lj, CageSites(), Position.Origin, wide), 1);
         Assert.Equal(double.NegativeInfinity, lj.LogWeight(site.X, site.Y, site.Z));

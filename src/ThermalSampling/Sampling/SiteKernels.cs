@@ -30,7 +30,7 @@ internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPair
         _description = landscape.Potential.Description;
     }
 
-    /// <summary>The log weight at (x, y, z), Å; throws <see cref="NonFiniteEnergyException"/> for a NaN or −∞ energy.</summary>
+    /// <summary>The log weight at (x, y, z), Å; throws <see cref="NonFiniteEnergyException"/> for a NaN or −∞ energy, naming the separation of the pair that caused it.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     internal double LogWeight(double x, double y, double z)
     {
@@ -47,9 +47,33 @@ internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPair
         }
         if (double.IsNaN(e) || double.IsNegativeInfinity(e))
         {
-            throw new NonFiniteEnergyException(Math.Sqrt(x * x + y * y + z * z), e, _description);
+            throw new NonFiniteEnergyException(OffendingSeparation(x, y, z), e, _description);
         }
         return -_beta * e;
+    }
+
+    /// <summary>
+    /// The separation of the pair that made the sum NaN or −∞ (only on that error path): the first pair whose own energy
+    /// is NaN or −∞, or else the first infinite one (a sum of +∞ and −∞ from two pairs).
+    /// </summary>
+    private double OffendingSeparation(double x, double y, double z)
+    {
+        var s = _sites;
+        double firstInfinite = double.NaN;
+        for (int i = 0; i < s.Length; i += 3)
+        {
+            double dx = x - s[i], dy = y - s[i + 1], dz = z - s[i + 2], r2 = dx * dx + dy * dy + dz * dz;
+            double pair = _potential.EnergyAtSquaredDistance(r2);
+            if (double.IsNaN(pair) || double.IsNegativeInfinity(pair))
+            {
+                return Math.Sqrt(r2);
+            }
+            if (double.IsInfinity(pair) && double.IsNaN(firstInfinite))
+            {
+                firstInfinite = Math.Sqrt(r2);
+            }
+        }
+        return firstInfinite;
     }
 }
 
