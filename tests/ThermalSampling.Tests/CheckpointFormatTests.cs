@@ -34,19 +34,9 @@ public class CheckpointFormatTests
     /// <summary>Every checkpoint of a short two-temperature sweep (a checkpoint at every chunk boundary), as bytes.</summary>
     private static List<byte[]> Sweep(SamplingSettings settings, string? applicationData = null)
     {
-        var saved = new List<byte[]>();
-        var options = new CheckpointOptions(TimeSpan.Zero, c =>
-        {
-            var m = new MemoryStream();
-            c.WriteTo(m);
-            lock (saved)
-            {
-                saved.Add(m.ToArray());
-            }
-        })
-        { ApplicationData = applicationData };
-        PairSampler.SweepWithCheckpoints(Line, Argon, TwoTemperatures, settings, options);
-        return saved;
+        var keeper = new CheckpointTests.Keeper();
+        PairSampler.SweepWithCheckpoints(Line, Argon, TwoTemperatures, settings, keeper.Options(TimeSpan.Zero, applicationData));
+        return keeper.Saved.ToList();
     }
 
     private static SamplingCheckpoint Read(byte[] bytes) => SamplingCheckpoint.ReadFrom(new MemoryStream(bytes));

@@ -69,11 +69,11 @@ public sealed class CheckpointTests
     private static string Bits(IEnumerable<SiteVibrationReport> reports) => string.Join("\n", reports.Select(Bits));
 
     /// <summary>Keeps every checkpoint of a run, as the bytes a file would hold.</summary>
-    private sealed class Keeper
+    internal sealed class Keeper
     {
         private readonly List<byte[]> _saved = new();
 
-        internal CheckpointOptions Options(TimeSpan interval) => new(interval, c =>
+        internal CheckpointOptions Options(TimeSpan interval, string? applicationData = null) => new(interval, c =>
         {
             var m = new MemoryStream();
             c.WriteTo(m);
@@ -81,7 +81,8 @@ public sealed class CheckpointTests
             {
                 _saved.Add(m.ToArray());
             }
-        });
+        })
+        { ApplicationData = applicationData };
 
         internal IReadOnlyList<byte[]> Saved => _saved;
     }

@@ -471,8 +471,13 @@ public static class SiteSampler
                 }
             }
             double acceptance = sumAccept / probes;
-            // Written so that a NaN bound or acceptance is refused too: the sampling loop below could never accept against it.
-            if (inside == 0 || !(acceptance >= 1e-3) || !double.IsFinite(bound))
+            // A NaN bound or acceptance would make the sampling loop spin forever: no draw could ever be accepted against it.
+            if (!double.IsFinite(bound) || double.IsNaN(acceptance))
+            {
+                throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture,
+                    $"Direct sampling could not bound the Boltzmann weight by its Gaussian envelope (log bound {bound:G4}, acceptance {acceptance:G4}): the landscape's energies are not finite numbers near the minimum. Use Metropolis, and check the potential."));
+            }
+            if (inside == 0 || acceptance < 1e-3)
             {
                 throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture,
                     $"Direct sampling would accept only {acceptance:P3} of its Gaussian envelope draws (log bound {bound:G4}): the well is too far from harmonic inside this confinement. Use Metropolis."));
