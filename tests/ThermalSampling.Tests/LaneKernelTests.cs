@@ -267,6 +267,53 @@ public sealed class LaneKernelTests
         Assert.Contains("invented faulty band", ex.Message, StringComparison.Ordinal);
     }
 
+    // Site A, and the centre of a 0.25 Å sphere 1.5 Å from it (FaultyBand's minimum); site B 2.5 Å from the centre, whose
+    // pair energy stays finite. A pair separation in (1.55, 1.56) Å can only be the particle's distance to A.
+    private static readonly Position FaultySiteA = new(0.7, -0.2, 0.4), FaultyCentre = new(2.2, -0.2, 0.4);
+
+    private static SiteLaneChains.Plan<FaultyBand> FaultySitePlan(double bad, long burnIn)
+        => new(new FaultyBand(bad), [FaultySiteA.X, FaultySiteA.Y, FaultySiteA.Z, FaultyCentre.X, FaultyCentre.Y + 2.5, FaultyCentre.Z],
+            FaultyCentre, Confinement.Sphere(Length.FromAngstroms(0.25)), FaultyCentre, 0.1, 0, 0.1, 0, 0, 0.1, 40.0, 0.5, 0.44, 1.0, 0.02,
+            burnIn, 100_000, 5, "invented faulty band");
+
+    private static SiteLaneChains.ChainOutcome[] RunFaultySites(SiteLaneChains.Plan<FaultyBand> plan, int lanes, Func<int, Position> start)
+        => SiteLaneChains.Run(lanes, plan, 0, lanes, c => (RandomStream.ForChain(plan.Seed, c), start(c)),
+            c => ([new BatchMeansStore(plan.Samples, 1024, FaultyCentre.X), new BatchMeansStore(plan.Samples, 1024, FaultyCentre.Y), new BatchMeansStore(plan.Samples, 1024, FaultyCentre.Z)],
+                new BinCounter(0, 0.25, 20), new DrawRecorder<Position>(plan.Samples, 0)),
+            c => new ProgressReporter(null, c, plan.BurnIn + plan.Samples, 300), GroupCheckpoints.None, 0, default);
+
+    /// <summary>
+    /// The site lane kernel notes a fault without its position and finds it again by replaying the chunk; the error must
+    /// name the separation of the pair that failed (in the band), not the current position's distance from anything.
+    /// </summary>
+    [Theory]
+    [InlineData(double.NaN, 8, 1000)]
+    [InlineData(double.NegativeInfinity, 4, 1000)]
+    [InlineData(double.NaN, 1, 0)]
+    [InlineData(double.NegativeInfinity, 2, 0)]
+    [InlineData(double.NaN, 2, 1000)]
+    public void ANonFiniteEnergyStopsTheSiteLaneKernelWithThePairSeparation(double bad, int lanes, long burnIn)
+    {
+        var plan = FaultySitePlan(bad, burnIn);
+        var ex = Assert.Throws<NonFiniteEnergyException>(() => RunFaultySites(plan, lanes, c => FaultyCentre + new Position(0, 0.01 * c, 0)));
+        Assert.InRange(ex.Separation, 1.55, 1.56);
+        Assert.Equal(bad, ex.ReturnedEnergy);
+        Assert.Contains("invented faulty band", ex.Message, StringComparison.Ordinal);
+        Assert.Contains(" at r = ", ex.Message, StringComparison.Ordinal);
+    }
+
+    [Theory]
+    [InlineData(double.NaN, 4)]
+    [InlineData(double.NegativeInfinity, 1)]
+    public void AFaultyStartNamesTheSeparationOfItsPair(double bad, int lanes)
+    {
+        // The last chain starts 1.555 Å from A, inside the band (and 0.055 Å from the centre, inside the sphere).
+        var faulty = FaultySiteA + new Position(1.555, 0, 0);
+        var ex = Assert.Throws<NonFiniteEnergyException>(() => RunFaultySites(FaultySitePlan(bad, 1000), lanes, c => c == lanes - 1 ? faulty : FaultyCentre));
+        var d = faulty - FaultySiteA;
+        Assert.Equal(Math.Sqrt(d.X * d.X + d.Y * d.Y + d.Z * d.Z), ex.Separation);
+    }
+
     [Theory]
     [InlineData(0)]
     [InlineData(3)]

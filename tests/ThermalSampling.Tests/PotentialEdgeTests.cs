@@ -232,4 +232,17 @@ public sealed class PotentialEdgeTests
         Assert.Null(WellLocator.FindLowestMinimum(r => 1 / r, r => r < 1 ? double.NaN : -1 / (r * r), 0, 2, 10));
         Assert.Equal(1.5, WellLocator.FindLowestMinimum(r => (r - 1.5) * (r - 1.5), r => r < 1 ? double.NegativeInfinity : 2 * (r - 1.5), 0, 3, 7)!.Value, 1e-9);
     }
+
+    [Fact]
+    public void A_non_finite_energy_error_says_so_when_its_separation_is_not_known()
+    {
+        var known = new NonFiniteEnergyException(1.25, double.NaN, "invented");
+        Assert.Equal("The potential 'invented' returned NaN at r = 1.25 Å; energies must be finite inside the window.", known.Message);
+        var unknown = new NonFiniteEnergyException(double.NaN, double.NegativeInfinity, "invented");
+        Assert.True(double.IsNaN(unknown.Separation));
+        Assert.Equal(double.NegativeInfinity, unknown.ReturnedEnergy);
+        Assert.DoesNotContain("r = ", unknown.Message, StringComparison.Ordinal);
+        Assert.Contains("could not be recovered", unknown.Message, StringComparison.Ordinal);
+        Assert.StartsWith("The potential 'invented' returned -Infinity at a separation", unknown.Message, StringComparison.Ordinal);
+    }
 }

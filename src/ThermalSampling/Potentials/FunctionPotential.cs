@@ -129,18 +129,23 @@ public readonly struct FunctionPotential : IPairPotential
 public sealed class NonFiniteEnergyException : ArithmeticException
 {
     /// <summary>Creates the exception for separation <paramref name="separation"/> (Å) and value <paramref name="energy"/>.</summary>
-    /// <param name="separation">The separation, Å.</param>
+    /// <param name="separation">The separation, Å; NaN when it is not known (the message then says so).</param>
     /// <param name="energy">The non-finite energy that was returned.</param>
     /// <param name="potentialDescription">Which potential returned it.</param>
     public NonFiniteEnergyException(double separation, double energy, string potentialDescription)
-        : base(string.Create(CultureInfo.InvariantCulture,
-            $"The potential '{potentialDescription}' returned {energy:R} at r = {separation:R} Å; energies must be finite inside the window."))
+        : base(Describe(separation, energy, potentialDescription))
     {
         Separation = separation;
         ReturnedEnergy = energy;
     }
 
-    /// <summary>The separation in Å at which the energy was not finite.</summary>
+    private static string Describe(double separation, double energy, string potentialDescription) => double.IsNaN(separation)
+        ? string.Create(CultureInfo.InvariantCulture,
+            $"The potential '{potentialDescription}' returned {energy:R} at a separation that could not be recovered (a sum over pairs that overflowed, or a potential whose value changed between calls); energies must be finite inside the window.")
+        : string.Create(CultureInfo.InvariantCulture,
+            $"The potential '{potentialDescription}' returned {energy:R} at r = {separation:R} Å; energies must be finite inside the window.");
+
+    /// <summary>The separation in Å at which the energy was not finite; NaN when it could not be recovered.</summary>
     public double Separation { get; }
 
     /// <summary>The value returned (NaN or ±∞).</summary>

@@ -111,12 +111,22 @@ internal static class LaneFaultCheck
         {
             return;
         }
+        int lane = FirstFaultedLane<TOps, TD, TB>(faults);
+        throw new NonFiniteEnergyException(TOps.Get(faults.Separation, lane), TOps.Get(faults.Energy, lane), description);
+    }
+
+    /// <summary>The first lane whose noted energy is −∞ or NaN (the last lane when none is).</summary>
+    internal static int FirstFaultedLane<TOps, TD, TB>(in LaneFaults<TD> faults)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
         int lane = 0;
         while (lane < TOps.Count - 1 && TOps.Get(faults.Energy, lane) > double.NegativeInfinity)
         {
             lane++;
         }
-        throw new NonFiniteEnergyException(TOps.Get(faults.Separation, lane), TOps.Get(faults.Energy, lane), description);
+        return lane;
     }
 }
 

@@ -47,23 +47,28 @@ internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPair
         }
         if (double.IsNaN(e) || double.IsNegativeInfinity(e))
         {
-            throw new NonFiniteEnergyException(OffendingSeparation(x, y, z), e, _description);
+            throw new NonFiniteEnergyException(SitePairs.OffendingSeparation(_potential, _sites, x, y, z), e, _description);
         }
         return -_beta * e;
     }
+}
 
+/// <summary>Pair bookkeeping shared by the direct and the vector-lane site kernels, used only on their error paths.</summary>
+internal static class SitePairs
+{
     /// <summary>
-    /// The separation of the pair that made the sum NaN or −∞ (only on that error path): the first pair whose own energy
-    /// is NaN or −∞, or else the first infinite one (a sum of +∞ and −∞ from two pairs).
+    /// The separation of the pair that made the energy at (x, y, z) NaN or −∞: the first pair whose own energy is NaN or
+    /// −∞, or else the first infinite one (a sum of +∞ and −∞ from two pairs); NaN when no pair's energy there is
+    /// non-finite.
     /// </summary>
-    private double OffendingSeparation(double x, double y, double z)
+    internal static double OffendingSeparation<TPotential>(in TPotential potential, double[] sites, double x, double y, double z)
+        where TPotential : struct, IPairPotential
     {
-        var s = _sites;
         double firstInfinite = double.NaN;
-        for (int i = 0; i < s.Length; i += 3)
+        for (int i = 0; i < sites.Length; i += 3)
         {
-            double dx = x - s[i], dy = y - s[i + 1], dz = z - s[i + 2], r2 = dx * dx + dy * dy + dz * dz;
-            double pair = _potential.EnergyAtSquaredDistance(r2);
+            double dx = x - sites[i], dy = y - sites[i + 1], dz = z - sites[i + 2], r2 = dx * dx + dy * dy + dz * dz;
+            double pair = potential.EnergyAtSquaredDistance(r2);
             if (double.IsNaN(pair) || double.IsNegativeInfinity(pair))
             {
                 return Math.Sqrt(r2);

@@ -144,8 +144,13 @@ internal static class SiteLaneChains
                 int chunk = (int)Math.Min(ChunkSteps, steps - Step);
                 LaneAdaptation.FillGains(gains, Step, chunk);
                 _walk.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+                var before = _walk;
+                var logScaleBefore = _logScale;
                 _logScale = _kernel.AdaptChunk(ref _walk, _logScale, gains, chunk);
-                _kernel.ThrowIfFaulted(_walk);
+                if (!TOps.AllTrue(_walk.Faults.AllFinite))
+                {
+                    _kernel.ThrowAtFirstFault(before, _walk.Faults, logScaleBefore, gains, default, chunk);
+                }
             }
         }
 
@@ -164,8 +169,12 @@ internal static class SiteLaneChains
                 }
                 int chunk = (int)Math.Min(BlockSize - InBlock, Math.Min(samples - Step, ChunkSteps - (Step & (ChunkSteps - 1))));
                 _walk.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+                var before = _walk;
                 int closed = _kernel.RecordChunk(ref _walk, scale, chunk, Step, ref InBatch, batchSize, _tally);
-                _kernel.ThrowIfFaulted(_walk);
+                if (!TOps.AllTrue(_walk.Faults.AllFinite))
+                {
+                    _kernel.ThrowAtFirstFault(before, _walk.Faults, default, null, scale, chunk);
+                }
                 for (int k = 0; k < closed; k++)
                 {
                     for (int lane = 0; lane < records.Length; lane++)
@@ -296,17 +305,25 @@ internal static class SiteLaneChains
         {
             var e = Energy(x, y, z);
             var faults = LaneFaultCheck.None<TOps, TD, TB>();
-            LaneFaultCheck.Note<TOps, TD, TB>(ref faults, Distance(x, y, z), e);
-            LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _plan.Description);
+            LaneFaultCheck.Note<TOps, TD, TB>(ref faults, TOps.Broadcast(0.0), e);
+            if (!TOps.AllTrue(faults.AllFinite))
+            {
+                ThrowAt(faults, x, y, z);
+            }
             w.X = x;
             w.Y = y;
             w.Z = z;
             w.Energy = e;
         }
 
-        /// <summary>One step in every lane; returns the acceptance mask.</summary>
+        /// <summary>
+        /// One step in every lane; returns the acceptance mask and the point whose energy was evaluated (the proposal, or the
+        /// current point where the proposal left the confinement). The chunk loops discard that point, and their machine
+        /// code is the same as without it (the JIT listings were compared).
+        /// </summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Step(ref TD x, ref TD y, ref TD z, ref TD energy, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD scale, ref LaneFaults<TD> faults)
+        private TD Step(ref TD x, ref TD y, ref TD z, ref TD energy, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD scale, ref LaneFaults<TD> faults,
+            out TD evaluatedX, out TD evaluatedY, out TD evaluatedZ)
         {
             var a = TOps.Multiply(scale, LaneMath.NextOffsetPair<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, out var bUnit));
             var b = TOps.Multiply(scale, bUnit);
@@ -321,6 +338,7 @@ internal static class SiteLaneChains
             px = TOps.Select(inside, px, x);
             py = TOps.Select(inside, py, y);
             pz = TOps.Select(inside, pz, z);
+            (evaluatedX, evaluatedY, evaluatedZ) = (px, py, pz);
             var candidate = Energy(px, py, pz);
             LaneFaultCheck.Note<TOps, TD, TB>(ref faults, TOps.Broadcast(0.0), candidate);
             var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(TOps.Broadcast(-_plan.Beta), TOps.Subtract(candidate, energy)));
@@ -342,7 +360,8 @@ internal static class SiteLaneChains
             var logMax = TOps.Broadcast(Math.Log(_plan.MaxScale));
             for (int j = 0; j < chunk; j++)
             {
-                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale), ref faults);
+                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale), ref faults,
+                    out _, out _, out _);
                 logScale = LaneAdaptation.Update<TOps, TD, TB>(logScale, accept, _plan.TargetAcceptance, gains[j], logMax);
             }
             (w.X, w.Y, w.Z, w.Energy) = (x, y, z, energy);
@@ -351,15 +370,43 @@ internal static class SiteLaneChains
             return logScale;
         }
 
-        internal void ThrowIfFaulted(in SiteWalk<TD, TB> w)
+        /// <summary>
+        /// Throws for a chunk that noted a NaN or −∞ energy. The chunk loops keep no per-lane fault position (registers are
+        /// scarce there), so the chunk is replayed step by step from the walk as it was before it (<paramref name="before"/>;
+        /// with the burn-in's width and gains when <paramref name="gains"/> is set, else at the frozen <paramref name="scale"/>)
+        /// until the first step that faults, and the error names the separation of the pair that failed at the point
+        /// evaluated there. Only this error path pays for the replay.
+        /// </summary>
+        internal void ThrowAtFirstFault(SiteWalk<TD, TB> before, in LaneFaults<TD> noted, TD logScale, double[]? gains, TD scale, int chunk)
         {
-            // The fault's position is not kept per lane (registers are scarce here); the current position of the faulted lane is near it.
-            var f = w.Faults;
-            if (!TOps.AllTrue(f.AllFinite))
+            TD x = before.X, y = before.Y, z = before.Z, energy = before.Energy;
+            TB r0 = before.R0, r1 = before.R1, r2 = before.R2, r3 = before.R3;
+            var logMax = TOps.Broadcast(Math.Log(_plan.MaxScale));
+            for (int j = 0; j < chunk; j++)
             {
-                f.Separation = Distance(w.X, w.Y, w.Z);
-                LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(f, _plan.Description);
+                var faults = LaneFaultCheck.None<TOps, TD, TB>();
+                var width = gains is null ? scale : LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale);
+                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, width, ref faults, out var ex, out var ey, out var ez);
+                if (!TOps.AllTrue(faults.AllFinite))
+                {
+                    ThrowAt(faults, ex, ey, ez);
+                }
+                if (gains is not null)
+                {
+                    logScale = LaneAdaptation.Update<TOps, TD, TB>(logScale, accept, _plan.TargetAcceptance, gains[j], logMax);
+                }
             }
+            // Not reproduced (a potential whose value changes between calls): the noted energy, with no separation.
+            int lane = LaneFaultCheck.FirstFaultedLane<TOps, TD, TB>(noted);
+            throw new NonFiniteEnergyException(double.NaN, TOps.Get(noted.Energy, lane), _plan.Description);
+        }
+
+        /// <summary>Throws for the first faulted lane of <paramref name="faults"/>, naming the separation of the pair that failed at that lane's point.</summary>
+        private void ThrowAt(in LaneFaults<TD> faults, TD x, TD y, TD z)
+        {
+            int lane = LaneFaultCheck.FirstFaultedLane<TOps, TD, TB>(faults);
+            double separation = SitePairs.OffendingSeparation(_potential, _sites, TOps.Get(x, lane), TOps.Get(y, lane), TOps.Get(z, lane));
+            throw new NonFiniteEnergyException(separation, TOps.Get(faults.Energy, lane), _plan.Description);
         }
 
         /// <summary>A chunk of the recorded phase, with no calls inside; batches closed in it leave their sums in the tally.</summary>
@@ -396,7 +443,7 @@ internal static class SiteLaneChains
             long retain = Math.Max(0, Math.Min(chunk, tally.Retained - done));
             for (int j = 0; j < chunk; j++)
             {
-                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, scale, ref faults);
+                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, scale, ref faults, out _, out _, out _);
                 accepted = TOps.Add(accepted, TOps.Select(accept, one, zero));
 
                 // Deviations from the harmonic minimum (within the confinement, so small): the covariance block sums (converted
