@@ -34,6 +34,17 @@ public class SiteSamplerEdgeTests
 
     private static readonly SiteLandscape<LennardJones> PlainCage = Cage(Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.2)));
 
+    /// <summary>The centre of symmetry, and so the minimum, of <see cref="Sheared"/>.</summary>
+    private static readonly Position ShearedCentre = new(3.1, -1.7, 2.4);
+
+    /// <summary>
+    /// Invented: the argon cage sheared (x += 0.12 y, y += 0.1 z, z += 0.08 x) and moved to <see cref="ShearedCentre"/>, so
+    /// that the minimum lies far from the origin and the harmonic covariance has off-diagonal elements: sign and offset
+    /// errors that the cage at the origin, with its diagonal covariance, cannot show.
+    /// </summary>
+    private static SiteLandscape<LennardJones> Sheared(Position centre, Confinement confinement)
+        => SiteLandscape.Create(Lj, CageSites().Select(q => ShearedCentre + new Position(q.X + 0.12 * q.Y, q.Y + 0.1 * q.Z, q.Z + 0.08 * q.X)), centre, confinement);
+
     private static SamplingSettings Small(SamplingMethod method, long samples = 4096) => new()
     {
         Seed = 11, Method = method, Chains = 2, SamplesPerChain = samples, BurnIn = 0, MaxThreads = 1,
@@ -43,9 +54,11 @@ public class SiteSamplerEdgeTests
 
     public static TheoryData<string> Shapes => new() { "sphere", "box" };
 
+    public static TheoryData<string, bool> ShapesAndCages => new() { { "sphere", false }, { "box", false }, { "sphere", true }, { "box", true } };
+
     [Theory]
-    [MemberData(nameof(Shapes))]
-    public void Direct_draws_rebuild_every_reported_number(string shape)
+    [MemberData(nameof(ShapesAndCages))]
+    public void Direct_draws_rebuild_every_reported_number(string shape, bool sheared)
     {
         // Every draw is kept, so the report's moments and histogram can be recomputed from them. The confinement is
         // centred 0.1 Å off the minimum, so the radial histogram must reach the far wall: size (sphere) or size·√3 (box
@@ -54,8 +67,8 @@ public class SiteSamplerEdgeTests
         // the estimated ESS.
         const int n = 1 << 15, bins = 40;
         var confinement = shape == "sphere" ? Confinement.Sphere(Length.FromAngstroms(1.2)) : Confinement.Box(Length.FromAngstroms(0.9));
-        var centre = new Position(0.1, 0, 0);
-        var landscape = Cage(centre, confinement);
+        var centre = (sheared ? ShearedCentre : Position.Origin) + new Position(0.1, 0, 0);
+        var landscape = sheared ? Sheared(centre, confinement) : Cage(centre, confinement);
         var settings = Small(SamplingMethod.Direct, samples: n) with { RetainedDrawsPerChain = n, HistogramBins = bins };
         var report = SiteSampler.Run(landscape, ArgonMass, Thirty, settings);
         var draws = AllDraws(report);
@@ -114,6 +127,44 @@ public class SiteSamplerEdgeTests
         Assert.Null(report.Diagnostics.FinalStepWidthInAngstroms);
         Assert.NotNull(report.Diagnostics.RHat);
         Assert.NotEqual(report.Draws.Chains[0][0], report.Draws.Chains[1][0]);
+
+        // The diagnostics, rebuilt from the same draws by the same batch-mean rules: the slowest axis's τ, the smallest ESS
+        // and the largest R-hat of the three axes, the x axis's blocking error, each axis's mean error from its own ESS,
+        // and the MSD error from the batch means of |u − ū|² summed over the three axes.
+        var min = report.Minimum;
+        var stores = report.Draws.Chains.Select(chain =>
+        {
+            var axis = new[]
+            {
+                new BatchMeansStore(n, settings.MaxDiagnosticValuesPerChain, min.X), new BatchMeansStore(n, settings.MaxDiagnosticValuesPerChain, min.Y),
+                new BatchMeansStore(n, settings.MaxDiagnosticValuesPerChain, min.Z),
+            };
+            foreach (var p in chain)
+            {
+                axis[0].Add(p.X);
+                axis[1].Add(p.Y);
+                axis[2].Add(p.Z);
+            }
+            return axis;
+        }).ToArray();
+        double[] variances = [cov.XX, cov.YY, cov.ZZ];
+        var axes = Enumerable.Range(0, 3)
+            .Select(i => ChainDiagnostics.Summarise(stores.Select(st => st[i].Means()).ToList(), stores[0][0].BatchSize, n, variances[i])).ToArray();
+        var d = report.Diagnostics;
+        Assert.Equal(axes.Max(a => a.Tau), d.AutocorrelationTime);
+        Assert.Equal(axes.Min(a => a.Ess), d.EffectiveSampleSize);
+        Assert.Equal(axes.Max(a => a.RHat!.Value), d.RHat!.Value);
+        Assert.Equal(axes[0].BlockingStandardError, d.BlockingStandardError);
+        Assert.Equal(new Position(Math.Sqrt(cov.XX / axes[0].Ess), Math.Sqrt(cov.YY / axes[1].Ess), Math.Sqrt(cov.ZZ / axes[2].Ess)), report.MeanStandardError);
+        double[] mean = [report.Mean.X, report.Mean.Y, report.Mean.Z];
+        var msdSeries = stores.Select(st =>
+        {
+            var sx = st[0].SquaredDeviationMeans(mean[0]);
+            var sy = st[1].SquaredDeviationMeans(mean[1]);
+            var sz = st[2].SquaredDeviationMeans(mean[2]);
+            return sx.Select((v, i) => v + sy[i] + sz[i]).ToArray();
+        }).ToList();
+        Assert.Equal(ChainDiagnostics.PooledMeanStandardError(msdSeries), report.MeanSquareDisplacement.StandardError);
     }
 
     [Theory]
@@ -193,15 +244,20 @@ public class SiteSamplerEdgeTests
         Assert.All(octants, k => Assert.InRange(k, n / 8 - 20, n / 8 + 20));
     }
 
-    [Fact]
-    public void Metropolis_chains_start_two_harmonic_spreads_out_along_their_own_streams()
+    [Theory]
+    [InlineData(false)]
+    [InlineData(true)]
+    public void Metropolis_chains_start_two_harmonic_spreads_out_along_their_own_streams(bool sheared)
     {
         // Chain c starts at min + 2·L·ξ, with L the Cholesky factor of the harmonic covariance and ξ the first three
         // normal deviates of chain c's stream (retried until inside). A step of 1e-9 Å and no burn-in keep each chain's
         // first draw at its start, and the reported step width stays the one asked for.
         var settings = Small(SamplingMethod.Metropolis) with { Chains = 3, InitialStepWidthInAngstroms = 1e-9, RetainedDrawsPerChain = 1 };
-        var report = SiteSampler.Run(PlainCage, ArgonMass, Thirty, settings);
+        var landscape = sheared ? Sheared(ShearedCentre, Confinement.Sphere(Length.FromAngstroms(1.2))) : PlainCage;
+        var report = SiteSampler.Run(landscape, ArgonMass, Thirty, settings);
         var l = report.Harmonic.ClassicalCovariance.ToMatrix().Cholesky().Factor;
+        Assert.True(!sheared || Math.Abs(l[1, 0]) > 0.05 * l[1, 1] && Math.Abs(l[2, 0]) > 0.05 * l[2, 2] && Math.Abs(l[2, 1]) > 0.05 * l[2, 2],
+            $"the sheared cage's Cholesky factor is nearly diagonal: {l}");
         var min = report.Minimum;
         double sigma = Math.Sqrt(report.Harmonic.ClassicalMeanSquareDisplacement / 3);
         for (int c = 0; c < 3; c++)
@@ -214,6 +270,98 @@ public class SiteSamplerEdgeTests
             Assert.True((first - min).Norm > 0.5 * sigma, $"chain {c} starts at the minimum");
         }
         Assert.Equal(1e-9, report.Diagnostics.FinalStepWidthInAngstroms!.Value, 1e-20);
+    }
+
+    [Fact]
+    public void A_metropolis_chain_with_no_start_inside_after_a_hundred_tries_starts_at_the_minimum()
+    {
+        // A sphere of 0.002 Å about the minimum: none of a chain's first 100 start candidates (two harmonic spreads out)
+        // falls inside it, which is checked here from each chain's stream, so every chain starts at the minimum itself.
+        var landscape = Cage(Position.Origin, Confinement.Sphere(Length.FromAngstroms(0.002)));
+        var settings = Small(SamplingMethod.Metropolis) with { Chains = 2, InitialStepWidthInAngstroms = 1e-9, RetainedDrawsPerChain = 1 };
+        var report = SiteSampler.Run(landscape, ArgonMass, Thirty, settings);
+        var l = report.Harmonic.ClassicalCovariance.ToMatrix().Cholesky().Factor;
+        var min = report.Minimum;
+        for (int c = 0; c < 2; c++)
+        {
+            var random = RandomStream.ForChain(11, c);
+            for (int attempt = 0; attempt < 100; attempt++)
+            {
+                double a = 2 * random.NextStandardNormal(), b = 2 * random.NextStandardNormal(), z = 2 * random.NextStandardNormal();
+                Assert.False(landscape.Contains(min + new Position(l[0, 0] * a, l[1, 0] * a + l[1, 1] * b, l[2, 0] * a + l[2, 1] * b + l[2, 2] * z)));
+            }
+            Assert.True((report.Draws.Chains[c][0] - min).Norm < 1e-7, $"chain {c} starts at {report.Draws.Chains[c][0]}, not at the minimum {min}");
+        }
+    }
+
+    [Theory]
+    [InlineData(SamplingMethod.Direct)]
+    [InlineData(SamplingMethod.Metropolis)]
+    public void The_sheared_cage_far_from_the_origin_gives_the_moments_of_three_dimensional_quadrature(SamplingMethod method)
+    {
+        // Reference: the mean and covariance of the Boltzmann weight e^(−E/kT) over the box, by a product Gauss–Legendre
+        // rule (MathNet.Numerics; 8 panels of 12 nodes per axis), with the error of each covariance element from its
+        // fourth moment, √((E[u_a²u_b²] − C_ab²)/ESS) (common practice, no source). Five standard errors.
+        const double half = 0.4;
+        var landscape = Sheared(ShearedCentre, Confinement.Box(Length.FromAngstroms(half)));
+        double beta = 1 / Thirty.ThermalEnergyInElectronVolts, e0 = landscape.Energy(ShearedCentre);
+        var nodes = new List<(double U, double W)>();
+        for (int panel = 0; panel < 8; panel++)
+        {
+            var rule = new MathNet.Numerics.Integration.GaussLegendreRule(-half + panel * half / 4, -half + (panel + 1) * half / 4, 12);
+            nodes.AddRange(rule.Abscissas.Zip(rule.Weights));
+        }
+        double z0 = 0;
+        var first = new double[3];
+        var second = new double[3, 3];
+        var fourth = new double[3, 3];
+        foreach (var (x, wx) in nodes)
+        {
+            foreach (var (y, wy) in nodes)
+            {
+                foreach (var (z, wz) in nodes)
+                {
+                    double w = wx * wy * wz * Math.Exp(-beta * (landscape.Energy(ShearedCentre + new Position(x, y, z)) - e0));
+                    double[] u = [x, y, z];
+                    z0 += w;
+                    for (int a = 0; a < 3; a++)
+                    {
+                        first[a] += w * u[a];
+                        for (int b = 0; b < 3; b++)
+                        {
+                            second[a, b] += w * u[a] * u[b];
+                            fourth[a, b] += w * u[a] * u[a] * u[b] * u[b];
+                        }
+                    }
+                }
+            }
+        }
+        var reference = new double[3, 3];
+        for (int a = 0; a < 3; a++)
+        {
+            for (int b = 0; b < 3; b++)
+            {
+                reference[a, b] = second[a, b] / z0 - first[a] * first[b] / (z0 * z0);
+            }
+        }
+        Assert.True(Math.Abs(reference[0, 1]) > 0.1 * Math.Sqrt(reference[0, 0] * reference[1, 1]), $"x–y correlation too weak: {reference[0, 1]}");
+
+        var settings = Small(method, samples: 60_000) with { Chains = 3, BurnIn = method == SamplingMethod.Metropolis ? 5000 : 0 };
+        var report = SiteSampler.Run(landscape, ArgonMass, Thirty, settings);
+        double[] mean = [report.Mean.X - ShearedCentre.X, report.Mean.Y - ShearedCentre.Y, report.Mean.Z - ShearedCentre.Z];
+        double[] se = [report.MeanStandardError.X, report.MeanStandardError.Y, report.MeanStandardError.Z];
+        var cov = report.Covariance;
+        double[,] sampled = { { cov.XX, cov.XY, cov.XZ }, { cov.XY, cov.YY, cov.YZ }, { cov.XZ, cov.YZ, cov.ZZ } };
+        double ess = report.Diagnostics.EffectiveSampleSize;
+        for (int a = 0; a < 3; a++)
+        {
+            Assert.True(Math.Abs(mean[a] - first[a] / z0) < 5 * se[a], $"mean {a}: {mean[a]} against {first[a] / z0} ± {se[a]}");
+            for (int b = a; b < 3; b++)
+            {
+                double seAb = Math.Sqrt((fourth[a, b] / z0 - reference[a, b] * reference[a, b]) / ess);
+                Assert.True(Math.Abs(sampled[a, b] - reference[a, b]) < 5 * seAb, $"covariance {a}{b}: {sampled[a, b]} against {reference[a, b]} ± {seAb}");
+            }
+        }
     }
 
     [Fact]
@@ -287,6 +435,22 @@ public class SiteSamplerEdgeTests
         var saved = new List<SamplingCheckpoint>();
         SiteSampler.SweepWithCheckpoints(landscape, ArgonMass, ThirtyOnly, ShortDirect, new CheckpointOptions(TimeSpan.FromHours(1), saved.Add));
         return saved[0];
+    }
+
+    [Fact]
+    public void A_resumed_direct_run_continues_from_its_saved_draws_instead_of_drawing_them_again()
+    {
+        // Direct draws depend only on the seed, so a resume that ignored the saved state would still give the same bits;
+        // the progress it reports shows where each chain took up again.
+        var saved = new List<SamplingCheckpoint>();
+        var reference = SiteSampler.SweepWithCheckpoints(PlainCage, ArgonMass, ThirtyOnly, ShortDirect, new CheckpointOptions(TimeSpan.Zero, saved.Add));
+        var last = saved[^1];
+        var (seen, sink) = PairSamplerEdgeTests.ProgressLog();
+        var resumed = SiteSampler.Resume(PlainCage, ArgonMass, ThirtyOnly, ShortDirect, last, null, sink);
+        Assert.Equal(reference[0].Mean, resumed[0].Mean);
+        Assert.Equal(reference[0].Covariance, resumed[0].Covariance);
+        Assert.Contains(seen.GroupBy(p => p.ChainIndex), chain => chain.Min(p => p.ChainStepsDone) > 0);
+        Assert.DoesNotContain(seen, p => p.ChainStepsDone == 0 && p.ChainIndex == 0);
     }
 
     public static TheoryData<string> Changes => new() { "centre", "size", "site" };
