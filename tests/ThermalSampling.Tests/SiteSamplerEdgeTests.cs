@@ -165,6 +165,16 @@ public class SiteSamplerEdgeTests
             return sx.Select((v, i) => v + sy[i] + sz[i]).ToArray();
         }).ToList();
         Assert.Equal(ChainDiagnostics.PooledMeanStandardError(msdSeries), report.MeanSquareDisplacement.StandardError);
+
+        // The classical-validity verdict comes first among the warnings, from inputs computed here: the RMS spread per
+        // direction √(MSD/3), the largest ħω/kT of the modes, the lowest energy on the boundary probe points above the
+        // minimum, and the fraction of draws within one harmonic RMS spread of the wall, counted about the confinement's centre.
+        double band = Math.Sqrt(report.Harmonic.ClassicalMeanSquareDisplacement / 3);
+        double wallMass = draws.Count(p => confinement.DistanceToWall(p.X - centre.X, p.Y - centre.Y, p.Z - centre.Z) < band) / (double)total;
+        double barrier = SiteSampler.BoundaryPoints(landscape, 2000).Min(p => landscape.Energy(p)) - report.Harmonic.MinimumEnergyInElectronVolts;
+        var validity = ClassicalValidity.Assess(ArgonMass, Thirty, Math.Sqrt(msd / 3), report.Harmonic.Modes.Max(m => m.QuantumToThermalRatio), barrier, wallMass);
+        Assert.Contains(validity.Warnings, w => w.Code == WarningCodes.DeBroglieWavelength); // its message carries the RMS spread
+        Assert.Equal(validity.Warnings, report.Warnings.Take(validity.Warnings.Length));
     }
 
     [Theory]
