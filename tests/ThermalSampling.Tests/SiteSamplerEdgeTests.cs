@@ -382,6 +382,11 @@ public class SiteSamplerEdgeTests
         var plain = SiteSampler.Run(PlainCage, ArgonMass, Thirty, Small(SamplingMethod.Metropolis));
         double sigmaMin = Math.Sqrt(plain.Harmonic.Modes.Min(m => m.ClassicalVarianceInAngstromsSquared));
         Assert.Equal(2.38 / Math.Sqrt(3) * sigmaMin, plain.Diagnostics.FinalStepWidthInAngstroms!.Value, 1e-12);
+        // The sheared cage's modes differ, so the narrowest one is the one that counts.
+        var sheared = SiteSampler.Run(Sheared(ShearedCentre, Confinement.Sphere(Length.FromAngstroms(1.2))), ArgonMass, Thirty, Small(SamplingMethod.Metropolis));
+        var variances = sheared.Harmonic.Modes.Select(m => m.ClassicalVarianceInAngstromsSquared).ToArray();
+        Assert.True(variances.Max() > 1.2 * variances.Min(), $"the sheared cage's modes are nearly equal: {string.Join(", ", variances)}");
+        Assert.Equal(2.38 / Math.Sqrt(3) * Math.Sqrt(variances.Min()), sheared.Diagnostics.FinalStepWidthInAngstroms!.Value, 1e-12);
         var wide = SiteSampler.Run(PlainCage, ArgonMass, Thirty, Small(SamplingMethod.Metropolis) with { InitialStepWidthInAngstroms = 100 });
         Assert.Equal(2 * 1.2, wide.Diagnostics.FinalStepWidthInAngstroms!.Value, 1e-12);
         Assert.True(wide.Diagnostics.AcceptanceRate < 0.05, $"acceptance {wide.Diagnostics.AcceptanceRate}");
@@ -461,6 +466,33 @@ public class SiteSamplerEdgeTests
         Assert.Equal(reference[0].Covariance, resumed[0].Covariance);
         Assert.Contains(seen.GroupBy(p => p.ChainIndex), chain => chain.Min(p => p.ChainStepsDone) > 0);
         Assert.DoesNotContain(seen, p => p.ChainStepsDone == 0 && p.ChainIndex == 0);
+    }
+
+    [Theory]
+    [InlineData(SamplingMethod.Metropolis)]
+    [InlineData(SamplingMethod.Direct)]
+    public void Checkpoints_record_their_lane_width_and_finished_temperatures_and_a_resume_keeps_the_width_with_other_threads(SamplingMethod method)
+    {
+        // Four chains on one thread: Metropolis packs them into one group of ChooseLanes(4, 1) lanes, direct sampling
+        // uses one chain per group. A resume on four threads (which alone would choose one lane) must keep the
+        // checkpoint's width, or its groups would not match.
+        var settings = Small(method, samples: 3 * 4096) with { Chains = 4, BurnIn = 4096 };
+        Temperature[] temperatures = [Thirty, Temperature.FromKelvin(40)];
+        var saved = new List<SamplingCheckpoint>();
+        var reference = SiteSampler.SweepWithCheckpoints(PlainCage, ArgonMass, temperatures, settings, new CheckpointOptions(TimeSpan.Zero, saved.Add));
+        int lanes = method == SamplingMethod.Metropolis ? PairLaneChains.ChooseLanes(4, 1, null) : 1;
+        Assert.All(saved, c => Assert.Equal(lanes, c.ChainsPerVector));
+        long firstTemperature = saved[0].ChainStepsTotal / 2;
+        var second = saved.Where(c => c.ChainStepsDone > firstTemperature && c.ChainStepsDone < saved[0].ChainStepsTotal).ToList();
+        Assert.NotEmpty(second);
+        Assert.All(second, c => Assert.Equal(1, c.FinishedTemperatures));
+        Assert.All(saved.Where(c => c.ChainStepsDone < firstTemperature), c => Assert.Equal(0, c.FinishedTemperatures));
+        var resumed = SiteSampler.Resume(PlainCage, ArgonMass, temperatures, settings with { MaxThreads = 4 }, second[second.Count / 2]);
+        for (int t = 0; t < 2; t++)
+        {
+            Assert.Equal(reference[t].Mean, resumed[t].Mean);
+            Assert.Equal(reference[t].Covariance, resumed[t].Covariance);
+        }
     }
 
     public static TheoryData<string> Changes => new() { "centre", "size", "site" };
