@@ -41,14 +41,14 @@ public class CheckpointFormatTests
 
     private static SamplingCheckpoint Read(byte[] bytes) => SamplingCheckpoint.ReadFrom(new MemoryStream(bytes));
 
-    private static (string Metadata, byte[] Body) Split(byte[] file)
+    internal static (string Metadata, byte[] Body) Split(byte[] file)
     {
         int newline = Array.IndexOf(file, (byte)'\n');
         return (Encoding.UTF8.GetString(file, 0, newline), file[(newline + 1)..^32]);
     }
 
     /// <summary>A file with this metadata and body, its bodyBytes and checksum made right, as another writer would make it.</summary>
-    private static byte[] Forge(string metadata, byte[] body, bool fixBodyBytes = true)
+    internal static byte[] Forge(string metadata, byte[] body, bool fixBodyBytes = true)
     {
         if (fixBodyBytes)
         {
@@ -101,7 +101,7 @@ public class CheckpointFormatTests
         return result;
     }
 
-    private static byte[] Long(long v)
+    internal static byte[] Long(long v)
     {
         var b = new byte[8];
         BinaryPrimitives.WriteInt64LittleEndian(b, v);
