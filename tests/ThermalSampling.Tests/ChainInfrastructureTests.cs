@@ -249,6 +249,32 @@ public class ChainInfrastructureTests
         Assert.InRange(most, 1, 2);
         var one = ChainScheduler.RunAll(3, 1, CancellationToken.None, c => c + 1);
         Assert.Equal(new[] { 1, 2, 3 }, one);
+        // One thread asked for: never two chains at once, however many cores there are.
+        running = 0;
+        most = 0;
+        ChainScheduler.RunAll(6, 1, CancellationToken.None, c =>
+        {
+            int now = Interlocked.Increment(ref running);
+            int seen;
+            while ((seen = Volatile.Read(ref most)) < now && Interlocked.CompareExchange(ref most, now, seen) != seen)
+            {
+            }
+            Thread.Sleep(20);
+            Interlocked.Decrement(ref running);
+            return c;
+        });
+        Assert.Equal(1, most);
+    }
+
+    [Fact]
+    public void The_pooled_mean_error_of_one_chain_is_its_batch_mean_variance_times_tau_over_m()
+    {
+        // Var(x̄) = s²_Y·max(τ, 1/M)/M with the sample variance s²_Y (divisor M − 1) of the M batch means (the formula in
+        // the method's documentation), on eight invented values.
+        double[] y = [0.3, -1.2, 0.8, 2.1, -0.4, 0.0, 1.5, -0.9];
+        double mean = y.Average(), s2 = y.Sum(v => (v - mean) * (v - mean)) / (y.Length - 1);
+        double tau = Autocorrelation.Estimate(y).IntegratedTime;
+        Assert.Equal(Math.Sqrt(s2 * Math.Max(tau, 1.0 / y.Length) / y.Length), ChainDiagnostics.PooledMeanStandardError([y]), 1e-15);
     }
 
     [Fact]
@@ -364,6 +390,11 @@ public class ChainInfrastructureTests
         Assert.Empty(WarningsFor(Healthy with { RHat = null }, 0.17, 0.31));
         Assert.Empty(WarningsFor(Healthy, 0.9, null));
         Assert.Empty(WarningsFor(Healthy, null, 0.31));
+        // "More than 0.15 from the target": 0.1 against 0.25 is exactly 0.15 off in binary arithmetic, 0.4 against 0.25 just over.
+        Assert.Equal(0.15, Math.Abs(0.1 - 0.25));
+        Assert.Empty(WarningsFor(Healthy, 0.1, 0.25));
+        Assert.True(Math.Abs(0.4 - 0.25) > 0.15);
+        Assert.Single(WarningsFor(Healthy, 0.4, 0.25));
 
         var rHat = Assert.Single(WarningsFor(Healthy with { RHat = 1.0101 }));
         Assert.Equal(WarningCodes.RHatHigh, rHat.Code);
@@ -432,6 +463,27 @@ public class ChainInfrastructureTests
         { "ChainsPerVector", s => s with { ChainsPerVector = 0 }, false },
         { "Method", s => s with { Method = (SamplingMethod)7 }, false },
     };
+
+    [Fact]
+    public void Each_refusal_names_the_value_given_and_the_documented_range()
+    {
+        var bad = new SamplingSettings
+        {
+            Seed = 1, Method = (SamplingMethod)7, Chains = 0, SamplesPerChain = 9, BurnIn = -1, TargetAcceptance = 1.5, InitialStepWidthInAngstroms = -2,
+            HistogramBins = 3, MaxDiagnosticValuesPerChain = 63, RetainedDrawsPerChain = -1, MaxThreads = 1025, ChainsPerVector = 3,
+        };
+        string message = Assert.Throws<ArgumentException>(bad.Validate).Message;
+        foreach (var (name, value, range) in new[]
+        {
+            ("Method", "7", "Metropolis or Direct"), ("Chains", "0", "1 to 1024"), ("SamplesPerChain", "9", "10 to 10^12"), ("BurnIn", "-1", "0 to 10^12"),
+            ("TargetAcceptance", "1.5", "null or strictly between 0 and 1"), ("InitialStepWidthInAngstroms", "-2", "null or finite and greater than 0"),
+            ("HistogramBins", "3", "4 to 10000"), ("MaxDiagnosticValuesPerChain", "63", "64 to 10^7"), ("RetainedDrawsPerChain", "-1", "0 to 10^7"),
+            ("MaxThreads", "1025", "null or 1 to 1024"), ("ChainsPerVector", "3", "null, 1, 2, 4 or 8"),
+        })
+        {
+            Assert.Contains($"{name} = {value} is out of range; valid: {range}.", message, StringComparison.Ordinal);
+        }
+    }
 
     [Theory]
     [MemberData(nameof(SettingRanges))]

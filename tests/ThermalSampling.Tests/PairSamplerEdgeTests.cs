@@ -120,6 +120,12 @@ public class PairSamplerEdgeTests
         var ex = Assert.ThrowsAny<ArgumentException>(() =>
             PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, temperatures, settings with { Chains = 0 }, options));
         Assert.Contains("Chains", ex.Message);
+        // A bad second temperature or a bad mass is refused before the first temperature runs: nothing is checkpointed.
+        var saved = new List<SamplingCheckpoint>();
+        var every = new CheckpointOptions(TimeSpan.Zero, saved.Add);
+        Assert.ThrowsAny<ArgumentException>(() => PairSampler.SweepWithCheckpoints(IronLine, ArgonMass, [Temperature.FromKelvin(300), default], settings, every));
+        Assert.ThrowsAny<ArgumentException>(() => PairSampler.SweepWithCheckpoints(IronLine, default, temperatures, settings, every));
+        Assert.Empty(saved);
     }
 
     [Fact]
