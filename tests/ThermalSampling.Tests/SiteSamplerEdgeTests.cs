@@ -165,6 +165,10 @@ public class SiteSamplerEdgeTests
             return sx.Select((v, i) => v + sy[i] + sz[i]).ToArray();
         }).ToList();
         Assert.Equal(ChainDiagnostics.PooledMeanStandardError(msdSeries), report.MeanSquareDisplacement.StandardError);
+        // Direct draws have no proposal width to tune, so their acceptance is never compared with the Metropolis target.
+        Assert.DoesNotContain(report.Warnings, w => w.Code == WarningCodes.AcceptanceOffTarget);
+        // One chain has no R-hat.
+        Assert.Null(SiteSampler.Run(landscape, ArgonMass, Thirty, Small(SamplingMethod.Direct) with { Chains = 1 }).Diagnostics.RHat);
 
         // The classical-validity verdict comes first among the warnings, from inputs computed here: the RMS spread per
         // direction √(MSD/3), the largest ħω/kT of the modes, the lowest energy on the boundary probe points above the
@@ -521,26 +525,28 @@ public class SiteSamplerEdgeTests
         Assert.Contains(string.Format(CultureInfo.InvariantCulture, message, value, draws), ex.Message, StringComparison.Ordinal);
     }
 
-    public static TheoryData<string> Changes => new() { "centre", "size", "site" };
+    public static TheoryData<string> Changes => new() { "centre", "size", "site", "potential" };
 
     [Theory]
     [MemberData(nameof(Changes))]
     public void The_landscape_fingerprint_sees_changes_the_description_rounds_away(string change)
     {
         // Invented: the cage confined around (0.1, 0, 0) Å, and the same with the centre, the size or one site moved by
-        // 1e-7 Å, which the description (six significant digits) does not show. A checkpoint of the one must not resume
-        // the other.
+        // 1e-7 Å, or the well depth changed by one part in 10⁷ (seen only through the energies on the fingerprint's grid),
+        // which the description (six significant digits) does not show. A checkpoint of the one must not resume the other.
         var original = Cage(new Position(0.1, 0, 0), Confinement.Sphere(Length.FromAngstroms(1.2)));
         var sites = CageSites();
         var centre = new Position(0.1, 0, 0);
         double size = 1.2;
+        var potential = Lj;
         switch (change)
         {
             case "centre": centre = new Position(0.1000001, 0, 0); break;
             case "size": size = 1.2000001; break;
+            case "potential": potential = LennardJones.FromMinimum(Length.FromAngstroms(3.8), Energy.FromKelvin(119.8 * (1 + 1e-7))); break;
             default: sites[5] = sites[5] + new Position(0, 1e-7, 0); break;
         }
-        var changed = SiteLandscape.Create(Lj, sites, centre, Confinement.Sphere(Length.FromAngstroms(size)));
+        var changed = SiteLandscape.Create(potential, sites, centre, Confinement.Sphere(Length.FromAngstroms(size)));
         Assert.Equal(original.Description, changed.Description);
         var checkpoint = FirstCheckpoint(original);
         var ex = Assert.Throws<CheckpointException>(() => SiteSampler.Resume(changed, ArgonMass, ThirtyOnly, ShortDirect, checkpoint));
