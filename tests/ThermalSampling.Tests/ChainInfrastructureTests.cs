@@ -252,14 +252,14 @@ public class ChainInfrastructureTests
         // One thread asked for: never two chains at once, however many cores there are.
         running = 0;
         most = 0;
-        ChainScheduler.RunAll(6, 1, CancellationToken.None, c =>
+        ChainScheduler.RunAll(8, 1, CancellationToken.None, c =>
         {
             int now = Interlocked.Increment(ref running);
             int seen;
             while ((seen = Volatile.Read(ref most)) < now && Interlocked.CompareExchange(ref most, now, seen) != seen)
             {
             }
-            Thread.Sleep(20);
+            Thread.Sleep(50); // long enough for a second worker to join, were one allowed
             Interlocked.Decrement(ref running);
             return c;
         });

@@ -178,6 +178,8 @@ public class SiteSamplerEdgeTests
         double barrier = SiteSampler.BoundaryPoints(landscape, 2000).Min(p => landscape.Energy(p)) - report.Harmonic.MinimumEnergyInElectronVolts;
         var validity = ClassicalValidity.Assess(ArgonMass, Thirty, Math.Sqrt(msd / 3), report.Harmonic.Modes.Max(m => m.QuantumToThermalRatio), barrier, wallMass);
         Assert.Contains(validity.Warnings, w => w.Code == WarningCodes.DeBroglieWavelength); // its message carries the RMS spread
+        string[] validityCodes = [WarningCodes.QuantumEffects, WarningCodes.DeBroglieWavelength, WarningCodes.EscapeRisk, WarningCodes.WallMass];
+        Assert.Equal(validity.Warnings, report.Warnings.Where(w => validityCodes.Contains(w.Code)));
         Assert.Equal(validity.Warnings, report.Warnings.Take(validity.Warnings.Length));
     }
 
