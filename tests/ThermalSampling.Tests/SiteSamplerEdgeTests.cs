@@ -222,6 +222,16 @@ public class SiteSamplerEdgeTests
     }
 
     [Fact]
+    public void Direct_sampling_never_compares_its_acceptance_with_the_metropolis_target()
+    {
+        // A sphere of 0.1 Å: most envelope draws fall outside it, so the acceptance is far from 0.31, and still no
+        // acceptance-target warning (there is no proposal width to tune).
+        var report = SiteSampler.Run(Cage(Position.Origin, Confinement.Sphere(Length.FromAngstroms(0.1))), ArgonMass, Thirty, Small(SamplingMethod.Direct));
+        Assert.True(Math.Abs(report.Diagnostics.AcceptanceRate!.Value - SiteSampler.DefaultTargetAcceptance) > 0.15, $"acceptance {report.Diagnostics.AcceptanceRate}");
+        Assert.DoesNotContain(report.Warnings, w => w.Code == WarningCodes.AcceptanceOffTarget);
+    }
+
+    [Fact]
     public void A_roomy_confinement_raises_no_wall_or_escape_warning()
     {
         // The plain cage at 30 K in 1.2 Å: about ten RMS spreads to the wall, where the energy is far above kT.
