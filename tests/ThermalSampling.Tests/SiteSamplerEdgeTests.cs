@@ -326,8 +326,7 @@ public class SiteSamplerEdgeTests
     [InlineData(SamplingMethod.Direct, 90)]
     public void The_sheared_cage_far_from_the_origin_gives_the_moments_of_three_dimensional_quadrature(SamplingMethod method, double kelvin)
     {
-        // At 90 K the well is far from harmonic inside the box, so the weight's ratio to the Gaussian envelope is
-        // largest away from the minimum and the envelope's bound matters.
+        // 90 K is a second point, further from the harmonic limit, for the direct sampler's envelope.
         // Reference: the mean and covariance of the Boltzmann weight e^(−E/kT) over the box, by a product Gauss–Legendre
         // rule (MathNet.Numerics; 8 panels of 12 nodes per axis), with the error of each covariance element from its
         // fourth moment, √((E[u_a²u_b²] − C_ab²)/ESS) (common practice, no source). Five standard errors.
