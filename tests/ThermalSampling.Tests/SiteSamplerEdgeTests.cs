@@ -18,7 +18,9 @@ namespace ThermalSampling.Tests;
 /// Small, fast checks of the site sampler's edges, written against what the site mutation mode can change
 /// (docs/validation.md): every reported number rebuilt from the retained draws, the wall and escape warnings, the
 /// boundary probe points, the Metropolis starts and step widths, the acceptance target, the progress totals, the
-/// argument checks, the landscape fingerprint, the covariance accumulator and the log weight.
+/// argument checks, the landscape fingerprint, the covariance accumulator and the log weight. A sheared cage far from the
+/// origin (off-diagonal covariance) is also checked against three-dimensional quadrature, and the checkpoints' lane width,
+/// finished temperatures and direct-chain counts are checked on resume.
 /// </summary>
 public class SiteSamplerEdgeTests
 {
