@@ -30,7 +30,7 @@ if [[ $mode == core ]]; then
   filter="FullyQualifiedName~PotentialTests|FullyQualifiedName~PotentialEdgeTests|FullyQualifiedName~StatisticsTests|FullyQualifiedName~StatisticsEdgeTests|FullyQualifiedName~RandomnessTests|FullyQualifiedName~TestingPackageTests|FullyQualifiedName~AnalysisTests|FullyQualifiedName~RHatAndBlockTests|FullyQualifiedName~WrapperAndBlockingTests|$fast_checkpoints"
 elif [[ $mode == checkpoints ]]; then
   mutate=(--mutate '**/Sampling/Checkpoints.cs' --mutate '**/Sampling/CheckpointState.cs')
-  filter="FullyQualifiedName~CheckpointFormatTests|$fast_checkpoints"
+  filter="FullyQualifiedName~CheckpointFormatTests|FullyQualifiedName~CheckpointSessionTests|$fast_checkpoints"
 elif [[ $mode == pair ]]; then
   mutate=(--mutate '**/Sampling/PairSampler.cs' --mutate '**/Sampling/InverseCdfTable.cs')
   filter="FullyQualifiedName~PairSamplerTests|FullyQualifiedName~PairSamplerEdgeTests|FullyQualifiedName~HostileInputTests|(FullyQualifiedName~LaneKernelTests&FullyQualifiedName!~Site)|$fast_checkpoints"

@@ -308,7 +308,7 @@ internal sealed class CheckpointSession
         _states = resumeFrom is null ? new byte[]?[]?[n] : resumeFrom.CopyStates();
         _finished = resumeFrom is null ? new bool[n] : resumeFrom.CopyFinished();
         _steps = resumeFrom is null ? new long[]?[n] : resumeFrom.CopySteps();
-        _due = Stopwatch.GetTimestamp(); // the first checkpoint as soon as the groups reach their first boundary
+        _due = Stopwatch.GetTimestamp(); // due at once: written at the first boundary after every running group has handed in its starting state
     }
 
     internal int Lanes { get; }
@@ -379,10 +379,18 @@ internal sealed class CheckpointSession
             {
                 if (!_writing && _generation == _written && Stopwatch.GetTimestamp() >= _due)
                 {
-                    _generation++;
-                    _due = long.MaxValue;
+                    // The generation first, then the due time: a group that reads the new due time sees the new generation.
+                    Volatile.Write(ref _generation, _generation + 1);
+                    Volatile.Write(ref _due, long.MaxValue);
                 }
             }
+            Deposit(temperature, group, state, finished: false);
+        }
+        else if (Volatile.Read(ref _generation) > _served[group])
+        {
+            // Another group started a checkpoint between the two reads above (it moved the due time past this one's
+            // read): hand in the state now rather than a chunk later, or the checkpoint would wait for this group's
+            // next boundary and hold the other group's state of a chunk before.
             Deposit(temperature, group, state, finished: false);
         }
     }
