@@ -170,6 +170,10 @@ public class CheckpointFormatTests
         var settings = new SamplingSettings { Seed = 5, Chains = 2, SamplesPerChain = 4096, BurnIn = 4096, MaxThreads = 1, ChainsPerVector = 1 };
         var first = Read(Sweep(settings)[0]);
         Assert.Equal(2 * 2 * (4096L + 4096), first.ChainStepsTotal);
+        // Direct draws have no burn-in: a BurnIn setting is kept (and compared on resume) but adds no steps.
+        var direct = Read(Sweep(Direct() with { BurnIn = 100 })[0]);
+        Assert.Equal(2 * 2 * 3 * 4096L, direct.ChainStepsTotal);
+        Assert.Equal(100, direct.Settings.BurnIn);
     }
 
     [Fact]
@@ -198,6 +202,8 @@ public class CheckpointFormatTests
         { "\"method\":\"Direct\"", "\"method\":\"direct\"", "settings name an unknown method" },
         { "\"chains\":2", "\"chains\":0", "settings are invalid: Invalid sampling settings: Chains = 0 is out of range" },
         { "\"seed\":5", "\"seed\":-5", "metadata has a value of the wrong kind" },
+        { "\"applicationData\":null", "\"applicationData\":5", "The checkpoint's \"applicationData\" is a Number; valid: a string or null." },
+        { "\"applicationData\":null", "\"applicationData\":[\"a\"]", "The checkpoint's \"applicationData\" is a Array; valid: a string or null." },
     };
 
     [Theory]
@@ -287,6 +293,18 @@ public class CheckpointFormatTests
         Assert.Contains("section 'WORD' is missing.", Problem(x => x.Words("WORD", 2), bytes[..11]));
         Assert.Contains("section 'WORD' is cut short.", Problem(x => x.Words("WORD", 2), bytes[..27]));
         Assert.Contains("92 bytes are left after the last section.", Problem(x => x.End()));
+        Assert.Contains("section 'WORD' holds 2 values; expected 0.", Problem(x => x.Words("WORD", 0)));
+        // Past the first section (28 bytes): what is left is counted from there, and a stub of a header is "missing".
+        Assert.Contains("64 bytes are left after the last section.", Problem(x =>
+        {
+            x.Words("WORD", 2);
+            x.End();
+        }));
+        Assert.Contains("section 'DBLS' is missing.", Problem(x =>
+        {
+            x.Words("WORD", 2);
+            x.Doubles("DBLS", 3);
+        }, bytes[..(28 + 11)]));
         Assert.Contains("the phase = 3 is outside 0 to 2.", Problem(x => x.InRange(3, 0, 2, "the phase")));
         Assert.Contains("the phase = -1 is outside 0 to 2.", Problem(x => x.InRange(-1, 0, 2, "the phase")));
         var inRange = new StateReader(bytes, "a test group");
@@ -362,5 +380,209 @@ public class CheckpointFormatTests
         Assert.Equal(2, forged.ChainsPerVector);
         var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(Line, Argon, TwoTemperatures, settings, forged));
         Assert.Contains("The checkpoint holds 2 chain groups for temperature 1; this run has 4.", ex.Message);
+    }
+    [Fact]
+    public void Every_setting_round_trips_through_the_metadata_including_the_optional_ones()
+    {
+        var full = new SamplingSettings
+        {
+            Seed = 5, Chains = 2, SamplesPerChain = 2 * 4096, BurnIn = 4096, TargetAcceptance = 0.3, InitialStepWidthInAngstroms = 0.05, HistogramBins = 31,
+            MaxDiagnosticValuesPerChain = 512, RetainedDrawsPerChain = 7, MaxThreads = 1, ChainsPerVector = 2,
+        };
+        var file = Sweep(full)[0];
+        Assert.Equal(full, Read(file).Settings);
+        var settings = System.Text.Json.JsonDocument.Parse(Split(file).Metadata).RootElement.GetProperty("settings");
+        Assert.Equal(0.3, settings.GetProperty("targetAcceptance").GetDouble());
+        Assert.Equal(0.05, settings.GetProperty("initialStepWidthInAngstroms").GetDouble());
+        Assert.Equal(1, settings.GetProperty("maxThreads").GetInt32());
+        Assert.Equal(2, settings.GetProperty("chainsPerVector").GetInt32());
+        // Unset optional values are written as null, not left out, and read back as unset.
+        var plain = Sweep(Direct() with { MaxThreads = null })[0];
+        Assert.Equal(Direct() with { MaxThreads = null }, Read(plain).Settings);
+        var nulls = System.Text.Json.JsonDocument.Parse(Split(plain).Metadata).RootElement.GetProperty("settings");
+        foreach (var name in new[] { "targetAcceptance", "initialStepWidthInAngstroms", "maxThreads", "chainsPerVector" })
+        {
+            Assert.Equal(System.Text.Json.JsonValueKind.Null, nulls.GetProperty(name).ValueKind);
+        }
+    }
+
+    [Fact]
+    public void The_written_time_has_the_documented_form()
+    {
+        using var json = System.Text.Json.JsonDocument.Parse(Split(Sweep(Direct())[0]).Metadata);
+        Assert.Matches(@"^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z$", json.RootElement.GetProperty("writtenUtc").GetString()!);
+    }
+
+    [Fact]
+    public void A_refusal_for_several_differences_names_each_in_turn()
+    {
+        var checkpoint = Read(Sweep(Direct())[0]);
+        var ex = Assert.Throws<CheckpointException>(() =>
+            PairSampler.Resume(Line, Argon, [Temperature.FromKelvin(30), Temperature.FromKelvin(61)], Direct() with { Chains = 3 }, checkpoint));
+        Assert.Equal("The checkpoint belongs to a different run: its temperatures are [30, 60] K, and this run's are [30, 61] K. its Chains is 2, and this run's is 3."
+            + " Resume with exactly the original landscape, mass, temperatures and settings.", ex.Message);
+    }
+
+    [Fact]
+    public void Missing_streams_and_paths_are_refused_naming_the_parameter()
+    {
+        var checkpoint = Read(Sweep(Direct())[0]);
+        Assert.Equal("stream", Assert.Throws<ArgumentNullException>(() => checkpoint.WriteTo(null!)).ParamName);
+        Assert.Equal("stream", Assert.Throws<ArgumentNullException>(() => SamplingCheckpoint.ReadFrom(null!)).ParamName);
+        Assert.Equal("path", Assert.Throws<ArgumentNullException>(() => checkpoint.WriteToFile(null!)).ParamName);
+        Assert.Equal("path", Assert.Throws<ArgumentException>(() => checkpoint.WriteToFile("  ")).ParamName);
+        Assert.Equal("path", Assert.Throws<ArgumentNullException>(() => SamplingCheckpoint.ReadFromFile(null!)).ParamName);
+        Assert.Equal("path", Assert.Throws<ArgumentException>(() => SamplingCheckpoint.ReadFromFile("  ")).ParamName);
+    }
+
+    [Fact]
+    public void Writing_to_a_stream_flushes_it()
+    {
+        var file = Sweep(Direct())[0];
+        var inner = new MemoryStream();
+        using var buffered = new BufferedStream(inner, 1 << 20);
+        Read(file).WriteTo(buffered);
+        Assert.Equal(file.Length, inner.Length); // a buffered stream's bytes reach what it wraps
+    }
+
+    [Fact]
+    public void A_metadata_line_may_be_as_long_as_the_limit_and_no_longer()
+    {
+        // The limit is 32 MiB before the newline (docs/checkpoints.md). JSON allows the padding after the opening brace.
+        const int limit = 32 * 1024 * 1024;
+        var (metadata, body) = Split(Sweep(Direct())[0]);
+        string Padded(int length) => "{" + new string(' ', length - Encoding.UTF8.GetByteCount(metadata)) + metadata[1..]; // bytes, not characters: "Å" takes two
+        Assert.Equal(Read(Sweep(Direct())[0]).ChainStepsDone, Read(Forge(Padded(limit), body)).ChainStepsDone);
+        Assert.Equal($"The checkpoint's metadata line is longer than {limit} bytes: this is not a checkpoint.", Refusal(Forge(Padded(limit + 1), body)));
+    }
+
+    [Fact]
+    public void Empty_and_cut_short_metadata_lines_are_told_apart()
+    {
+        Assert.Equal("The checkpoint is empty.", Refusal([]));
+        Assert.Equal("The checkpoint is cut short inside its metadata line.", Refusal(Encoding.UTF8.GetBytes("{\"format\":")));
+        // A zero byte is data, not the end: a file that starts with one is damaged, not empty.
+        Assert.Contains("is not valid JSON", Refusal([0, .. Sweep(Direct())[0]]));
+    }
+
+    [Fact]
+    public void A_body_shorter_than_announced_is_measured_before_it_is_read()
+    {
+        var (metadata, body) = Split(Sweep(Direct())[0]);
+        string Announcing(long bytes) => Replace(metadata, "\"bodyBytes\":" + body.Length, "\"bodyBytes\":" + bytes);
+        // One byte more than the file holds: refused from the stream's length, naming both counts.
+        Assert.Contains($"The checkpoint is cut short: {body.Length + 32} bytes follow the metadata, which announces {body.Length + 1} + 32 (body and checksum).",
+            Refusal(Forge(Announcing(body.Length + 1), body, fixBodyBytes: false)));
+        // The largest body an array can hold is a length the format allows; this file is just too short for it.
+        Assert.Contains("The checkpoint is cut short: ", Refusal(Forge(Announcing(Array.MaxLength), body, fixBodyBytes: false)));
+        Assert.Contains("announces a body of " + (Array.MaxLength + 1L), Refusal(Forge(Announcing(Array.MaxLength + 1L), body, fixBodyBytes: false)));
+    }
+
+    [Fact]
+    public void A_checkpoint_with_no_temperatures_is_refused()
+    {
+        var (metadata, _) = Split(Sweep(Direct())[0]);
+        Assert.Equal("The checkpoint lists no temperatures; a sweep has at least one.", Refusal(Forge(Replace(metadata, "\"temperaturesInKelvin\":[30,60]", "\"temperaturesInKelvin\":[]"), [])));
+    }
+
+    [Fact]
+    public void Streams_that_cannot_seek_are_read_in_whatever_pieces_they_give()
+    {
+        var file = Sweep(Direct())[1];
+        var (metadata, body) = Split(file);
+        int newline = Array.IndexOf(file, (byte)'\n');
+        // A pipe that hands out 7 bytes at a time: neither the body nor the checksum is a whole number of pieces.
+        Assert.NotEqual(0, body.Length % 7);
+        Assert.Equal(Read(file).ChainStepsDone, SamplingCheckpoint.ReadFrom(new CheckpointTests.ForwardOnlyStream(file, most: 7)).ChainStepsDone);
+        string Cut(byte[] bytes) => Assert.Throws<CheckpointException>(() => SamplingCheckpoint.ReadFrom(new CheckpointTests.ForwardOnlyStream(bytes))).Message;
+        Assert.StartsWith($"The checkpoint is cut short in its body: 100 of {body.Length} bytes.", Cut(file[..(newline + 1 + 100)]));
+        Assert.StartsWith("The checkpoint is cut short in its checksum: 10 of 32 bytes.", Cut(file[..(newline + 1 + body.Length + 10)]));
+        // An announced body of 2 GB on a short pipe: refused after reading what is there, without allocating the 2 GB.
+        var huge = Forge(Replace(metadata, "\"bodyBytes\":" + body.Length, "\"bodyBytes\":2000000000"), body, fixBodyBytes: false);
+        long before = GC.GetAllocatedBytesForCurrentThread();
+        Assert.StartsWith($"The checkpoint is cut short in its body: {body.Length + 32} of 2000000000 bytes.", Cut(huge));
+        Assert.InRange(GC.GetAllocatedBytesForCurrentThread() - before, 0, 16 << 20);
+    }
+
+    /// <summary>The body with its layout rebuilt from <paramref name="layout"/> (the inverse of <see cref="ParseBody"/>).</summary>
+    private static byte[] BuildBody(List<(byte Status, List<Group> Groups)> layout)
+    {
+        var body = new List<byte>();
+        foreach (var (status, groups) in layout)
+        {
+            body.Add(status);
+            if (status == 0)
+            {
+                continue;
+            }
+            body.AddRange(Long(groups.Count));
+            foreach (var g in groups)
+            {
+                body.AddRange(Long(g.Steps));
+                body.AddRange(Long(g.State?.Length ?? -1));
+                body.AddRange(g.State ?? []);
+            }
+        }
+        return [.. body];
+    }
+
+    [Fact]
+    public void A_state_of_zero_bytes_is_read_as_a_state_and_refused_when_it_is_loaded()
+    {
+        // An empty state is not "no state": no state restarts the chain, an empty one is a damaged chain and must not.
+        var files = Sweep(Direct());
+        var (metadata, body) = Split(files.Last(f => ParseBody(Split(f).Body).Any(t => t.Status == 2) && ParseBody(Split(f).Body).Any(t => t.Status == 1)));
+        Assert.Equal(body, BuildBody(ParseBody(body)));
+        foreach (int temperature in new[] { 0, 1 }) // the finished temperature, then the running one
+        {
+            var layout = ParseBody(body);
+            layout[temperature].Groups[0] = layout[temperature].Groups[0] with { State = [] };
+            var forged = Read(Forge(metadata, BuildBody(layout)));
+            var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(Line, Argon, TwoTemperatures, Direct(), forged));
+            Assert.Equal("The checkpoint's state of direct chain 0 is not what this version expects: section 'RAND' is missing.", ex.Message);
+        }
+    }
+
+    [Fact]
+    public void A_body_cut_inside_a_later_number_is_refused_as_ending_early()
+    {
+        var (metadata, body) = Split(Sweep(Direct())[0]);
+        // The status byte, the group count, then four bytes of group 0's steps.
+        Assert.Contains("body ends early (its metadata and body disagree).", Refusal(Forge(metadata, body[..(1 + 8 + 4)])));
+    }
+
+    public static TheoryData<int, long, string> GroupHeaderForgeries => new()
+    {
+        { 0, 2, "the lanes per vector = 2 is outside 1 to 1." },
+        { 1, 2, "the chains of the group = 2 is outside 1 to 1." },
+        { 1, 0, "the chains of the group = 0 is outside 1 to 1." },
+        { 2, 3, "the phase = 3 is outside 0 to 2." },
+        { 3, 2 * 4096 + 1, "the step = 8193 is outside 0 to 8192." }, // in burn-in: up to BurnIn, although SamplesPerChain is larger
+        { 4, 4096, "the open moment block = 4096 is outside 0 to 4095." },
+        { 5, 48, "the open batch = 48 is outside 0 to 47." }, // ⌈12 288 samples / 256 values⌉ = 48 steps per batch
+    };
+
+    [Theory]
+    [MemberData(nameof(GroupHeaderForgeries))]
+    public void A_signed_file_whose_lane_group_header_is_out_of_range_is_refused_naming_the_field(int field, long value, string message)
+    {
+        // One Metropolis chain in a one-lane vector; the first checkpoint comes in burn-in, at 4096 of its 8192 steps.
+        var settings = new SamplingSettings
+        {
+            Seed = 5, Chains = 1, SamplesPerChain = 3 * 4096, BurnIn = 2 * 4096, MaxThreads = 1, ChainsPerVector = 1, MaxDiagnosticValuesPerChain = 256,
+        };
+        var (metadata, body) = Split(Sweep(settings)[0]);
+        // The pair lane group's header section: tag "PLGH", count 6, then width, chains, phase, step, open block, open batch.
+        int at = body.AsSpan().IndexOf("PLGH"u8);
+        Assert.True(at > 0);
+        Assert.Equal(6, BinaryPrimitives.ReadInt64LittleEndian(body.AsSpan(at + 4)));
+        int value0 = at + 12;
+        Assert.Equal(new long[] { 1, 1, 0, 4096 }, Enumerable.Range(0, 4).Select(i => BinaryPrimitives.ReadInt64LittleEndian(body.AsSpan(value0 + 8 * i))));
+        var forged = (byte[])body.Clone();
+        BinaryPrimitives.WriteInt64LittleEndian(forged.AsSpan(value0 + 8 * field), value);
+        var checkpoint = Read(Forge(metadata, forged));
+        var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(Line, Argon, TwoTemperatures, settings, checkpoint));
+        Assert.StartsWith("The checkpoint's state of ", ex.Message);
+        Assert.EndsWith(message, ex.Message);
     }
 }

@@ -349,7 +349,8 @@ public sealed class CheckpointTests
         }
     }
 
-    private sealed class ForwardOnlyStream(byte[] data) : Stream
+    /// <summary>A stream that cannot seek, and hands out at most <paramref name="most"/> bytes per read (as a pipe may).</summary>
+    internal sealed class ForwardOnlyStream(byte[] data, int most = int.MaxValue) : Stream
     {
         private readonly MemoryStream _inner = new(data);
 
@@ -367,7 +368,7 @@ public sealed class CheckpointTests
         {
         }
 
-        public override int Read(byte[] buffer, int offset, int count) => _inner.Read(buffer, offset, count);
+        public override int Read(byte[] buffer, int offset, int count) => _inner.Read(buffer, offset, Math.Min(count, most));
 
         public override long Seek(long offset, SeekOrigin origin) => throw new NotSupportedException();
 

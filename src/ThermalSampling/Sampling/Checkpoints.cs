@@ -388,7 +388,12 @@ public sealed class SamplingCheckpoint
                 Get(meta, "landscapeFingerprint", JsonValueKind.String).GetString()!, Get(meta, "massInAtomicMassUnits", JsonValueKind.Number).GetDouble(),
                 temperatures, SweepIdentity.ReadSettings(Get(meta, "settings", JsonValueKind.Object)), Get(meta, "libraryVersion", JsonValueKind.String).GetString()!);
             lanes = Get(meta, "chainsPerVector", JsonValueKind.Number).GetInt32();
-            application = meta.TryGetProperty("applicationData", out var a) && a.ValueKind == JsonValueKind.String ? a.GetString() : null;
+            application = !meta.TryGetProperty("applicationData", out var a) ? null : a.ValueKind switch
+            {
+                JsonValueKind.Null => null,
+                JsonValueKind.String => a.GetString(),
+                _ => throw new CheckpointException($"The checkpoint's \"applicationData\" is a {a.ValueKind}; valid: a string or null."),
+            };
         }
         catch (Exception ex) when (ex is FormatException or InvalidOperationException or ArgumentException)
         {
@@ -399,6 +404,10 @@ public sealed class SamplingCheckpoint
             throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint's chainsPerVector = {lanes}; valid: 1, 2, 4 or 8."));
         }
         int n = identity.Temperatures.Length;
+        if (n == 0)
+        {
+            throw new CheckpointException("The checkpoint lists no temperatures; a sweep has at least one.");
+        }
         var states = new byte[]?[]?[n];
         var steps = new long[]?[n];
         var finished = new bool[n];
