@@ -107,14 +107,39 @@ public class CheckpointSessionTests
         // boundary's checkpoint bookkeeping): both reach boundary k before either goes on. The checkpoint of boundary k is
         // written by whichever chain hands in its state second, so it holds both chains at k: 2k chunks, never 2k − 1
         // (k = 1, 2 in each temperature; boundary 0 hands in the starting states).
-        var settings = TwoDirectChains with { MaxThreads = 2 };
+        Assert.Equal(new[] { 2, 4, 8, 10 }.Select(k => k * Chunk), InStep().Select(c => c.ChainStepsDone));
+    }
+
+    /// <summary>The checkpoints of <see cref="TwoDirectChains"/> on two threads, held in step at every boundary, at a zero interval.</summary>
+    private static List<SamplingCheckpoint> InStep()
+    {
         using var barrier = new Barrier(2);
         bool inStep = true;
         var progress = new Recorder(_ => inStep &= barrier.SignalAndWait(TimeSpan.FromSeconds(30)));
         var keeper = new CheckpointTests.Keeper();
-        PairSampler.SweepWithCheckpoints(Line, Argon, TwoTemperatures, settings, keeper.Options(TimeSpan.Zero), progress);
+        PairSampler.SweepWithCheckpoints(Line, Argon, TwoTemperatures, TwoDirectChains with { MaxThreads = 2 }, keeper.Options(TimeSpan.Zero), progress);
         Assert.True(inStep, "the two chains did not run side by side");
-        Assert.Equal(new[] { 2, 4, 8, 10 }.Select(k => k * Chunk), Checkpoints(keeper).Select(c => c.ChainStepsDone));
+        return Checkpoints(keeper);
+    }
+
+    [Fact]
+    public void A_resumed_run_counts_the_restored_steps_and_finished_temperatures_in_its_own_checkpoints()
+    {
+        // From the side-by-side run's first checkpoint (both chains at 4096), resumed on one thread: chain 0's boundary
+        // at 8192 writes a checkpoint before chain 1 has started, and chain 1's restored 4096 steps count in it.
+        var keeper = new CheckpointTests.Keeper();
+        PairSampler.Resume(Line, Argon, TwoTemperatures, TwoDirectChains, InStep()[0], keeper.Options(TimeSpan.Zero));
+        Assert.Equal(new[] { 3, 5, 7, 8, 10, 11 }.Select(k => k * Chunk), Checkpoints(keeper).Select(c => c.ChainStepsDone));
+        Assert.Equal(new[] { 0, 0, 1, 1, 1, 1 }, Checkpoints(keeper).Select(c => c.FinishedTemperatures));
+        // From a checkpoint taken after the first temperature finished: it stays finished in every later checkpoint.
+        var afterFirst = new CheckpointTests.Keeper();
+        PairSampler.SweepWithCheckpoints(Line, Argon, TwoTemperatures, TwoDirectChains, afterFirst.Options(TimeSpan.Zero));
+        var resumedFrom = Checkpoints(afterFirst)[4];
+        Assert.Equal((1, 7 * Chunk), (resumedFrom.FinishedTemperatures, resumedFrom.ChainStepsDone));
+        var later = new CheckpointTests.Keeper();
+        PairSampler.Resume(Line, Argon, TwoTemperatures, TwoDirectChains, resumedFrom, later.Options(TimeSpan.Zero));
+        Assert.Equal(new[] { 8, 10, 11 }.Select(k => k * Chunk), Checkpoints(later).Select(c => c.ChainStepsDone));
+        Assert.All(Checkpoints(later), c => Assert.Equal(1, c.FinishedTemperatures));
     }
 
     [Fact]

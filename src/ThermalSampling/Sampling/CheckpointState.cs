@@ -288,7 +288,6 @@ internal sealed class CheckpointSession
     private readonly byte[]?[]?[] _states;
     private readonly long[]?[] _steps;
     private readonly bool[] _finished;
-    private int _current = -1;
     private int[] _served = [];
     private bool[] _running = [], _done = [];
     private int _generation, _written;
@@ -327,7 +326,6 @@ internal sealed class CheckpointSession
                     $"The checkpoint holds {states.Length} chain groups for temperature {temperature + 1}; this run has {groups}."));
             }
             _steps[temperature] ??= new long[groups];
-            _current = temperature;
             _served = new int[groups];
             _running = new bool[groups];
             _done = new bool[groups];
@@ -341,7 +339,6 @@ internal sealed class CheckpointSession
         lock (_lock)
         {
             _finished[temperature] = true;
-            _current = -1;
         }
     }
 
