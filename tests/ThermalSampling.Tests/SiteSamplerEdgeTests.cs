@@ -234,6 +234,46 @@ public class SiteSamplerEdgeTests
     }
 
     [Fact]
+    public void Direct_sampling_accepts_the_share_of_envelope_draws_that_its_documented_envelope_and_bound_give()
+    {
+        // Rejection sampling of p from proposals q under a bound M ≥ p/q accepts the fraction Z_p/(M·Z_q) of its
+        // proposals (common practice, no source). Here p = e^(−β(E − E_min)) over a box of 0.4 Å (by quadrature; draws
+        // outside the box count as rejected proposals), q = e^(−½|ξ|²) with the documented envelope N(min, 1.3²Σ), so
+        // Z_q = (2π)^(3/2)·1.3³·√det Σ, and ln M is the largest probed ln(p/q) plus the documented 5% margin. In this cage
+        // ln(p/q) peaks at the minimum, where it is 0 (checked on a grid below), so ln M = 0.05. A sampler that accepted
+        // against e^(+ln M), or mis-scaled its envelope, would accept about 10% more or less; four standard errors of
+        // the binomial acceptance are about 1%.
+        const double half = 0.4;
+        var landscape = Cage(Position.Origin, Confinement.Box(Length.FromAngstroms(half)));
+        var report = SiteSampler.Run(landscape, ArgonMass, Thirty, Small(SamplingMethod.Direct, samples: 1 << 15));
+        var sigma = report.Harmonic.ClassicalCovariance.ToMatrix();
+        var envelopePrecision = (1.3 * 1.3 * sigma).Inverse();
+        double beta = 1 / Thirty.ThermalEnergyInElectronVolts, e0 = landscape.Energy(Position.Origin);
+        double peak = double.NegativeInfinity;
+        for (int i = -20; i <= 20; i++)
+        {
+            for (int j = -20; j <= 20; j++)
+            {
+                for (int k = -20; k <= 20; k++)
+                {
+                    var u = MathNet.Numerics.LinearAlgebra.Vector<double>.Build.Dense([half * i / 20, half * j / 20, half * k / 20]);
+                    double logRatio = -beta * (landscape.Energy(new Position(u[0], u[1], u[2])) - e0) + 0.5 * u.DotProduct(envelopePrecision * u);
+                    peak = Math.Max(peak, logRatio);
+                }
+            }
+        }
+        Assert.Equal(0, peak, 1e-9);
+
+        var (zp, _, _, _) = BoxMoments(landscape, Position.Origin, half, Thirty);
+        double zq = Math.Pow(2 * Math.PI, 1.5) * Math.Pow(1.3, 3) * Math.Sqrt(sigma.Determinant());
+        double expected = zp / zq * Math.Exp(-0.05);
+        double acceptance = report.Diagnostics.AcceptanceRate!.Value;
+        double proposals = report.Diagnostics.Draws / acceptance;
+        double se = Math.Sqrt(expected * (1 - expected) / proposals);
+        Assert.True(Math.Abs(acceptance - expected) < 4 * se, $"acceptance {acceptance:F5} against {expected:F5} ± {se:F5}");
+    }
+
+    [Fact]
     public void A_roomy_confinement_raises_no_wall_or_escape_warning()
     {
         // The plain cage at 30 K in 1.2 Å: about ten RMS spreads to the wall, where the energy is far above kT.
@@ -322,20 +362,15 @@ public class SiteSamplerEdgeTests
         }
     }
 
-    [Theory]
-    [InlineData(SamplingMethod.Direct, 30)]
-    [InlineData(SamplingMethod.Metropolis, 30)]
-    [InlineData(SamplingMethod.Direct, 90)]
-    public void The_sheared_cage_far_from_the_origin_gives_the_moments_of_three_dimensional_quadrature(SamplingMethod method, double kelvin)
+    /// <summary>
+    /// The weight e^(−β(E − E(<paramref name="centre"/>))) integrated over the box of half-width <paramref name="half"/> Å
+    /// about <paramref name="centre"/> by a product Gauss–Legendre rule (MathNet.Numerics; 8 panels of 12 nodes per axis):
+    /// its integral, its first moments, its second moments and the moments E[u_a²u_b²], all of u = r − centre and not yet
+    /// divided by the integral.
+    /// </summary>
+    private static (double Z, double[] First, double[,] Second, double[,] Fourth) BoxMoments(SiteLandscape<LennardJones> landscape, Position centre, double half, Temperature temperature)
     {
-        // 90 K is a second point, further from the harmonic limit, for the direct sampler's envelope.
-        // Reference: the mean and covariance of the Boltzmann weight e^(−E/kT) over the box, by a product Gauss–Legendre
-        // rule (MathNet.Numerics; 8 panels of 12 nodes per axis), with the error of each covariance element from its
-        // fourth moment, √((E[u_a²u_b²] − C_ab²)/ESS) (common practice, no source). Five standard errors.
-        const double half = 0.4;
-        var landscape = Sheared(ShearedCentre, Confinement.Box(Length.FromAngstroms(half)));
-        var temperature = Temperature.FromKelvin(kelvin);
-        double beta = 1 / temperature.ThermalEnergyInElectronVolts, e0 = landscape.Energy(ShearedCentre);
+        double beta = 1 / temperature.ThermalEnergyInElectronVolts, e0 = landscape.Energy(centre);
         var nodes = new List<(double U, double W)>();
         for (int panel = 0; panel < 8; panel++)
         {
@@ -352,7 +387,7 @@ public class SiteSamplerEdgeTests
             {
                 foreach (var (z, wz) in nodes)
                 {
-                    double w = wx * wy * wz * Math.Exp(-beta * (landscape.Energy(ShearedCentre + new Position(x, y, z)) - e0));
+                    double w = wx * wy * wz * Math.Exp(-beta * (landscape.Energy(centre + new Position(x, y, z)) - e0));
                     double[] u = [x, y, z];
                     z0 += w;
                     for (int a = 0; a < 3; a++)
@@ -367,6 +402,23 @@ public class SiteSamplerEdgeTests
                 }
             }
         }
+        return (z0, first, second, fourth);
+    }
+
+    [Theory]
+    [InlineData(SamplingMethod.Direct, 30)]
+    [InlineData(SamplingMethod.Metropolis, 30)]
+    [InlineData(SamplingMethod.Direct, 90)]
+    public void The_sheared_cage_far_from_the_origin_gives_the_moments_of_three_dimensional_quadrature(SamplingMethod method, double kelvin)
+    {
+        // 90 K is a second point, further from the harmonic limit, for the direct sampler's envelope.
+        // Reference: the mean and covariance of the Boltzmann weight e^(−E/kT) over the box, by a product Gauss–Legendre
+        // rule (MathNet.Numerics; 8 panels of 12 nodes per axis), with the error of each covariance element from its
+        // fourth moment, √((E[u_a²u_b²] − C_ab²)/ESS) (common practice, no source). Five standard errors.
+        const double half = 0.4;
+        var landscape = Sheared(ShearedCentre, Confinement.Box(Length.FromAngstroms(half)));
+        var temperature = Temperature.FromKelvin(kelvin);
+        var (z0, first, second, fourth) = BoxMoments(landscape, ShearedCentre, half, temperature);
         var reference = new double[3, 3];
         for (int a = 0; a < 3; a++)
         {
