@@ -4,6 +4,7 @@ using System.Globalization;
 using System.IO;
 using System.Linq;
 using System.Threading;
+using ThermalSampling.Persistence;
 using ThermalSampling.Sampling;
 
 namespace ThermalSampling.Cli;

@@ -2,6 +2,7 @@ using System;
 using System.Collections.Generic;
 using System.Linq;
 using System.Threading;
+using ThermalSampling.Persistence;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Randomness;

@@ -5,6 +5,7 @@ using System.IO;
 using System.Linq;
 using System.Security.Cryptography;
 using System.Text;
+using ThermalSampling.Persistence;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
 using ThermalSampling.Sampling;

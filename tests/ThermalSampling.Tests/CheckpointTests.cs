@@ -9,6 +9,7 @@ using System.Text;
 using System.Threading;
 using FsCheck;
 using FsCheck.Fluent;
+using ThermalSampling.Persistence;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
 using ThermalSampling.Reports;

@@ -1,6 +1,7 @@
 using System;
 using System.Linq;
 using System.Runtime.Intrinsics;
+using ThermalSampling.Numerics;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
 using ThermalSampling.Randomness;
@@ -250,6 +251,12 @@ public sealed class LaneKernelTests
         public PotentialWell? Well => new(1.5, 0, double.PositiveInfinity);
 
         public string Description => "invented faulty band";
+
+        public TD LaneEnergy<TOps, TD, TB>(TD r) where TOps : struct, ILaneOps<TD, TB> where TD : struct where TB : struct
+            => LaneForms.ByLane<TOps, TD, TB, FaultyBand>(this, r);
+
+        public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance) where TOps : struct, ILaneOps<TD, TB> where TD : struct where TB : struct
+            => LaneForms.ByLaneAtSquaredDistance<TOps, TD, TB, FaultyBand>(this, squaredDistance);
     }
 
     [Theory]

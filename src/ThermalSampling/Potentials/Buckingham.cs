@@ -1,6 +1,7 @@
 using System;
 using System.Globalization;
 using System.Runtime.CompilerServices;
+using ThermalSampling.Numerics;
 using ThermalSampling.Internal;
 using ThermalSampling.Units;
 
@@ -81,18 +82,26 @@ public readonly struct Buckingham : IPairPotential
     public string Description => string.Create(CultureInfo.InvariantCulture,
         $"Buckingham (A = {_a:G6} eV, rho = {_rho:G6} Å, C = {_c:G6} eV·Å⁶)");
 
-    /// <summary>The energy in every lane: the Buckingham form with the lane exponential (within 1e−15 of <see cref="Energy"/>).</summary>
+    /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal TD LaneEnergy<TOps, TD, TB>(TD r)
-        where TOps : struct, Sampling.ILaneOps<TD, TB>
+    public TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
     {
         var r2 = TOps.Multiply(r, r);
         var r6 = TOps.Multiply(TOps.Multiply(r2, r2), r2);
-        var repulsion = TOps.Multiply(TOps.Broadcast(_a), Sampling.LaneMath.Exp<TOps, TD, TB>(TOps.Divide(TOps.Multiply(r, TOps.Broadcast(-1.0)), TOps.Broadcast(_rho))));
+        var repulsion = TOps.Multiply(TOps.Broadcast(_a), LaneMath.Exp<TOps, TD, TB>(TOps.Divide(TOps.Multiply(r, TOps.Broadcast(-1.0)), TOps.Broadcast(_rho))));
         return TOps.Subtract(repulsion, TOps.Divide(TOps.Broadcast(_c), r6));
     }
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => LaneForms.ViaDistance<TOps, TD, TB, Buckingham>(this, squaredDistance);
 
     /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]

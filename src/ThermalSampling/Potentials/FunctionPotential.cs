@@ -1,8 +1,11 @@
+using System.Runtime.CompilerServices;
 using System;
 using System.Globalization;
 using MathNet.Numerics.Differentiation;
 using ThermalSampling.Internal;
 using ThermalSampling.Units;
+
+using ThermalSampling.Numerics;
 
 namespace ThermalSampling.Potentials;
 
@@ -123,6 +126,22 @@ public readonly struct FunctionPotential : IPairPotential
         double d4 = coarse.EvaluateDerivative(f, r, 4, v);
         return new PairDerivatives(v, d1, d2, d3, d4);
     }
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => LaneForms.ByLane<TOps, TD, TB, FunctionPotential>(this, r);
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => LaneForms.ByLaneAtSquaredDistance<TOps, TD, TB, FunctionPotential>(this, squaredDistance);
 }
 
 /// <summary>Thrown when a potential returns NaN or ±∞ at a separation where the library needs its energy.</summary>

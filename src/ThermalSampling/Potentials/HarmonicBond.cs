@@ -1,5 +1,6 @@
 using System.Globalization;
 using System.Runtime.CompilerServices;
+using ThermalSampling.Numerics;
 using ThermalSampling.Internal;
 using ThermalSampling.Units;
 
@@ -39,16 +40,24 @@ public readonly struct HarmonicBond : IPairPotential
     public string Description => string.Create(CultureInfo.InvariantCulture,
         $"harmonic bond (k = {_k:G6} eV/Å², r0 = {_r0:G6} Å)");
 
-    /// <summary>The energy in every lane, with the same operations as <see cref="Energy"/>.</summary>
+    /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal TD LaneEnergy<TOps, TD, TB>(TD r)
-        where TOps : struct, Sampling.ILaneOps<TD, TB>
+    public TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
     {
         var x = TOps.Subtract(r, TOps.Broadcast(_r0));
         return TOps.Multiply(TOps.Multiply(TOps.Broadcast(0.5 * _k), x), x);
     }
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => LaneForms.ViaDistance<TOps, TD, TB, HarmonicBond>(this, squaredDistance);
 
     /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]

@@ -1,3 +1,6 @@
+using System.Runtime.CompilerServices;
+using ThermalSampling.Numerics;
+
 namespace ThermalSampling.Potentials;
 
 /// <summary>
@@ -39,6 +42,98 @@ public interface IPairPotential
 
     /// <summary>A short human-readable description with parameters and units, for reports.</summary>
     string Description { get; }
+
+    /// <summary>
+    /// V(r) in every lane of a vector of separations: the lane form the samplers call, several chains per register.
+    /// Each lane must be computed with exactly rounded operations in the same order at every width, so that results do not
+    /// depend on the width the hardware picks. A potential with no vector form returns
+    /// <see cref="LaneForms.ByLane{TOps, TD, TB, TPotential}(in TPotential, TD)"/>, which calls <see cref="Energy"/> lane by lane.
+    /// </summary>
+    /// <typeparam name="TOps">The lane width (<see cref="Lanes8"/>, <see cref="Lanes4"/>, <see cref="Lanes2"/>, <see cref="Lanes1"/>).</typeparam>
+    /// <typeparam name="TD">Doubles, one per lane.</typeparam>
+    /// <typeparam name="TB">Raw words, one per lane.</typeparam>
+    /// <param name="r">Separations in Å.</param>
+    TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct;
+
+    /// <summary>
+    /// V at squared separations in every lane (the 3D site loop's form). A form that depends on r² (Lennard-Jones) skips the
+    /// square root; others return <see cref="LaneForms.ViaDistance{TOps, TD, TB, TPotential}(in TPotential, TD)"/>, and a
+    /// potential with no vector form <see cref="LaneForms.ByLaneAtSquaredDistance{TOps, TD, TB, TPotential}(in TPotential, TD)"/>.
+    /// </summary>
+    /// <typeparam name="TOps">The lane width.</typeparam>
+    /// <typeparam name="TD">Doubles, one per lane.</typeparam>
+    /// <typeparam name="TB">Raw words, one per lane.</typeparam>
+    /// <param name="squaredDistance">r² in Å².</param>
+    TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct;
+}
+
+/// <summary>Ready-made lane forms for <see cref="IPairPotential"/> implementations.</summary>
+public static class LaneForms
+{
+    /// <summary>V(r) lane by lane through <see cref="IPairPotential.Energy"/>: correct at every width, and as fast as the scalar form.</summary>
+    /// <typeparam name="TOps">The lane width.</typeparam>
+    /// <typeparam name="TD">Doubles, one per lane.</typeparam>
+    /// <typeparam name="TB">Raw words, one per lane.</typeparam>
+    /// <typeparam name="TPotential">The potential.</typeparam>
+    /// <param name="potential">The potential.</param>
+    /// <param name="r">Separations in Å.</param>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static TD ByLane<TOps, TD, TB, TPotential>(in TPotential potential, TD r)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        where TPotential : struct, IPairPotential
+    {
+        var e = r;
+        for (int lane = 0; lane < TOps.Count; lane++)
+        {
+            e = TOps.Set(e, lane, potential.Energy(TOps.Get(r, lane)));
+        }
+        return e;
+    }
+
+    /// <summary>V at squared separations lane by lane through <see cref="IPairPotential.EnergyAtSquaredDistance"/>.</summary>
+    /// <typeparam name="TOps">The lane width.</typeparam>
+    /// <typeparam name="TD">Doubles, one per lane.</typeparam>
+    /// <typeparam name="TB">Raw words, one per lane.</typeparam>
+    /// <typeparam name="TPotential">The potential.</typeparam>
+    /// <param name="potential">The potential.</param>
+    /// <param name="squaredDistance">r² in Å².</param>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static TD ByLaneAtSquaredDistance<TOps, TD, TB, TPotential>(in TPotential potential, TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        where TPotential : struct, IPairPotential
+    {
+        var e = squaredDistance;
+        for (int lane = 0; lane < TOps.Count; lane++)
+        {
+            e = TOps.Set(e, lane, potential.EnergyAtSquaredDistance(TOps.Get(squaredDistance, lane)));
+        }
+        return e;
+    }
+
+    /// <summary>V at squared separations through the potential's own <see cref="IPairPotential.LaneEnergy{TOps, TD, TB}(TD)"/> at √r².</summary>
+    /// <typeparam name="TOps">The lane width.</typeparam>
+    /// <typeparam name="TD">Doubles, one per lane.</typeparam>
+    /// <typeparam name="TB">Raw words, one per lane.</typeparam>
+    /// <typeparam name="TPotential">The potential.</typeparam>
+    /// <param name="potential">The potential.</param>
+    /// <param name="squaredDistance">r² in Å².</param>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static TD ViaDistance<TOps, TD, TB, TPotential>(in TPotential potential, TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        where TPotential : struct, IPairPotential
+        => potential.LaneEnergy<TOps, TD, TB>(TOps.Sqrt(squaredDistance));
 }
 
 /// <summary>V(r) and its first four derivatives at one separation, in eV, eV/Å, eV/Å², eV/Å³ and eV/Å⁴.</summary>

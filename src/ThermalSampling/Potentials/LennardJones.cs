@@ -1,6 +1,7 @@
 using System;
 using System.Globalization;
 using System.Runtime.CompilerServices;
+using ThermalSampling.Numerics;
 using ThermalSampling.Internal;
 using ThermalSampling.Units;
 
@@ -65,24 +66,24 @@ public readonly struct LennardJones : IPairPotential
     public string Description => string.Create(CultureInfo.InvariantCulture,
         $"Lennard-Jones (r0 = {_r0:G6} Å, u0 = {_u0:G6} eV; sigma = {SigmaInAngstroms:G6} Å)");
 
-    /// <summary>The energy at separation <paramref name="r"/> in every lane, with the same operations as <see cref="EnergyAtSquaredDistance"/>.</summary>
+    /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal TD LaneEnergy<TOps, TD, TB>(TD r)
-        where TOps : struct, Sampling.ILaneOps<TD, TB>
+    public TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
     {
         return LaneEnergyAtSquaredDistance<TOps, TD, TB>(TOps.Multiply(r, r));
     }
 
-    /// <summary>The energy at squared distance <paramref name="r2"/> in every lane, with the same operations as <see cref="EnergyAtSquaredDistance"/>.</summary>
+    /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD r2)
-        where TOps : struct, Sampling.ILaneOps<TD, TB>
+    public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
     {
-        var s2 = TOps.Divide(TOps.Broadcast(_r0Squared), r2);
+        var s2 = TOps.Divide(TOps.Broadcast(_r0Squared), squaredDistance);
         var s6 = TOps.Multiply(TOps.Multiply(s2, s2), s2);
         return TOps.Multiply(TOps.Multiply(TOps.Broadcast(_u0), s6), TOps.Subtract(s6, TOps.Broadcast(2.0)));
     }

@@ -1,6 +1,7 @@
 using System;
 using System.Globalization;
 using System.Runtime.CompilerServices;
+using ThermalSampling.Numerics;
 using ThermalSampling.Internal;
 using ThermalSampling.Units;
 
@@ -48,16 +49,24 @@ public readonly struct Morse : IPairPotential
     public string Description => string.Create(CultureInfo.InvariantCulture,
         $"Morse (D = {_d:G6} eV, a = {_a:G6} 1/Å, re = {_re:G6} Å)");
 
-    /// <summary>The energy in every lane: the Morse form with the lane exponential (within 1e−15 of <see cref="Energy"/>).</summary>
+    /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal TD LaneEnergy<TOps, TD, TB>(TD r)
-        where TOps : struct, Sampling.ILaneOps<TD, TB>
+    public TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
     {
-        var e = Sampling.LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(TOps.Broadcast(-_a), TOps.Subtract(r, TOps.Broadcast(_re))));
+        var e = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(TOps.Broadcast(-_a), TOps.Subtract(r, TOps.Broadcast(_re))));
         return TOps.Multiply(TOps.Multiply(TOps.Broadcast(_d), e), TOps.Subtract(e, TOps.Broadcast(2.0)));
     }
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => LaneForms.ViaDistance<TOps, TD, TB, Morse>(this, squaredDistance);
 
     /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]

@@ -1,9 +1,12 @@
+using System.Runtime.CompilerServices;
 using System;
 using System.Collections.Generic;
 using System.Globalization;
 using System.Linq;
 using MathNet.Numerics.Interpolation;
 using ThermalSampling.Internal;
+
+using ThermalSampling.Numerics;
 
 namespace ThermalSampling.Potentials;
 
@@ -111,4 +114,20 @@ public readonly struct TabulatedPotential : IPairPotential
             (d2Hi - d2Lo) / (hi - lo),
             (d2Hi - 2 * d2Mid + d2Lo) / (half * half));
     }
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => LaneForms.ByLane<TOps, TD, TB, TabulatedPotential>(this, r);
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => LaneForms.ByLaneAtSquaredDistance<TOps, TD, TB, TabulatedPotential>(this, squaredDistance);
 }

@@ -2,6 +2,7 @@ using System;
 using System.Globalization;
 using System.Runtime.CompilerServices;
 using ThermalSampling.Internal;
+using ThermalSampling.Numerics;
 using ThermalSampling.Units;
 
 namespace ThermalSampling.Potentials;
@@ -54,6 +55,31 @@ public readonly struct CutOffPotential<TPotential> : IPairPotential where TPoten
 
     /// <inheritdoc/>
     public PairDerivatives Derivatives(double r) => r < _rc ? _inner.Derivatives(r) : default;
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        // Lanes beyond the cut-off evaluate the inner form at rc (inside its domain) and are then set to 0.
+        var inside = TOps.LessThan(r, TOps.Broadcast(_rc));
+        var e = _inner.LaneEnergy<TOps, TD, TB>(TOps.Select(inside, r, TOps.Broadcast(_rc)));
+        return TOps.Select(inside, e, TOps.Broadcast(0.0));
+    }
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var inside = TOps.LessThan(squaredDistance, TOps.Broadcast(_rcSquared));
+        var e = _inner.LaneEnergyAtSquaredDistance<TOps, TD, TB>(TOps.Select(inside, squaredDistance, TOps.Broadcast(_rcSquared)));
+        return TOps.Select(inside, e, TOps.Broadcast(0.0));
+    }
 }
 
 /// <summary>
@@ -116,6 +142,31 @@ public readonly struct ShiftedCutOffPotential<TPotential> : IPairPotential where
         }
         var d = _inner.Derivatives(r);
         return d with { Energy = d.Energy - _shift };
+    }
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        // Lanes beyond the cut-off evaluate the inner form at rc (inside its domain) and are then set to 0.
+        var inside = TOps.LessThan(r, TOps.Broadcast(_rc));
+        var e = _inner.LaneEnergy<TOps, TD, TB>(TOps.Select(inside, r, TOps.Broadcast(_rc)));
+        return TOps.Select(inside, TOps.Subtract(e, TOps.Broadcast(_shift)), TOps.Broadcast(0.0));
+    }
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var inside = TOps.LessThan(squaredDistance, TOps.Broadcast(_rcSquared));
+        var e = _inner.LaneEnergyAtSquaredDistance<TOps, TD, TB>(TOps.Select(inside, squaredDistance, TOps.Broadcast(_rcSquared)));
+        return TOps.Select(inside, TOps.Subtract(e, TOps.Broadcast(_shift)), TOps.Broadcast(0.0));
     }
 }
 
@@ -204,6 +255,22 @@ public readonly struct SumPotential<TFirst, TSecond> : IPairPotential
     /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double EnergyAtSquaredDistance(double squaredDistance) => _first.EnergyAtSquaredDistance(squaredDistance) + _second.EnergyAtSquaredDistance(squaredDistance);
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergy<TOps, TD, TB>(TD r)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => TOps.Add(_first.LaneEnergy<TOps, TD, TB>(r), _second.LaneEnergy<TOps, TD, TB>(r));
+
+    /// <inheritdoc/>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public TD LaneEnergyAtSquaredDistance<TOps, TD, TB>(TD squaredDistance)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        => TOps.Add(_first.LaneEnergyAtSquaredDistance<TOps, TD, TB>(squaredDistance), _second.LaneEnergyAtSquaredDistance<TOps, TD, TB>(squaredDistance));
 
     /// <inheritdoc/>
     public PairDerivatives Derivatives(double r) => _first.Derivatives(r) + _second.Derivatives(r);

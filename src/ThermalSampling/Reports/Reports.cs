@@ -73,8 +73,7 @@ public sealed record SamplingDiagnostics(double? AcceptanceRate, double Autocorr
 public sealed record Provenance(ulong Seed, string Generator, SamplingSettings Settings, string LibraryVersion, string Landscape, Mass Mass)
 {
     /// <summary>The library's informational version.</summary>
-    public static string CurrentLibraryVersion { get; } =
-        typeof(Provenance).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion ?? "unknown";
+    public static string CurrentLibraryVersion => Internal.LibraryVersion.Current;
 }
 
 /// <summary>The raw draws kept per chain (see <see cref="SamplingSettings.RetainedDrawsPerChain"/>), in the order they were drawn.</summary>

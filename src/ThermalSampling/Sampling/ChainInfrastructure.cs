@@ -5,6 +5,7 @@ using System.Linq;
 using System.Runtime.InteropServices;
 using System.Threading;
 using System.Threading.Tasks;
+using ThermalSampling.Persistence;
 using ThermalSampling.Analysis;
 using ThermalSampling.Randomness;
 using ThermalSampling.Reports;

@@ -8,6 +8,7 @@ using System.Linq;
 using System.Security.Cryptography;
 using System.Text;
 using System.Text.Json;
+using ThermalSampling.Persistence;
 using ThermalSampling.Units;
 
 namespace ThermalSampling.Sampling;
@@ -57,23 +58,6 @@ public sealed class CheckpointOptions
 
     /// <summary>Text stored verbatim in every checkpoint (an application's own settings, such as a scenario file); at most 16 MiB of UTF-8.</summary>
     public string? ApplicationData { get; init; }
-}
-
-/// <summary>A checkpoint that cannot be read or does not belong to the run it is offered to.</summary>
-public sealed class CheckpointException : Exception
-{
-    /// <summary>Creates the exception.</summary>
-    /// <param name="message">What is wrong, in a sentence a user can act on.</param>
-    public CheckpointException(string message) : base(message)
-    {
-    }
-
-    /// <summary>Creates the exception with its cause.</summary>
-    /// <param name="message">What is wrong.</param>
-    /// <param name="inner">The cause.</param>
-    public CheckpointException(string message, Exception inner) : base(message, inner)
-    {
-    }
 }
 
 /// <summary>

@@ -1,70 +1,10 @@
 using System;
 using System.Runtime.CompilerServices;
+using ThermalSampling.Persistence;
+using ThermalSampling.Numerics;
 using ThermalSampling.Potentials;
 
 namespace ThermalSampling.Sampling;
-
-// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
-/// <summary>Pair energies in every lane: potentials with a lane form use it, others are called lane by lane.</summary>
-internal static class LaneEnergy
-{
-    /// <summary>V(r) in every lane.</summary>
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal static TD AtDistance<TOps, TD, TB, TPotential>(in TPotential potential, TD r)
-        where TOps : struct, ILaneOps<TD, TB>
-        where TD : struct
-        where TB : struct
-        where TPotential : struct, IPairPotential
-    {
-        // typeof tests on a struct type parameter are constants to the JIT, and the (T)(object) casts do not box.
-        if (typeof(TPotential) == typeof(LennardJones))
-        {
-            return ((LennardJones)(object)potential).LaneEnergy<TOps, TD, TB>(r);
-        }
-        if (typeof(TPotential) == typeof(Morse))
-        {
-            return ((Morse)(object)potential).LaneEnergy<TOps, TD, TB>(r);
-        }
-        if (typeof(TPotential) == typeof(Buckingham))
-        {
-            return ((Buckingham)(object)potential).LaneEnergy<TOps, TD, TB>(r);
-        }
-        if (typeof(TPotential) == typeof(HarmonicBond))
-        {
-            return ((HarmonicBond)(object)potential).LaneEnergy<TOps, TD, TB>(r);
-        }
-        var e = r;
-        for (int lane = 0; lane < TOps.Count; lane++)
-        {
-            e = TOps.Set(e, lane, potential.Energy(TOps.Get(r, lane)));
-        }
-        return e;
-    }
-
-    /// <summary>V at squared distance <paramref name="r2"/> in every lane (Lennard-Jones needs no square root).</summary>
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal static TD AtSquaredDistance<TOps, TD, TB, TPotential>(in TPotential potential, TD r2)
-        where TOps : struct, ILaneOps<TD, TB>
-        where TD : struct
-        where TB : struct
-        where TPotential : struct, IPairPotential
-    {
-        if (typeof(TPotential) == typeof(LennardJones))
-        {
-            return ((LennardJones)(object)potential).LaneEnergyAtSquaredDistance<TOps, TD, TB>(r2);
-        }
-        if (typeof(TPotential) == typeof(Morse) || typeof(TPotential) == typeof(Buckingham) || typeof(TPotential) == typeof(HarmonicBond))
-        {
-            return AtDistance<TOps, TD, TB, TPotential>(potential, TOps.Sqrt(r2));
-        }
-        var e = r2;
-        for (int lane = 0; lane < TOps.Count; lane++)
-        {
-            e = TOps.Set(e, lane, potential.EnergyAtSquaredDistance(TOps.Get(r2, lane)));
-        }
-        return e;
-    }
-}
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Where and what the last non-finite energy of a chunk was, per lane.</summary>

@@ -3,6 +3,8 @@ using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 using System.Threading;
+using ThermalSampling.Persistence;
+using ThermalSampling.Numerics;
 using ThermalSampling.Potentials;
 using ThermalSampling.Randomness;
 using ThermalSampling.Statistics;
@@ -261,7 +263,7 @@ internal static class PairLaneChains
         internal TD WidthFrom(TD logWidth) => LaneAdaptation.Width<TOps, TD, TB>(logWidth, _maxWidth);
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Energy(TD r) => LaneEnergy.AtDistance<TOps, TD, TB, TPotential>(_potential, r);
+        private TD Energy(TD r) => _potential.LaneEnergy<TOps, TD, TB>(r);
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         private static void NoteFaults(TD r, TD e, ref LaneFaults<TD> faults) => LaneFaultCheck.Note<TOps, TD, TB>(ref faults, r, e);

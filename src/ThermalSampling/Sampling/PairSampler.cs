@@ -5,6 +5,7 @@ using System.Globalization;
 using System.Linq;
 using System.Runtime.CompilerServices;
 using System.Threading;
+using ThermalSampling.Persistence;
 using ThermalSampling.Analysis;
 using ThermalSampling.Internal;
 using ThermalSampling.Landscapes;

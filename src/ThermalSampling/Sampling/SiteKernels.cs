@@ -1,5 +1,6 @@
 using System;
 using System.Runtime.CompilerServices;
+using ThermalSampling.Persistence;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
 

@@ -3,6 +3,8 @@ using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 using System.Threading;
+using ThermalSampling.Persistence;
+using ThermalSampling.Numerics;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
 using ThermalSampling.Randomness;
@@ -272,7 +274,7 @@ internal static class SiteLaneChains
                 var dy = TOps.Subtract(y, TOps.Broadcast(sites[i + 1]));
                 var dz = TOps.Subtract(z, TOps.Broadcast(sites[i + 2]));
                 var r2 = TOps.Add(TOps.Add(TOps.Multiply(dx, dx), TOps.Multiply(dy, dy)), TOps.Multiply(dz, dz));
-                e = TOps.Add(e, LaneEnergy.AtSquaredDistance<TOps, TD, TB, TPotential>(_potential, r2));
+                e = TOps.Add(e, _potential.LaneEnergyAtSquaredDistance<TOps, TD, TB>(r2));
             }
             return e;
         }

@@ -6,6 +6,7 @@ using System.Linq;
 using System.Runtime.CompilerServices;
 using System.Threading;
 using MathNet.Numerics.LinearAlgebra;
+using ThermalSampling.Persistence;
 using ThermalSampling.Analysis;
 using ThermalSampling.Internal;
 using ThermalSampling.Landscapes;

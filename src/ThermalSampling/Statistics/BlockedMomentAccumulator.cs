@@ -1,5 +1,7 @@
 using System.Runtime.CompilerServices;
 
+using ThermalSampling.Persistence;
+
 namespace ThermalSampling.Statistics;
 
 /// <summary>
@@ -35,14 +37,14 @@ internal struct BlockedMomentAccumulator
     }
 
     /// <summary>Writes the merged total and the open block.</summary>
-    internal readonly void Save(Sampling.StateWriter w)
+    internal readonly void Save(StateWriter w)
     {
         w.Longs("BMOC", [_total.Count, _count]);
         w.Doubles("BMOS", [_total.Mean, _total.SumSquaredDeviations, _total.SumCubedDeviations, _total.SumFourthPowerDeviations, _reference, _s1, _s2, _s3, _s4]);
     }
 
     /// <summary>Restores what <see cref="Save"/> wrote.</summary>
-    internal void Load(Sampling.StateReader r)
+    internal void Load(StateReader r)
     {
         var counts = r.Longs("BMOC", 2);
         var v = r.Doubles("BMOS", 9);

@@ -2,7 +2,7 @@ using System;
 using System.Runtime.CompilerServices;
 using System.Runtime.Intrinsics;
 
-namespace ThermalSampling.Sampling;
+namespace ThermalSampling.Numerics;
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>
@@ -19,64 +19,89 @@ namespace ThermalSampling.Sampling;
 /// </remarks>
 /// <typeparam name="TD">Doubles, one per lane.</typeparam>
 /// <typeparam name="TB">Raw 64-bit words, one per lane.</typeparam>
-internal interface ILaneOps<TD, TB>
+public interface ILaneOps<TD, TB>
     where TD : struct
     where TB : struct
 {
+    /// <summary>The number of lanes.</summary>
     static abstract int Count { get; }
 
+    /// <summary>Whether the hardware runs this width natively.</summary>
     static abstract bool IsHardwareAccelerated { get; }
 
+    /// <summary><paramref name="x"/> in every lane.</summary>
     static abstract TD Broadcast(double x);
 
+    /// <summary>a + b per lane.</summary>
     static abstract TD Add(TD a, TD b);
 
+    /// <summary>a − b per lane.</summary>
     static abstract TD Subtract(TD a, TD b);
 
+    /// <summary>a · b per lane.</summary>
     static abstract TD Multiply(TD a, TD b);
 
+    /// <summary>a / b per lane.</summary>
     static abstract TD Divide(TD a, TD b);
 
+    /// <summary>√a per lane (correctly rounded).</summary>
     static abstract TD Sqrt(TD a);
 
+    /// <summary>|a| per lane.</summary>
     static abstract TD Abs(TD a);
 
+    /// <summary>The bitwise or of two masks (or of the bits of two doubles).</summary>
     static abstract TD Or(TD a, TD b);
 
     /// <summary>a·b + c with one rounding.</summary>
     static abstract TD MultiplyAdd(TD a, TD b, TD c);
 
+    /// <summary>A mask: all bits set where a &lt; b.</summary>
     static abstract TD LessThan(TD a, TD b);
 
+    /// <summary>A mask: all bits set where a ≤ b.</summary>
     static abstract TD LessOrEqual(TD a, TD b);
 
+    /// <summary>A mask: all bits set where a &gt; b.</summary>
     static abstract TD GreaterThan(TD a, TD b);
 
+    /// <summary>The bitwise and of two masks (or of a mask and a value).</summary>
     static abstract TD And(TD a, TD b);
 
+    /// <summary>Per lane: <paramref name="ifTrue"/> where <paramref name="mask"/> is set, else <paramref name="ifFalse"/>.</summary>
     static abstract TD Select(TD mask, TD ifTrue, TD ifFalse);
 
+    /// <summary>Whether every lane of <paramref name="mask"/> is set.</summary>
     static abstract bool AllTrue(TD mask);
 
+    /// <summary>The value in lane <paramref name="lane"/>.</summary>
     static abstract double Get(TD v, int lane);
 
+    /// <summary><paramref name="v"/> with lane <paramref name="lane"/> replaced by <paramref name="x"/>.</summary>
     static abstract TD Set(TD v, int lane, double x);
 
     /// <summary>Writes the lanes to <paramref name="destination"/>[0 … Count − 1].</summary>
     static abstract void Store(TD v, ref double destination);
 
+    /// <summary>a xor b per lane.</summary>
     static abstract TB Xor(TB a, TB b);
 
+    /// <summary>a or b per lane.</summary>
     static abstract TB Or(TB a, TB b);
 
+    /// <summary>a and b per lane.</summary>
     static abstract TB AndBits(TB a, TB b);
 
+    /// <summary>a + b per lane, modulo 2^64.</summary>
     static abstract TB AddBits(TB a, TB b);
 
+    /// <summary>a shifted left by <paramref name="count"/> bits per lane.</summary>
     static abstract TB ShiftLeft(TB a, int count);
 
+    /// <summary>a shifted right (logical) by <paramref name="count"/> bits per lane.</summary>
     static abstract TB ShiftRight(TB a, int count);
 
+    /// <summary><paramref name="x"/> in every lane.</summary>
     static abstract TB BroadcastBits(ulong x);
 
     /// <summary>Each lane truncated toward zero to a 64-bit integer (the lanes must be in [0, 2^53)).</summary>
@@ -85,183 +110,319 @@ internal interface ILaneOps<TD, TB>
     /// <summary>Writes the words to <paramref name="destination"/>[0 … Count − 1].</summary>
     static abstract void StoreBits(TB v, ref ulong destination);
 
+    /// <summary>The bits of each lane read as a double.</summary>
     static abstract TD BitsAsDouble(TB a);
 
+    /// <summary>The bits of each lane's double.</summary>
     static abstract TB DoubleAsBits(TD a);
 
+    /// <summary>The word in lane <paramref name="lane"/>.</summary>
     static abstract ulong GetBits(TB v, int lane);
 
+    /// <summary><paramref name="v"/> with lane <paramref name="lane"/> replaced by <paramref name="x"/>.</summary>
     static abstract TB SetBits(TB v, int lane, ulong x);
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Eight lanes in a 512-bit register.</summary>
-internal readonly struct Lanes8 : ILaneOps<Vector512<double>, Vector512<ulong>>
+public readonly struct Lanes8 : ILaneOps<Vector512<double>, Vector512<ulong>>
 {
+    /// <inheritdoc/>
     public static int Count => 8;
+    /// <inheritdoc/>
     public static bool IsHardwareAccelerated => Vector512.IsHardwareAccelerated;
+    /// <inheritdoc/>
     public static Vector512<double> Broadcast(double x) => Vector512.Create(x);
+    /// <inheritdoc/>
     public static Vector512<double> Add(Vector512<double> a, Vector512<double> b) => a + b;
+    /// <inheritdoc/>
     public static Vector512<double> Subtract(Vector512<double> a, Vector512<double> b) => a - b;
+    /// <inheritdoc/>
     public static Vector512<double> Multiply(Vector512<double> a, Vector512<double> b) => a * b;
+    /// <inheritdoc/>
     public static Vector512<double> Divide(Vector512<double> a, Vector512<double> b) => a / b;
+    /// <inheritdoc/>
     public static Vector512<double> Sqrt(Vector512<double> a) => Vector512.Sqrt(a);
+    /// <inheritdoc/>
     public static Vector512<double> Abs(Vector512<double> a) => Vector512.Abs(a);
+    /// <inheritdoc/>
     public static Vector512<double> Or(Vector512<double> a, Vector512<double> b) => a | b;
+    /// <inheritdoc/>
     public static Vector512<double> MultiplyAdd(Vector512<double> a, Vector512<double> b, Vector512<double> c) => Vector512.FusedMultiplyAdd(a, b, c);
+    /// <inheritdoc/>
     public static Vector512<double> LessThan(Vector512<double> a, Vector512<double> b) => Vector512.LessThan(a, b);
+    /// <inheritdoc/>
     public static Vector512<double> LessOrEqual(Vector512<double> a, Vector512<double> b) => Vector512.LessThanOrEqual(a, b);
+    /// <inheritdoc/>
     public static Vector512<double> GreaterThan(Vector512<double> a, Vector512<double> b) => Vector512.GreaterThan(a, b);
+    /// <inheritdoc/>
     public static Vector512<double> And(Vector512<double> a, Vector512<double> b) => a & b;
+    /// <inheritdoc/>
     public static Vector512<double> Select(Vector512<double> mask, Vector512<double> ifTrue, Vector512<double> ifFalse) => Vector512.ConditionalSelect(mask, ifTrue, ifFalse);
+    /// <inheritdoc/>
     public static bool AllTrue(Vector512<double> mask) => Vector512.ExtractMostSignificantBits(mask) == 0xFFUL;
+    /// <inheritdoc/>
     public static double Get(Vector512<double> v, int lane) => v.GetElement(lane);
+    /// <inheritdoc/>
     public static Vector512<double> Set(Vector512<double> v, int lane, double x) => v.WithElement(lane, x);
+    /// <inheritdoc/>
     public static void Store(Vector512<double> v, ref double destination) => v.StoreUnsafe(ref destination);
+    /// <inheritdoc/>
     public static Vector512<ulong> Xor(Vector512<ulong> a, Vector512<ulong> b) => a ^ b;
+    /// <inheritdoc/>
     public static Vector512<ulong> Or(Vector512<ulong> a, Vector512<ulong> b) => a | b;
+    /// <inheritdoc/>
     public static Vector512<ulong> AndBits(Vector512<ulong> a, Vector512<ulong> b) => a & b;
+    /// <inheritdoc/>
     public static Vector512<ulong> AddBits(Vector512<ulong> a, Vector512<ulong> b) => a + b;
+    /// <inheritdoc/>
     public static Vector512<ulong> ShiftLeft(Vector512<ulong> a, int count) => Vector512.ShiftLeft(a, count);
+    /// <inheritdoc/>
     public static Vector512<ulong> ShiftRight(Vector512<ulong> a, int count) => Vector512.ShiftRightLogical(a, count);
+    /// <inheritdoc/>
     public static Vector512<ulong> BroadcastBits(ulong x) => Vector512.Create(x);
+    /// <inheritdoc/>
     public static Vector512<ulong> Truncate(Vector512<double> a) => Vector512.ConvertToInt64(a).AsUInt64();
+    /// <inheritdoc/>
     public static void StoreBits(Vector512<ulong> v, ref ulong destination) => v.StoreUnsafe(ref destination);
+    /// <inheritdoc/>
     public static Vector512<double> BitsAsDouble(Vector512<ulong> a) => a.AsDouble();
+    /// <inheritdoc/>
     public static Vector512<ulong> DoubleAsBits(Vector512<double> a) => a.AsUInt64();
+    /// <inheritdoc/>
     public static ulong GetBits(Vector512<ulong> v, int lane) => v.GetElement(lane);
+    /// <inheritdoc/>
     public static Vector512<ulong> SetBits(Vector512<ulong> v, int lane, ulong x) => v.WithElement(lane, x);
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Four lanes in a 256-bit register.</summary>
-internal readonly struct Lanes4 : ILaneOps<Vector256<double>, Vector256<ulong>>
+public readonly struct Lanes4 : ILaneOps<Vector256<double>, Vector256<ulong>>
 {
+    /// <inheritdoc/>
     public static int Count => 4;
+    /// <inheritdoc/>
     public static bool IsHardwareAccelerated => Vector256.IsHardwareAccelerated;
+    /// <inheritdoc/>
     public static Vector256<double> Broadcast(double x) => Vector256.Create(x);
+    /// <inheritdoc/>
     public static Vector256<double> Add(Vector256<double> a, Vector256<double> b) => a + b;
+    /// <inheritdoc/>
     public static Vector256<double> Subtract(Vector256<double> a, Vector256<double> b) => a - b;
+    /// <inheritdoc/>
     public static Vector256<double> Multiply(Vector256<double> a, Vector256<double> b) => a * b;
+    /// <inheritdoc/>
     public static Vector256<double> Divide(Vector256<double> a, Vector256<double> b) => a / b;
+    /// <inheritdoc/>
     public static Vector256<double> Sqrt(Vector256<double> a) => Vector256.Sqrt(a);
+    /// <inheritdoc/>
     public static Vector256<double> Abs(Vector256<double> a) => Vector256.Abs(a);
+    /// <inheritdoc/>
     public static Vector256<double> Or(Vector256<double> a, Vector256<double> b) => a | b;
+    /// <inheritdoc/>
     public static Vector256<double> MultiplyAdd(Vector256<double> a, Vector256<double> b, Vector256<double> c) => Vector256.FusedMultiplyAdd(a, b, c);
+    /// <inheritdoc/>
     public static Vector256<double> LessThan(Vector256<double> a, Vector256<double> b) => Vector256.LessThan(a, b);
+    /// <inheritdoc/>
     public static Vector256<double> LessOrEqual(Vector256<double> a, Vector256<double> b) => Vector256.LessThanOrEqual(a, b);
+    /// <inheritdoc/>
     public static Vector256<double> GreaterThan(Vector256<double> a, Vector256<double> b) => Vector256.GreaterThan(a, b);
+    /// <inheritdoc/>
     public static Vector256<double> And(Vector256<double> a, Vector256<double> b) => a & b;
+    /// <inheritdoc/>
     public static Vector256<double> Select(Vector256<double> mask, Vector256<double> ifTrue, Vector256<double> ifFalse) => Vector256.ConditionalSelect(mask, ifTrue, ifFalse);
+    /// <inheritdoc/>
     public static bool AllTrue(Vector256<double> mask) => Vector256.ExtractMostSignificantBits(mask) == 0xFU;
+    /// <inheritdoc/>
     public static double Get(Vector256<double> v, int lane) => v.GetElement(lane);
+    /// <inheritdoc/>
     public static Vector256<double> Set(Vector256<double> v, int lane, double x) => v.WithElement(lane, x);
+    /// <inheritdoc/>
     public static void Store(Vector256<double> v, ref double destination) => v.StoreUnsafe(ref destination);
+    /// <inheritdoc/>
     public static Vector256<ulong> Xor(Vector256<ulong> a, Vector256<ulong> b) => a ^ b;
+    /// <inheritdoc/>
     public static Vector256<ulong> Or(Vector256<ulong> a, Vector256<ulong> b) => a | b;
+    /// <inheritdoc/>
     public static Vector256<ulong> AndBits(Vector256<ulong> a, Vector256<ulong> b) => a & b;
+    /// <inheritdoc/>
     public static Vector256<ulong> AddBits(Vector256<ulong> a, Vector256<ulong> b) => a + b;
+    /// <inheritdoc/>
     public static Vector256<ulong> ShiftLeft(Vector256<ulong> a, int count) => Vector256.ShiftLeft(a, count);
+    /// <inheritdoc/>
     public static Vector256<ulong> ShiftRight(Vector256<ulong> a, int count) => Vector256.ShiftRightLogical(a, count);
+    /// <inheritdoc/>
     public static Vector256<ulong> BroadcastBits(ulong x) => Vector256.Create(x);
+    /// <inheritdoc/>
     public static Vector256<ulong> Truncate(Vector256<double> a) => Vector256.ConvertToInt64(a).AsUInt64();
+    /// <inheritdoc/>
     public static void StoreBits(Vector256<ulong> v, ref ulong destination) => v.StoreUnsafe(ref destination);
+    /// <inheritdoc/>
     public static Vector256<double> BitsAsDouble(Vector256<ulong> a) => a.AsDouble();
+    /// <inheritdoc/>
     public static Vector256<ulong> DoubleAsBits(Vector256<double> a) => a.AsUInt64();
+    /// <inheritdoc/>
     public static ulong GetBits(Vector256<ulong> v, int lane) => v.GetElement(lane);
+    /// <inheritdoc/>
     public static Vector256<ulong> SetBits(Vector256<ulong> v, int lane, ulong x) => v.WithElement(lane, x);
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Two lanes in a 128-bit register.</summary>
-internal readonly struct Lanes2 : ILaneOps<Vector128<double>, Vector128<ulong>>
+public readonly struct Lanes2 : ILaneOps<Vector128<double>, Vector128<ulong>>
 {
+    /// <inheritdoc/>
     public static int Count => 2;
+    /// <inheritdoc/>
     public static bool IsHardwareAccelerated => Vector128.IsHardwareAccelerated;
+    /// <inheritdoc/>
     public static Vector128<double> Broadcast(double x) => Vector128.Create(x);
+    /// <inheritdoc/>
     public static Vector128<double> Add(Vector128<double> a, Vector128<double> b) => a + b;
+    /// <inheritdoc/>
     public static Vector128<double> Subtract(Vector128<double> a, Vector128<double> b) => a - b;
+    /// <inheritdoc/>
     public static Vector128<double> Multiply(Vector128<double> a, Vector128<double> b) => a * b;
+    /// <inheritdoc/>
     public static Vector128<double> Divide(Vector128<double> a, Vector128<double> b) => a / b;
+    /// <inheritdoc/>
     public static Vector128<double> Sqrt(Vector128<double> a) => Vector128.Sqrt(a);
+    /// <inheritdoc/>
     public static Vector128<double> Abs(Vector128<double> a) => Vector128.Abs(a);
+    /// <inheritdoc/>
     public static Vector128<double> Or(Vector128<double> a, Vector128<double> b) => a | b;
+    /// <inheritdoc/>
     public static Vector128<double> MultiplyAdd(Vector128<double> a, Vector128<double> b, Vector128<double> c) => Vector128.FusedMultiplyAdd(a, b, c);
+    /// <inheritdoc/>
     public static Vector128<double> LessThan(Vector128<double> a, Vector128<double> b) => Vector128.LessThan(a, b);
+    /// <inheritdoc/>
     public static Vector128<double> LessOrEqual(Vector128<double> a, Vector128<double> b) => Vector128.LessThanOrEqual(a, b);
+    /// <inheritdoc/>
     public static Vector128<double> GreaterThan(Vector128<double> a, Vector128<double> b) => Vector128.GreaterThan(a, b);
+    /// <inheritdoc/>
     public static Vector128<double> And(Vector128<double> a, Vector128<double> b) => a & b;
+    /// <inheritdoc/>
     public static Vector128<double> Select(Vector128<double> mask, Vector128<double> ifTrue, Vector128<double> ifFalse) => Vector128.ConditionalSelect(mask, ifTrue, ifFalse);
+    /// <inheritdoc/>
     public static bool AllTrue(Vector128<double> mask) => Vector128.ExtractMostSignificantBits(mask) == 0x3U;
+    /// <inheritdoc/>
     public static double Get(Vector128<double> v, int lane) => v.GetElement(lane);
+    /// <inheritdoc/>
     public static Vector128<double> Set(Vector128<double> v, int lane, double x) => v.WithElement(lane, x);
+    /// <inheritdoc/>
     public static void Store(Vector128<double> v, ref double destination) => v.StoreUnsafe(ref destination);
+    /// <inheritdoc/>
     public static Vector128<ulong> Xor(Vector128<ulong> a, Vector128<ulong> b) => a ^ b;
+    /// <inheritdoc/>
     public static Vector128<ulong> Or(Vector128<ulong> a, Vector128<ulong> b) => a | b;
+    /// <inheritdoc/>
     public static Vector128<ulong> AndBits(Vector128<ulong> a, Vector128<ulong> b) => a & b;
+    /// <inheritdoc/>
     public static Vector128<ulong> AddBits(Vector128<ulong> a, Vector128<ulong> b) => a + b;
+    /// <inheritdoc/>
     public static Vector128<ulong> ShiftLeft(Vector128<ulong> a, int count) => Vector128.ShiftLeft(a, count);
+    /// <inheritdoc/>
     public static Vector128<ulong> ShiftRight(Vector128<ulong> a, int count) => Vector128.ShiftRightLogical(a, count);
+    /// <inheritdoc/>
     public static Vector128<ulong> BroadcastBits(ulong x) => Vector128.Create(x);
+    /// <inheritdoc/>
     public static Vector128<ulong> Truncate(Vector128<double> a) => Vector128.ConvertToInt64(a).AsUInt64();
+    /// <inheritdoc/>
     public static void StoreBits(Vector128<ulong> v, ref ulong destination) => v.StoreUnsafe(ref destination);
+    /// <inheritdoc/>
     public static Vector128<double> BitsAsDouble(Vector128<ulong> a) => a.AsDouble();
+    /// <inheritdoc/>
     public static Vector128<ulong> DoubleAsBits(Vector128<double> a) => a.AsUInt64();
+    /// <inheritdoc/>
     public static ulong GetBits(Vector128<ulong> v, int lane) => v.GetElement(lane);
+    /// <inheritdoc/>
     public static Vector128<ulong> SetBits(Vector128<ulong> v, int lane, ulong x) => v.WithElement(lane, x);
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>One lane in plain scalar registers: the fallback, and the reference the wider forms are tested against.</summary>
-internal readonly struct Lanes1 : ILaneOps<double, ulong>
+public readonly struct Lanes1 : ILaneOps<double, ulong>
 {
     private static readonly double True = BitConverter.UInt64BitsToDouble(ulong.MaxValue);
 
+    /// <inheritdoc/>
     public static int Count => 1;
+    /// <inheritdoc/>
     public static bool IsHardwareAccelerated => true;
+    /// <inheritdoc/>
     public static double Broadcast(double x) => x;
+    /// <inheritdoc/>
     public static double Add(double a, double b) => a + b;
+    /// <inheritdoc/>
     public static double Subtract(double a, double b) => a - b;
+    /// <inheritdoc/>
     public static double Multiply(double a, double b) => a * b;
+    /// <inheritdoc/>
     public static double Divide(double a, double b) => a / b;
+    /// <inheritdoc/>
     public static double Sqrt(double a) => Math.Sqrt(a);
+    /// <inheritdoc/>
     public static double Abs(double a) => Math.Abs(a);
+    /// <inheritdoc/>
     public static double Or(double a, double b) => BitConverter.UInt64BitsToDouble(BitConverter.DoubleToUInt64Bits(a) | BitConverter.DoubleToUInt64Bits(b));
+    /// <inheritdoc/>
     public static double MultiplyAdd(double a, double b, double c) => Math.FusedMultiplyAdd(a, b, c);
     // Comparisons and selects go through the low element of a 128-bit register, so the accept/reject decision is a blend,
     // not a branch the predictor gets wrong half the time (measured: 35 → 30 ns per pair step). The branchy forms are for
     // hardware without 128-bit vectors.
+    /// <inheritdoc/>
     public static double LessThan(double a, double b) => Vector128.IsHardwareAccelerated
         ? Vector128.LessThan(Vector128.CreateScalarUnsafe(a), Vector128.CreateScalarUnsafe(b)).ToScalar()
         : a < b ? True : 0.0;
+    /// <inheritdoc/>
     public static double LessOrEqual(double a, double b) => Vector128.IsHardwareAccelerated
         ? Vector128.LessThanOrEqual(Vector128.CreateScalarUnsafe(a), Vector128.CreateScalarUnsafe(b)).ToScalar()
         : a <= b ? True : 0.0;
+    /// <inheritdoc/>
     public static double GreaterThan(double a, double b) => Vector128.IsHardwareAccelerated
         ? Vector128.GreaterThan(Vector128.CreateScalarUnsafe(a), Vector128.CreateScalarUnsafe(b)).ToScalar()
         : a > b ? True : 0.0;
+    /// <inheritdoc/>
     public static double And(double a, double b) => Vector128.IsHardwareAccelerated
         ? (Vector128.CreateScalarUnsafe(a) & Vector128.CreateScalarUnsafe(b)).ToScalar()
         : BitConverter.UInt64BitsToDouble(BitConverter.DoubleToUInt64Bits(a) & BitConverter.DoubleToUInt64Bits(b));
+    /// <inheritdoc/>
     public static double Select(double mask, double ifTrue, double ifFalse) => Vector128.IsHardwareAccelerated
         ? Vector128.ConditionalSelect(Vector128.CreateScalarUnsafe(mask), Vector128.CreateScalarUnsafe(ifTrue), Vector128.CreateScalarUnsafe(ifFalse)).ToScalar()
         : BitConverter.DoubleToUInt64Bits(mask) != 0 ? ifTrue : ifFalse;
+    /// <inheritdoc/>
     public static bool AllTrue(double mask) => BitConverter.DoubleToUInt64Bits(mask) != 0;
+    /// <inheritdoc/>
     public static double Get(double v, int lane) => v;
+    /// <inheritdoc/>
     public static double Set(double v, int lane, double x) => x;
+    /// <inheritdoc/>
     public static void Store(double v, ref double destination) => destination = v;
+    /// <inheritdoc/>
     public static ulong Xor(ulong a, ulong b) => a ^ b;
+    /// <inheritdoc/>
     public static ulong Or(ulong a, ulong b) => a | b;
+    /// <inheritdoc/>
     public static ulong AndBits(ulong a, ulong b) => a & b;
+    /// <inheritdoc/>
     public static ulong AddBits(ulong a, ulong b) => a + b;
+    /// <inheritdoc/>
     public static ulong ShiftLeft(ulong a, int count) => a << count;
+    /// <inheritdoc/>
     public static ulong ShiftRight(ulong a, int count) => a >> count;
+    /// <inheritdoc/>
     public static ulong BroadcastBits(ulong x) => x;
+    /// <inheritdoc/>
     public static ulong Truncate(double a) => (ulong)(long)a;
+    /// <inheritdoc/>
     public static void StoreBits(ulong v, ref ulong destination) => destination = v;
+    /// <inheritdoc/>
     public static double BitsAsDouble(ulong a) => BitConverter.UInt64BitsToDouble(a);
+    /// <inheritdoc/>
     public static ulong DoubleAsBits(double a) => BitConverter.DoubleToUInt64Bits(a);
+    /// <inheritdoc/>
     public static ulong GetBits(ulong v, int lane) => v;
+    /// <inheritdoc/>
     public static ulong SetBits(ulong v, int lane, ulong x) => x;
 }
 
@@ -269,13 +430,13 @@ internal readonly struct Lanes1 : ILaneOps<double, ulong>
 /// <summary>
 /// Lane-parallel functions built on <see cref="ILaneOps{TD, TB}"/>, identical bit for bit at every width.
 /// </summary>
-internal static class LaneMath
+public static class LaneMath
 {
     /// <summary>The argument below which <see cref="Exp{TOps, TD, TB}"/> returns 0.</summary>
-    internal const double ExpLowerLimit = -708.0;
+    public const double ExpLowerLimit = -708.0;
 
     /// <summary>The argument above which <see cref="Exp{TOps, TD, TB}"/> saturates at e^709.</summary>
-    internal const double ExpUpperLimit = 709.0;
+    public const double ExpUpperLimit = 709.0;
 
     private const double Log2E = 1.4426950408889634;
     private const double Ln2High = 6.93147180369123816490e-01; // ln 2 split in two (fdlibm's constants): n·Ln2High is exact
@@ -289,8 +450,12 @@ internal static class LaneMath
     /// Written here because .NET's Vector512.Exp is not inlined (it spills the kernel's registers) and because the
     /// kernels need the same bits at every vector width, which Math.Exp cannot promise against a vector exp.
     /// </summary>
+    /// <typeparam name="TOps">The lane width.</typeparam>
+    /// <typeparam name="TD">Doubles, one per lane.</typeparam>
+    /// <typeparam name="TB">Raw words, one per lane.</typeparam>
+    /// <param name="x">The exponents.</param>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal static TD Exp<TOps, TD, TB>(TD x)
+    public static TD Exp<TOps, TD, TB>(TD x)
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
