@@ -176,13 +176,13 @@ public class ChainInfrastructureTests
         a.Add(1);
         b.Add(2);
         b.Add(3);
-        var both = DrawRecorder<double>.Combine([a, b]);
+        var both = ReportParts.Draws([a, b]);
         Assert.Equal(2, both.Chains.Length);
         Assert.Equal(new[] { 1.0 }, both.Chains[0]);
         Assert.Equal(new[] { 2.0, 3.0 }, both.Chains[1]);
-        Assert.Same(RetainedDraws<double>.None, DrawRecorder<double>.Combine([new DrawRecorder<double>(10, 0), new DrawRecorder<double>(10, 0)]));
+        Assert.Same(RetainedDraws<double>.None, ReportParts.Draws([new DrawRecorder<double>(10, 0), new DrawRecorder<double>(10, 0)]));
         // One chain that kept something is enough for the per-chain lists.
-        Assert.Equal(2, DrawRecorder<double>.Combine([new DrawRecorder<double>(10, 0), a]).Chains.Length);
+        Assert.Equal(2, ReportParts.Draws([new DrawRecorder<double>(10, 0), a]).Chains.Length);
     }
 
     [Fact]
@@ -214,7 +214,7 @@ public class ChainInfrastructureTests
         var b = new BinCounter(0, 2, 4);
         a.AddCounts([1, 2, 3, 4]);
         b.AddCounts([4, 3, 2, 1]);
-        var h = BinCounter.Combine([a, b], 5);
+        var h = ReportParts.Histogram([a, b], 5);
         Assert.Equal(20, h.Count);
         Assert.Equal(0, h.Lower);
         Assert.Equal(2, h.Upper);
@@ -224,9 +224,9 @@ public class ChainInfrastructureTests
         Assert.Equal(Math.Sqrt(0.25 * 0.75 / 5) / w, h.DensityStandardError[0], 15);
         Assert.Equal(1.0, h.Density.Sum() * w, 15);
         // An effective sample size below one is taken as one: the error bar cannot exceed a single draw's.
-        Assert.Equal(Math.Sqrt(0.25 * 0.75) / w, BinCounter.Combine([a, b], 0.2).DensityStandardError[0], 15);
+        Assert.Equal(Math.Sqrt(0.25 * 0.75) / w, ReportParts.Histogram([a, b], 0.2).DensityStandardError[0], 15);
         // Nothing counted: zero density, not NaN.
-        var empty = BinCounter.Combine([new BinCounter(0, 2, 4)], 10);
+        var empty = ReportParts.Histogram([new BinCounter(0, 2, 4)], 10);
         Assert.All(empty.Density, d => Assert.Equal(0, d));
         Assert.All(empty.DensityStandardError, e => Assert.Equal(0, e));
     }
@@ -379,7 +379,7 @@ public class ChainInfrastructureTests
     private static List<Warning> WarningsFor(ChainDiagnostics.Summary summary, double? acceptance = null, double? target = null)
     {
         var builder = System.Collections.Immutable.ImmutableArray.CreateBuilder<Warning>();
-        ChainDiagnostics.AddConvergenceWarnings(builder, summary, acceptance, target);
+        ReportParts.AddConvergenceWarnings(builder, summary, acceptance, target);
         return builder.ToList();
     }
 

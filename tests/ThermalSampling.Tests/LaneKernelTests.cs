@@ -1,6 +1,7 @@
 using System;
 using System.Linq;
 using System.Runtime.Intrinsics;
+using ThermalSampling.Statistics;
 using ThermalSampling.Numerics;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
@@ -336,11 +337,11 @@ public sealed class LaneKernelTests
     [Fact]
     public void LaneChoiceFollowsHardwareAndThreads()
     {
-        Assert.Equal(4, PairLaneChains.ChooseLanes(16, 2, 4));
-        Assert.Equal(1, PairLaneChains.ChooseLanes(1, 2, null));
+        Assert.Equal(4, LaneGroups.ChooseLanes(16, 2, 4));
+        Assert.Equal(1, LaneGroups.ChooseLanes(1, 2, null));
         int hardware = Vector512.IsHardwareAccelerated ? 8 : Vector256.IsHardwareAccelerated ? 4 : Vector128.IsHardwareAccelerated ? 2 : 1;
-        Assert.Equal(hardware, PairLaneChains.ChooseLanes(64, 2, null));
-        Assert.Equal(Math.Min(hardware, 2), PairLaneChains.ChooseLanes(4, 2, null));
+        Assert.Equal(hardware, LaneGroups.ChooseLanes(64, 2, null));
+        Assert.Equal(Math.Min(hardware, 2), LaneGroups.ChooseLanes(4, 2, null));
     }
 
     private static SiteVibrationReport RunSite(SiteLandscape<LennardJones> landscape, double kelvin, int? lanes, int threads, int chains = 5,

@@ -253,7 +253,7 @@ public class PairSamplerEdgeTests
         // Eight chains on one thread: the widest native register that still gives the thread full vectors
         // (8 with AVX-512, 4 with AVX2, 2 with SSE2 or NEON), never the one-chain fallback on vector hardware.
         var settings = Small(SamplingMethod.Metropolis, samples: 3 * 4096) with { Chains = 8, MaxThreads = 1 };
-        int expected = PairLaneChains.ChooseLanes(8, 1, null);
+        int expected = LaneGroups.ChooseLanes(8, 1, null);
         if (System.Runtime.Intrinsics.Vector128.IsHardwareAccelerated)
         {
             Assert.True(expected > 1, $"lanes {expected}");

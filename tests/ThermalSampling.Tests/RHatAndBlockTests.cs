@@ -202,7 +202,7 @@ public sealed class RHatAndBlockTests
         {
             var chains = phis.Select(phi => StationaryAr1(random, phi, n)).ToList();
             double variancePerDraw = chains.SelectMany(c => c).Variance();
-            var summary = ThermalSampling.Sampling.ChainDiagnostics.Summarise(chains, 1, n, variancePerDraw);
+            var summary = ThermalSampling.Statistics.ChainDiagnostics.Summarise(chains, 1, n, variancePerDraw);
             reportedSum += variancePerDraw / summary.Ess;
             Assert.Equal(phis.Length * (double)n / summary.Ess, summary.Tau, 12);
             pooledMeans.Add(chains.Average(c => c.Average()));

@@ -34,7 +34,7 @@ public class ReadmeTests
         var pair = LennardJones.FromSigmaEpsilon(Length.FromAngstroms(3.405), Energy.FromKelvin(119.8));
         var line = PairLandscape.Line(pair, Length.FromAngstroms(3.2), Length.FromAngstroms(6.0));
         var settings = new ThermalSampling.Sampling.SamplingSettings { Seed = 42, Chains = 4, SamplesPerChain = 100_000, BurnIn = 10_000 };
-        var r = ThermalSampling.Sampling.PairSampler.Run(line, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(30), settings);
+        var r = ThermalSampling.PairSampler.Run(line, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(30), settings);
         Assert.True(Math.Abs(r.Exact.ZScoreMean) < 4);
         Assert.True(r.MeanShift!.Value > 0 && r.Rms.Value > r.Harmonic!.ClassicalRmsInAngstroms);
         Assert.True(r.Diagnostics.RHat < 1.01);

@@ -3,6 +3,7 @@ using System.Collections.Generic;
 using System.Globalization;
 using System.Linq;
 using System.Text.RegularExpressions;
+using ThermalSampling.Statistics;
 using ThermalSampling.Persistence;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
@@ -178,7 +179,7 @@ public class SiteSamplerEdgeTests
         // minimum, and the fraction of draws within one harmonic RMS spread of the wall, counted about the confinement's centre.
         double band = Math.Sqrt(report.Harmonic.ClassicalMeanSquareDisplacement / 3);
         double wallMass = draws.Count(p => confinement.DistanceToWall(p.X - centre.X, p.Y - centre.Y, p.Z - centre.Z) < band) / (double)total;
-        double barrier = SiteSampler.BoundaryPoints(landscape, 2000).Min(p => landscape.Energy(p)) - report.Harmonic.MinimumEnergyInElectronVolts;
+        double barrier = SiteChains.BoundaryPoints(landscape, 2000).Min(p => landscape.Energy(p)) - report.Harmonic.MinimumEnergyInElectronVolts;
         var validity = ClassicalValidity.Assess(ArgonMass, Thirty, Math.Sqrt(msd / 3), report.Harmonic.Modes.Max(m => m.QuantumToThermalRatio), barrier, wallMass);
         Assert.Contains(validity.Warnings, w => w.Code == WarningCodes.DeBroglieWavelength); // its message carries the RMS spread
         string[] validityCodes = [WarningCodes.QuantumEffects, WarningCodes.DeBroglieWavelength, WarningCodes.EscapeRisk, WarningCodes.WallMass];
@@ -292,7 +293,7 @@ public class SiteSamplerEdgeTests
         const int n = 2000;
         var centre = new Position(0.3, -0.2, 0.1);
         var confinement = shape == "sphere" ? Confinement.Sphere(Length.FromAngstroms(1.2)) : Confinement.Box(Length.FromAngstroms(0.9));
-        var points = SiteSampler.BoundaryPoints(Cage(centre, confinement), n).ToArray();
+        var points = SiteChains.BoundaryPoints(Cage(centre, confinement), n).ToArray();
         Assert.Equal(n, points.Length);
         var octants = new int[8];
         for (int i = 0; i < n; i++)
@@ -554,7 +555,7 @@ public class SiteSamplerEdgeTests
         Temperature[] temperatures = [Thirty, Temperature.FromKelvin(40)];
         var saved = new List<SamplingCheckpoint>();
         var reference = SiteSampler.SweepWithCheckpoints(PlainCage, ArgonMass, temperatures, settings, new CheckpointOptions(TimeSpan.Zero, saved.Add));
-        int lanes = method == SamplingMethod.Metropolis ? PairLaneChains.ChooseLanes(4, 1, null) : 1;
+        int lanes = method == SamplingMethod.Metropolis ? LaneGroups.ChooseLanes(4, 1, null) : 1;
         Assert.All(saved, c => Assert.Equal(lanes, c.ChainsPerVector));
         long firstTemperature = saved[0].ChainStepsTotal / 2;
         var second = saved.Where(c => c.ChainStepsDone > firstTemperature && c.ChainStepsDone < saved[0].ChainStepsTotal).ToList();

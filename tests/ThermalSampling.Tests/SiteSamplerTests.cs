@@ -1,5 +1,7 @@
 using System;
 using System.Linq;
+using ThermalSampling.Reports;
+using ThermalSampling.Statistics;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;

@@ -3,6 +3,7 @@
 // in the 12-neighbour cage of an invented fcc crystal with nearest-neighbour distance 3.82 Å.
 using System;
 using System.Globalization;
+using ThermalSampling;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;

@@ -1,5 +1,6 @@
 // A user's CI checks for an invented fitted pair potential (illustrative, not data): the fit must keep its minimum
 // where the reference puts it, have consistent derivatives, and sample to the exact answer.
+using ThermalSampling;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;

@@ -1,5 +1,6 @@
 using System;
 using System.Runtime.CompilerServices;
+using ThermalSampling.Statistics;
 using ThermalSampling.Persistence;
 using ThermalSampling.Numerics;
 using ThermalSampling.Potentials;

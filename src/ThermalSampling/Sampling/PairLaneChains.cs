@@ -21,35 +21,15 @@ namespace ThermalSampling.Sampling;
 /// </summary>
 internal static class PairLaneChains
 {
-    /// <summary>What one chain of a lane group hands back.</summary>
-    internal sealed record ChainOutcome(PairChainRecord Record, long Accepted, double Width);
-
     private const int ChunkSteps = LaneAdaptation.ChunkSteps;
 
     /// <summary>Everything fixed for a run.</summary>
     internal sealed record Plan<TPotential>(TPotential Potential, double Lower, double Upper, double Beta, bool Radial, double InitialWidth,
         double TargetAcceptance, double MaxWidth, long BurnIn, long Samples, ulong Seed) where TPotential : struct, IPairPotential;
 
-    /// <summary>The widest lane count worth using: a power of two no larger than the hardware's vector and no larger than the chains each thread gets.</summary>
-    internal static int ChooseLanes(int chains, int threads, int? requested)
-    {
-        if (requested is int r)
-        {
-            return r;
-        }
-        int hardware = Vector512.IsHardwareAccelerated ? 8 : Vector256.IsHardwareAccelerated ? 4 : Vector128.IsHardwareAccelerated ? 2 : 1;
-        int perThread = Math.Max(1, chains / Math.Max(1, threads));
-        int lanes = 1;
-        while (lanes * 2 <= Math.Min(hardware, perThread))
-        {
-            lanes *= 2;
-        }
-        return lanes;
-    }
-
     /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond the chain count are computed and dropped),
     /// from the start or from the group's checkpointed state.</summary>
-    internal static ChainOutcome[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start,
+    internal static PairChainOutcome[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start,
         Func<int, PairChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
         => lanes switch
@@ -96,7 +76,7 @@ internal static class PairLaneChains
             _tally = new Tally(_records[0], TOps.Count, Live);
         }
 
-        internal ChainOutcome[] Run(Func<int, double> start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
+        internal PairChainOutcome[] Run(Func<int, double> start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         {
             var saved = checkpoints.SavedState(group);
             if (saved is null)
@@ -133,11 +113,11 @@ internal static class PairLaneChains
             checkpoints.Finished(group, this);
             _tally.CopyTo(_records, _plan.Samples);
 
-            var outcomes = new ChainOutcome[Live];
+            var outcomes = new PairChainOutcome[Live];
             for (int lane = 0; lane < Live; lane++)
             {
                 _reporters[lane].Finish();
-                outcomes[lane] = new ChainOutcome(_records[lane], (long)TOps.Get(_walk.Accepted, lane), TOps.Get(stepWidth, lane));
+                outcomes[lane] = new PairChainOutcome(_records[lane], (long)TOps.Get(_walk.Accepted, lane), TOps.Get(stepWidth, lane));
             }
             return outcomes;
         }

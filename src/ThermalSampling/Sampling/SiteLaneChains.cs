@@ -3,6 +3,7 @@ using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 using System.Threading;
+using ThermalSampling.Statistics;
 using ThermalSampling.Persistence;
 using ThermalSampling.Numerics;
 using ThermalSampling.Landscapes;

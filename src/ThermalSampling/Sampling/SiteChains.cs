@@ -1,67 +1,46 @@
 using System;
 using System.Collections.Generic;
-using System.Collections.Immutable;
 using System.Globalization;
 using System.Linq;
-using System.Runtime.CompilerServices;
 using System.Threading;
 using MathNet.Numerics.LinearAlgebra;
-using ThermalSampling.Persistence;
 using ThermalSampling.Analysis;
-using ThermalSampling.Internal;
 using ThermalSampling.Landscapes;
+using ThermalSampling.Persistence;
 using ThermalSampling.Potentials;
 using ThermalSampling.Randomness;
-using ThermalSampling.Reports;
+using ThermalSampling.Statistics;
 using ThermalSampling.Units;
 
 namespace ThermalSampling.Sampling;
 
-/// <summary>
-/// Samples the position of a particle among fixed sites at one temperature and returns the vibration report: mean
-/// vector, displacement covariance, MSD and B with error bars, the harmonic reference and warnings.
-/// </summary>
-/// <remarks>
-/// Metropolis proposals follow the harmonic covariance's shape; chains start over-dispersed at about two harmonic
-/// standard deviations from the minimum. Direct sampling draws from a Gaussian envelope with the harmonic covariance
-/// inflated by 1.3² and accepts with probability p/(M q); M is found by probing 40 000 points (half from the envelope,
-/// half uniform in the confinement) and 2 000 on its boundary, plus a 5% margin on the log scale. A draw that exceeds the
-/// bound during sampling, or an acceptance below 0.1%, stops the run with an error that says to use Metropolis.
-/// A cancelled run throws <see cref="OperationCanceledException"/>.
-/// </remarks>
-public static class SiteSampler
-{
-    /// <summary>The default Metropolis target acceptance for three coordinates (Roberts, Gelman &amp; Gilks 1997 and
-    /// Roberts &amp; Rosenthal 2001 give 0.44 for one coordinate and 0.234 as the high-dimensional limit; 0.31 for d = 3 is recalled from memory).</summary>
-    public const double DefaultTargetAcceptance = 0.31;
+/// <summary>What one site chain hands back: its moments, batch means per axis, radial bins, kept draws and counts.</summary>
+internal sealed record SiteChainOutcome(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws,
+    long Accepted, long Proposals, long NearWall, double Scale);
 
+/// <summary>The records of every chain of a site run at one temperature, in chain order, and how they were drawn.</summary>
+/// <param name="Chains">One outcome per chain.</param>
+/// <param name="Metropolis">Whether the chains are Metropolis walks (else envelope-rejection draws).</param>
+/// <param name="TargetAcceptance">The Metropolis target acceptance.</param>
+/// <param name="SmallestModeRms">The smallest harmonic mode's RMS spread, Å (the unit of the walks' scale).</param>
+/// <param name="EscapeBarrier">The lowest energy on the confinement's boundary above the minimum, eV.</param>
+internal sealed record SiteRunRecord(SiteChainOutcome[] Chains, bool Metropolis, double TargetAcceptance, double SmallestModeRms, double EscapeBarrier);
+
+/// <summary>
+/// The site sampling step: runs the chains of one temperature (Metropolis walks on the lane engine with a proposal shaped
+/// like the harmonic covariance, or direct draws from a Gaussian envelope) and returns their records. Builds no report.
+/// </summary>
+internal static class SiteChains
+{
     private const double EnvelopeInflation = 1.3;
 
-    private sealed record ChainResult(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws, long Accepted, long Proposals, long NearWall, double Scale);
-
-    /// <summary>Runs the sampler.</summary>
-    /// <typeparam name="TPotential">The potential type.</typeparam>
-    /// <param name="landscape">The landscape.</param>
-    /// <param name="mass">The particle's mass.</param>
-    /// <param name="temperature">The temperature.</param>
-    /// <param name="settings">The sampling settings.</param>
-    /// <param name="progress">Optional progress sink.</param>
-    /// <param name="cancellationToken">Optional cancellation.</param>
-    /// <exception cref="LandscapeException">When there is no bound minimum in the confinement.</exception>
-    /// <exception cref="InvalidOperationException">When direct sampling cannot establish a valid envelope bound.</exception>
-    public static SiteVibrationReport Run<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
-        IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+    /// <summary>Runs every chain of <paramref name="settings"/> at one temperature about the harmonic estimate <paramref name="harmonic"/>.</summary>
+    internal static SiteRunRecord Sample<TPotential>(SiteLandscape<TPotential> landscape, SiteHarmonicEstimate harmonic, double targetAcceptance,
+        Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken,
+        CheckpointSession? session, int temperatureIndex)
         where TPotential : struct, IPairPotential
     {
-        RunArguments.Check(landscape, settings, mass, temperature);
-        return RunOne(landscape, mass, temperature, settings, progress, cancellationToken, null, 0);
-    }
-
-    private static SiteVibrationReport RunOne<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
-        IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex)
-        where TPotential : struct, IPairPotential
-    {
-        var harmonic = SiteAnalysis.Harmonic(landscape, mass, temperature);
+        double target = targetAcceptance;
         var min = harmonic.Minimum;
         double beta = 1 / temperature.ThermalEnergyInElectronVolts;
         var cholesky = harmonic.ClassicalCovariance.ToMatrix().Cholesky().Factor;
@@ -69,7 +48,6 @@ public static class SiteSampler
         var kernel = new SiteWeight<TPotential>(landscape, beta);
         double logWeightMin = kernel.LogWeight(min.X, min.Y, min.Z);
         bool metropolis = settings.Method == SamplingMethod.Metropolis;
-        double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
         double sigmaMin = Math.Sqrt(harmonic.Modes.Min(m => m.ClassicalVarianceInAngstromsSquared));
         double size = landscape.Confinement.SizeInAngstroms;
         double maxScale = 2 * size / sigmaMin;
@@ -90,20 +68,20 @@ public static class SiteSampler
         DrawRecorder<Position> NewDraws() => new(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
 
-        ChainResult[] results;
+        SiteChainOutcome[] results;
         if (metropolis)
         {
             var plan = new SiteLaneChains.Plan<TPotential>(landscape.Potential, landscape.PackedCoordinates.ToArray(), landscape.Centre, landscape.Confinement,
                 min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, WallBand(cholesky),
                 settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description);
-            int lanes = session?.Lanes ?? PairLaneChains.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
+            int lanes = session?.Lanes ?? LaneGroups.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
             int groupCount = (chains + lanes - 1) / lanes;
             var checkpoints = session?.Begin(temperatureIndex, groupCount) ?? GroupCheckpoints.None;
             var groups = ChainScheduler.RunAll(groupCount, settings.MaxThreads, cancellationToken,
                 g => SiteLaneChains.Run(lanes, plan, g * lanes, chains, c => StartOfChain(landscape, min, cholesky, settings.Seed, c),
                     c => (NewStores(), NewRadial(), NewDraws()), NewReporter, checkpoints, g, cancellationToken));
             results = groups.SelectMany(g => g)
-                .Select(o => new ChainResult(o.Moments, o.Stores, o.Radial, o.Draws, o.Accepted, settings.SamplesPerChain, o.NearWall, o.Scale)).ToArray();
+                .Select(o => new SiteChainOutcome(o.Moments, o.Stores, o.Radial, o.Draws, o.Accepted, settings.SamplesPerChain, o.NearWall, o.Scale)).ToArray();
         }
         else
         {
@@ -113,129 +91,12 @@ public static class SiteSampler
         }
         session?.End(temperatureIndex);
 
-        var moments = results[0].Moments;
-        for (int c = 1; c < chains; c++)
-        {
-            moments = CovarianceAccumulator.Merge(moments, results[c].Moments);
-        }
-        var covariance = moments.Covariance();
-        var mean = new Position(moments.MeanX, moments.MeanY, moments.MeanZ);
-        double[] meanComponents = { mean.X, mean.Y, mean.Z };
-        double[] variances = { covariance.XX, covariance.YY, covariance.ZZ };
-        int batch = results[0].Stores[0].BatchSize;
-        var summaries = Enumerable.Range(0, 3)
-            .Select(i => ChainDiagnostics.Summarise(results.Select(r => r.Stores[i].Means()).ToList(), batch, settings.SamplesPerChain, variances[i]))
-            .ToArray();
-        var seMean = new Position(Math.Sqrt(variances[0] / summaries[0].Ess), Math.Sqrt(variances[1] / summaries[1].Ess), Math.Sqrt(variances[2] / summaries[2].Ess));
-        var msdSeries = results.Select(r =>
-        {
-            var sx = r.Stores[0].SquaredDeviationMeans(meanComponents[0]);
-            var sy = r.Stores[1].SquaredDeviationMeans(meanComponents[1]);
-            var sz = r.Stores[2].SquaredDeviationMeans(meanComponents[2]);
-            return sx.Select((v, i) => v + sy[i] + sz[i]).ToArray();
-        }).ToList();
-        double msd = covariance.Trace;
-        double msdSe = ChainDiagnostics.PooledMeanStandardError(msdSeries);
-        long draws = moments.Count;
-        double acceptance = results.Sum(r => (double)r.Accepted) / results.Sum(r => (double)r.Proposals);
-        double wallMass = results.Sum(r => (double)r.NearWall) / draws; // fraction of draws within one harmonic RMS of the wall
-
-        var worst = summaries.OrderByDescending(s => s.Tau).First();
-        var combined = new ChainDiagnostics.Summary(worst.Tau, summaries.Min(s => s.Ess), summaries[0].BlockingStandardError,
-            summaries.All(s => s.AllReliable), summaries.Select(s => s.Reason).FirstOrDefault(r => r.Length > 0) ?? "",
-            summaries.All(s => s.RHat is null) ? null : summaries.Max(s => s.RHat ?? 0));
-        var warnings = ImmutableArray.CreateBuilder<Warning>();
-        var validity = ClassicalValidity.Assess(mass, temperature, Math.Sqrt(Math.Max(msd, 1e-300) / 3), harmonic.Modes.Max(m => m.QuantumToThermalRatio),
-            barrier > 0 ? barrier : double.Epsilon, wallMass);
-        warnings.AddRange(validity.Warnings);
-        ChainDiagnostics.AddConvergenceWarnings(warnings, combined, metropolis ? acceptance : null, metropolis ? target : null);
-
-        var diagnostics = new SamplingDiagnostics(acceptance, combined.Tau, combined.Ess, combined.RHat, draws, combined.BlockingStandardError,
-            metropolis ? results.Average(r => r.Scale) * sigmaMin : null);
-        var radialHistogram = BinCounter.Combine(results.Select(r => r.Radial).ToList(), combined.Ess);
-        var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
-        double b = DebyeWaller.FromIsotropicDisplacement(msd / 3);
-        return new SiteVibrationReport(temperature, min, mean, seMean, mean - min, covariance, new Estimate(msd, msdSe),
-            new Estimate(b, b * msdSe / msd), harmonic, diagnostics, radialHistogram, warnings.ToImmutable(), provenance,
-            DrawRecorder<Position>.Combine(results.Select(r => r.Draws)));
+        return new SiteRunRecord(results, metropolis, target, sigmaMin, barrier);
     }
 
-    /// <summary>Runs the sampler at several temperatures with the same settings.</summary>
-    /// <typeparam name="TPotential">The potential type.</typeparam>
-    /// <param name="landscape">The landscape.</param>
-    /// <param name="mass">The particle's mass.</param>
-    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
-    /// <param name="settings">The sampling settings.</param>
-    /// <param name="progress">Optional progress sink.</param>
-    /// <param name="cancellationToken">Optional cancellation.</param>
-    public static ImmutableArray<SiteVibrationReport> Sweep<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
-        SamplingSettings settings, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
-        where TPotential : struct, IPairPotential
-        => TemperatureList.Check(temperatures).Select(t => Run(landscape, mass, t, settings, progress, cancellationToken)).ToImmutableArray();
-
-    /// <summary>
-    /// Runs the sweep and writes checkpoints as <paramref name="checkpoints"/> says, so that an interrupted sweep can be finished
-    /// with <see cref="Resume"/>. When cancelled it writes a last checkpoint, then throws <see cref="OperationCanceledException"/>.
-    /// The reports are the same bits as those of <see cref="Sweep{TPotential}(SiteLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, IProgress{SamplingProgress}?, CancellationToken)"/>.
-    /// </summary>
-    /// <typeparam name="TPotential">The potential type.</typeparam>
-    /// <param name="landscape">The landscape.</param>
-    /// <param name="mass">The particle's mass.</param>
-    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
-    /// <param name="settings">The sampling settings.</param>
-    /// <param name="checkpoints">Where and how often to write checkpoints.</param>
-    /// <param name="progress">Optional progress sink.</param>
-    /// <param name="cancellationToken">Optional cancellation; honoured within one chunk of 4096 steps per group.</param>
-    public static ImmutableArray<SiteVibrationReport> SweepWithCheckpoints<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
-        SamplingSettings settings, CheckpointOptions checkpoints, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
-        where TPotential : struct, IPairPotential
+    /// <summary>The exact sites, centre and confinement, and the energies on a 9×9×9 grid across the confinement, as one fingerprint.</summary>
+    internal static string Fingerprint<TPotential>(SiteLandscape<TPotential> landscape) where TPotential : struct, IPairPotential
     {
-        Preconditions.CheckNotNull(checkpoints, nameof(checkpoints));
-        var (list, identity) = Prepare(landscape, mass, temperatures, settings);
-        int lanes = settings.Method == SamplingMethod.Metropolis
-            ? PairLaneChains.ChooseLanes(settings.Chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector) : 1;
-        var session = new CheckpointSession(identity, checkpoints, null, lanes);
-        return CheckpointedSweep.Run(list.Count, session, t => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
-    }
-
-    /// <summary>
-    /// Finishes the sweep that wrote <paramref name="checkpoint"/>: each chain continues from its saved state to the
-    /// original <see cref="SamplingSettings.SamplesPerChain"/> (a resume adds no draws beyond the original run's), and the
-    /// reports are bit for bit those of the uninterrupted sweep. The landscape, mass, temperatures and settings must be
-    /// the original ones (worker threads may differ).
-    /// </summary>
-    /// <typeparam name="TPotential">The potential type.</typeparam>
-    /// <param name="landscape">The original landscape.</param>
-    /// <param name="mass">The original mass.</param>
-    /// <param name="temperatures">The original temperatures.</param>
-    /// <param name="settings">The original settings.</param>
-    /// <param name="checkpoint">The checkpoint to continue from.</param>
-    /// <param name="checkpoints">Where to keep writing checkpoints, or null for none.</param>
-    /// <param name="progress">Optional progress sink.</param>
-    /// <param name="cancellationToken">Optional cancellation.</param>
-    /// <exception cref="CheckpointException">When the checkpoint comes from another library version or a different run (the message names each difference).</exception>
-    public static ImmutableArray<SiteVibrationReport> Resume<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
-        SamplingSettings settings, SamplingCheckpoint checkpoint, CheckpointOptions? checkpoints = null, IProgress<SamplingProgress>? progress = null,
-        CancellationToken cancellationToken = default)
-        where TPotential : struct, IPairPotential
-    {
-        Preconditions.CheckNotNull(checkpoint, nameof(checkpoint));
-        var (list, identity) = Prepare(landscape, mass, temperatures, settings);
-        checkpoint.CheckBelongsTo(identity);
-        var session = new CheckpointSession(identity, checkpoints, checkpoint, checkpoint.ChainsPerVector);
-        return CheckpointedSweep.Run(list.Count, session, t => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
-    }
-
-    private static (List<Temperature> List, SweepIdentity Identity) Prepare<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
-        SamplingSettings settings)
-        where TPotential : struct, IPairPotential
-    {
-        var list = TemperatureList.Check(temperatures);
-        foreach (var t in list)
-        {
-            RunArguments.Check(landscape, settings, mass, t);
-        }
-        // The exact sites, centre and confinement, and the energies on a 9×9×9 grid across the confinement.
         var values = new List<double> { (double)landscape.Confinement.Shape, landscape.Confinement.SizeInAngstroms, landscape.Centre.X, landscape.Centre.Y, landscape.Centre.Z };
         values.AddRange(landscape.PackedCoordinates.ToArray());
         double size = landscape.Confinement.SizeInAngstroms;
@@ -244,7 +105,7 @@ public static class SiteSampler
             var p = landscape.Centre + new Position(size * (i % 9 - 4) / 4.5, size * (i / 9 % 9 - 4) / 4.5, size * (i / 81 - 4) / 4.5);
             values.Add(landscape.Energy(p));
         }
-        return (list, CheckpointedSweep.Identity("sites", landscape.Description, SweepIdentity.FingerprintOf(values), mass, list, settings));
+        return SweepIdentity.FingerprintOf(values);
     }
 
     /// <summary>Deterministic points on the confinement boundary (a Fibonacci sphere, projected onto the box for a box).</summary>
@@ -315,7 +176,7 @@ public static class SiteSampler
 
         public long ChainStepsDone => _done;
 
-        internal ChainResult Run(GroupCheckpoints checkpoints, CancellationToken ct)
+        internal SiteChainOutcome Run(GroupCheckpoints checkpoints, CancellationToken ct)
         {
             if (checkpoints.SavedState(chain) is byte[] saved)
             {
@@ -358,7 +219,7 @@ public static class SiteSampler
             }
             checkpoints.Finished(chain, this);
             progress.Finish();
-            return new ChainResult(_moments, stores, radial, draws, settings.SamplesPerChain, _proposals, _nearWall, 0);
+            return new SiteChainOutcome(_moments, stores, radial, draws, settings.SamplesPerChain, _proposals, _nearWall, 0);
         }
 
         public void Save(StateWriter w)
@@ -410,7 +271,7 @@ public static class SiteSampler
 
         internal double LogWeightAtMinimum { get; }
 
-        internal double WallBand => SiteSampler.WallBand((1 / EnvelopeInflation) * _l);
+        internal double WallBand => SiteChains.WallBand((1 / EnvelopeInflation) * _l);
 
         internal double LogBound { get; }
 

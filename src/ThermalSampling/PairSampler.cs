@@ -1,0 +1,116 @@
+using System;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Threading;
+using ThermalSampling.Analysis;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Persistence;
+using ThermalSampling.Potentials;
+using ThermalSampling.Reports;
+using ThermalSampling.Sampling;
+using ThermalSampling.Units;
+
+namespace ThermalSampling;
+
+/// <summary>
+/// Samples the separation of a line or radial pair at one temperature and returns the full vibration report.
+/// </summary>
+/// <remarks>
+/// Metropolis chains start over-dispersed, at the 1st to 99th percentiles of the exact distribution. A cancelled run throws
+/// <see cref="OperationCanceledException"/> and returns nothing partial.
+/// </remarks>
+public static class PairSampler
+{
+    /// <summary>The default Metropolis target acceptance for one coordinate (Roberts &amp; Rosenthal, Statistical Science 16, 351 (2001)).</summary>
+    public const double DefaultTargetAcceptance = 0.44;
+
+    /// <summary>Runs the sampler.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass (for the harmonic and validity analyses).</param>
+    /// <param name="temperature">The temperature.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    public static PairVibrationReport Run<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        RunArguments.Check(landscape, settings, mass, temperature);
+        return RunOne(landscape, mass, temperature, settings, progress, cancellationToken, null, 0);
+    }
+
+    /// <summary>Analyse, sample, summarise: the three steps of one temperature.</summary>
+    private static PairVibrationReport RunOne<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex)
+        where TPotential : struct, IPairPotential
+    {
+        var references = PairSummary.Analyse(landscape, mass, temperature);
+        double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
+        double width0 = settings.InitialStepWidthInAngstroms ?? references.Harmonic?.ClassicalRmsInAngstroms ?? landscape.WindowWidthInAngstroms / 10;
+        width0 = Math.Min(width0, landscape.WindowWidthInAngstroms);
+        var run = PairChains.Sample(landscape, references.Exact, references.Well?.EquilibriumDistance ?? references.Exact.MeanInAngstroms, width0, target,
+            temperature, settings, progress, cancellationToken, session, temperatureIndex);
+        return PairSummary.Summarise(landscape, mass, temperature, settings, references, run);
+    }
+
+    /// <summary>Runs the sampler at several temperatures with the same settings (the seed is shared; each temperature is an independent run).</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    public static ImmutableArray<PairVibrationReport> Sweep<TPotential>(PairLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+        => Sweeps.Plain(temperatures, t => Run(landscape, mass, t, settings, progress, cancellationToken));
+
+    /// <summary>
+    /// Runs the sweep and writes checkpoints as <paramref name="checkpoints"/> says, so that an interrupted sweep can be finished
+    /// with <see cref="Resume"/>. When cancelled it writes a last checkpoint, then throws <see cref="OperationCanceledException"/>.
+    /// The reports are the same bits as those of <see cref="Sweep{TPotential}(PairLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, IProgress{SamplingProgress}?, CancellationToken)"/>.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="checkpoints">Where and how often to write checkpoints.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation; honoured within one chunk of 4096 steps per group.</param>
+    public static ImmutableArray<PairVibrationReport> SweepWithCheckpoints<TPotential>(PairLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, CheckpointOptions checkpoints, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+        => Sweeps.WithCheckpoints(landscape, mass, temperatures, settings, checkpoints, Identity,
+            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+
+    /// <summary>
+    /// Finishes the sweep that wrote <paramref name="checkpoint"/>: each chain continues from its saved state to the
+    /// original <see cref="SamplingSettings.SamplesPerChain"/> (a resume adds no draws beyond the original run's), and the
+    /// reports of every temperature, finished before or after the checkpoint, are bit for bit those of the uninterrupted
+    /// sweep. The landscape, mass, temperatures and settings must be the original ones (worker threads may differ);
+    /// <paramref name="checkpoint"/> holds the temperatures and settings for convenience.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The original landscape.</param>
+    /// <param name="mass">The original mass.</param>
+    /// <param name="temperatures">The original temperatures.</param>
+    /// <param name="settings">The original settings.</param>
+    /// <param name="checkpoint">The checkpoint to continue from.</param>
+    /// <param name="checkpoints">Where to keep writing checkpoints, or null for none.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    /// <exception cref="CheckpointException">When the checkpoint comes from another library version or a different run (the message names each difference).</exception>
+    public static ImmutableArray<PairVibrationReport> Resume<TPotential>(PairLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, SamplingCheckpoint checkpoint, CheckpointOptions? checkpoints = null, IProgress<SamplingProgress>? progress = null,
+        CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+        => Sweeps.Resume(landscape, mass, temperatures, settings, checkpoint, checkpoints, Identity,
+            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+
+    private static SweepIdentity Identity<TPotential>(PairLandscape<TPotential> landscape, Mass mass, List<Temperature> list, SamplingSettings settings)
+        where TPotential : struct, IPairPotential
+        => CheckpointedSweep.Identity("pair", landscape.Description, PairChains.Fingerprint(landscape), mass, list, settings);
+}

@@ -1,0 +1,89 @@
+using System;
+using System.Collections.Immutable;
+using System.Globalization;
+using System.Linq;
+using ThermalSampling.Analysis;
+using ThermalSampling.Internal;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Randomness;
+using ThermalSampling.Sampling;
+using ThermalSampling.Statistics;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Reports;
+
+/// <summary>The summarising step for pairs: merges the chains' records in chain order and builds the report users read.</summary>
+internal static class PairSummary
+{
+    /// <summary>The analyses a pair report sets beside the sampled numbers.</summary>
+    internal sealed record References(ExactPairDistribution Exact, PotentialWell? Well, PairHarmonicEstimate? Harmonic, PairFirstOrderEstimate? FirstOrder,
+        ImmutableArray<Warning> Warnings);
+
+    /// <summary>The exact, harmonic and first-order references, with a warning instead of the latter two when the minimum is outside the window.</summary>
+    internal static References Analyse<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature)
+        where TPotential : struct, IPairPotential
+    {
+        var exact = ExactPairDistribution.Compute(landscape, temperature);
+        try
+        {
+            var well = PairAnalysis.RequireWellInside(landscape);
+            return new References(exact, well, PairAnalysis.Harmonic(landscape, mass, temperature), PairAnalysis.FirstOrder(landscape, temperature), []);
+        }
+        catch (LandscapeException ex)
+        {
+            return new References(exact, null, null, null, [new Warning(WarningCodes.MinimumOutsideWindow, ex.Message)]);
+        }
+    }
+
+    /// <summary>The report of one temperature from its run record.</summary>
+    internal static PairVibrationReport Summarise<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        References references, PairRunRecord run)
+        where TPotential : struct, IPairPotential
+    {
+        var (exact, well, harmonic, firstOrder, _) = references;
+        var warnings = references.Warnings.ToBuilder();
+        var results = run.Chains;
+        bool metropolis = run.Metropolis;
+        double target = run.TargetAcceptance;
+        int chains = results.Length;
+        var moments = results[0].Record.Moments;
+        for (int c = 1; c < chains; c++)
+        {
+            moments = MomentAccumulator.Merge(moments, results[c].Record.Moments);
+        }
+        double mean = moments.Mean, variance = moments.Variance;
+        int batch = results[0].Record.Store.BatchSize;
+        var summary = ChainDiagnostics.Summarise(results.Select(r => r.Record.Store.Means()).ToList(), batch, settings.SamplesPerChain, variance);
+        double varianceOfSquares = Math.Max(moments.CentralMoment4 - moments.CentralMoment2 * moments.CentralMoment2, 0);
+        var summarySquared = ChainDiagnostics.Summarise(results.Select(r => r.Record.Store.SquaredDeviationMeans(mean)).ToList(), batch, settings.SamplesPerChain, varianceOfSquares, withRHat: false);
+        double meanSe = Math.Sqrt(variance / summary.Ess);
+        double varianceSe = Math.Sqrt(varianceOfSquares / summarySquared.Ess);
+        double rms = Math.Sqrt(variance);
+        double? acceptance = metropolis ? results.Sum(r => (double)r.Accepted) / ((double)chains * settings.SamplesPerChain) : null;
+
+        var meanEstimate = new Estimate(mean, meanSe);
+        var varianceEstimate = new Estimate(variance, varianceSe);
+        var comparison = new ExactComparison(exact.MeanInAngstroms, exact.VarianceInAngstromsSquared, exact.Skewness, exact.ExcessKurtosis, exact.WallMass,
+            meanEstimate.ZScore(exact.MeanInAngstroms), varianceEstimate.ZScore(exact.VarianceInAngstromsSquared));
+
+        var validity = ClassicalValidity.Assess(mass, temperature, rms > 0 ? rms : exact.RmsInAngstroms, harmonic?.QuantumToThermalRatio ?? 0,
+            well?.WellDepth ?? double.PositiveInfinity, exact.WallHeldProbability);
+        warnings.AddRange(validity.Warnings);
+        ReportParts.AddConvergenceWarnings(warnings, summary, acceptance, metropolis ? target : null);
+        if (Math.Abs(comparison.ZScoreMean) > 4 || Math.Abs(comparison.ZScoreVariance) > 4)
+        {
+            warnings.Add(new Warning(WarningCodes.DisagreesWithExact, string.Create(CultureInfo.InvariantCulture,
+                $"The sampled mean or variance differs from the exact quadrature value by more than 4 standard errors (z = {comparison.ZScoreMean:G3}, {comparison.ZScoreVariance:G3}): the chains are not converged or the error bars are too small. Trust the exact value.")));
+        }
+
+        var diagnostics = new SamplingDiagnostics(acceptance, summary.Tau, summary.Ess, summary.RHat, moments.Count, summary.BlockingStandardError,
+            metropolis ? results.Average(r => r.Width) : null);
+        var histogram = ReportParts.Histogram(results.Select(r => r.Record.Bins).ToList(), summary.Ess);
+        var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
+        return new PairVibrationReport(temperature, landscape.Geometry, well?.EquilibriumDistance, meanEstimate,
+            well is null ? null : new Estimate(mean - well.EquilibriumDistance, meanSe), varianceEstimate, new Estimate(rms, rms > 0 ? varianceSe / (2 * rms) : 0),
+            moments.Skewness, moments.ExcessKurtosis, harmonic, firstOrder, comparison, diagnostics, histogram, warnings.ToImmutable(), provenance,
+            ReportParts.Draws(results.Select(r => r.Record.Draws)));
+    }
+}

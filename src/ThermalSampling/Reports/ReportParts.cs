@@ -1,0 +1,84 @@
+using System;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Linq;
+using ThermalSampling.Reports;
+using ThermalSampling.Analysis;
+using ThermalSampling.Statistics;
+
+namespace ThermalSampling.Reports;
+
+/// <summary>
+/// The summarising step's building blocks: turns the engine's per-chain records (bin counts, retained draws, covariance
+/// sums, diagnostics) into the immutable pieces of a report. Records know nothing of reports; this is the one place
+/// that knows both.
+/// </summary>
+internal static class ReportParts
+{
+    /// <summary>The bins of every chain as one density with per-bin standard errors √(p(1 − p)/ESS)/width.</summary>
+    internal static Histogram Histogram(IReadOnlyList<BinCounter> parts, double effectiveSampleSize)
+    {
+        var first = parts[0];
+        int bins = first.Counts.Length;
+        long total = 0;
+        var counts = new long[bins];
+        foreach (var p in parts)
+        {
+            for (int i = 0; i < bins; i++)
+            {
+                counts[i] += p.Counts[i];
+                total += p.Counts[i];
+            }
+        }
+        double width = (first.Upper - first.Lower) / bins;
+        var density = ImmutableArray.CreateBuilder<double>(bins);
+        var error = ImmutableArray.CreateBuilder<double>(bins);
+        for (int i = 0; i < bins; i++)
+        {
+            double p = total > 0 ? (double)counts[i] / total : 0;
+            density.Add(p / width);
+            error.Add(Math.Sqrt(p * (1 - p) / Math.Max(effectiveSampleSize, 1)) / width);
+        }
+        return new Histogram(first.Lower, first.Upper, density.MoveToImmutable(), error.MoveToImmutable(), total);
+    }
+
+    /// <summary>The retained draws of every chain, in chain order; <see cref="RetainedDraws{T}.None"/> when none were kept.</summary>
+    internal static RetainedDraws<T> Draws<T>(IEnumerable<DrawRecorder<T>> chains) where T : struct
+    {
+        var list = chains.Select(c => c.ToImmutable()).ToImmutableArray();
+        return list.All(c => c.IsEmpty) ? RetainedDraws<T>.None : new RetainedDraws<T>(list);
+    }
+
+    /// <summary>The sample covariance (divisor n − 1; n = 1 gives the zero tensor's co-moments over 1).</summary>
+    internal static SymmetricTensor Covariance(this in CovarianceAccumulator a)
+    {
+        double d = a.Count > 1 ? a.Count - 1 : 1;
+        return new SymmetricTensor(a.Cxx / d, a.Cyy / d, a.Czz / d, a.Cxy / d, a.Cxz / d, a.Cyz / d);
+    }
+
+    internal static void AddConvergenceWarnings(ImmutableArray<Warning>.Builder warnings, ChainDiagnostics.Summary s, double? acceptance, double? target)
+    {
+        var c = System.Globalization.CultureInfo.InvariantCulture;
+        if (s.RHat is double r && r > RHat.Threshold)
+        {
+            warnings.Add(new Warning(WarningCodes.RHatHigh, string.Format(c,
+                "R-hat = {0:G4} is above {1}: the chains disagree, so they have not converged to one distribution (or the particle is trapped in different wells). Run longer, or check for several minima.",
+                r, RHat.Threshold)));
+        }
+        if (s.Ess < 400)
+        {
+            warnings.Add(new Warning(WarningCodes.LowEffectiveSampleSize, string.Format(c,
+                "The effective sample size is {0:G3}, below 400: the error bars themselves are uncertain. Run more or longer chains.", s.Ess)));
+        }
+        if (!s.AllReliable)
+        {
+            warnings.Add(new Warning(WarningCodes.ShortChain, s.Reason));
+        }
+        if (acceptance is double a && target is double t && Math.Abs(a - t) > 0.15)
+        {
+            warnings.Add(new Warning(WarningCodes.AcceptanceOffTarget, string.Format(c,
+                "The acceptance rate is {0:P1}, far from the target {1:P0}: the proposal width was not tuned well during burn-in (burn-in too short, or walls close to the particle). The results are still valid but less efficient.",
+                a, t)));
+        }
+    }
+}

@@ -1,0 +1,75 @@
+using System;
+using System.Collections.Immutable;
+using System.Linq;
+using ThermalSampling.Analysis;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Randomness;
+using ThermalSampling.Sampling;
+using ThermalSampling.Statistics;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Reports;
+
+/// <summary>The summarising step for sites: merges the chains' records in chain order and builds the report users read.</summary>
+internal static class SiteSummary
+{
+    /// <summary>The report of one temperature from its run record.</summary>
+    internal static SiteVibrationReport Summarise<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        SiteHarmonicEstimate harmonic, SiteRunRecord run)
+        where TPotential : struct, IPairPotential
+    {
+        var results = run.Chains;
+        var min = harmonic.Minimum;
+        int chains = results.Length;
+        bool metropolis = run.Metropolis;
+        double target = run.TargetAcceptance;
+        double sigmaMin = run.SmallestModeRms;
+        double barrier = run.EscapeBarrier;
+        var moments = results[0].Moments;
+        for (int c = 1; c < chains; c++)
+        {
+            moments = CovarianceAccumulator.Merge(moments, results[c].Moments);
+        }
+        var covariance = moments.Covariance();
+        var mean = new Position(moments.MeanX, moments.MeanY, moments.MeanZ);
+        double[] meanComponents = { mean.X, mean.Y, mean.Z };
+        double[] variances = { covariance.XX, covariance.YY, covariance.ZZ };
+        int batch = results[0].Stores[0].BatchSize;
+        var summaries = Enumerable.Range(0, 3)
+            .Select(i => ChainDiagnostics.Summarise(results.Select(r => r.Stores[i].Means()).ToList(), batch, settings.SamplesPerChain, variances[i]))
+            .ToArray();
+        var seMean = new Position(Math.Sqrt(variances[0] / summaries[0].Ess), Math.Sqrt(variances[1] / summaries[1].Ess), Math.Sqrt(variances[2] / summaries[2].Ess));
+        var msdSeries = results.Select(r =>
+        {
+            var sx = r.Stores[0].SquaredDeviationMeans(meanComponents[0]);
+            var sy = r.Stores[1].SquaredDeviationMeans(meanComponents[1]);
+            var sz = r.Stores[2].SquaredDeviationMeans(meanComponents[2]);
+            return sx.Select((v, i) => v + sy[i] + sz[i]).ToArray();
+        }).ToList();
+        double msd = covariance.Trace;
+        double msdSe = ChainDiagnostics.PooledMeanStandardError(msdSeries);
+        long draws = moments.Count;
+        double acceptance = results.Sum(r => (double)r.Accepted) / results.Sum(r => (double)r.Proposals);
+        double wallMass = results.Sum(r => (double)r.NearWall) / draws; // fraction of draws within one harmonic RMS of the wall
+
+        var worst = summaries.OrderByDescending(s => s.Tau).First();
+        var combined = new ChainDiagnostics.Summary(worst.Tau, summaries.Min(s => s.Ess), summaries[0].BlockingStandardError,
+            summaries.All(s => s.AllReliable), summaries.Select(s => s.Reason).FirstOrDefault(r => r.Length > 0) ?? "",
+            summaries.All(s => s.RHat is null) ? null : summaries.Max(s => s.RHat ?? 0));
+        var warnings = ImmutableArray.CreateBuilder<Warning>();
+        var validity = ClassicalValidity.Assess(mass, temperature, Math.Sqrt(Math.Max(msd, 1e-300) / 3), harmonic.Modes.Max(m => m.QuantumToThermalRatio),
+            barrier > 0 ? barrier : double.Epsilon, wallMass);
+        warnings.AddRange(validity.Warnings);
+        ReportParts.AddConvergenceWarnings(warnings, combined, metropolis ? acceptance : null, metropolis ? target : null);
+
+        var diagnostics = new SamplingDiagnostics(acceptance, combined.Tau, combined.Ess, combined.RHat, draws, combined.BlockingStandardError,
+            metropolis ? results.Average(r => r.Scale) * sigmaMin : null);
+        var radialHistogram = ReportParts.Histogram(results.Select(r => r.Radial).ToList(), combined.Ess);
+        var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
+        double b = DebyeWaller.FromIsotropicDisplacement(msd / 3);
+        return new SiteVibrationReport(temperature, min, mean, seMean, mean - min, covariance, new Estimate(msd, msdSe),
+            new Estimate(b, b * msdSe / msd), harmonic, diagnostics, radialHistogram, warnings.ToImmutable(), provenance,
+            ReportParts.Draws(results.Select(r => r.Draws)));
+    }
+}

@@ -1,0 +1,297 @@
+using System;
+using System.Collections.Generic;
+using System.Globalization;
+using System.Linq;
+using System.Runtime.CompilerServices;
+using System.Threading;
+using ThermalSampling.Analysis;
+using ThermalSampling.Internal;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Persistence;
+using ThermalSampling.Potentials;
+using ThermalSampling.Randomness;
+using ThermalSampling.Statistics;
+using ThermalSampling.Units;
+
+namespace ThermalSampling.Sampling;
+
+/// <summary>What one pair chain hands back: its record, its accepted proposals and its frozen step width (0 for direct draws).</summary>
+internal sealed record PairChainOutcome(PairChainRecord Record, long Accepted, double Width);
+
+/// <summary>The records of every chain of a pair run at one temperature, in chain order, and how they were drawn.</summary>
+/// <param name="Chains">One outcome per chain.</param>
+/// <param name="Metropolis">Whether the chains are Metropolis walks (else direct draws).</param>
+/// <param name="TargetAcceptance">The Metropolis target acceptance.</param>
+internal sealed record PairRunRecord(PairChainOutcome[] Chains, bool Metropolis, double TargetAcceptance);
+
+/// <summary>
+/// The pair sampling step: runs the chains of one temperature (Metropolis walks on the lane engine, or direct
+/// inverse-CDF draws) and returns their records. It builds no report: <c>Reports.PairSummary</c> does that.
+/// </summary>
+internal static class PairChains
+{
+    /// <summary>Runs every chain of <paramref name="settings"/> at one temperature.</summary>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="exact">Its exact distribution at the temperature (for starts and direct draws).</param>
+    /// <param name="reference">The batch means' reference point (the minimum, else the exact mean).</param>
+    /// <param name="initialWidth">The first proposal width, Å.</param>
+    /// <param name="targetAcceptance">The Metropolis target acceptance.</param>
+    /// <param name="temperature">The temperature.</param>
+    /// <param name="settings">The settings.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Cancellation.</param>
+    /// <param name="session">The checkpoint session, or null.</param>
+    /// <param name="temperatureIndex">The temperature's index in the session.</param>
+    internal static PairRunRecord Sample<TPotential>(PairLandscape<TPotential> landscape, ExactPairDistribution exact, double reference, double initialWidth,
+        double targetAcceptance, Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken,
+        CheckpointSession? session, int temperatureIndex)
+        where TPotential : struct, IPairPotential
+    {
+        bool metropolis = settings.Method == SamplingMethod.Metropolis;
+        var table = metropolis ? null : InverseCdfTable.Build(exact);
+        int chains = settings.Chains;
+        var quantile = metropolis ? StartQuantiles(exact) : null;
+        PairChainRecord NewRecord(int c) => new(
+            new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins),
+            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, reference),
+            new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain));
+        ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
+
+        PairChainOutcome[] results;
+        if (metropolis)
+        {
+            var plan = new PairLaneChains.Plan<TPotential>(landscape.Potential, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms,
+                1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial, initialWidth, targetAcceptance,
+                landscape.WindowWidthInAngstroms, settings.BurnIn, settings.SamplesPerChain, settings.Seed);
+            int lanes = session?.Lanes ?? LaneGroups.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
+            int groupCount = (chains + lanes - 1) / lanes;
+            var checkpoints = session?.Begin(temperatureIndex, groupCount) ?? GroupCheckpoints.None;
+            var groups = ChainScheduler.RunAll(groupCount, settings.MaxThreads, cancellationToken,
+                g => PairLaneChains.Run(lanes, plan, g * lanes, chains, c => quantile!(chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1)),
+                    NewRecord, NewReporter, checkpoints, g, cancellationToken));
+            results = groups.SelectMany(g => g).ToArray();
+        }
+        else
+        {
+            var checkpoints = session?.Begin(temperatureIndex, chains) ?? GroupCheckpoints.None;
+            results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken,
+                c => new DirectChain(table!, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
+        }
+        session?.End(temperatureIndex);
+        return new PairRunRecord(results, metropolis, targetAcceptance);
+    }
+
+    /// <summary>The geometry, the exact window and the energies at 257 evenly spaced separations in it.</summary>
+    internal static string Fingerprint<TPotential>(PairLandscape<TPotential> landscape) where TPotential : struct, IPairPotential
+    {
+        double lo = landscape.WindowLowerInAngstroms, hi = landscape.WindowUpperInAngstroms;
+        var values = new List<double> { landscape.Geometry == SeparationGeometry.Line ? 0 : 1, lo, hi };
+        for (int i = 0; i <= 256; i++)
+        {
+            values.Add(landscape.Potential.Energy(lo + (hi - lo) * i / 256));
+        }
+        return SweepIdentity.FingerprintOf(values);
+    }
+
+    /// <summary>
+    /// Start positions for over-dispersed chains: the exact CDF tabulated at 256 evenly spaced separations (one
+    /// Gauss–Legendre pass) and inverted by linear interpolation. Starts need no more precision than that.
+    /// </summary>
+    private static Func<double, double> StartQuantiles(ExactPairDistribution exact)
+    {
+        const int nodes = 256;
+        double lo = exact.WindowLowerInAngstroms, hi = exact.WindowUpperInAngstroms, h = (hi - lo) / nodes;
+        var r = new double[nodes + 1];
+        var cdf = new double[nodes + 1];
+        for (int i = 0; i <= nodes; i++)
+        {
+            r[i] = lo + i * h;
+            if (i > 0)
+            {
+                cdf[i] = cdf[i - 1] + MathNet.Numerics.Integration.GaussLegendreRule.Integrate(exact.Density, r[i - 1], r[i], 16);
+            }
+        }
+        double total = cdf[nodes];
+        return p =>
+        {
+            double target = p * total;
+            int i = Array.BinarySearch(cdf, target);
+            if (i >= 0)
+            {
+                return r[i];
+            }
+            i = ~i;
+            if (i <= 0)
+            {
+                return lo;
+            }
+            if (i > nodes)
+            {
+                return hi;
+            }
+            double f = (target - cdf[i - 1]) / Math.Max(cdf[i] - cdf[i - 1], double.Epsilon);
+            return r[i - 1] + f * (r[i] - r[i - 1]);
+        };
+    }
+
+    /// <summary>One chain of direct draws from the inverse-CDF table, resumable at every 4096th draw.</summary>
+    private sealed class DirectChain(InverseCdfTable table, SamplingSettings settings, int chain, PairChainRecord record, ProgressReporter progress) : IResumableGroup
+    {
+        private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
+        private long _done;
+
+        public long ChainStepsDone => _done;
+
+        internal PairChainOutcome Run(GroupCheckpoints checkpoints, CancellationToken ct)
+        {
+            if (checkpoints.SavedState(chain) is byte[] saved)
+            {
+                var r = new StateReader(saved, "direct chain " + chain.ToString(CultureInfo.InvariantCulture));
+                _random = RandomStream.FromState(r.Words("RAND", 4));
+                _done = r.InRange(r.Longs("DONE", 1)[0], 0, settings.SamplesPerChain, "the draws done");
+                record.Load(r);
+                r.End();
+            }
+            var boundary = new ChunkBoundary([progress], checkpoints, chain, this, ct);
+            long n = settings.SamplesPerChain;
+            for (; _done < n; _done++)
+            {
+                if ((_done & 4095) == 0)
+                {
+                    boundary.Reached(_done);
+                }
+                record.Add(table.Draw(ref _random));
+            }
+            checkpoints.Finished(chain, this);
+            progress.Finish();
+            return new PairChainOutcome(record, n, 0);
+        }
+
+        public void Save(StateWriter w)
+        {
+            Span<ulong> state = stackalloc ulong[4];
+            _random.GetState(state);
+            w.Words("RAND", state);
+            w.Longs("DONE", [_done]);
+            record.Save(w);
+        }
+    }
+}
+
+/// <summary>Everything a pair chain records per draw: blocked moments, histogram, batch means and retained draws.</summary>
+internal sealed class PairChainRecord
+{
+    private BlockedMomentAccumulator _moments;
+    private MomentAccumulator? _completed;
+
+    internal PairChainRecord(BinCounter bins, BatchMeansStore store, DrawRecorder<double> draws)
+    {
+        Bins = bins;
+        Store = store;
+        Draws = draws;
+    }
+
+    internal BinCounter Bins { get; }
+
+    internal BatchMeansStore Store { get; }
+
+    internal DrawRecorder<double> Draws { get; }
+
+    /// <summary>Merges a block of raw power sums about <paramref name="reference"/> (the lane kernels' moment path).</summary>
+    internal void AddMomentBlock(int count, double reference, double s1, double s2, double s3, double s4)
+        => _moments.AddBlock(count, reference, s1, s2, s3, s4);
+
+    /// <summary>Writes the moments, batch means, histogram and retained draws.</summary>
+    internal void Save(StateWriter w)
+    {
+        _moments.Save(w);
+        Store.Save(w);
+        Bins.Save(w);
+        Draws.Save(w, 1);
+    }
+
+    /// <summary>Restores what <see cref="Save"/> wrote.</summary>
+    internal void Load(StateReader r)
+    {
+        _moments.Load(r);
+        Store.Load(r);
+        Bins.Load(r);
+        Draws.Load(r, 1);
+    }
+
+    /// <summary>The merged moments; read once the chain has finished.</summary>
+    internal MomentAccumulator Moments => _completed ??= _moments.Complete();
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal void Add(double r)
+    {
+        _moments.Add(r);
+        Bins.Add(r);
+        Store.Add(r);
+        Draws.Add(r);
+    }
+}
+
+/// <summary>Throttled progress for one chain: about 200 reports over the chain (at most one per 4096 steps), plus one at the end.</summary>
+internal sealed class ProgressReporter
+{
+    private readonly IProgress<SamplingProgress>? _sink;
+    private readonly int _chain;
+    private readonly long _total;
+    private readonly double _temperature;
+    private readonly long _interval;
+    private long _last;
+
+    internal ProgressReporter(IProgress<SamplingProgress>? sink, int chain, long total, double temperature)
+    {
+        _sink = sink;
+        _chain = chain;
+        _total = total;
+        _temperature = temperature;
+        _interval = Math.Max(total / 200, 4096);
+        _last = -_interval; // so the first call (step 0) reports
+    }
+
+    /// <summary>Called by the loops every 4096 steps; forwards a report when enough steps have passed since the last one.</summary>
+    internal void Report(long done)
+    {
+        if (_sink is not null && done - _last >= _interval)
+        {
+            _last = done;
+            _sink.Report(new SamplingProgress(_chain, done, _total, _temperature));
+        }
+    }
+
+    internal void Finish() => _sink?.Report(new SamplingProgress(_chain, _total, _total, _temperature));
+}
+
+/// <summary>Checks a list of temperatures.</summary>
+internal static class TemperatureList
+{
+    internal const int MaximumCount = 100_000;
+
+    internal static List<Temperature> Check(IEnumerable<Temperature> temperatures)
+    {
+        Preconditions.CheckNotNull(temperatures, nameof(temperatures));
+        var list = new List<Temperature>();
+        foreach (var t in temperatures)
+        {
+            Preconditions.CheckPositive(t.InKelvin, nameof(temperatures));
+            list.Add(t);
+            if (list.Count > MaximumCount)
+            {
+                throw new ArgumentException(string.Create(CultureInfo.InvariantCulture, $"temperatures has more than {MaximumCount} entries; split the sweep."), nameof(temperatures));
+            }
+        }
+        if (list.Count == 0)
+        {
+            throw new ArgumentException("temperatures is empty; give at least one.", nameof(temperatures));
+        }
+        var duplicate = list.GroupBy(t => t.InKelvin).FirstOrDefault(g => g.Count() > 1);
+        if (duplicate is not null)
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture, $"temperatures contains {duplicate.Key:R} K more than once; each temperature must appear once."), nameof(temperatures));
+        }
+        return list;
+    }
+}

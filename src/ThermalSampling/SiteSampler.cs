@@ -1,0 +1,120 @@
+using System;
+using System.Collections.Generic;
+using System.Collections.Immutable;
+using System.Threading;
+using ThermalSampling.Analysis;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Persistence;
+using ThermalSampling.Potentials;
+using ThermalSampling.Reports;
+using ThermalSampling.Sampling;
+using ThermalSampling.Units;
+
+namespace ThermalSampling;
+
+/// <summary>
+/// Samples the position of a particle among fixed sites at one temperature and returns the vibration report: mean
+/// vector, displacement covariance, MSD and B with error bars, the harmonic reference and warnings.
+/// </summary>
+/// <remarks>
+/// Metropolis proposals follow the harmonic covariance's shape; chains start over-dispersed at about two harmonic
+/// standard deviations from the minimum. Direct sampling draws from a Gaussian envelope with the harmonic covariance
+/// inflated by 1.3² and accepts with probability p/(M q); M is found by probing 40 000 points (half from the envelope,
+/// half uniform in the confinement) and 2 000 on its boundary, plus a 5% margin on the log scale. A draw that exceeds the
+/// bound during sampling, or an acceptance below 0.1%, stops the run with an error that says to use Metropolis.
+/// A cancelled run throws <see cref="OperationCanceledException"/>.
+/// </remarks>
+public static class SiteSampler
+{
+    /// <summary>The default Metropolis target acceptance for three coordinates (Roberts, Gelman &amp; Gilks 1997 and
+    /// Roberts &amp; Rosenthal 2001 give 0.44 for one coordinate and 0.234 as the high-dimensional limit; 0.31 for d = 3 is recalled from memory).</summary>
+    public const double DefaultTargetAcceptance = 0.31;
+
+    /// <summary>Runs the sampler.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperature">The temperature.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    /// <exception cref="LandscapeException">When there is no bound minimum in the confinement.</exception>
+    /// <exception cref="InvalidOperationException">When direct sampling cannot establish a valid envelope bound.</exception>
+    public static SiteVibrationReport Run<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        RunArguments.Check(landscape, settings, mass, temperature);
+        return RunOne(landscape, mass, temperature, settings, progress, cancellationToken, null, 0);
+    }
+
+    /// <summary>Analyse, sample, summarise: the three steps of one temperature.</summary>
+    private static SiteVibrationReport RunOne<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
+        IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex)
+        where TPotential : struct, IPairPotential
+    {
+        var harmonic = SiteAnalysis.Harmonic(landscape, mass, temperature);
+        var run = SiteChains.Sample(landscape, harmonic, settings.TargetAcceptance ?? DefaultTargetAcceptance, temperature, settings, progress, cancellationToken,
+            session, temperatureIndex);
+        return SiteSummary.Summarise(landscape, mass, temperature, settings, harmonic, run);
+    }
+
+    /// <summary>Runs the sampler at several temperatures with the same settings.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    public static ImmutableArray<SiteVibrationReport> Sweep<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+        => Sweeps.Plain(temperatures, t => Run(landscape, mass, t, settings, progress, cancellationToken));
+
+    /// <summary>
+    /// Runs the sweep and writes checkpoints as <paramref name="checkpoints"/> says, so that an interrupted sweep can be finished
+    /// with <see cref="Resume"/>. When cancelled it writes a last checkpoint, then throws <see cref="OperationCanceledException"/>.
+    /// The reports are the same bits as those of <see cref="Sweep{TPotential}(SiteLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, IProgress{SamplingProgress}?, CancellationToken)"/>.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="checkpoints">Where and how often to write checkpoints.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation; honoured within one chunk of 4096 steps per group.</param>
+    public static ImmutableArray<SiteVibrationReport> SweepWithCheckpoints<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, CheckpointOptions checkpoints, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+        => Sweeps.WithCheckpoints(landscape, mass, temperatures, settings, checkpoints, Identity,
+            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+
+    /// <summary>
+    /// Finishes the sweep that wrote <paramref name="checkpoint"/>: each chain continues from its saved state to the
+    /// original <see cref="SamplingSettings.SamplesPerChain"/> (a resume adds no draws beyond the original run's), and the
+    /// reports are bit for bit those of the uninterrupted sweep. The landscape, mass, temperatures and settings must be
+    /// the original ones (worker threads may differ).
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The original landscape.</param>
+    /// <param name="mass">The original mass.</param>
+    /// <param name="temperatures">The original temperatures.</param>
+    /// <param name="settings">The original settings.</param>
+    /// <param name="checkpoint">The checkpoint to continue from.</param>
+    /// <param name="checkpoints">Where to keep writing checkpoints, or null for none.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    /// <exception cref="CheckpointException">When the checkpoint comes from another library version or a different run (the message names each difference).</exception>
+    public static ImmutableArray<SiteVibrationReport> Resume<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
+        SamplingSettings settings, SamplingCheckpoint checkpoint, CheckpointOptions? checkpoints = null, IProgress<SamplingProgress>? progress = null,
+        CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+        => Sweeps.Resume(landscape, mass, temperatures, settings, checkpoint, checkpoints, Identity,
+            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+
+    private static SweepIdentity Identity<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, List<Temperature> list, SamplingSettings settings)
+        where TPotential : struct, IPairPotential
+        => CheckpointedSweep.Identity("sites", landscape.Description, SiteChains.Fingerprint(landscape), mass, list, settings);
+}
