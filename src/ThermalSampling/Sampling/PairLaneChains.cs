@@ -34,159 +34,105 @@ internal static class PairLaneChains
         where TPotential : struct, IPairPotential
         => lanes switch
         {
-            8 => new Group<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
-            4 => new Group<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
-            2 => new Group<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
-            _ => new Group<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
+            8 => new Group<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
+            4 => new Group<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
+            2 => new Group<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
+            _ => new Group<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
         };
 
-    /// <summary>
-    /// One lane group and everything it has done: the walk, the phase and step, the adapted widths, the open moment block
-    /// and batch, and each chain's record. Its state is written and read at chunk boundaries only (docs/checkpoints.md).
-    /// </summary>
-    private sealed class Group<TOps, TD, TB, TPotential> : LaneGroupProgress
+    /// <summary>One lane group of pair chains on the lane engine: the pair walk's state, its kernels and its records.</summary>
+    private sealed class Group<TOps, TD, TB, TPotential> : LaneEngine<TOps, TD, TB, Walk<TD, TB>>
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
         where TPotential : struct, IPairPotential
     {
         private readonly Plan<TPotential> _plan;
-        private readonly int _firstChain, _chains;
         private readonly PairChainRecord[] _records;
-        private readonly ProgressReporter[] _reporters;
         private readonly Kernel<TOps, TD, TB, TPotential> _kernel;
         private readonly Tally _tally;
-        private Walk<TD, TB> _walk;
-        private TD _logWidth;
+        private readonly Func<int, double> _start;
+        private TD _starts;
 
-        internal Group(Plan<TPotential> plan, int firstChain, int chains, Func<int, PairChainRecord> makeRecord, Func<int, ProgressReporter> makeProgress)
-            : base(plan.BurnIn, plan.Samples, TOps.Count, Math.Min(TOps.Count, chains - firstChain))
+        internal Group(Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start, Func<int, PairChainRecord> makeRecord,
+            Func<int, ProgressReporter> makeProgress)
+            : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, BlockedMomentAccumulator.BlockSize, "PLGH", "LOGW", "pair chain group"),
+                firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
         {
             _plan = plan;
-            _firstChain = firstChain;
-            _chains = chains;
+            _start = start;
             _records = new PairChainRecord[Live];
-            _reporters = new ProgressReporter[Live];
             for (int lane = 0; lane < Live; lane++)
             {
                 _records[lane] = makeRecord(firstChain + lane);
-                _reporters[lane] = makeProgress(firstChain + lane);
             }
             _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
             _tally = new Tally(_records[0], TOps.Count, Live);
         }
 
-        internal PairChainOutcome[] Run(Func<int, double> start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
+        internal PairChainOutcome[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
         {
-            var saved = checkpoints.SavedState(group);
-            if (saved is null)
-            {
-                var r = TOps.Broadcast(0);
-                for (int lane = 0; lane < TOps.Count; lane++)
-                {
-                    int chain = Math.Min(_firstChain + lane, _chains - 1); // padding lanes repeat the last chain and are dropped
-                    LaneSeeding.Load<TOps, TD, TB>(ref _walk.R0, ref _walk.R1, ref _walk.R2, ref _walk.R3, lane, RandomStream.ForChain(_plan.Seed, chain));
-                    r = TOps.Set(r, lane, start(chain));
-                }
-                _kernel.Start(ref _walk, r);
-                _logWidth = TOps.Broadcast(Math.Log(_plan.InitialWidth));
-            }
-            else
-            {
-                Load(new StateReader(saved, "pair chain group " + group.ToString(System.Globalization.CultureInfo.InvariantCulture)));
-            }
-            var boundary = new ChunkBoundary(_reporters, checkpoints, group, this, ct);
-            if (Phase == GroupPhase.BurnIn)
-            {
-                BurnIn(boundary);
-                StartRecording();
-                var zero = TOps.Broadcast(0.0);
-                _walk.S1 = _walk.S2 = _walk.S3 = _walk.S4 = _walk.B1 = _walk.B2 = _walk.Accepted = zero;
-                _walk.BlockReference = _walk.Position;
-            }
-            var stepWidth = _kernel.WidthFrom(_logWidth);
-            if (Phase == GroupPhase.Recording)
-            {
-                Record(stepWidth, boundary);
-                Phase = GroupPhase.Finished;
-            }
-            checkpoints.Finished(group, this);
-            _tally.CopyTo(_records, _plan.Samples);
-
+            var stepWidth = RunLanes(checkpoints, group, ct);
             var outcomes = new PairChainOutcome[Live];
             for (int lane = 0; lane < Live; lane++)
             {
-                _reporters[lane].Finish();
-                outcomes[lane] = new PairChainOutcome(_records[lane], (long)TOps.Get(_walk.Accepted, lane), TOps.Get(stepWidth, lane));
+                outcomes[lane] = new PairChainOutcome(_records[lane], (long)TOps.Get(State.Accepted, lane), TOps.Get(stepWidth, lane));
             }
             return outcomes;
         }
 
-        private void BurnIn(ChunkBoundary boundary)
+        private protected override void PlaceLane(int lane, int chain)
         {
-            var gains = new double[ChunkSteps];
-            long steps = _plan.BurnIn;
-            for (; Step < steps; Step += ChunkSteps)
-            {
-                boundary.Reached(Step);
-                int chunk = (int)Math.Min(ChunkSteps, steps - Step);
-                LaneAdaptation.FillGains(gains, Step, chunk);
-                _walk.Faults = Kernel<TOps, TD, TB, TPotential>.NoFaults;
-                _logWidth = _kernel.AdaptChunk(ref _walk, _logWidth, gains, chunk);
-                _kernel.ThrowIfFaulted(_walk.Faults);
-            }
+            SeedLane(ref State.R0, ref State.R1, ref State.R2, ref State.R3, lane, RandomStream.ForChain(_plan.Seed, chain));
+            _starts = TOps.Set(_starts, lane, _start(chain));
         }
 
-        /// <summary>
-        /// The recorded phase: steps with the frozen width; each lane's positions go to its chain's record. Chunks end at
-        /// moment-block and progress boundaries (every 4096 steps), where the bookkeeping that makes calls happens; batches
-        /// close inside the chunk.
-        /// </summary>
-        private void Record(TD width, ChunkBoundary boundary)
+        private protected override void Start() => _kernel.Start(ref State, _starts);
+
+        private protected override TD AdaptChunk(TD logWidth, double[] gains, int chunk) => _kernel.AdaptChunk(ref State, logWidth, gains, chunk);
+
+        private protected override int RecordChunk(TD width, int chunk, long done, ref int inBatch, int batchSize)
+            => _kernel.RecordChunk(ref State, width, chunk, done, ref inBatch, batchSize, _tally);
+
+        private protected override void ClearFaults() => State.Faults = Kernel<TOps, TD, TB, TPotential>.NoFaults;
+
+        private protected override void ThrowIfFaulted(in Walk<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
+            => _kernel.ThrowIfFaulted(State.Faults);
+
+        private protected override void ResetForRecording()
         {
             var zero = TOps.Broadcast(0.0);
-            var records = _records;
-            int batchSize = records[0].Store.BatchSize;
-            long samples = _plan.Samples;
-            while (Step < samples)
+            State.S1 = State.S2 = State.S3 = State.S4 = State.B1 = State.B2 = State.Accepted = zero;
+            State.BlockReference = State.Position;
+        }
+
+        private protected override int BatchSize => _records[0].Store.BatchSize;
+
+        private protected override void AddClosedBatches(int closed)
+        {
+            for (int k = 0; k < closed; k++)
             {
-                if ((Step & (ChunkSteps - 1)) == 0)
+                for (int lane = 0; lane < _records.Length; lane++)
                 {
-                    boundary.Reached(_plan.BurnIn + Step);
-                }
-                // Up to the next boundary of a moment block or a progress chunk; batches close inside the chunk.
-                int chunk = (int)Math.Min(BlockedMomentAccumulator.BlockSize - InBlock, Math.Min(samples - Step, ChunkSteps - (Step & (ChunkSteps - 1))));
-                _walk.Faults = Kernel<TOps, TD, TB, TPotential>.NoFaults;
-                int closed = _kernel.RecordChunk(ref _walk, width, chunk, Step, ref InBatch, batchSize, _tally);
-                _kernel.ThrowIfFaulted(_walk.Faults);
-                for (int k = 0; k < closed; k++)
-                {
-                    for (int lane = 0; lane < records.Length; lane++)
-                    {
-                        records[lane].Store.AddBatchSums(_tally.BatchSums[2 * k * TOps.Count + lane], _tally.BatchSums[(2 * k + 1) * TOps.Count + lane]);
-                    }
-                }
-                Step += chunk;
-                InBlock += chunk;
-                if (InBlock == BlockedMomentAccumulator.BlockSize || Step == samples)
-                {
-                    for (int lane = 0; lane < records.Length; lane++)
-                    {
-                        records[lane].AddMomentBlock(InBlock, TOps.Get(_walk.BlockReference, lane), TOps.Get(_walk.S1, lane), TOps.Get(_walk.S2, lane),
-                            TOps.Get(_walk.S3, lane), TOps.Get(_walk.S4, lane));
-                    }
-                    _walk.S1 = _walk.S2 = _walk.S3 = _walk.S4 = zero;
-                    _walk.BlockReference = _walk.Position;
-                    InBlock = 0;
+                    _records[lane].Store.AddBatchSums(_tally.BatchSums[2 * k * TOps.Count + lane], _tally.BatchSums[(2 * k + 1) * TOps.Count + lane]);
                 }
             }
         }
 
-        public override void Save(StateWriter w)
+        private protected override void CloseBlock(int count)
         {
-            SaveProgress(w, "PLGH");
-            LaneWalkWords.Save(w, ref _walk);
-            w.Words("LOGW", LaneWalkWords.Lanes<TOps, TD, TB>(_logWidth));
+            for (int lane = 0; lane < _records.Length; lane++)
+            {
+                _records[lane].AddMomentBlock(count, TOps.Get(State.BlockReference, lane), TOps.Get(State.S1, lane), TOps.Get(State.S2, lane),
+                    TOps.Get(State.S3, lane), TOps.Get(State.S4, lane));
+            }
+            var zero = TOps.Broadcast(0.0);
+            State.S1 = State.S2 = State.S3 = State.S4 = zero;
+            State.BlockReference = State.Position;
+        }
+
+        private protected override void SaveRecords(StateWriter w)
+        {
             foreach (var record in _records)
             {
                 record.Save(w);
@@ -194,18 +140,16 @@ internal static class PairLaneChains
             _tally.Save(w, RecordedSteps);
         }
 
-        private void Load(StateReader r)
+        private protected override void LoadRecords(StateReader r)
         {
-            LoadProgress(r, "PLGH", _records[0].Store.BatchSize);
-            LaneWalkWords.Load(r, ref _walk);
-            _logWidth = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words("LOGW", TOps.Count));
             foreach (var record in _records)
             {
                 record.Load(r);
             }
             _tally.Load(r, RecordedSteps);
-            r.End();
         }
+
+        private protected override void Complete() => _tally.CopyTo(_records, _plan.Samples);
     }
 
     private readonly struct Kernel<TOps, TD, TB, TPotential>
@@ -431,7 +375,7 @@ internal static class PairLaneChains
     /// <summary>The running state of every lane of a group: position, energy, Jacobian, random stream, sums and faults (saved
     /// word for word, field by field in this order, lanes within a field: docs/checkpoints.md).</summary>
     [StructLayout(LayoutKind.Sequential)]
-    private struct Walk<TD, TB>
+    internal struct Walk<TD, TB>
         where TD : struct
         where TB : struct
     {

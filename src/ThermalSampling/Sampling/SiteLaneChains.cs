@@ -45,172 +45,120 @@ internal static class SiteLaneChains
         where TPotential : struct, IPairPotential
         => lanes switch
         {
-            8 => new Group<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
-            4 => new Group<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
-            2 => new Group<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
-            _ => new Group<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, record, progress).Run(start, checkpoints, group, ct),
+            8 => new Group<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
+            4 => new Group<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
+            2 => new Group<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
+            _ => new Group<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
         };
 
-    /// <summary>One lane group and everything it has done; its state is written and read at chunk boundaries only (docs/checkpoints.md).</summary>
-    private sealed class Group<TOps, TD, TB, TPotential> : LaneGroupProgress
+    /// <summary>One lane group of site chains on the lane engine: the site walk's state, its kernels and its records.</summary>
+    private sealed class Group<TOps, TD, TB, TPotential> : LaneEngine<TOps, TD, TB, SiteWalk<TD, TB>>
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
         where TPotential : struct, IPairPotential
     {
         private readonly Plan<TPotential> _plan;
-        private readonly int _firstChain, _chains;
         private readonly (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] _records;
         private readonly CovarianceAccumulator[] _moments;
-        private readonly ProgressReporter[] _reporters;
         private readonly Kernel<TOps, TD, TB, TPotential> _kernel;
         private readonly SiteTally _tally;
-        private SiteWalk<TD, TB> _walk;
-        private TD _logScale;
+        private readonly ChainStart _start;
+        private TD _x, _y, _z;
 
-        internal Group(Plan<TPotential> plan, int firstChain, int chains, ChainRecord makeRecord, Func<int, ProgressReporter> makeProgress)
-            : base(plan.BurnIn, plan.Samples, TOps.Count, Math.Min(TOps.Count, chains - firstChain))
+        internal Group(Plan<TPotential> plan, int firstChain, int chains, ChainStart start, ChainRecord makeRecord, Func<int, ProgressReporter> makeProgress)
+            : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialScale, plan.MaxScale, BlockSize, "SLGH", "LOGS", "site chain group"),
+                firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
         {
             _plan = plan;
-            _firstChain = firstChain;
-            _chains = chains;
+            _start = start;
             _records = new (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[Live];
-            _reporters = new ProgressReporter[Live];
             for (int lane = 0; lane < Live; lane++)
             {
                 _records[lane] = makeRecord(firstChain + lane);
-                _reporters[lane] = makeProgress(firstChain + lane);
             }
             _moments = new CovarianceAccumulator[Live];
             _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
             _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live);
         }
 
-        internal ChainOutcome[] Run(ChainStart start, GroupCheckpoints checkpoints, int group, CancellationToken ct)
+        internal ChainOutcome[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
         {
-            var saved = checkpoints.SavedState(group);
-            if (saved is null)
-            {
-                TD x = TOps.Broadcast(0), y = x, z = x;
-                for (int lane = 0; lane < TOps.Count; lane++)
-                {
-                    int chain = Math.Min(_firstChain + lane, _chains - 1); // padding lanes repeat the last chain and are dropped
-                    var (stream, p) = start(chain);
-                    LaneSeeding.Load<TOps, TD, TB>(ref _walk.R0, ref _walk.R1, ref _walk.R2, ref _walk.R3, lane, stream);
-                    x = TOps.Set(x, lane, p.X);
-                    y = TOps.Set(y, lane, p.Y);
-                    z = TOps.Set(z, lane, p.Z);
-                }
-                _kernel.Start(ref _walk, x, y, z);
-                _logScale = TOps.Broadcast(Math.Log(_plan.InitialScale));
-            }
-            else
-            {
-                Load(new StateReader(saved, "site chain group " + group.ToString(System.Globalization.CultureInfo.InvariantCulture)));
-            }
-            var boundary = new ChunkBoundary(_reporters, checkpoints, group, this, ct);
-            if (Phase == GroupPhase.BurnIn)
-            {
-                BurnIn(boundary);
-                StartRecording();
-                var zero = TOps.Broadcast(0.0);
-                _walk.Sums = default;
-                _walk.Batch = default;
-                _walk.Accepted = _walk.NearWall = zero;
-            }
-            var scale = LaneAdaptation.Width<TOps, TD, TB>(_logScale, _plan.MaxScale);
-            if (Phase == GroupPhase.Recording)
-            {
-                Record(scale, boundary);
-                Phase = GroupPhase.Finished;
-            }
-            checkpoints.Finished(group, this);
-            _tally.CopyTo(_records, _plan.Samples);
-
+            var scale = RunLanes(checkpoints, group, ct);
             var outcomes = new ChainOutcome[Live];
             for (int lane = 0; lane < Live; lane++)
             {
-                _reporters[lane].Finish();
                 outcomes[lane] = new ChainOutcome(_moments[lane], _records[lane].Stores, _records[lane].Radial, _records[lane].Draws,
-                    (long)TOps.Get(_walk.Accepted, lane), (long)TOps.Get(_walk.NearWall, lane), TOps.Get(scale, lane));
+                    (long)TOps.Get(State.Accepted, lane), (long)TOps.Get(State.NearWall, lane), TOps.Get(scale, lane));
             }
             return outcomes;
         }
 
-        private void BurnIn(ChunkBoundary boundary)
+        private protected override void PlaceLane(int lane, int chain)
         {
-            var gains = new double[ChunkSteps];
-            long steps = _plan.BurnIn;
-            for (; Step < steps; Step += ChunkSteps)
+            var (stream, p) = _start(chain);
+            SeedLane(ref State.R0, ref State.R1, ref State.R2, ref State.R3, lane, stream);
+            _x = TOps.Set(_x, lane, p.X);
+            _y = TOps.Set(_y, lane, p.Y);
+            _z = TOps.Set(_z, lane, p.Z);
+        }
+
+        private protected override void Start() => _kernel.Start(ref State, _x, _y, _z);
+
+        private protected override TD AdaptChunk(TD logWidth, double[] gains, int chunk) => _kernel.AdaptChunk(ref State, logWidth, gains, chunk);
+
+        private protected override int RecordChunk(TD width, int chunk, long done, ref int inBatch, int batchSize)
+            => _kernel.RecordChunk(ref State, width, chunk, done, ref inBatch, batchSize, _tally);
+
+        private protected override void ClearFaults() => State.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+
+        private protected override void ThrowIfFaulted(in SiteWalk<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
+        {
+            if (!TOps.AllTrue(State.Faults.AllFinite))
             {
-                boundary.Reached(Step);
-                int chunk = (int)Math.Min(ChunkSteps, steps - Step);
-                LaneAdaptation.FillGains(gains, Step, chunk);
-                _walk.Faults = LaneFaultCheck.None<TOps, TD, TB>();
-                var before = _walk;
-                var logScaleBefore = _logScale;
-                _logScale = _kernel.AdaptChunk(ref _walk, _logScale, gains, chunk);
-                if (!TOps.AllTrue(_walk.Faults.AllFinite))
+                _kernel.ThrowAtFirstFault(before, State.Faults, logWidthBefore, gains, width, chunk);
+            }
+        }
+
+        private protected override void ResetForRecording()
+        {
+            State.Sums = default;
+            State.Batch = default;
+            State.Accepted = State.NearWall = TOps.Broadcast(0.0);
+        }
+
+        private protected override int BatchSize => _records[0].Stores[0].BatchSize;
+
+        private protected override void AddClosedBatches(int closed)
+        {
+            for (int k = 0; k < closed; k++)
+            {
+                for (int lane = 0; lane < _records.Length; lane++)
                 {
-                    _kernel.ThrowAtFirstFault(before, _walk.Faults, logScaleBefore, gains, default, chunk);
+                    for (int axis = 0; axis < 3; axis++)
+                    {
+                        _records[lane].Stores[axis].AddBatchSums(_tally.BatchSums[(6 * k + 2 * axis) * TOps.Count + lane], _tally.BatchSums[(6 * k + 2 * axis + 1) * TOps.Count + lane]);
+                    }
                 }
             }
         }
 
-        /// <summary>The recorded phase; chunks end at moment-block and progress boundaries, where the bookkeeping (which makes calls) happens.</summary>
-        private void Record(TD scale, ChunkBoundary boundary)
+        private protected override void CloseBlock(int count)
         {
-            var records = _records;
-            int batchSize = records[0].Stores[0].BatchSize;
-            long samples = _plan.Samples;
             var minimum = _plan.Minimum;
-            while (Step < samples)
+            var s = State.Sums;
+            for (int lane = 0; lane < _records.Length; lane++)
             {
-                if ((Step & (ChunkSteps - 1)) == 0)
-                {
-                    boundary.Reached(_plan.BurnIn + Step);
-                }
-                int chunk = (int)Math.Min(BlockSize - InBlock, Math.Min(samples - Step, ChunkSteps - (Step & (ChunkSteps - 1))));
-                _walk.Faults = LaneFaultCheck.None<TOps, TD, TB>();
-                var before = _walk;
-                int closed = _kernel.RecordChunk(ref _walk, scale, chunk, Step, ref InBatch, batchSize, _tally);
-                if (!TOps.AllTrue(_walk.Faults.AllFinite))
-                {
-                    _kernel.ThrowAtFirstFault(before, _walk.Faults, default, null, scale, chunk);
-                }
-                for (int k = 0; k < closed; k++)
-                {
-                    for (int lane = 0; lane < records.Length; lane++)
-                    {
-                        for (int axis = 0; axis < 3; axis++)
-                        {
-                            records[lane].Stores[axis].AddBatchSums(_tally.BatchSums[(6 * k + 2 * axis) * TOps.Count + lane], _tally.BatchSums[(6 * k + 2 * axis + 1) * TOps.Count + lane]);
-                        }
-                    }
-                }
-                Step += chunk;
-                InBlock += chunk;
-                if (InBlock == BlockSize || Step == samples)
-                {
-                    for (int lane = 0; lane < records.Length; lane++)
-                    {
-                        var s = _walk.Sums;
-                        var block = CovarianceAccumulator.FromRawSums(InBlock, minimum.X, minimum.Y, minimum.Z,
-                            TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane), TOps.Get(s.XX, lane), TOps.Get(s.YY, lane), TOps.Get(s.ZZ, lane),
-                            TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane));
-                        _moments[lane] = CovarianceAccumulator.Merge(_moments[lane], block);
-                    }
-                    _walk.Sums = default;
-                    InBlock = 0;
-                }
+                var block = CovarianceAccumulator.FromRawSums(count, minimum.X, minimum.Y, minimum.Z,
+                    TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane), TOps.Get(s.XX, lane), TOps.Get(s.YY, lane), TOps.Get(s.ZZ, lane),
+                    TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane));
+                _moments[lane] = CovarianceAccumulator.Merge(_moments[lane], block);
             }
+            State.Sums = default;
         }
 
-        public override void Save(StateWriter w)
+        private protected override void SaveRecords(StateWriter w)
         {
-            SaveProgress(w, "SLGH");
-            LaneWalkWords.Save(w, ref _walk);
-            w.Words("LOGS", LaneWalkWords.Lanes<TOps, TD, TB>(_logScale));
             for (int lane = 0; lane < Live; lane++)
             {
                 _moments[lane].Save(w);
@@ -224,11 +172,8 @@ internal static class SiteLaneChains
             _tally.Save(w, RecordedSteps);
         }
 
-        private void Load(StateReader r)
+        private protected override void LoadRecords(StateReader r)
         {
-            LoadProgress(r, "SLGH", _records[0].Stores[0].BatchSize);
-            LaneWalkWords.Load(r, ref _walk);
-            _logScale = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words("LOGS", TOps.Count));
             for (int lane = 0; lane < Live; lane++)
             {
                 _moments[lane] = CovarianceAccumulator.Load(r);
@@ -240,8 +185,9 @@ internal static class SiteLaneChains
                 _records[lane].Draws.Load(r, 3);
             }
             _tally.Load(r, RecordedSteps);
-            r.End();
         }
+
+        private protected override void Complete() => _tally.CopyTo(_records, _plan.Samples);
     }
 
     private readonly struct Kernel<TOps, TD, TB, TPotential>
