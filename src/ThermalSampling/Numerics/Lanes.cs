@@ -547,3 +547,29 @@ public static class LaneMath
         return TOps.Subtract(TOps.BitsAsDouble(bits), TOps.Broadcast(1.0));
     }
 }
+
+/// <summary>Work to be done at one lane width, chosen at run time (<see cref="LaneWidths.Dispatch{TJob, TResult}"/>).</summary>
+/// <typeparam name="TResult">What the work returns.</typeparam>
+internal interface ILaneWidthJob<TResult>
+{
+    /// <summary>Does the work at the width <typeparamref name="TOps"/>.</summary>
+    TResult Run<TOps, TD, TB>()
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct;
+}
+
+/// <summary>The one place a lane count becomes a lane type.</summary>
+internal static class LaneWidths
+{
+    /// <summary>Runs <paramref name="job"/> at 8, 4 or 2 lanes per register, or 1 for any other count.</summary>
+    internal static TResult Dispatch<TJob, TResult>(int lanes, TJob job)
+        where TJob : struct, ILaneWidthJob<TResult>
+        => lanes switch
+        {
+            8 => job.Run<Lanes8, Vector512<double>, Vector512<ulong>>(),
+            4 => job.Run<Lanes4, Vector256<double>, Vector256<ulong>>(),
+            2 => job.Run<Lanes2, Vector128<double>, Vector128<ulong>>(),
+            _ => job.Run<Lanes1, double, ulong>(),
+        };
+}

@@ -32,13 +32,20 @@ internal static class PairLaneChains
     internal static PairChainOutcome[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start,
         Func<int, PairChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => lanes switch
-        {
-            8 => new Group<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
-            4 => new Group<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
-            2 => new Group<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
-            _ => new Group<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
-        };
+        => LaneWidths.Dispatch<GroupJob<TPotential>, PairChainOutcome[]>(lanes, new(plan, firstChain, chains, start, record, progress, checkpoints, group, ct));
+
+    /// <summary>A pair lane group at the width the dispatcher picks.</summary>
+    private readonly record struct GroupJob<TPotential>(Plan<TPotential> Plan, int FirstChain, int Chains, Func<int, double> Start,
+        Func<int, PairChainRecord> Record, Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints, int Group, CancellationToken Ct)
+        : ILaneWidthJob<PairChainOutcome[]>
+        where TPotential : struct, IPairPotential
+    {
+        public PairChainOutcome[] Run<TOps, TD, TB>()
+            where TOps : struct, ILaneOps<TD, TB>
+            where TD : struct
+            where TB : struct
+            => new Group<TOps, TD, TB, TPotential>(Plan, FirstChain, Chains, Start, Record, Progress).Run(Checkpoints, Group, Ct);
+    }
 
     /// <summary>One lane group of pair chains on the lane engine: the pair walk's state, its kernels and its records.</summary>
     private sealed class Group<TOps, TD, TB, TPotential> : LaneEngine<TOps, TD, TB, Walk<TD, TB>>
@@ -47,8 +54,8 @@ internal static class PairLaneChains
         where TB : struct
         where TPotential : struct, IPairPotential
     {
-        private readonly Plan<TPotential> _plan;
         private readonly PairChainRecord[] _records;
+        private readonly Plan<TPotential> _plan;
         private readonly Kernel<TOps, TD, TB, TPotential> _kernel;
         private readonly Tally _tally;
         private readonly Func<int, double> _start;

@@ -43,13 +43,19 @@ internal static class SiteLaneChains
     internal static ChainOutcome[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, ChainStart start, ChainRecord record,
         Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => lanes switch
-        {
-            8 => new Group<Lanes8, Vector512<double>, Vector512<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
-            4 => new Group<Lanes4, Vector256<double>, Vector256<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
-            2 => new Group<Lanes2, Vector128<double>, Vector128<ulong>, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
-            _ => new Group<Lanes1, double, ulong, TPotential>(plan, firstChain, chains, start, record, progress).Run(checkpoints, group, ct),
-        };
+        => LaneWidths.Dispatch<GroupJob<TPotential>, ChainOutcome[]>(lanes, new(plan, firstChain, chains, start, record, progress, checkpoints, group, ct));
+
+    /// <summary>A site lane group at the width the dispatcher picks.</summary>
+    private readonly record struct GroupJob<TPotential>(Plan<TPotential> Plan, int FirstChain, int Chains, ChainStart Start, ChainRecord Record,
+        Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints, int Group, CancellationToken Ct) : ILaneWidthJob<ChainOutcome[]>
+        where TPotential : struct, IPairPotential
+    {
+        public ChainOutcome[] Run<TOps, TD, TB>()
+            where TOps : struct, ILaneOps<TD, TB>
+            where TD : struct
+            where TB : struct
+            => new Group<TOps, TD, TB, TPotential>(Plan, FirstChain, Chains, Start, Record, Progress).Run(Checkpoints, Group, Ct);
+    }
 
     /// <summary>One lane group of site chains on the lane engine: the site walk's state, its kernels and its records.</summary>
     private sealed class Group<TOps, TD, TB, TPotential> : LaneEngine<TOps, TD, TB, SiteWalk<TD, TB>>
