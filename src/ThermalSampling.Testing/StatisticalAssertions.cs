@@ -185,7 +185,7 @@ public static class StatisticalAssert
     /// <typeparam name="TPotential">The potential type.</typeparam>
     /// <param name="potential">The potential, for example a fit to reference energies.</param>
     /// <param name="equilibriumDistance">The expected r0, Å.</param>
-    /// <param name="wellDepth">The expected depth u0 = −V(r0), eV.</param>
+    /// <param name="wellDepth">The expected depth −V(r_min) (ε for Lennard-Jones), eV.</param>
     /// <param name="distanceTolerance">Allowed |Δr0|, Å.</param>
     /// <param name="depthTolerance">Allowed |Δu0|, eV.</param>
     public static void HasMinimumAt<TPotential>(TPotential potential, double equilibriumDistance, double wellDepth, double distanceTolerance, double depthTolerance)

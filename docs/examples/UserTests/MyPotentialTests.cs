@@ -11,20 +11,20 @@ using Xunit;
 
 public class MyPotentialTests
 {
-    private static readonly Morse Fit = new(Energy.FromElectronVolts(0.35), 1.36, Length.FromAngstroms(2.87));
+    private static readonly Morse Fit = new(Energy.FromElectronVolts(0.40), 1.6, Length.FromAngstroms(2.6));
 
     [Fact]
-    public void Fit_keeps_the_reference_minimum() => StatisticalAssert.HasMinimumAt(Fit, 2.87, 0.35, 1e-6, 1e-9);
+    public void Fit_keeps_the_reference_minimum() => StatisticalAssert.HasMinimumAt(Fit, 2.6, 0.40, 1e-6, 1e-9);
 
     [Fact]
-    public void Fit_derivatives_are_consistent() => StatisticalAssert.DerivativesMatchFiniteDifferences(Fit, 2.3, 5.0);
+    public void Fit_derivatives_are_consistent() => StatisticalAssert.DerivativesMatchFiniteDifferences(Fit, 2.1, 5.0);
 
     [Fact]
     public void Sampled_mean_agrees_with_the_exact_quadrature()
     {
-        var line = PairLandscape.Line(Fit, Length.FromAngstroms(2.2), Length.FromAngstroms(4.5));
+        var line = PairLandscape.Line(Fit, Length.FromAngstroms(2.0), Length.FromAngstroms(4.2));
         var t = Temperature.FromKelvin(300);
-        var report = PairSampler.Run(line, Mass.FromAtomicMassUnits(63.5), t, new SamplingSettings { Seed = 1, SamplesPerChain = 20_000, BurnIn = 2_000 });
+        var report = PairSampler.Run(line, Mass.FromAtomicMassUnits(60), t, new SamplingSettings { Seed = 1, SamplesPerChain = 20_000, BurnIn = 2_000 });
         StatisticalAssert.AgreesWithin(report.Mean, ExactPairDistribution.Compute(line, t).MeanInAngstroms, k: 4, what: "mean separation");
     }
 }

@@ -8,8 +8,8 @@ using ThermalSampling.Units;
 namespace ThermalSampling.Analysis;
 
 /// <summary>The harmonic (second-order Taylor) picture of a pair at its minimum.</summary>
-/// <param name="EquilibriumDistanceInAngstroms">r0, the minimum, Å.</param>
-/// <param name="StiffnessElectronVoltsPerAngstromSquared">k = V″(r0), eV/Å².</param>
+/// <param name="EquilibriumDistanceInAngstroms">r_min, the position of the minimum, Å.</param>
+/// <param name="StiffnessElectronVoltsPerAngstromSquared">k = V″(r_min), eV/Å².</param>
 /// <param name="AngularFrequencyPerSecond">ω = √(k/m), rad/s.</param>
 /// <param name="QuantumEnergyInElectronVolts">ħω, eV.</param>
 /// <param name="QuantumToThermalRatio">ħω/kT (dimensionless); well above 1 means quantum statistics matter.</param>
@@ -36,7 +36,7 @@ public sealed record PairHarmonicEstimate(
 }
 
 /// <summary>The first-order (in kT) classical anharmonic estimate about the minimum of a pair.</summary>
-/// <param name="MeanShiftInAngstroms">⟨r⟩ − r0 to first order in kT, Å.</param>
+/// <param name="MeanShiftInAngstroms">⟨r⟩ − r_min to first order in kT, Å.</param>
 /// <param name="VarianceInAngstromsSquared">The variance to second order in kT, Å² (the harmonic kT/k plus the first anharmonic correction).</param>
 /// <param name="ThirdCumulantInAngstromsCubed">The third cumulant to leading order, −V‴(kT)²/k³, Å³.</param>
 /// <param name="RelativeVarianceCorrection">(variance − kT/k)/(kT/k): the size of the correction; above about 0.3 the expansion is not trustworthy.</param>
@@ -80,15 +80,15 @@ public static class PairAnalysis
         if (!(k > 0) || !double.IsFinite(k))
         {
             throw new LandscapeException(string.Create(CultureInfo.InvariantCulture,
-                $"V''(r0) = {k:R} eV/Å² at the minimum r0 = {well.EquilibriumDistance:G6} Å is not positive; the harmonic estimate needs a curved minimum."));
+                $"V''(r_min) = {k:R} eV/Å² at the minimum r_min = {well.EquilibriumDistance:G6} Å is not positive; the harmonic estimate needs a curved minimum."));
         }
         return HarmonicOscillator.Estimate(well.EquilibriumDistance, k, mass.InAtomicMassUnits, temperature.ThermalEnergyInElectronVolts);
     }
 
     /// <summary>
-    /// The classical first-order anharmonic estimate: with k = V″, V3 = V‴, V4 = V⁗ at the minimum r0,
+    /// The classical first-order anharmonic estimate: with k = V″, V3 = V‴, V4 = V⁗ at the minimum r_min,
     /// line: ⟨x⟩ = −V3 kT/(2k²), Var = kT/k + (kT)²[V3²/k⁴ − V4/(2k³)];
-    /// radial (weight r²): ⟨x⟩ = kT[−V3/(2k²) + 2/(k r0)], Var = kT/k + (kT)²[V3²/k⁴ − V4/(2k³) − 2/(k² r0²) − 2V3/(k³ r0)].
+    /// radial (weight r²): ⟨x⟩ = kT[−V3/(2k²) + 2/(k r_min)], Var = kT/k + (kT)²[V3²/k⁴ − V4/(2k³) − 2/(k² r_min²) − 2V3/(k³ r_min)].
     /// The derivation is in docs/perturbation-theory.md.
     /// </summary>
     /// <typeparam name="TPotential">The potential type.</typeparam>
@@ -104,7 +104,7 @@ public static class PairAnalysis
         if (!(k > 0))
         {
             throw new LandscapeException(string.Create(CultureInfo.InvariantCulture,
-                $"V''(r0) = {k:R} eV/Å² is not positive; the perturbative estimate needs a curved minimum."));
+                $"V''(r_min) = {k:R} eV/Å² is not positive; the perturbative estimate needs a curved minimum."));
         }
         double shift = -v3 * kt / (2 * k * k);
         double second = v3 * v3 / (k * k * k * k) - v4 / (2 * k * k * k);

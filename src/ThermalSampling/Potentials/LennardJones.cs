@@ -8,20 +8,23 @@ using ThermalSampling.Units;
 namespace ThermalSampling.Potentials;
 
 /// <summary>
-/// The 12-6 Lennard-Jones potential, V(r) = u0[(r0/r)¹² − 2(r0/r)⁶] = 4ε[(σ/r)¹² − (σ/r)⁶],
-/// with r0 = 2^(1/6)σ the equilibrium distance and u0 = ε the well depth.
+/// The 12-6 Lennard-Jones potential, V(r) = ε[(r_min/r)¹² − 2(r_min/r)⁶] = 4ε[(σ/r)¹² − (σ/r)⁶],
+/// with ε the well depth, r_min = 2^(1/6)σ the position of the minimum and σ the distance where V = 0.
 /// </summary>
 public readonly struct LennardJones : IPairPotential
 {
-    private readonly double _r0;
-    private readonly double _r0Squared;
-    private readonly double _u0;
+    private readonly double _rMin;
+    private readonly double _rMinSquared;
+    private readonly double _epsilon;
 
-    private LennardJones(double equilibriumDistance, double wellDepth)
+    private readonly bool _givenBySigma;
+
+    private LennardJones(double equilibriumDistance, double wellDepth, bool givenBySigma)
     {
-        _r0 = equilibriumDistance;
-        _r0Squared = equilibriumDistance * equilibriumDistance;
-        _u0 = wellDepth;
+        _givenBySigma = givenBySigma;
+        _rMin = equilibriumDistance;
+        _rMinSquared = equilibriumDistance * equilibriumDistance;
+        _epsilon = wellDepth;
     }
 
     /// <summary>Builds the potential from the distance σ where V = 0 and the well depth ε.</summary>
@@ -31,27 +34,27 @@ public readonly struct LennardJones : IPairPotential
     {
         Preconditions.CheckPositive(sigma.InAngstroms, nameof(sigma));
         Preconditions.CheckPositive(epsilon.InElectronVolts, nameof(epsilon));
-        return new LennardJones(Math.Pow(2, 1.0 / 6) * sigma.InAngstroms, epsilon.InElectronVolts);
+        return new LennardJones(Math.Pow(2, 1.0 / 6) * sigma.InAngstroms, epsilon.InElectronVolts, givenBySigma: true);
     }
 
-    /// <summary>Builds the potential from its equilibrium distance r0 and well depth u0.</summary>
-    /// <param name="equilibriumDistance">r0; must be positive.</param>
-    /// <param name="wellDepth">u0 (positive: the minimum is at −u0).</param>
+    /// <summary>Builds the potential from the position of its minimum r_min and its well depth ε.</summary>
+    /// <param name="equilibriumDistance">r_min; must be positive.</param>
+    /// <param name="wellDepth">ε (positive: the minimum is at −ε).</param>
     public static LennardJones FromMinimum(Length equilibriumDistance, Energy wellDepth)
     {
         Preconditions.CheckPositive(equilibriumDistance.InAngstroms, nameof(equilibriumDistance));
         Preconditions.CheckPositive(wellDepth.InElectronVolts, nameof(wellDepth));
-        return new LennardJones(equilibriumDistance.InAngstroms, wellDepth.InElectronVolts);
+        return new LennardJones(equilibriumDistance.InAngstroms, wellDepth.InElectronVolts, givenBySigma: false);
     }
 
-    /// <summary>σ = r0/2^(1/6), in Å.</summary>
-    public double SigmaInAngstroms => _r0 / Math.Pow(2, 1.0 / 6);
+    /// <summary>σ = r_min/2^(1/6), in Å.</summary>
+    public double SigmaInAngstroms => _rMin / Math.Pow(2, 1.0 / 6);
 
-    /// <summary>ε = u0, in eV.</summary>
-    public double EpsilonInElectronVolts => _u0;
+    /// <summary>The well depth ε, in eV.</summary>
+    public double EpsilonInElectronVolts => _epsilon;
 
-    /// <summary>r0, in Å.</summary>
-    public double EquilibriumDistanceInAngstroms => _r0;
+    /// <summary>The position of the minimum r_min, in Å.</summary>
+    public double EquilibriumDistanceInAngstroms => _rMin;
 
     /// <inheritdoc/>
     public double DomainLower => 0;
@@ -60,11 +63,12 @@ public readonly struct LennardJones : IPairPotential
     public double DomainUpper => double.PositiveInfinity;
 
     /// <inheritdoc/>
-    public PotentialWell? Well => new(_r0, -_u0, _u0);
+    public PotentialWell? Well => new(_rMin, -_epsilon, _epsilon);
 
     /// <inheritdoc/>
-    public string Description => string.Create(CultureInfo.InvariantCulture,
-        $"Lennard-Jones (r0 = {_r0:G6} Å, u0 = {_u0:G6} eV; sigma = {SigmaInAngstroms:G6} Å)");
+    public string Description => _givenBySigma
+        ? string.Create(CultureInfo.InvariantCulture, $"Lennard-Jones (ε = {_epsilon:G6} eV, σ = {SigmaInAngstroms:G6} Å; r_min = {_rMin:G6} Å)")
+        : string.Create(CultureInfo.InvariantCulture, $"Lennard-Jones (ε = {_epsilon:G6} eV, r_min = {_rMin:G6} Å; σ = {SigmaInAngstroms:G6} Å)");
 
     /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -83,9 +87,9 @@ public readonly struct LennardJones : IPairPotential
         where TD : struct
         where TB : struct
     {
-        var s2 = TOps.Divide(TOps.Broadcast(_r0Squared), squaredDistance);
+        var s2 = TOps.Divide(TOps.Broadcast(_rMinSquared), squaredDistance);
         var s6 = TOps.Multiply(TOps.Multiply(s2, s2), s2);
-        return TOps.Multiply(TOps.Multiply(TOps.Broadcast(_u0), s6), TOps.Subtract(s6, TOps.Broadcast(2.0)));
+        return TOps.Multiply(TOps.Multiply(TOps.Broadcast(_epsilon), s6), TOps.Subtract(s6, TOps.Broadcast(2.0)));
     }
 
     /// <inheritdoc/>
@@ -96,18 +100,18 @@ public readonly struct LennardJones : IPairPotential
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double EnergyAtSquaredDistance(double squaredDistance)
     {
-        double s2 = _r0Squared / squaredDistance;
+        double s2 = _rMinSquared / squaredDistance;
         double s6 = s2 * s2 * s2;
-        return _u0 * s6 * (s6 - 2.0);
+        return _epsilon * s6 * (s6 - 2.0);
     }
 
     /// <inheritdoc/>
     public PairDerivatives Derivatives(double r)
     {
-        double s = _r0 / r;
+        double s = _rMin / r;
         double s6 = s * s * s * s * s * s;
         double s12 = s6 * s6;
-        double u = _u0;
+        double u = _epsilon;
         return new PairDerivatives(
             u * (s12 - 2 * s6),
             u * (-12 * s12 + 12 * s6) / r,
