@@ -16,7 +16,7 @@ internal static class DemoScenarios
           "units": { "energy": "meV", "length": "angstrom" },
           "mass": 39.9,
           "potential": { "form": "lennard-jones", "wellDepth": 20.0, "equilibriumDistance": 3.4 },
-          "landscape": { "kind": "sites", "surface": "fcc111", "adsorptionSite": "hollow", "nearestNeighbourDistance": 3.4, "layers": 3,
+          "landscape": { "kind": "sites", "lattice": "fcc", "facet": [1, 1, 1], "adsorptionSite": "fcc-hollow", "nearestNeighbourDistance": 3.4, "layers": 3,
                          "confinement": { "shape": "sphere", "radius": 0.9 } },
           "temperatures": [10, 30, 60],
           "sampling": { "method": "metropolis", "chains": 4, "samplesPerChain": 40000, "burnIn": 4000, "seed": 2026 }

@@ -48,7 +48,7 @@ internal sealed record PotentialSpec(string Form, ImmutableDictionary<string, do
 
 /// <summary>A landscape in canonical units.</summary>
 internal sealed record LandscapeSpec(string Kind, double WindowLower, double WindowUpper, ImmutableArray<Position> Sites, string? Lattice,
-    double NearestNeighbourDistance, int Shells, Position Centre, Confinement? Confinement, string? Surface = null, string? AdsorptionSite = null, int Layers = 3);
+    double NearestNeighbourDistance, int Shells, Position Centre, Confinement? Confinement, MillerIndices? Facet = null, string? AdsorptionSite = null, int Layers = 3);
 
 /// <summary>Reads scenario files. Every problem is collected (with its JSON path) and reported at once.</summary>
 internal static class ScenarioReader
@@ -402,19 +402,27 @@ internal static class ScenarioReader
         {
             return null;
         }
-        c.CheckKeys(p, path, "kind", "sites", "lattice", "surface", "adsorptionSite", "layers", "nearestNeighbourDistance", "shells", "centre", "confinement");
+        c.CheckKeys(p, path, "kind", "sites", "lattice", "facet", "adsorptionSite", "layers", "nearestNeighbourDistance", "shells", "centre", "confinement");
         var sites = ImmutableArray<Position>.Empty;
         string? lattice = null;
         double nn = 0;
         int shells = 1;
         bool explicitSites = p.TryGetProperty("sites", out var siteArray);
-        bool surfaceSites = p.TryGetProperty("surface", out _);
-        int sources = (explicitSites ? 1 : 0) + (surfaceSites ? 1 : 0) + (p.TryGetProperty("lattice", out _) ? 1 : 0);
-        if (sources > 1)
+        bool surfaceSites = p.TryGetProperty("facet", out _);
+        if (explicitSites && (p.TryGetProperty("lattice", out _) || surfaceSites))
         {
-            c.Add(path, "give exactly one of sites, lattice or surface.");
+            c.Add(path, "give exactly one of sites or lattice (with facet for a surface).");
         }
-        string? surface = null, adsorption = null;
+        else if (!explicitSites && !p.TryGetProperty("lattice", out _))
+        {
+            c.Add(path, "give sites, or a lattice (with facet for a surface).");
+        }
+        if (!surfaceSites && p.TryGetProperty("adsorptionSite", out _))
+        {
+            c.Add($"{path}.adsorptionSite", "needs facet: an adsorption site is a place on a surface (lattice plus facet [h, k, l]).");
+        }
+        MillerIndices? facet = null;
+        string? adsorption = null;
         int layers = 3;
         if (explicitSites)
         {
@@ -446,12 +454,28 @@ internal static class ScenarioReader
         }
         else if (surfaceSites)
         {
-            surface = c.String(p, "surface", path, true, "fcc100", "fcc111");
-            adsorption = c.String(p, "adsorptionSite", path, true, "top", "bridge", "hollow");
+            lattice = c.String(p, "lattice", path, true, "fcc", "bcc", "sc");
+            var hkl = c.Numbers(p, "facet", path, true, 3, 3, -6, 6);
+            if (hkl is not null)
+            {
+                if (hkl.Any(x => x != Math.Round(x)))
+                {
+                    c.Add($"{path}.facet", "Miller indices must be integers, for example [1, 1, 1].");
+                }
+                else if (hkl.All(x => x == 0))
+                {
+                    c.Add($"{path}.facet", "[0, 0, 0] is not a plane: at least one Miller index must be non-zero.");
+                }
+                else
+                {
+                    facet = new MillerIndices((int)hkl[0], (int)hkl[1], (int)hkl[2]);
+                }
+            }
+            adsorption = c.String(p, "adsorptionSite", path, true, "top", "bridge", "hollow", "fcc-hollow", "hcp-hollow");
             nn = (c.Number(p, "nearestNeighbourDistance", path, true, 0, 1e4, true) ?? 1) * l;
             layers = (int)(c.Integer(p, "layers", path, false, 1, 10) ?? 3);
         }
-        else
+        else if (!explicitSites && p.TryGetProperty("lattice", out _))
         {
             lattice = c.String(p, "lattice", path, true, "fcc", "bcc", "sc", "hcp");
             nn = (c.Number(p, "nearestNeighbourDistance", path, true, 0, 1e4, true) ?? 1) * l;
@@ -484,7 +508,7 @@ internal static class ScenarioReader
                 confinement = h is double hh ? new Confinement(ConfinementShape.Box, hh * l) : null;
             }
         }
-        return new LandscapeSpec(kind, 0, 0, sites, lattice, nn, shells, centre, confinement, surface, adsorption, layers);
+        return new LandscapeSpec(kind, 0, 0, sites, lattice, nn, shells, centre, confinement, facet, adsorption, layers);
     }
 
     private static SamplingSettings? ReadSampling(Context c, JsonElement root)

@@ -69,10 +69,21 @@ internal static class ScenarioRunner
     {
         "windowLower" or "windowUpper" or "window" => "$.landscape.window",
         "sites" => "$.landscape.sites",
+        "facet" => "$.landscape.facet",
+        "site" => "$.landscape.adsorptionSite",
+        "layers" => "$.landscape.layers",
         _ when parameter?.StartsWith("sites[", StringComparison.Ordinal) == true => "$.landscape.sites",
         _ when parameter?.StartsWith("centre", StringComparison.Ordinal) == true => "$.landscape.centre",
         _ when parameter?.StartsWith("confinement", StringComparison.Ordinal) == true => "$.landscape.confinement",
         _ => "$.landscape",
+    };
+
+    private static LatticeKind Lattice(string name) => name switch
+    {
+        "fcc" => LatticeKind.FaceCentredCubic,
+        "bcc" => LatticeKind.BodyCentredCubic,
+        "sc" => LatticeKind.SimpleCubic,
+        _ => LatticeKind.HexagonalClosePacked,
     };
 
     private static ScenarioResults Dispatch<TPotential>(Scenario scenario, TPotential potential, IProgress<SamplingProgress>? progress, CancellationToken ct,
@@ -99,23 +110,24 @@ internal static class ScenarioRunner
             }
             var centre = l.Centre;
             ImmutableArray<Position> sites;
-            if (l.Surface is not null)
+            if (l.Facet is { } facet)
             {
-                var geometry = LatticeSites.FccSurface(l.Surface == "fcc100" ? SurfaceFacet.Fcc100 : SurfaceFacet.Fcc111,
-                    l.AdsorptionSite switch { "top" => AdsorptionSiteKind.Top, "bridge" => AdsorptionSiteKind.Bridge, _ => AdsorptionSiteKind.Hollow },
+                var geometry = LatticeSites.Surface(Lattice(l.Lattice!), facet,
+                    l.AdsorptionSite switch
+                    {
+                        "top" => AdsorptionSiteKind.Top,
+                        "bridge" => AdsorptionSiteKind.Bridge,
+                        "fcc-hollow" => AdsorptionSiteKind.FccHollow,
+                        "hcp-hollow" => AdsorptionSiteKind.HcpHollow,
+                        _ => AdsorptionSiteKind.Hollow,
+                    },
                     Length.FromAngstroms(l.NearestNeighbourDistance), l.Layers);
                 sites = geometry.Sites.Select(s => s + l.Centre).ToImmutableArray();
                 centre = geometry.Start + l.Centre;
             }
             else if (l.Lattice is not null)
             {
-                sites = LatticeSites.NeighbourCage(l.Lattice switch
-                {
-                    "fcc" => LatticeKind.FaceCentredCubic,
-                    "bcc" => LatticeKind.BodyCentredCubic,
-                    "sc" => LatticeKind.SimpleCubic,
-                    _ => LatticeKind.HexagonalClosePacked,
-                }, Length.FromAngstroms(l.NearestNeighbourDistance), l.Shells).Select(s => s + l.Centre).ToImmutableArray();
+                sites = LatticeSites.NeighbourCage(Lattice(l.Lattice), Length.FromAngstroms(l.NearestNeighbourDistance), l.Shells).Select(s => s + l.Centre).ToImmutableArray();
             }
             else
             {

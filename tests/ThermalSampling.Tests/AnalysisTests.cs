@@ -300,7 +300,7 @@ public class AnalysisTests
     public void Surface_site_first_order_shift_points_away_from_the_surface()
     {
         // Anharmonic softening on the vacuum side pushes the mean outwards (+z); by symmetry no lateral shift.
-        var g = LatticeSites.FccSurface(SurfaceFacet.Fcc111, AdsorptionSiteKind.Hollow, Length.FromAngstroms(3.8));
+        var g = LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(1, 1, 1), AdsorptionSiteKind.FccHollow, Length.FromAngstroms(3.8));
         var site = SiteLandscape.Create(Lj, g.Sites, g.Start, Confinement.Sphere(Length.FromAngstroms(1.5)));
         var h = SiteAnalysis.Harmonic(site, ArgonMass, K(20));
         Assert.True(h.FirstOrderMeanShift.Z > 0);

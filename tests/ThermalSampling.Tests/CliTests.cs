@@ -382,10 +382,27 @@ public class CliCommandTests
     public void Surface_landscapes_are_accepted_in_scenarios()
     {
         string file = WriteScenario(Scenario.Replace("\"landscape\": { \"kind\": \"radial\", \"window\": [2.2, 4.0] }",
-            "\"landscape\": { \"kind\": \"sites\", \"surface\": \"fcc100\", \"adsorptionSite\": \"hollow\", \"nearestNeighbourDistance\": 2.55, \"confinement\": { \"shape\": \"box\", \"halfWidth\": 0.5 } }"));
+            "\"landscape\": { \"kind\": \"sites\", \"lattice\": \"fcc\", \"facet\": [1, 0, 0], \"adsorptionSite\": \"hollow\", \"nearestNeighbourDistance\": 2.55, \"confinement\": { \"shape\": \"box\", \"halfWidth\": 0.5 } }"));
         var (code, stdout, stderr) = Run("run", file, "--quiet");
         Assert.True(code == 0, stderr);
         using var doc = JsonDocument.Parse(stdout);
         Assert.True(doc.RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble() > 0);
+    }
+
+    [Theory]
+    [InlineData("\"lattice\": \"fcc\", \"facet\": [1, 1, 1], \"adsorptionSite\": \"hollow\"", "$.landscape.adsorptionSite", "FccHollow")]
+    [InlineData("\"lattice\": \"fcc\", \"facet\": [0, 0, 0], \"adsorptionSite\": \"top\"", "$.landscape.facet", "not a plane")]
+    [InlineData("\"lattice\": \"fcc\", \"facet\": [1, 0.5, 0], \"adsorptionSite\": \"top\"", "$.landscape.facet", "integers")]
+    [InlineData("\"lattice\": \"hcp\", \"facet\": [0, 0, 1], \"adsorptionSite\": \"top\"", "$.landscape.lattice", "fcc")]
+    [InlineData("\"surface\": \"fcc111\", \"adsorptionSite\": \"hollow\"", "$.landscape", "surface")]
+    [InlineData("\"lattice\": \"fcc\", \"adsorptionSite\": \"top\"", "$.landscape.adsorptionSite", "needs facet")]
+    public void Surface_mistakes_are_named_by_their_json_path(string keys, string path, string hint)
+    {
+        string file = WriteScenario(Scenario.Replace("\"landscape\": { \"kind\": \"radial\", \"window\": [2.2, 4.0] }",
+            "\"landscape\": { \"kind\": \"sites\", " + keys + ", \"nearestNeighbourDistance\": 2.55, \"confinement\": { \"shape\": \"box\", \"halfWidth\": 0.5 } }"));
+        var (code, _, stderr) = Run("run", file, "--quiet");
+        Assert.Equal(2, code);
+        Assert.Contains(path, stderr);
+        Assert.Contains(hint, stderr);
     }
 }

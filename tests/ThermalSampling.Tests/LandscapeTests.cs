@@ -68,30 +68,92 @@ public class LandscapeTests
         Assert.All(cage.Skip(12), p => Assert.Equal(2.9 * Math.Sqrt(2), p.Norm, 9));
     }
 
+    private static readonly MillerIndices Facet111 = new(1, 1, 1), Facet100 = new(1, 0, 0), Facet110 = new(1, 1, 0);
+
     [Theory]
-    [InlineData(SurfaceFacet.Fcc111, AdsorptionSiteKind.Top, 1)]
-    [InlineData(SurfaceFacet.Fcc111, AdsorptionSiteKind.Bridge, 2)]
-    [InlineData(SurfaceFacet.Fcc111, AdsorptionSiteKind.Hollow, 3)]
-    [InlineData(SurfaceFacet.Fcc100, AdsorptionSiteKind.Top, 1)]
-    [InlineData(SurfaceFacet.Fcc100, AdsorptionSiteKind.Bridge, 2)]
-    [InlineData(SurfaceFacet.Fcc100, AdsorptionSiteKind.Hollow, 4)]
-    public void Adsorption_start_touches_the_right_number_of_surface_atoms(SurfaceFacet facet, AdsorptionSiteKind site, int touching)
+    [InlineData(LatticeKind.FaceCentredCubic, 1, 1, 1, AdsorptionSiteKind.Top, 1)]
+    [InlineData(LatticeKind.FaceCentredCubic, 1, 1, 1, AdsorptionSiteKind.Bridge, 2)]
+    [InlineData(LatticeKind.FaceCentredCubic, 1, 1, 1, AdsorptionSiteKind.FccHollow, 3)]
+    [InlineData(LatticeKind.FaceCentredCubic, 1, 1, 1, AdsorptionSiteKind.HcpHollow, 3)]
+    [InlineData(LatticeKind.FaceCentredCubic, 1, 0, 0, AdsorptionSiteKind.Top, 1)]
+    [InlineData(LatticeKind.FaceCentredCubic, 1, 0, 0, AdsorptionSiteKind.Bridge, 2)]
+    [InlineData(LatticeKind.FaceCentredCubic, 1, 0, 0, AdsorptionSiteKind.Hollow, 4)]
+    [InlineData(LatticeKind.FaceCentredCubic, 0, 0, 2, AdsorptionSiteKind.Hollow, 4)] // (002) is (001), the same square net
+    [InlineData(LatticeKind.SimpleCubic, 1, 0, 0, AdsorptionSiteKind.Hollow, 4)]
+    [InlineData(LatticeKind.BodyCentredCubic, 1, 1, 0, AdsorptionSiteKind.Top, 1)]
+    [InlineData(LatticeKind.BodyCentredCubic, 1, 1, 0, AdsorptionSiteKind.Bridge, 2)]
+    public void Adsorption_start_touches_the_right_number_of_surface_atoms(LatticeKind lattice, int h, int k, int l, AdsorptionSiteKind site, int touching)
     {
-        var g = LatticeSites.FccSurface(facet, site, Length.FromAngstroms(2.55), layers: 3);
+        // Common practice, no source: the coordination of top, bridge and hollow sites on the low-index faces of cubic crystals.
+        var g = LatticeSites.Surface(lattice, new MillerIndices(h, k, l), site, Length.FromAngstroms(2.55), layers: 3);
         var distances = g.Sites.Select(s => (s - g.Start).Norm).OrderBy(d => d).ToArray();
         Assert.Equal(touching, distances.Count(d => Math.Abs(d - 2.55) < 1e-9));
         Assert.True(distances[touching] > 2.55 + 1e-6, "no other atom is as close");
         Assert.True(g.Start.Z > 0);
+        Assert.All(g.Sites, s => Assert.True(s.Z <= 1e-9, "the crystal lies at z <= 0"));
+        Assert.Contains(g.Sites, s => s.Norm < 1e-9); // the origin is a top-layer atom
     }
 
     [Fact]
-    public void Fcc111_hollow_is_the_fcc_hollow_above_a_third_layer_atom()
+    public void The_two_three_fold_hollows_of_fcc_111_differ_by_the_layer_beneath()
     {
-        var g = LatticeSites.FccSurface(SurfaceFacet.Fcc111, AdsorptionSiteKind.Hollow, Length.FromAngstroms(2.55), layers: 3);
-        double third = -2 * 2.55 * Math.Sqrt(2.0 / 3.0);
-        double second = -2.55 * Math.Sqrt(2.0 / 3.0);
-        Assert.Contains(g.Sites, s => Math.Abs(s.Z - third) < 1e-9 && Math.Abs(s.X - g.Start.X) < 1e-9 && Math.Abs(s.Y - g.Start.Y) < 1e-9);
-        Assert.DoesNotContain(g.Sites, s => Math.Abs(s.Z - second) < 1e-9 && Math.Abs(s.X - g.Start.X) < 1e-9 && Math.Abs(s.Y - g.Start.Y) < 1e-9);
+        // Common practice, no source: on a close-packed facet the fcc hollow continues ABC stacking (a third-layer atom
+        // beneath it), the hcp hollow sits over a second-layer atom. Layer spacing of (111) is nn·√(2/3).
+        double nn = 2.55, spacing = nn * Math.Sqrt(2.0 / 3.0);
+        var fcc = LatticeSites.Surface(LatticeKind.FaceCentredCubic, Facet111, AdsorptionSiteKind.FccHollow, Length.FromAngstroms(nn));
+        var hcp = LatticeSites.Surface(LatticeKind.FaceCentredCubic, Facet111, AdsorptionSiteKind.HcpHollow, Length.FromAngstroms(nn));
+        bool Under(AdsorptionGeometry g, int layer) => g.Sites.Any(s => Math.Abs(s.Z + layer * spacing) < 1e-9 && Math.Abs(s.X - g.Start.X) < 1e-9 && Math.Abs(s.Y - g.Start.Y) < 1e-9);
+        Assert.True(Under(fcc, 2) && !Under(fcc, 1), fcc.SiteDescription);
+        Assert.True(Under(hcp, 1) && !Under(hcp, 2), hcp.SiteDescription);
+        Assert.Equal(spacing, fcc.Frame.LayerSpacingInAngstroms, 12);
+        Assert.Contains("third-layer", fcc.SiteDescription);
+        Assert.Contains("second-layer", hcp.SiteDescription);
+        Assert.NotEqual(fcc.Start, hcp.Start);
+    }
+
+    [Fact]
+    public void An_ambiguous_or_absent_hollow_is_refused_with_the_kinds_the_facet_has()
+    {
+        var nn = Length.FromAngstroms(2.55);
+        var both = Assert.Throws<ArgumentException>(() => LatticeSites.Surface(LatticeKind.FaceCentredCubic, Facet111, AdsorptionSiteKind.Hollow, nn));
+        Assert.Contains("FccHollow", both.Message);
+        Assert.Contains("HcpHollow", both.Message);
+        var square = Assert.Throws<ArgumentException>(() => LatticeSites.Surface(LatticeKind.FaceCentredCubic, Facet100, AdsorptionSiteKind.FccHollow, nn));
+        Assert.Contains("use Hollow", square.Message);
+        Assert.Throws<ArgumentException>(() => LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(0, 0, 0), AdsorptionSiteKind.Top, nn));
+        var big = Assert.Throws<ArgumentOutOfRangeException>(() => LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(7, 1, 0), AdsorptionSiteKind.Top, nn));
+        Assert.Contains("-6 to 6", big.Message);
+        Assert.Throws<ArgumentOutOfRangeException>(() => LatticeSites.Surface(LatticeKind.HexagonalClosePacked, Facet111, AdsorptionSiteKind.Top, nn));
+    }
+
+    [Theory]
+    [InlineData(1, 1, 1, "[1 0 -1]", "[-1 2 -1]", "[1 1 1]")]
+    [InlineData(1, 0, 0, "[0 1 1]", "[0 -1 1]", "[1 0 0]")]
+    [InlineData(1, 1, 0, "[1 -1 0]", "[0 0 -1]", "[1 1 0]")]
+    public void The_surface_frame_is_right_handed_reproducible_and_printed_as_crystal_directions(int h, int k, int l, string x, string y, string z)
+    {
+        var g = LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(h, k, l), AdsorptionSiteKind.Top, Length.FromAngstroms(2.55));
+        var f = g.Frame;
+        var cross = new Position(f.Normal.Y * f.AxisX.Z - f.Normal.Z * f.AxisX.Y, f.Normal.Z * f.AxisX.X - f.Normal.X * f.AxisX.Z, f.Normal.X * f.AxisX.Y - f.Normal.Y * f.AxisX.X);
+        Assert.Equal(0, (cross - f.AxisY).Norm, 12);
+        Assert.Contains($"x along {x}", f.Description);
+        Assert.Contains($"y along {y}", f.Description);
+        Assert.Contains($"z along {z}", f.Description);
+        var again = LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(h, k, l), AdsorptionSiteKind.Top, Length.FromAngstroms(2.55));
+        Assert.Equal(g.Sites.ToArray(), again.Sites.ToArray());
+    }
+
+    [Fact]
+    public void An_open_facet_keeps_the_requested_number_of_layers_and_its_hollow_is_unique()
+    {
+        // fcc(110): rectangular top net nn × a; the widest hollow is the centre of the rectangle, over a second-layer atom
+        // (common practice, no source). Its layer spacing is a/(2√2) = nn/2.
+        double nn = 2.55;
+        var g = LatticeSites.Surface(LatticeKind.FaceCentredCubic, Facet110, AdsorptionSiteKind.Hollow, Length.FromAngstroms(nn), layers: 4);
+        Assert.Equal(4, g.Sites.Select(s => Math.Round(s.Z, 9)).Distinct().Count());
+        Assert.Equal(nn / 2, g.Frame.LayerSpacingInAngstroms, 12);
+        Assert.Contains("second-layer", g.SiteDescription);
+        Assert.Equal(0.5 * Math.Sqrt(nn * nn + 2 * nn * nn), Math.Sqrt(g.Start.X * g.Start.X + g.Start.Y * g.Start.Y), 9);
     }
 
     private static SiteLandscape<LennardJones> FccCage(double nn) =>

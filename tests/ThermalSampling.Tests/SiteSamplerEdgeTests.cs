@@ -756,7 +756,7 @@ public class SiteSamplerEdgeTests
     {
         // Invented: the fcc(111) hollow's sites, which have no centre of symmetry (a mirrored site would give another
         // energy), confined in 0.5 Å around a centre off the start in all three directions.
-        var g = LatticeSites.FccSurface(SurfaceFacet.Fcc111, AdsorptionSiteKind.Hollow, Length.FromAngstroms(3.8));
+        var g = LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(1, 1, 1), AdsorptionSiteKind.FccHollow, Length.FromAngstroms(3.8));
         var c = g.Start + new Position(0.05, -0.04, 0.03);
         var landscape = SiteLandscape.Create(Lj, g.Sites, c, Confinement.Sphere(Length.FromAngstroms(0.5)));
         double beta = 1 / Thirty.ThermalEnergyInElectronVolts;

@@ -68,7 +68,7 @@ public class SiteSamplerTests
     [Fact]
     public void Surface_hollow_mean_shift_follows_the_first_order_prediction_at_low_temperature()
     {
-        var g = LatticeSites.FccSurface(SurfaceFacet.Fcc111, AdsorptionSiteKind.Hollow, Length.FromAngstroms(3.8));
+        var g = LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(1, 1, 1), AdsorptionSiteKind.FccHollow, Length.FromAngstroms(3.8));
         var site = SiteLandscape.Create(Lj, g.Sites, g.Start, Confinement.Sphere(Length.FromAngstroms(1.5)));
         var report = SiteSampler.Run(site, ArgonMass, Temperature.FromKelvin(4), Settings(SamplingMethod.Metropolis, samples: 100_000));
         double predicted = report.Harmonic.FirstOrderMeanShift.Z;
@@ -94,7 +94,7 @@ public class SiteSamplerTests
     {
         // A hollow site at 300 K (kT about twice the pair well depth) in a 3 Å sphere: far from harmonic towards the vacuum,
         // so no useful Gaussian envelope exists.
-        var g = LatticeSites.FccSurface(SurfaceFacet.Fcc111, AdsorptionSiteKind.Hollow, Length.FromAngstroms(3.8));
+        var g = LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(1, 1, 1), AdsorptionSiteKind.FccHollow, Length.FromAngstroms(3.8));
         var site = SiteLandscape.Create(Lj, g.Sites, g.Start, Confinement.Sphere(Length.FromAngstroms(3.0)));
         var ex = Assert.Throws<InvalidOperationException>(() => SiteSampler.Run(site, ArgonMass, Temperature.FromKelvin(300), Settings(SamplingMethod.Direct, samples: 1000)));
         Assert.Contains("Use Metropolis", ex.Message);
@@ -104,7 +104,7 @@ public class SiteSamplerTests
     public void A_top_site_is_not_a_minimum_and_is_refused_with_the_reason()
     {
         // For pair potentials an adatom above a surface atom sits on a saddle: it slides towards the hollows.
-        var g = LatticeSites.FccSurface(SurfaceFacet.Fcc100, AdsorptionSiteKind.Top, Length.FromAngstroms(3.8));
+        var g = LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(1, 0, 0), AdsorptionSiteKind.Top, Length.FromAngstroms(3.8));
         var site = SiteLandscape.Create(Lj, g.Sites, g.Start, Confinement.Sphere(Length.FromAngstroms(0.5)));
         var ex = Assert.Throws<LandscapeException>(() => SiteSampler.Run(site, ArgonMass, Temperature.FromKelvin(30), Settings(SamplingMethod.Metropolis, samples: 1000)));
         Assert.Contains("not a stable minimum", ex.Message);

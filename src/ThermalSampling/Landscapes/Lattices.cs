@@ -23,39 +23,11 @@ public enum LatticeKind
     HexagonalClosePacked,
 }
 
-/// <summary>Surface facets for which adsorption sites can be built.</summary>
-public enum SurfaceFacet
-{
-    /// <summary>The (100) face of an fcc crystal: a square net.</summary>
-    Fcc100,
-
-    /// <summary>The (111) face of an fcc crystal: a triangular net.</summary>
-    Fcc111,
-}
-
-/// <summary>Where above the surface net the adsorbed particle sits.</summary>
-public enum AdsorptionSiteKind
-{
-    /// <summary>Directly above a surface atom.</summary>
-    Top,
-
-    /// <summary>Above the midpoint between two neighbouring surface atoms.</summary>
-    Bridge,
-
-    /// <summary>Above the centre of the smallest ring of surface atoms (four on (100); on (111) the fcc hollow, above a third-layer atom).</summary>
-    Hollow,
-}
-
-/// <summary>An adsorption geometry: the fixed surface atoms and a start position for the adsorbate.</summary>
-/// <param name="Sites">The fixed substrate atoms, Å; the top layer lies in the plane z = 0.</param>
-/// <param name="Start">The adsorbate's start: above the chosen site at the height where its distance to the nearest surface atoms equals the nearest-neighbour distance.</param>
-public sealed record AdsorptionGeometry(ImmutableArray<Position> Sites, Position Start);
-
 /// <summary>
 /// Builders of plain site lists: neighbour cages in bulk lattices and slabs under adsorption sites.
 /// The lists are ordinary arrays that users may edit before building a landscape.
 /// </summary>
-public static class LatticeSites
+public static partial class LatticeSites
 {
     private const double ShellTolerance = 1e-6;
 
@@ -74,14 +46,9 @@ public static class LatticeSites
         int extent = 6;
         switch (lattice)
         {
-            case LatticeKind.FaceCentredCubic:
-                AddCubic(points, nn * Math.Sqrt(2), extent, new[] { (0.0, 0.0, 0.0), (0.5, 0.5, 0.0), (0.5, 0.0, 0.5), (0.0, 0.5, 0.5) });
-                break;
-            case LatticeKind.BodyCentredCubic:
-                AddCubic(points, 2 * nn / Math.Sqrt(3), extent, new[] { (0.0, 0.0, 0.0), (0.5, 0.5, 0.5) });
-                break;
-            case LatticeKind.SimpleCubic:
-                AddCubic(points, nn, extent, new[] { (0.0, 0.0, 0.0) });
+            case LatticeKind.FaceCentredCubic or LatticeKind.BodyCentredCubic or LatticeKind.SimpleCubic:
+                var (a, basis) = CubicCell(lattice, nn);
+                AddCubic(points, a, extent, basis);
                 break;
             case LatticeKind.HexagonalClosePacked:
                 AddHcp(points, nn, extent);
@@ -108,6 +75,14 @@ public static class LatticeSites
         }
         return result.ToImmutable();
     }
+
+    /// <summary>The conventional cube edge and the basis (fractions of it) of a cubic lattice with nearest-neighbour distance <paramref name="nn"/>.</summary>
+    private static (double Edge, (double, double, double)[] Basis) CubicCell(LatticeKind lattice, double nn) => lattice switch
+    {
+        LatticeKind.FaceCentredCubic => (nn * Math.Sqrt(2), [(0.0, 0.0, 0.0), (0.5, 0.5, 0.0), (0.5, 0.0, 0.5), (0.0, 0.5, 0.5)]),
+        LatticeKind.BodyCentredCubic => (2 * nn / Math.Sqrt(3), [(0.0, 0.0, 0.0), (0.5, 0.5, 0.5)]),
+        _ => (nn, [(0.0, 0.0, 0.0)]),
+    };
 
     private static void AddCubic(List<Position> points, double a, int extent, (double, double, double)[] basis)
     {
@@ -145,97 +120,5 @@ public static class LatticeSites
                 }
             }
         }
-    }
-
-    /// <summary>
-    /// A slab of an fcc crystal with the adsorption site above it. The top layer lies in z = 0 and
-    /// deeper layers at negative z; the slab keeps every atom within <paramref name="lateralRadiusInNeighbourDistances"/>
-    /// nearest-neighbour distances of the site, measured in the surface plane.
-    /// </summary>
-    /// <param name="facet">(100) or (111).</param>
-    /// <param name="site">Top, bridge or hollow.</param>
-    /// <param name="nearestNeighbourDistance">The substrate's nearest-neighbour distance; must be positive.</param>
-    /// <param name="layers">Number of substrate layers, 1 to 10.</param>
-    /// <param name="lateralRadiusInNeighbourDistances">The in-plane radius of the slab in units of the nearest-neighbour distance, 1 to 20.</param>
-    public static AdsorptionGeometry FccSurface(SurfaceFacet facet, AdsorptionSiteKind site, Length nearestNeighbourDistance,
-        int layers = 3, double lateralRadiusInNeighbourDistances = 4)
-    {
-        double nn = Preconditions.CheckPositive(nearestNeighbourDistance.InAngstroms, nameof(nearestNeighbourDistance));
-        Preconditions.CheckRange(layers, 1, 10, nameof(layers));
-        Preconditions.CheckRange(lateralRadiusInNeighbourDistances, 1, 20, nameof(lateralRadiusInNeighbourDistances));
-        if (!Enum.IsDefined(site))
-        {
-            throw new ArgumentOutOfRangeException(nameof(site), site, "site must be Top, Bridge or Hollow.");
-        }
-        Position e1, e2, layerShift;
-        double spacing;
-        switch (facet)
-        {
-            case SurfaceFacet.Fcc100:
-                e1 = new Position(nn, 0, 0);
-                e2 = new Position(0, nn, 0);
-                layerShift = new Position(nn / 2, nn / 2, 0);
-                spacing = nn / Math.Sqrt(2);
-                break;
-            case SurfaceFacet.Fcc111:
-                e1 = new Position(nn, 0, 0);
-                e2 = new Position(nn / 2, nn * Math.Sqrt(3) / 2, 0);
-                layerShift = new Position(nn / 2, nn * Math.Sqrt(3) / 6, 0); // ABC stacking: each layer shifted by (e1 + e2)/3
-                spacing = nn * Math.Sqrt(2.0 / 3.0);
-                break;
-            default:
-                throw new ArgumentOutOfRangeException(nameof(facet), facet, "facet must be Fcc100 or Fcc111.");
-        }
-
-        // Lateral position of the site relative to the surface atom at the origin, and its lateral distance to the nearest surface atoms.
-        Position lateral;
-        double lateralDistance;
-        switch (site)
-        {
-            case AdsorptionSiteKind.Top:
-                lateral = Position.Origin;
-                lateralDistance = 0;
-                break;
-            case AdsorptionSiteKind.Bridge:
-                lateral = 0.5 * e1;
-                lateralDistance = nn / 2;
-                break;
-            default:
-                if (facet == SurfaceFacet.Fcc100)
-                {
-                    lateral = 0.5 * (e1 + e2);
-                    lateralDistance = nn / Math.Sqrt(2);
-                }
-                else
-                {
-                    // fcc hollow: above a third-layer atom. Layer L is shifted by −L·s with s = (e1 + e2)/3,
-                    // so the third layer (L = 2) sits at −2s ≡ +s modulo the surface net; the second layer (the hcp hollow) at −s.
-                    lateral = (1.0 / 3.0) * (e1 + e2);
-                    lateralDistance = nn / Math.Sqrt(3);
-                }
-                break;
-        }
-        double height = Math.Sqrt(nn * nn - lateralDistance * lateralDistance);
-        double radius = lateralRadiusInNeighbourDistances * nn;
-        int extent = (int)Math.Ceiling(lateralRadiusInNeighbourDistances * 2) + 3;
-        var sites = ImmutableArray.CreateBuilder<Position>();
-        for (int layer = 0; layer < layers; layer++)
-        {
-            // Layer L is shifted by −L·layerShift (so the layer below the top is under the hcp/fcc hollows as stacking requires).
-            var shift = (double)(-layer % (facet == SurfaceFacet.Fcc100 ? 2 : 3)) * layerShift;
-            for (int i = -extent; i <= extent; i++)
-            {
-                for (int j = -extent; j <= extent; j++)
-                {
-                    var p = (double)i * e1 + (double)j * e2 + shift;
-                    double dx = p.X - lateral.X, dy = p.Y - lateral.Y;
-                    if (dx * dx + dy * dy <= radius * radius)
-                    {
-                        sites.Add(new Position(p.X, p.Y, -layer * spacing));
-                    }
-                }
-            }
-        }
-        return new AdsorptionGeometry(sites.ToImmutable(), new Position(lateral.X, lateral.Y, height));
     }
 }
