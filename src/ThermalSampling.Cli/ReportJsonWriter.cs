@@ -32,9 +32,10 @@ internal static class ReportJsonWriter
         {
             WritePair(w, r, l);
         }
+        double e = ScenarioUnits.Energy[s.EnergyUnit];
         foreach (var r in results.Sites)
         {
-            WriteSite(w, r, l);
+            WriteSite(w, r, l, e);
         }
         w.WriteEndArray();
         w.WriteEndObject();
@@ -118,7 +119,7 @@ internal static class ReportJsonWriter
         w.WriteEndObject();
     }
 
-    private static void WriteSite(Utf8JsonWriter w, SiteVibrationReport r, double l)
+    private static void WriteSite(Utf8JsonWriter w, SiteVibrationReport r, double l, double e)
     {
         double l2 = l * l;
         w.WriteStartObject();
@@ -140,12 +141,36 @@ internal static class ReportJsonWriter
         w.WriteEndArray();
         Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
         Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
-        Number(w, "debyeWallerB", r.DebyeWallerB.Value / l2);
-        w.WriteStartObject("harmonic");
-        Number(w, "meanSquareDisplacement", r.Harmonic.ClassicalMeanSquareDisplacement / l2);
-        w.WriteEndObject();
-        w.WriteStartObject("firstOrder");
-        Vector(w, "meanShift", r.Harmonic.FirstOrderMeanShift, l);
+        w.WriteBoolean("atSite", r.StaysAtSite);
+        if (r.DebyeWallerB is { } b)
+        {
+            Number(w, "debyeWallerB", b.Value / l2);
+            Number(w, "debyeWallerBStdErr", b.StandardError / l2);
+        }
+        if (r.StaysAtSite)
+        {
+            w.WriteStartObject("harmonic");
+            Number(w, "meanSquareDisplacement", r.Harmonic.ClassicalMeanSquareDisplacement / l2);
+            Number(w, "quantumMeanSquareDisplacement", r.Harmonic.QuantumMeanSquareDisplacement / l2);
+            w.WriteEndObject();
+            w.WriteStartObject("firstOrder");
+            Vector(w, "meanShift", r.Harmonic.FirstOrderMeanShift, l);
+            w.WriteEndObject();
+        }
+        var basin = r.Basin;
+        w.WriteStartObject("basin");
+        w.WriteNumber("shareOutside", r.ShareOutsideBasin);
+        Number(w, "barrierToNeighbour", basin.BarrierToNeighbourInElectronVolts / e);
+        if (basin.NeighbourMinimum is { } neighbour)
+        {
+            Vector(w, "neighbourMinimum", neighbour, l);
+        }
+        Number(w, "riseToWall", basin.RiseToWallInElectronVolts / e);
+        w.WriteNumber("otherMinima", basin.OtherMinima.Length);
+        Number(w, "harmonicShareAtOtherMinima", basin.OutsidePopulation);
+        Number(w, "inscribedRadius", basin.InscribedRadiusInAngstroms / l);
+        Number(w, "outerRadius", basin.OuterRadiusInAngstroms / l);
+        Number(w, "gridSpacing", basin.GridSpacingInAngstroms / l);
         w.WriteEndObject();
         Common(w, r.Diagnostics, r.Warnings);
         w.WriteEndObject();

@@ -109,9 +109,14 @@ internal static class ScenarioRunner
                 return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled, figures);
             }
             var centre = l.Centre;
-            ImmutableArray<Position> sites;
+            SiteLandscape<TPotential> siteLandscape;
             if (l.Facet is { } facet)
             {
+                // The slab reaches at least four neighbour distances, and far enough past the confinement that the
+                // particle always has substrate beneath it (SiteLandscape.AboveSurface refuses anything less).
+                var confinement = l.Confinement!.Value;
+                double reach = confinement.Shape == ConfinementShape.Sphere ? confinement.SizeInAngstroms : confinement.SizeInAngstroms * Math.Sqrt(2);
+                double lateral = Math.Clamp(reach / l.NearestNeighbourDistance + 2, 4, 20);
                 var geometry = LatticeSites.Surface(Lattice(l.Lattice!), facet,
                     l.AdsorptionSite switch
                     {
@@ -121,19 +126,19 @@ internal static class ScenarioRunner
                         "hcp-hollow" => AdsorptionSiteKind.HcpHollow,
                         _ => AdsorptionSiteKind.Hollow,
                     },
-                    Length.FromAngstroms(l.NearestNeighbourDistance), l.Layers);
-                sites = geometry.Sites.Select(s => s + l.Centre).ToImmutableArray();
-                centre = geometry.Start + l.Centre;
-            }
-            else if (l.Lattice is not null)
-            {
-                sites = LatticeSites.NeighbourCage(Lattice(l.Lattice), Length.FromAngstroms(l.NearestNeighbourDistance), l.Shells).Select(s => s + l.Centre).ToImmutableArray();
+                    Length.FromAngstroms(l.NearestNeighbourDistance), l.Layers, lateral);
+                siteLandscape = SiteLandscape.AboveSurface(potential, geometry with
+                {
+                    Sites = geometry.Sites.Select(s => s + l.Centre).ToImmutableArray(),
+                    Start = geometry.Start + l.Centre,
+                }, confinement);
             }
             else
             {
-                sites = l.Sites;
+                siteLandscape = SiteLandscape.Create(potential, l.Lattice is not null
+                    ? LatticeSites.NeighbourCage(Lattice(l.Lattice), Length.FromAngstroms(l.NearestNeighbourDistance), l.Shells).Select(s => s + l.Centre).ToImmutableArray()
+                    : l.Sites, centre, l.Confinement!.Value);
             }
-            var siteLandscape = SiteLandscape.Create(potential, sites, centre, l.Confinement!.Value);
             var siteReports = new List<SiteVibrationReport>();
             bool siteCancelled = checkpoint is null
                 ? RunEach(temperatures, t => siteReports.Add(SiteSampler.Run(siteLandscape, mass, t, scenario.Sampling, progress, ct)))

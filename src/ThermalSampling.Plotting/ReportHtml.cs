@@ -107,5 +107,5 @@ public static class ReportHtml
 
     private static string Number(double? value) => value is double v && double.IsFinite(v) ? v.ToString("G5", CultureInfo.InvariantCulture) : "–";
 
-    private static string WithError(Estimate e) => e.ToRoundedString();
+    private static string WithError(Estimate? e) => e?.ToRoundedString() ?? "— (left its site)";
 }

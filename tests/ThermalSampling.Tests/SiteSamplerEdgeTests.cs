@@ -103,7 +103,7 @@ public class SiteSamplerEdgeTests
         double qMean = q.Average(), qVar = q.Sum(v => (v - qMean) * (v - qMean)) / (total - 1);
         Assert.Equal(Math.Sqrt(qVar / total), report.MeanSquareDisplacement.StandardError, 0.15 * Math.Sqrt(qVar / total));
         double b = 8 * Math.PI * Math.PI * msd / 3; // Sources.DebyeWaller
-        Assert.Equal(b, report.DebyeWallerB.Value, 1e-12 * b);
+        Assert.Equal(b, report.DebyeWallerB!.Value, 1e-12 * b);
         Assert.Equal(b * report.MeanSquareDisplacement.StandardError / msd, report.DebyeWallerB.StandardError, 1e-12 * b);
 
         var h = report.RadialHistogram;
@@ -194,8 +194,9 @@ public class SiteSamplerEdgeTests
     {
         // Invented: the argon cage at 30 K held in a sphere of 0.3 Å, under three harmonic RMS spreads. The wall mass is
         // the fraction of draws within one harmonic RMS spread √(tr Σ/3) of the wall; every draw is kept, so it can be
-        // counted here and must print the same. The escape barrier is the lowest energy on the confinement's surface above
-        // the minimum, found here by an independent 181 × 360 grid in angles.
+        // counted here and must print the same. The way out of this cage is the confinement wall (no other minimum lies
+        // inside 0.3 Å), and the escape warning names it: the lowest energy on the confinement's surface above the minimum,
+        // found here by an independent 181 × 360 grid in angles.
         const int n = 1 << 14;
         var sphere = Confinement.Sphere(Length.FromAngstroms(0.3));
         var landscape = Cage(Position.Origin, sphere);
@@ -220,7 +221,7 @@ public class SiteSamplerEdgeTests
         }
         double barrier = lowest - report.Harmonic.MinimumEnergyInElectronVolts;
         var escape = Assert.Single(report.Warnings, w => w.Code == WarningCodes.EscapeRisk);
-        var match = Regex.Match(escape.Message, @"well depth \(([-0-9.eE+]+) eV\)");
+        var match = Regex.Match(escape.Message, @"the confinement wall, ([-0-9.eE+]+) eV above the minimum");
         Assert.True(match.Success, escape.Message);
         Assert.Equal(barrier, double.Parse(match.Groups[1].Value, CultureInfo.InvariantCulture), 2e-3 * barrier);
     }

@@ -50,7 +50,7 @@ public class SiteSamplerTests
         Assert.True(Math.Abs(report.Covariance.XY) < tolerance && Math.Abs(report.Covariance.XZ) < tolerance && Math.Abs(report.Covariance.YZ) < tolerance);
         Assert.True(Math.Abs(report.Mean.X) < 4 * report.MeanStandardError.X);
         Assert.True(Math.Abs(report.Mean.Z) < 4 * report.MeanStandardError.Z);
-        Assert.Equal(8 * Math.PI * Math.PI * report.MeanSquareDisplacement.Value / 3, report.DebyeWallerB.Value, 12); // Sources.DebyeWaller
+        Assert.Equal(8 * Math.PI * Math.PI * report.MeanSquareDisplacement.Value / 3, report.DebyeWallerB!.Value, 12); // Sources.DebyeWaller
         Assert.InRange(report.Diagnostics.AcceptanceRate!.Value, 0.2, 0.45);
     }
 
@@ -116,7 +116,7 @@ public class SiteSamplerTests
         var report = SiteSampler.Run(FccCage(), ArgonMass, Temperature.FromKelvin(30), Settings(SamplingMethod.Metropolis, samples: 2000) with { RetainedDrawsPerChain = 500 });
         Assert.Equal(4, report.Draws.Chains.Length);
         Assert.All(report.Draws.Chains, c => Assert.Equal(500, c.Length));
-        Assert.Equal(report.MeanSquareDisplacement.Value / 3, report.IsotropicDisplacement.Value, 15);
+        Assert.Equal(report.MeanSquareDisplacement.Value / 3, report.IsotropicDisplacement!.Value, 15);
     }
 
     [Fact]

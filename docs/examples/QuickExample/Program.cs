@@ -39,7 +39,9 @@ var cage = SiteLandscape.Create(pair, LatticeSites.NeighbourCage(LatticeKind.Fac
 Console.WriteLine($"Site landscape: {cage.Description}");
 var site = SiteSampler.Run(cage, mass, Temperature.FromKelvin(20), settings with { SamplesPerChain = 50_000 });
 Console.WriteLine($"  20 K: MSD {site.MeanSquareDisplacement.Value:F5} ± {site.MeanSquareDisplacement.StandardError:F5} Å² (harmonic {site.Harmonic.ClassicalMeanSquareDisplacement:F5}, quantum harmonic {site.Harmonic.QuantumMeanSquareDisplacement:F5})");
-Console.WriteLine($"  B = {site.DebyeWallerB.Value:F3} ± {site.DebyeWallerB.StandardError:F3} Å²; covariance (Å²) {site.Covariance}");
+Console.WriteLine(site.DebyeWallerB is { } b
+    ? $"  B = {b.Value:F3} ± {b.StandardError:F3} Å²; covariance (Å²) {site.Covariance}"
+    : $"  the atom left its site: no B factor; covariance of where it went (Å²) {site.Covariance}");
 Console.WriteLine($"  acceptance {site.Diagnostics.AcceptanceRate:P1}, ESS {site.Diagnostics.EffectiveSampleSize:F0}, R-hat {site.Diagnostics.RHat:F4}");
 foreach (var w in site.Warnings)
 {

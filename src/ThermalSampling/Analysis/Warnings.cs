@@ -17,6 +17,9 @@ public static class WarningCodes
     /// <summary>kT is a sizeable fraction of the well depth: the particle may escape its well.</summary>
     public const string EscapeRisk = "escape-risk";
 
+    /// <summary>Draws were found outside the basin of the site's minimum: the particle left its site, so no B factor or harmonic comparison is given.</summary>
+    public const string LeftSite = "left-site";
+
     /// <summary>Noticeable probability sits next to a wall: the answer depends on where the window is.</summary>
     public const string WallMass = "wall-mass";
 

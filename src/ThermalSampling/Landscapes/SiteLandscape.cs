@@ -2,6 +2,7 @@ using System;
 using System.Collections.Generic;
 using System.Collections.Immutable;
 using System.Globalization;
+using System.Linq;
 using MathNet.Numerics.LinearAlgebra;
 using MathNet.Numerics.Optimization;
 using ThermalSampling.Internal;
@@ -239,6 +240,42 @@ public static class SiteLandscape
             }
         }
         return new SiteLandscape<TPotential>(potential, list, centre, confinement);
+    }
+
+    /// <summary>
+    /// A particle above a surface (<see cref="LatticeSites.Surface"/>), confined around the geometry's start. A surface has
+    /// vacuum on one side only: the confinement must not reach below the slab's deepest layer, nor past the slab's edge
+    /// (less than one nearest-neighbour distance from it), or the particle could pass under or around the slab, which
+    /// is an error in the landscape, not a displacement.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="potential">The pair potential between the particle and each substrate atom.</param>
+    /// <param name="surface">The slab and the start above the site.</param>
+    /// <param name="confinement">The region around the start.</param>
+    /// <exception cref="ArgumentException">When the confinement reaches below or past the slab (the message says by how much and what to change).</exception>
+    public static SiteLandscape<TPotential> AboveSurface<TPotential>(TPotential potential, AdsorptionGeometry surface, Confinement confinement)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(surface, nameof(surface));
+        Preconditions.CheckPositive(confinement.SizeInAngstroms, "confinement.SizeInAngstroms");
+        double size = confinement.SizeInAngstroms;
+        double deepest = surface.Sites.Min(s => s.Z);
+        double lowest = surface.Start.Z - size;
+        if (lowest < deepest)
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                $"confinement of size {size:G4} Å around the start at height {surface.Start.Z:G4} Å reaches z = {lowest:G4} Å, below the slab's deepest layer at z = {deepest:G4} Å: a surface has vacuum on one side only, so the particle could pass under the slab. Make the confinement at most {surface.Start.Z - deepest:G4} Å, or build the slab with more layers."),
+                nameof(confinement));
+        }
+        double reach = confinement.Shape == ConfinementShape.Sphere ? size : size * Math.Sqrt(2);
+        double room = surface.LateralRadiusInAngstroms - surface.NearestNeighbourDistanceInAngstroms;
+        if (reach > room)
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                $"confinement of size {size:G4} Å reaches {reach:G4} Å sideways from the site, within one neighbour distance of the slab's edge ({surface.LateralRadiusInAngstroms:G4} Å from the site): the particle could walk off the slab. Make the confinement smaller, or build the slab with a larger lateral radius (at least {(reach / surface.NearestNeighbourDistanceInAngstroms) + 1:G3} neighbour distances)."),
+                nameof(confinement));
+        }
+        return Create(potential, surface.Sites, surface.Start, confinement);
     }
 }
 

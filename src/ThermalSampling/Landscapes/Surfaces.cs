@@ -95,6 +95,12 @@ public sealed record AdsorptionGeometry
     /// <summary>The frame: origin, axes in the crystal and layer spacing.</summary>
     public required SurfaceFrame Frame { get; init; }
 
+    /// <summary>The slab keeps every atom within this distance of the site, measured in the surface plane, Å.</summary>
+    public required double LateralRadiusInAngstroms { get; init; }
+
+    /// <summary>The substrate's nearest-neighbour distance, Å.</summary>
+    public required double NearestNeighbourDistanceInAngstroms { get; init; }
+
     /// <summary>What the site is, in words (for example "fcc hollow of fcc(111): 3-fold, over a third-layer atom").</summary>
     public required string SiteDescription { get; init; }
 }
@@ -218,7 +224,15 @@ public static partial class LatticeSites
             }
         }
         var slab = sites.ToImmutable();
-        return new AdsorptionGeometry { Sites = slab, Start = StartAbove(slab, lateral, nn), Frame = frame, SiteDescription = description };
+        return new AdsorptionGeometry
+        {
+            Sites = slab,
+            Start = StartAbove(slab, lateral, nn),
+            Frame = frame,
+            SiteDescription = description,
+            LateralRadiusInAngstroms = radius,
+            NearestNeighbourDistanceInAngstroms = nn,
+        };
     }
 
     /// <summary>The hollow of the kind asked for: among the widest empty circles through the origin and two top-layer neighbours.</summary>

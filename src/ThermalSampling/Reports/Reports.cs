@@ -135,25 +135,65 @@ public sealed record PairVibrationReport(Temperature Temperature, SeparationGeom
     Estimate Variance, Estimate Rms, double Skewness, double ExcessKurtosis, PairHarmonicEstimate? Harmonic, PairFirstOrderEstimate? FirstOrder,
     ExactComparison Exact, SamplingDiagnostics Diagnostics, Histogram Histogram, ImmutableArray<Warning> Warnings, Provenance Provenance, RetainedDraws<double> Draws);
 
-/// <summary>The vibration report of a particle among fixed sites at one temperature.</summary>
-/// <param name="Temperature">The temperature.</param>
-/// <param name="Minimum">The energy minimum reached from the centre, Å.</param>
-/// <param name="Mean">Sampled mean position, Å.</param>
-/// <param name="MeanStandardError">Standard errors of the mean's components, Å.</param>
-/// <param name="MeanShift">Mean − minimum, Å.</param>
-/// <param name="Covariance">Sampled displacement covariance about the mean, Å².</param>
-/// <param name="MeanSquareDisplacement">tr(covariance) = ⟨|u − ⟨u⟩|²⟩, Å².</param>
-/// <param name="DebyeWallerB">B = 8π² U_iso = 8π² MSD/3, Å².</param>
-/// <param name="Harmonic">The harmonic estimate at the minimum.</param>
-/// <param name="Diagnostics">Convergence diagnostics.</param>
-/// <param name="RadialHistogram">Density of the distance from the minimum, 1/Å.</param>
-/// <param name="Warnings">Everything that could mislead, in plain words.</param>
-/// <param name="Provenance">What produced it.</param>
-/// <param name="Draws">Raw positions kept per chain (empty unless requested).</param>
-public sealed record SiteVibrationReport(Temperature Temperature, Position Minimum, Position Mean, Position MeanStandardError, Position MeanShift,
-    SymmetricTensor Covariance, Estimate MeanSquareDisplacement, Estimate DebyeWallerB, SiteHarmonicEstimate Harmonic,
-    SamplingDiagnostics Diagnostics, Histogram RadialHistogram, ImmutableArray<Warning> Warnings, Provenance Provenance, RetainedDraws<Position> Draws)
+/// <summary>
+/// The vibration of a particle at a 3D site at one temperature: the sampled mean, covariance tensor, mean-square
+/// displacement and Debye–Waller factor with error bars, the harmonic estimate, the basin of the site's minimum and every
+/// warning. When the draws leave the basin (<see cref="StaysAtSite"/> is false) the spread is not a displacement of the
+/// site: <see cref="DebyeWallerB"/> and <see cref="IsotropicDisplacement"/> are null and a <c>left-site</c> warning says why.
+/// </summary>
+public sealed record SiteVibrationReport
 {
-    /// <summary>U_iso = MSD/3, Å².</summary>
-    public Estimate IsotropicDisplacement => new(MeanSquareDisplacement.Value / 3, MeanSquareDisplacement.StandardError / 3);
+    /// <summary>The temperature.</summary>
+    public required Temperature Temperature { get; init; }
+
+    /// <summary>The energy minimum reached from the centre, Å.</summary>
+    public required Position Minimum { get; init; }
+
+    /// <summary>Sampled mean position, Å.</summary>
+    public required Position Mean { get; init; }
+
+    /// <summary>Standard errors of the mean's components, Å.</summary>
+    public required Position MeanStandardError { get; init; }
+
+    /// <summary>Mean − minimum, Å.</summary>
+    public required Position MeanShift { get; init; }
+
+    /// <summary>Sampled displacement covariance about the mean, Å².</summary>
+    public required SymmetricTensor Covariance { get; init; }
+
+    /// <summary>tr(covariance) = ⟨|u − ⟨u⟩|²⟩, Å².</summary>
+    public required Estimate MeanSquareDisplacement { get; init; }
+
+    /// <summary>B = 8π² U_iso = 8π² MSD/3, Å²; null when the particle leaves its site (a B factor describes vibration at a site).</summary>
+    public required Estimate? DebyeWallerB { get; init; }
+
+    /// <summary>The harmonic estimate at the minimum.</summary>
+    public required SiteHarmonicEstimate Harmonic { get; init; }
+
+    /// <summary>The basin of the site's minimum inside the confinement, with the other minima found and their harmonic weights at this temperature.</summary>
+    public required SiteBasin Basin { get; init; }
+
+    /// <summary>Whether the draws stay in the basin of the site's minimum (no more than 0.1 % of them outside it).</summary>
+    public required bool StaysAtSite { get; init; }
+
+    /// <summary>The share of recorded draws outside the basin of the site's minimum (each draw placed by the nearest point of the basin map).</summary>
+    public required double ShareOutsideBasin { get; init; }
+
+    /// <summary>Convergence diagnostics.</summary>
+    public required SamplingDiagnostics Diagnostics { get; init; }
+
+    /// <summary>Density of the distance from the minimum, 1/Å.</summary>
+    public required Histogram RadialHistogram { get; init; }
+
+    /// <summary>Everything that could mislead, in plain words.</summary>
+    public required ImmutableArray<Warning> Warnings { get; init; }
+
+    /// <summary>What produced it.</summary>
+    public required Provenance Provenance { get; init; }
+
+    /// <summary>Raw positions kept per chain (empty unless requested).</summary>
+    public required RetainedDraws<Position> Draws { get; init; }
+
+    /// <summary>U_iso = MSD/3, Å²; null when the particle leaves its site.</summary>
+    public Estimate? IsotropicDisplacement => StaysAtSite ? new(MeanSquareDisplacement.Value / 3, MeanSquareDisplacement.StandardError / 3) : null;
 }

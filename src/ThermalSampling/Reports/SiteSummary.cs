@@ -25,7 +25,6 @@ internal static class SiteSummary
         bool metropolis = run.Metropolis;
         double target = run.TargetAcceptance;
         double sigmaMin = run.SmallestModeRms;
-        double barrier = run.EscapeBarrier;
         var moments = results[0].Moments;
         for (int c = 1; c < chains; c++)
         {
@@ -58,9 +57,17 @@ internal static class SiteSummary
             summaries.All(s => s.AllReliable), summaries.Select(s => s.Reason).FirstOrDefault(r => r.Length > 0) ?? "",
             summaries.All(s => s.RHat is null) ? null : summaries.Max(s => s.RHat ?? 0));
         var warnings = ImmutableArray.CreateBuilder<Warning>();
+        var basin = SiteBasins.AtTemperature(SiteBasins.Map(landscape, min), landscape, temperature);
+        double outside = results.Sum(r => (double)r.OutsideBasin) / draws;
+        bool staysAtSite = outside <= SiteBasins.LeftSiteThreshold;
+        if (!staysAtSite)
+        {
+            warnings.Add(SiteBasins.LeftSiteWarning(basin, outside));
+        }
+        double wayOut = basin.LowestWayOutInElectronVolts;
         var validity = ClassicalValidity.Assess(mass, temperature, Math.Sqrt(Math.Max(msd, 1e-300) / 3), harmonic.Modes.Max(m => m.QuantumToThermalRatio),
-            barrier > 0 ? barrier : double.Epsilon, wallMass);
-        warnings.AddRange(validity.Warnings);
+            double.IsPositiveInfinity(wayOut) || wayOut > 0 ? wayOut : double.Epsilon, wallMass);
+        warnings.AddRange(validity.Warnings.Select(w => w.Code == WarningCodes.EscapeRisk ? SiteBasins.EscapeWarning(basin, temperature) : w));
         ReportParts.AddConvergenceWarnings(warnings, combined, metropolis ? acceptance : null, metropolis ? target : null);
 
         var diagnostics = new SamplingDiagnostics(acceptance, combined.Tau, combined.Ess, combined.RHat, draws, combined.BlockingStandardError,
@@ -68,8 +75,25 @@ internal static class SiteSummary
         var radialHistogram = ReportParts.Histogram(results.Select(r => r.Radial).ToList(), combined.Ess);
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         double b = DebyeWaller.FromIsotropicDisplacement(msd / 3);
-        return new SiteVibrationReport(temperature, min, mean, seMean, mean - min, covariance, new Estimate(msd, msdSe),
-            new Estimate(b, b * msdSe / msd), harmonic, diagnostics, radialHistogram, warnings.ToImmutable(), provenance,
-            ReportParts.Draws(results.Select(r => r.Draws)));
+        return new SiteVibrationReport
+        {
+            Temperature = temperature,
+            Minimum = min,
+            Mean = mean,
+            MeanStandardError = seMean,
+            MeanShift = mean - min,
+            Covariance = covariance,
+            MeanSquareDisplacement = new Estimate(msd, msdSe),
+            DebyeWallerB = staysAtSite ? new Estimate(b, b * msdSe / msd) : null,
+            Harmonic = harmonic,
+            Basin = basin,
+            StaysAtSite = staysAtSite,
+            ShareOutsideBasin = outside,
+            Diagnostics = diagnostics,
+            RadialHistogram = radialHistogram,
+            Warnings = warnings.ToImmutable(),
+            Provenance = provenance,
+            Draws = ReportParts.Draws(results.Select(r => r.Draws)),
+        };
     }
 }

@@ -16,15 +16,14 @@ namespace ThermalSampling.Sampling;
 
 /// <summary>What one site chain hands back: its moments, batch means per axis, radial bins, kept draws and counts.</summary>
 internal sealed record SiteChainOutcome(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws,
-    long Accepted, long Proposals, long NearWall, double Scale);
+    long Accepted, long Proposals, long NearWall, long OutsideBasin, double Scale);
 
 /// <summary>The records of every chain of a site run at one temperature, in chain order, and how they were drawn.</summary>
 /// <param name="Chains">One outcome per chain.</param>
 /// <param name="Metropolis">Whether the chains are Metropolis walks (else envelope-rejection draws).</param>
 /// <param name="TargetAcceptance">The Metropolis target acceptance.</param>
 /// <param name="SmallestModeRms">The smallest harmonic mode's RMS spread, Å (the unit of the walks' scale).</param>
-/// <param name="EscapeBarrier">The lowest energy on the confinement's boundary above the minimum, eV.</param>
-internal sealed record SiteRunRecord(SiteChainOutcome[] Chains, bool Metropolis, double TargetAcceptance, double SmallestModeRms, double EscapeBarrier);
+internal sealed record SiteRunRecord(SiteChainOutcome[] Chains, bool Metropolis, double TargetAcceptance, double SmallestModeRms);
 
 /// <summary>
 /// The site sampling step: runs the chains of one temperature (Metropolis walks on the lane engine with a proposal shaped
@@ -54,8 +53,8 @@ internal static class SiteChains
         double scale0 = settings.InitialStepWidthInAngstroms is double w ? w / sigmaMin : 2.38 / Math.Sqrt(3);
         double centreOffset = (min - landscape.Centre).Norm;
         double radialMax = (landscape.Confinement.Shape == ConfinementShape.Sphere ? size : size * Math.Sqrt(3)) + centreOffset;
-        double barrier = LowestBoundaryEnergy(landscape) - harmonic.MinimumEnergyInElectronVolts;
 
+        var basin = SiteBasins.MapWithGrid(landscape, min).Grid;
         Envelope? envelope = metropolis ? null : Envelope.Build(kernel, min, cholesky, logWeightMin, landscape, settings.Seed);
         int chains = settings.Chains;
         BatchMeansStore[] NewStores() => new[]
@@ -73,7 +72,7 @@ internal static class SiteChains
         {
             var plan = new SiteLaneChains.Plan<TPotential>(landscape.Potential, landscape.PackedCoordinates.ToArray(), landscape.Centre, landscape.Confinement,
                 min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, WallBand(cholesky),
-                settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description);
+                settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description, basin);
             int lanes = session?.Lanes ?? LaneGroups.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
             int groupCount = (chains + lanes - 1) / lanes;
             var checkpoints = session?.Begin(temperatureIndex, groupCount) ?? GroupCheckpoints.None;
@@ -81,17 +80,17 @@ internal static class SiteChains
                 g => SiteLaneChains.Run(lanes, plan, g * lanes, chains, c => StartOfChain(landscape, min, cholesky, settings.Seed, c),
                     c => (NewStores(), NewRadial(), NewDraws()), NewReporter, checkpoints, g, cancellationToken));
             results = groups.SelectMany(g => g)
-                .Select(o => new SiteChainOutcome(o.Moments, o.Stores, o.Radial, o.Draws, o.Accepted, settings.SamplesPerChain, o.NearWall, o.Scale)).ToArray();
+                .Select(o => new SiteChainOutcome(o.Moments, o.Stores, o.Radial, o.Draws, o.Accepted, settings.SamplesPerChain, o.NearWall, o.OutsideBasin, o.Scale)).ToArray();
         }
         else
         {
             var checkpoints = session?.Begin(temperatureIndex, chains) ?? GroupCheckpoints.None;
             results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken,
-                c => new DirectChain<TPotential>(kernel, landscape, min, envelope!, settings, c, NewStores(), NewRadial(), NewDraws(), NewReporter(c)).Run(checkpoints, cancellationToken));
+                c => new DirectChain<TPotential>(kernel, landscape, min, envelope!, basin, settings, c, NewStores(), NewRadial(), NewDraws(), NewReporter(c)).Run(checkpoints, cancellationToken));
         }
         session?.End(temperatureIndex);
 
-        return new SiteRunRecord(results, metropolis, target, sigmaMin, barrier);
+        return new SiteRunRecord(results, metropolis, target, sigmaMin);
     }
 
     /// <summary>The exact sites, centre and confinement, and the energies on a 9×9×9 grid across the confinement, as one fingerprint.</summary>
@@ -125,9 +124,6 @@ internal static class SiteChains
             yield return landscape.Centre + (scale * (1 - 1e-12)) * n;
         }
     }
-
-    private static double LowestBoundaryEnergy<TPotential>(SiteLandscape<TPotential> landscape) where TPotential : struct, IPairPotential
-        => BoundaryPoints(landscape, 2000).Min(p => landscape.Energy(p));
 
     private static bool NearWall(Confinement confinement, Position centre, double x, double y, double z, double band)
         => confinement.DistanceToWall(x - centre.X, y - centre.Y, z - centre.Z) < band;
@@ -167,12 +163,12 @@ internal static class SiteChains
 
     /// <summary>One chain of envelope-rejection draws, resumable at every 4096th accepted draw.</summary>
     private sealed class DirectChain<TPotential>(SiteWeight<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min, Envelope envelope,
-        SamplingSettings settings, int chain, BatchMeansStore[] stores, BinCounter radial, DrawRecorder<Position> draws, ProgressReporter progress) : IResumableGroup
+        BasinGrid basin, SamplingSettings settings, int chain, BatchMeansStore[] stores, BinCounter radial, DrawRecorder<Position> draws, ProgressReporter progress) : IResumableGroup
         where TPotential : struct, IPairPotential
     {
         private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
         private CovarianceAccumulator _moments;
-        private long _done, _proposals, _nearWall;
+        private long _done, _proposals, _nearWall, _outsideBasin;
 
         public long ChainStepsDone => _done;
 
@@ -213,13 +209,17 @@ internal static class SiteChains
                         {
                             _nearWall++;
                         }
+                        if (basin.IsOutside(x, y, z))
+                        {
+                            _outsideBasin++;
+                        }
                         break;
                     }
                 }
             }
             checkpoints.Finished(chain, this);
             progress.Finish();
-            return new SiteChainOutcome(_moments, stores, radial, draws, settings.SamplesPerChain, _proposals, _nearWall, 0);
+            return new SiteChainOutcome(_moments, stores, radial, draws, settings.SamplesPerChain, _proposals, _nearWall, _outsideBasin, 0);
         }
 
         public void Save(StateWriter w)
@@ -227,7 +227,7 @@ internal static class SiteChains
             Span<ulong> state = stackalloc ulong[4];
             _random.GetState(state);
             w.Words("RAND", state);
-            w.Longs("DONE", [_done, _proposals, _nearWall]);
+            w.Longs("DONE", [_done, _proposals, _nearWall, _outsideBasin]);
             _moments.Save(w);
             foreach (var store in stores)
             {
@@ -240,10 +240,11 @@ internal static class SiteChains
         private void Load(StateReader r)
         {
             _random = RandomStream.FromState(r.Words("RAND", 4));
-            var counts = r.Longs("DONE", 3);
+            var counts = r.Longs("DONE", 4);
             _done = r.InRange(counts[0], 0, settings.SamplesPerChain, "the draws done");
             _proposals = r.InRange(counts[1], _done, long.MaxValue, "the proposals");
             _nearWall = r.InRange(counts[2], 0, _done, "the draws near the wall");
+            _outsideBasin = r.InRange(counts[3], 0, _done, "the draws outside the basin");
             _moments = CovarianceAccumulator.Load(r);
             foreach (var store in stores)
             {

@@ -6,6 +6,7 @@ using System.Threading;
 using ThermalSampling.Statistics;
 using ThermalSampling.Persistence;
 using ThermalSampling.Numerics;
+using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
 using ThermalSampling.Randomness;
@@ -27,12 +28,12 @@ internal static class SiteLaneChains
 
     /// <summary>What one chain hands back.</summary>
     internal sealed record ChainOutcome(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws,
-        long Accepted, long NearWall, double Scale);
+        long Accepted, long NearWall, long OutsideBasin, double Scale);
 
     /// <summary>Everything fixed for a run.</summary>
     internal sealed record Plan<TPotential>(TPotential Potential, double[] Sites, Position Centre, Confinement Confinement, Position Minimum,
         double L00, double L10, double L11, double L20, double L21, double L22, double Beta, double InitialScale, double TargetAcceptance,
-        double MaxScale, double WallBand, long BurnIn, long Samples, ulong Seed, string Description) where TPotential : struct, IPairPotential;
+        double MaxScale, double WallBand, long BurnIn, long Samples, ulong Seed, string Description, BasinGrid Basin) where TPotential : struct, IPairPotential;
 
     /// <summary>Per chain: its stream advanced past the start-point draws, and the start.</summary>
     internal delegate (RandomStream Stream, Position Start) ChainStart(int chain);
@@ -85,7 +86,7 @@ internal static class SiteLaneChains
             }
             _moments = new CovarianceAccumulator[Live];
             _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
-            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live);
+            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live, plan.Basin);
         }
 
         internal ChainOutcome[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
@@ -95,7 +96,7 @@ internal static class SiteLaneChains
             for (int lane = 0; lane < Live; lane++)
             {
                 outcomes[lane] = new ChainOutcome(_moments[lane], _records[lane].Stores, _records[lane].Radial, _records[lane].Draws,
-                    (long)TOps.Get(State.Accepted, lane), (long)TOps.Get(State.NearWall, lane), TOps.Get(scale, lane));
+                    (long)TOps.Get(State.Accepted, lane), (long)TOps.Get(State.NearWall, lane), _tally.OutsideBasin[lane], TOps.Get(scale, lane));
             }
             return outcomes;
         }
@@ -131,6 +132,7 @@ internal static class SiteLaneChains
             State.Sums = default;
             State.Batch = default;
             State.Accepted = State.NearWall = TOps.Broadcast(0.0);
+            Array.Clear(_tally.OutsideBasin);
         }
 
         private protected override int BatchSize => _records[0].Stores[0].BatchSize;
@@ -176,6 +178,7 @@ internal static class SiteLaneChains
                 _records[lane].Draws.Save(w, 3);
             }
             _tally.Save(w, RecordedSteps);
+            w.Longs("OUTB", _tally.OutsideBasin);
         }
 
         private protected override void LoadRecords(StateReader r)
@@ -191,6 +194,7 @@ internal static class SiteLaneChains
                 _records[lane].Draws.Load(r, 3);
             }
             _tally.Load(r, RecordedSteps);
+            r.Longs("OUTB", _tally.OutsideBasin.Length).CopyTo(_tally.OutsideBasin, 0);
         }
 
         private protected override void Complete() => _tally.CopyTo(_records, _plan.Samples);
@@ -390,6 +394,15 @@ internal static class SiteLaneChains
             }
             var counts = tally.Counts;
             var index = tally.Index;
+            var grid = tally.Basin;
+            var outsideMask = grid.Outside;
+            var outsideBasin = tally.OutsideBasin;
+            var gridX0 = TOps.Broadcast(grid.X0);
+            var gridY0 = TOps.Broadcast(grid.Y0);
+            var gridZ0 = TOps.Broadcast(grid.Z0);
+            var gridScale = TOps.Broadcast(1 / grid.Spacing);
+            var gridN = TOps.Broadcast(grid.N);
+            var roundShift = TOps.Broadcast(4503599627370496.0); // 2^52
             var scratch = tally.Scratch;
             var kept = tally.Kept;
             var batchSums = tally.BatchSums;
@@ -445,6 +458,18 @@ internal static class SiteLaneChains
                 {
                     counts[index[lane]]++;
                 }
+
+                // Basin membership by the nearest point of the basin grid: i = round((x − x0)/h) by adding and removing 2^52
+                // (exact for 0 ≤ t < 2^51), the flat index (k·N + j)·N + i formed in the vector, one byte looked up per lane.
+                var gi = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(x, gridX0), gridScale, roundShift), roundShift);
+                var gj = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(y, gridY0), gridScale, roundShift), roundShift);
+                var gk = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(z, gridZ0), gridScale, roundShift), roundShift);
+                var flat = TOps.MultiplyAdd(TOps.MultiplyAdd(gk, gridN, gj), gridN, gi);
+                TOps.StoreBits(TOps.Truncate(flat), ref index[0]);
+                for (int lane = 0; lane < lanes; lane++)
+                {
+                    outsideBasin[lane] += outsideMask[index[lane]];
+                }
                 if (j < retain)
                 {
                     long at = done + j;
@@ -473,8 +498,14 @@ internal static class SiteLaneChains
     }
 
     /// <summary>Histogram counts, batch sums and retained draws of a lane group, in flat arrays the inner loop reaches without calls.</summary>
-    private sealed class SiteTally(BinCounter radial, int retained, int width, int lanes) : LaneTally(radial, retained, width, lanes, 3)
+    private sealed class SiteTally(BinCounter radial, int retained, int width, int lanes, BasinGrid basin) : LaneTally(radial, retained, width, lanes, 3)
     {
+        /// <summary>The site's basin map, for the membership test of every draw.</summary>
+        internal BasinGrid Basin { get; } = basin;
+
+        /// <summary>Recorded draws outside the site's basin, per live lane.</summary>
+        internal long[] OutsideBasin { get; } = new long[lanes];
+
         internal void CopyTo((BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] records, long samples)
         {
             long kept = Math.Min(samples, Retained);

@@ -1,0 +1,144 @@
+using System;
+using System.Linq;
+using MathNet.Numerics;
+using ThermalSampling.Analysis;
+using ThermalSampling.Landscapes;
+using ThermalSampling.Potentials;
+using ThermalSampling.Reports;
+using ThermalSampling.Sampling;
+using ThermalSampling.Units;
+using Xunit;
+
+namespace ThermalSampling.Tests;
+
+/// <summary>
+/// The basin of a site's minimum, the barrier out of it, and the verdict when the particle leaves its site. Invented
+/// landscape: an atom of 50 u over the four-fold hollow of an fcc(100) slab (nearest-neighbour distance 2.6 Å) held by
+/// Lennard-Jones pairs with ε = 0.015 eV at r_min = 2.6 Å (round, made-up values).
+/// </summary>
+public class BasinTests
+{
+    private const double Nn = 2.6;
+    private static readonly LennardJones Lj = LennardJones.FromMinimum(Length.FromAngstroms(Nn), Energy.FromElectronVolts(0.015));
+    private static readonly Mass Mass50 = Mass.FromAtomicMassUnits(50);
+    private static readonly AdsorptionGeometry Hollow100 =
+        LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(1, 0, 0), AdsorptionSiteKind.Hollow, Length.FromAngstroms(Nn), layers: 3, lateralRadiusInNeighbourDistances: 6);
+
+    /// <summary>A sphere wide enough to hold the four neighbouring hollows (each one neighbour distance away).</summary>
+    private static SiteLandscape<LennardJones> Wide() => SiteLandscape.AboveSurface(Lj, Hollow100, Confinement.Sphere(Length.FromAngstroms(3.2)));
+
+    private static SiteLandscape<LennardJones> Tight() => SiteLandscape.AboveSurface(Lj, Hollow100, Confinement.Sphere(Length.FromAngstroms(0.6)));
+
+    private static Position SiteMinimum(SiteLandscape<LennardJones> landscape) => SiteAnalysis.Harmonic(landscape, Mass50, Temperature.FromKelvin(10)).Minimum;
+
+    [Fact]
+    public void The_barrier_between_neighbouring_hollows_is_the_saddle_above_the_bridge()
+    {
+        // Independent reference: by symmetry the pass between two (100) hollows lies above the bridge between them; its
+        // energy is the lowest energy along the normal there (MathNet golden-section search). The grid map may not pass
+        // lower than the saddle and, at 0.1 Å spacing, lies within 5 % of it.
+        var landscape = Wide();
+        var min = SiteMinimum(landscape);
+        var basin = SiteBasins.Map(landscape, min);
+        // The hollow's four neighbours lie one neighbour distance away, along the frame's x and y.
+        var neighbours = basin.OtherMinima.Where(m => Math.Abs((m.Position - min).Norm - Nn) < 0.05).ToList();
+        Assert.Equal(4, neighbours.Count);
+        // Equivalent hollows, as deep as the site but for the finite slab (they sit off its centre): within 0.1 meV.
+        Assert.All(neighbours, m => Assert.InRange(m.EnergyAboveSiteInElectronVolts, -1e-4, 1e-4));
+        var towards = basin.NeighbourMinimum!.Value;
+        var mid = 0.5 * (min + towards);
+        double saddleZ = FindMinimum.OfScalarFunctionConstrained(z => landscape.Energy(new Position(mid.X, mid.Y, z)), min.Z - 0.5, min.Z + 2, 1e-10);
+        double saddle = landscape.Energy(new Position(mid.X, mid.Y, saddleZ)) - landscape.Energy(min);
+        Assert.True(saddle > 0, "the bridge is higher than the hollow");
+        double barrier = basin.BarrierToNeighbourInElectronVolts!.Value;
+        Assert.InRange(barrier, saddle * 0.999, saddle * 1.05);
+        Assert.Equal(Math.Min(barrier, basin.RiseToWallInElectronVolts), basin.LowestWayOutInElectronVolts);
+        Assert.InRange(basin.InscribedRadiusInAngstroms, 0.5, Nn);
+    }
+
+    [Fact]
+    public void A_particle_that_hops_to_the_next_hollow_is_reported_as_having_left_its_site_without_a_B_factor()
+    {
+        // kT far above the hollow-to-hollow barrier: the chains roam over five hollows.
+        var settings = new SamplingSettings { Seed = 5, Chains = 4, SamplesPerChain = 20_000, BurnIn = 4_000 };
+        var hot = SiteSampler.Run(Wide(), Mass50, Temperature.FromKelvin(150), settings);
+        Assert.False(hot.StaysAtSite);
+        Assert.True(hot.ShareOutsideBasin > 0.3, $"share outside {hot.ShareOutsideBasin}");
+        Assert.Null(hot.DebyeWallerB);
+        Assert.Null(hot.IsotropicDisplacement);
+        var warning = Assert.Single(hot.Warnings, w => w.Code == WarningCodes.LeftSite);
+        Assert.Contains("left its site", warning.Message);
+        Assert.Contains("no Debye–Waller factor", warning.Message);
+
+        // The same landscape cold: the chains stay in the hollow's basin, B is reported, no left-site warning.
+        var cold = SiteSampler.Run(Wide(), Mass50, Temperature.FromKelvin(5), settings);
+        Assert.True(cold.StaysAtSite, $"share outside {cold.ShareOutsideBasin}");
+        Assert.NotNull(cold.DebyeWallerB);
+        Assert.DoesNotContain(cold.Warnings, w => w.Code == WarningCodes.LeftSite);
+    }
+
+    [Theory]
+    [InlineData(SamplingMethod.Metropolis, 60, true)]
+    [InlineData(SamplingMethod.Direct, 30, false)] // a Gaussian envelope cannot cover two hollows: direct sampling runs in a 12-neighbour cage, one basin
+    public void Both_samplers_count_draws_outside_the_basin_as_the_map_places_them(SamplingMethod method, double kelvin, bool crosses)
+    {
+        // Every draw kept: the share outside must equal the share of kept draws the map puts outside, counted here.
+        const int n = 8192;
+        var landscape = method == SamplingMethod.Metropolis
+            ? Wide()
+            : SiteLandscape.Create(Lj, LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(Nn)), Position.Origin, Confinement.Sphere(Length.FromAngstroms(0.3)));
+        var settings = new SamplingSettings { Seed = 3, Chains = 2, SamplesPerChain = n, BurnIn = 2_000, RetainedDrawsPerChain = n, Method = method };
+        var report = SiteSampler.Run(landscape, Mass50, Temperature.FromKelvin(kelvin), settings);
+        var grid = SiteBasins.MapWithGrid(landscape, report.Minimum).Grid;
+        var draws = report.Draws.Chains.SelectMany(c => c).ToArray();
+        double counted = draws.Count(p => grid.IsOutside(p.X, p.Y, p.Z)) / (double)draws.Length;
+        Assert.Equal(counted, report.ShareOutsideBasin, 12);
+        Assert.True(counted > 0 == crosses, $"share outside {counted}");
+    }
+
+    [Fact]
+    public void In_a_confinement_inside_the_basin_the_way_out_is_the_wall_and_no_other_minimum_is_found()
+    {
+        var landscape = Tight();
+        var basin = SiteBasins.Map(landscape, SiteMinimum(landscape));
+        Assert.Null(basin.BarrierToNeighbourInElectronVolts);
+        Assert.Empty(basin.OtherMinima);
+        Assert.False(basin.WayOutLeadsToAnotherMinimum);
+        Assert.True(double.IsFinite(basin.RiseToWallInElectronVolts) && basin.RiseToWallInElectronVolts > 0);
+        var hot = SiteBasins.AtTemperature(basin, landscape, Temperature.FromKelvin(100));
+        Assert.Equal(0, hot.OutsidePopulation);
+    }
+
+    [Fact]
+    public void Harmonic_superposition_weighs_the_four_equivalent_hollows_equally()
+    {
+        // Four neighbours as deep as the site with the same Hessian: the site holds 1/5 of the probability.
+        var landscape = Wide();
+        var basin = SiteBasins.AtTemperature(SiteBasins.Map(landscape, SiteMinimum(landscape)), landscape, Temperature.FromKelvin(20));
+        var equivalent = basin.OtherMinima.Where(m => Math.Abs(m.EnergyAboveSiteInElectronVolts) < 1e-4).ToList();
+        Assert.Equal(4, equivalent.Count);
+        Assert.All(equivalent, m => Assert.InRange(m.HarmonicWeight!.Value, 0.97, 1.03)); // equal but for the finite slab
+        Assert.True(basin.OutsidePopulation >= 0.79, $"{basin.OutsidePopulation}");
+    }
+
+    [Fact]
+    public void A_confinement_that_reaches_under_or_past_the_slab_is_refused_naming_the_limit()
+    {
+        var deep = Assert.Throws<ArgumentException>(() => SiteLandscape.AboveSurface(Lj, Hollow100, Confinement.Box(Length.FromAngstroms(20))));
+        Assert.Contains("vacuum on one side only", deep.Message);
+        Assert.Contains("more layers", deep.Message);
+        var wideSlab = LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(1, 0, 0), AdsorptionSiteKind.Hollow, Length.FromAngstroms(Nn), layers: 10, lateralRadiusInNeighbourDistances: 1);
+        var edge = Assert.Throws<ArgumentException>(() => SiteLandscape.AboveSurface(Lj, wideSlab, Confinement.Sphere(Length.FromAngstroms(2))));
+        Assert.Contains("walk off the slab", edge.Message);
+    }
+
+    [Fact]
+    public void The_basin_map_is_the_same_for_the_same_landscape_and_cached()
+    {
+        var landscape = Wide();
+        var min = SiteMinimum(landscape);
+        Assert.Same(SiteBasins.Map(landscape, min), SiteBasins.Map(landscape, min));
+        var again = SiteBasins.Map(Wide(), min);
+        Assert.Equal(SiteBasins.Map(landscape, min).BarrierToNeighbourInElectronVolts, again.BarrierToNeighbourInElectronVolts);
+    }
+}
