@@ -251,6 +251,21 @@ public class AnalysisTests
         Assert.InRange(ClassicalValidity.DeBroglieWavelengthInAngstroms(ArgonMass, K(300)), 0.15, 0.17);
     }
 
+    [Theory]
+    [InlineData(10, false)]
+    [InlineData(40, true)]
+    public void First_order_far_from_the_exact_shift_is_called_outside_its_range(double kelvin, bool invalid)
+    {
+        // Invented pair (ε = 0.015 eV at r_min = 3.5 Å, window 3–6 Å): at 10 K first order (0.029 Å) is within 20 % of the
+        // exact shift (0.033 Å); at 40 K (0.117 Å against 0.262 Å) it is not.
+        var pair = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.015));
+        var landscape = PairLandscape.Line(pair, Length.FromAngstroms(3.0), Length.FromAngstroms(6.0));
+        var references = Reports.PairSummary.Analyse(landscape, Mass.FromAtomicMassUnits(50), K(kelvin));
+        double exactShift = references.Exact.MeanInAngstroms - 3.5, firstOrder = references.FirstOrder!.MeanShiftInAngstroms;
+        Assert.Equal(invalid, Math.Abs(firstOrder - exactShift) > 0.2 * exactShift);
+        Assert.Equal(invalid, references.Warnings.Any(w => w.Code == WarningCodes.PerturbationInvalid));
+    }
+
     [Fact]
     public void Shallow_well_at_high_temperature_warns_about_escape_and_wall_mass()
     {

@@ -18,6 +18,31 @@ public class ConventionTests
         => setter.ReturnParameter.GetRequiredCustomModifiers().Contains(typeof(IsExternalInit));
 
     [Fact]
+    public void Every_warning_code_is_documented_and_asserted()
+    {
+        // docs/validity.md lists exactly the codes of WarningCodes, and every code is asserted by a test somewhere
+        // (its WarningCodes name appears in an Assert line of a test file other than this one).
+        string root = AppContext.BaseDirectory;
+        while (!File.Exists(Path.Combine(root, "ThermalSampling.sln")))
+        {
+            root = Path.GetDirectoryName(root) ?? throw new InvalidOperationException("solution root not found");
+        }
+        var codes = typeof(Analysis.WarningCodes).GetFields(BindingFlags.Public | BindingFlags.Static)
+            .Where(f => f.IsLiteral).ToDictionary(f => (string)f.GetRawConstantValue()!, f => f.Name);
+        var documented = File.ReadAllLines(Path.Combine(root, "docs", "validity.md"))
+            .Where(l => l.StartsWith("| `", StringComparison.Ordinal))
+            .Select(l => l.Split('`')[1]).ToHashSet();
+        Assert.Equal(codes.Keys.Order(), documented.Order());
+        var assertLines = Directory.GetFiles(Path.Combine(root, "tests", "ThermalSampling.Tests"), "*.cs")
+            .Where(f => !f.EndsWith(nameof(ConventionTests) + ".cs", StringComparison.Ordinal))
+            .SelectMany(File.ReadAllLines)
+            .Where(l => l.Contains("Assert.", StringComparison.Ordinal))
+            .ToList();
+        var unasserted = codes.Values.Where(name => !assertLines.Any(l => l.Contains("WarningCodes." + name, StringComparison.Ordinal))).ToList();
+        Assert.True(unasserted.Count == 0, "no test asserts: " + string.Join(", ", unasserted));
+    }
+
+    [Fact]
     public void Public_types_expose_no_mutable_state()
     {
         var offenders = Library.GetExportedTypes()

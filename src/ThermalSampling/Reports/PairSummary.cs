@@ -28,7 +28,10 @@ internal static class PairSummary
         try
         {
             var well = PairAnalysis.RequireWellInside(landscape);
-            return new References(exact, well, PairAnalysis.Harmonic(landscape, mass, temperature), PairAnalysis.FirstOrder(landscape, temperature), []);
+            var firstOrder = PairAnalysis.FirstOrder(landscape, temperature);
+            var check = ReportParts.FirstOrderCheck("shift", firstOrder.MeanShiftInAngstroms, exact.MeanInAngstroms - well.EquilibriumDistance, 0)
+                ?? ReportParts.FirstOrderCheck("variance", firstOrder.VarianceInAngstromsSquared, exact.VarianceInAngstromsSquared, 0);
+            return new References(exact, well, PairAnalysis.Harmonic(landscape, mass, temperature), firstOrder, check is null ? [] : [check]);
         }
         catch (LandscapeException ex)
         {

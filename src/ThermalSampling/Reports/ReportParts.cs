@@ -1,6 +1,7 @@
 using System;
 using System.Collections.Generic;
 using System.Collections.Immutable;
+using System.Globalization;
 using System.Linq;
 using ThermalSampling.Reports;
 using ThermalSampling.Analysis;
@@ -15,6 +16,24 @@ namespace ThermalSampling.Reports;
 /// </summary>
 internal static class ReportParts
 {
+    /// <summary>The share by which a first-order estimate may differ from the exact or sampled value before it is called outside its range.</summary>
+    internal const double FirstOrderTolerance = 0.2;
+
+    /// <summary>
+    /// The perturbation-invalid warning when the first-order <paramref name="what"/> differs from the reference (exact, or
+    /// sampled with standard error <paramref name="standardError"/>) by more than 4 standard errors plus 20 % of the reference.
+    /// </summary>
+    internal static Warning? FirstOrderCheck(string what, double firstOrder, double reference, double standardError)
+    {
+        double gap = Math.Abs(firstOrder - reference);
+        if (!(gap > FirstOrderTolerance * Math.Abs(reference) + 4 * standardError))
+        {
+            return null;
+        }
+        return new Warning(WarningCodes.PerturbationInvalid, string.Create(CultureInfo.InvariantCulture,
+            $"The first-order {what} ({firstOrder:G3}) differs from the {(standardError > 0 ? "sampled" : "exact")} one ({reference:G3}) by {gap / Math.Abs(reference):P0}, more than the {FirstOrderTolerance:P0} allowed: the anharmonic correction is not small at this temperature, so first-order perturbation theory is outside its range. Use the {(standardError > 0 ? "sampled" : "exact")} value."));
+    }
+
     /// <summary>The bins of every chain as one density with per-bin standard errors √(p(1 − p)/ESS)/width.</summary>
     internal static Histogram Histogram(IReadOnlyList<BinCounter> parts, double effectiveSampleSize)
     {

@@ -68,6 +68,10 @@ internal static class SiteSummary
         var validity = ClassicalValidity.Assess(mass, temperature, Math.Sqrt(Math.Max(msd, 1e-300) / 3), harmonic.Modes.Max(m => m.QuantumToThermalRatio),
             double.IsPositiveInfinity(wayOut) || wayOut > 0 ? wayOut : double.Epsilon, wallMass);
         warnings.AddRange(validity.Warnings.Select(w => w.Code == WarningCodes.EscapeRisk ? SiteBasins.EscapeWarning(basin, temperature) : w));
+        if (staysAtSite && ReportParts.FirstOrderCheck("mean shift (length of the vector)", harmonic.FirstOrderMeanShift.Norm, (mean - min).Norm, seMean.Norm) is { } firstOrderWarning)
+        {
+            warnings.Add(firstOrderWarning);
+        }
         ReportParts.AddConvergenceWarnings(warnings, combined, metropolis ? acceptance : null, metropolis ? target : null);
 
         var diagnostics = new SamplingDiagnostics(acceptance, combined.Tau, combined.Ess, combined.RHat, draws, combined.BlockingStandardError,
