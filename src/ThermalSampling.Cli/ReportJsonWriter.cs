@@ -111,7 +111,7 @@ internal static class ReportJsonWriter
         Number(w, "variance", r.Exact.Variance / l2);
         Number(w, "skewness", r.Exact.Skewness);
         Number(w, "excessKurtosis", r.Exact.ExcessKurtosis);
-        Number(w, "wallMass", r.Exact.WallMass);
+        Number(w, "probabilityNearWalls", r.Exact.ProbabilityNearWalls);
         Number(w, "zScoreMean", r.Exact.ZScoreMean);
         Number(w, "zScoreVariance", r.Exact.ZScoreVariance);
         w.WriteEndObject();

@@ -28,7 +28,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
             {
                 new("T", "K", false), new("mean", u, true), new("shift", u, true), new("shift 1st order", u, false),
                 new("RMS", u, true), new("RMS harmonic", u, false), new("RMS quantum", u, false), new("skewness", "", false),
-                new("exact mean", u, false), new("z(mean)", "", false), new("wall mass", "", false), new("ESS", "", false), new("R-hat", "", false),
+                new("exact mean", u, false), new("z(mean)", "", false), new("P(≤1 RMS of a wall)", "", false), new("ESS", "", false), new("R-hat", "", false),
             };
             var rows = results.Pairs.Select(r =>
             {
@@ -45,7 +45,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
                     new ReportCell(r.Skewness),
                     new ReportCell(r.Exact.Mean / l),
                     new ReportCell(r.Exact.ZScoreMean),
-                    new ReportCell(r.Exact.WallMass),
+                    new ReportCell(r.Exact.ProbabilityNearWalls),
                     new ReportCell(r.Diagnostics.EffectiveSampleSize),
                     new ReportCell(r.Diagnostics.RHat ?? double.NaN),
                 };

@@ -46,11 +46,12 @@ public class AnalysisTests
             Assert.Equal(normal.CumulativeDistribution(r), exact.CumulativeProbability(r), 10);
             Assert.Equal(normal.Density(r), exact.Density(r), 8);
         }
-        // The walls at 1 and 3 Å hold (ρ(1) + ρ(3))·σ of the probability, ρ the Normal density (MathNet).
-        double held = (normal.Density(1.0) + normal.Density(3.0)) * Math.Sqrt(variance);
-        Assert.True(Math.Abs(exact.WallHeldProbability - held) < 1e-6 * held, $"{exact.WallHeldProbability} vs {held}");
-        double band = normal.CumulativeDistribution(1.2) - normal.CumulativeDistribution(1.0);
-        Assert.True(Math.Abs(exact.WallMass - 2 * band) < 1e-6 * 2 * band, $"wall mass {exact.WallMass} vs {2 * band}");
+        // Within one RMS spread σ of the walls at 1 and 3 Å: the Normal probability of [1, 1 + σ] and [3 − σ, 3] (MathNet),
+        // with σ the truncated distribution's own spread.
+        double sigma = exact.RmsInAngstroms;
+        double band = normal.CumulativeDistribution(1.0 + sigma) - normal.CumulativeDistribution(1.0);
+        Assert.True(Math.Abs(exact.ProbabilityNearLowerWall - band) < 1e-6 * band, $"near the lower wall {exact.ProbabilityNearLowerWall} vs {band}");
+        Assert.True(Math.Abs(exact.ProbabilityNearWalls - 2 * band) < 1e-6 * 2 * band, $"near the walls {exact.ProbabilityNearWalls} vs {2 * band}");
     }
 
     [Fact]
@@ -275,7 +276,8 @@ public class AnalysisTests
         var v = ClassicalValidity.AssessPair(landscape, ArgonMass, K(30));
         Assert.Contains(v.Warnings, w => w.Code == WarningCodes.EscapeRisk);
         Assert.Contains(v.Warnings, w => w.Code == WarningCodes.WallMass);
-        Assert.True(v.WallHeldProbability > 0.01);
+        Assert.True(v.ProbabilityNearWalls > 0.01);
+        Assert.InRange(v.ProbabilityNearWalls!.Value, 0, 1);
         Assert.Contains("walls", v.Warnings.Single(w => w.Code == WarningCodes.WallMass).Message);
     }
 
@@ -287,8 +289,8 @@ public class AnalysisTests
         var lj = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.012));
         var landscape = PairLandscape.Line(lj, Length.FromAngstroms(3.0), Length.FromAngstroms(6.0));
         var exact = ExactPairDistribution.Compute(landscape, K(10));
-        Assert.True(exact.LowerWallMass > 1e-3);
-        Assert.True(exact.WallHeldProbability < 1e-4);
+        Assert.True(exact.CumulativeProbability(3.3) > 1e-3);
+        Assert.True(exact.ProbabilityNearWalls < 1e-4);
         Assert.DoesNotContain(ClassicalValidity.AssessPair(landscape, ArgonMass, K(10)).Warnings, w => w.Code == WarningCodes.WallMass);
     }
 
@@ -330,7 +332,7 @@ public class AnalysisTests
         var landscape = PairLandscape.Line(Lj, Length.FromAngstroms(4.5), Length.FromAngstroms(8.0));
         Assert.Contains("outside the window", Assert.Throws<LandscapeException>(() => PairAnalysis.FirstOrder(landscape, K(10))).Message);
         // The exact distribution still exists (the walls hold it).
-        Assert.True(ExactPairDistribution.Compute(landscape, K(10)).LowerWallMass > 0.5);
+        Assert.True(ExactPairDistribution.Compute(landscape, K(10)).ProbabilityNearLowerWall > 0.5);
     }
 
     [Fact]

@@ -82,7 +82,7 @@ public class CliTests
                 "skewness", "excessKurtosis", "harmonic", "firstOrder", "exact", "diagnostics", "warnings");
             AssertKeys(r.GetProperty("harmonic"), "variance");
             AssertKeys(r.GetProperty("firstOrder"), "meanShift", "variance");
-            AssertKeys(r.GetProperty("exact"), "mean", "variance", "skewness", "excessKurtosis", "wallMass", "zScoreMean", "zScoreVariance");
+            AssertKeys(r.GetProperty("exact"), "mean", "variance", "skewness", "excessKurtosis", "probabilityNearWalls", "zScoreMean", "zScoreVariance");
             AssertKeys(r.GetProperty("diagnostics"), "acceptanceRate", "autocorrelationTime", "effectiveSampleSize", "rHat", "draws");
             Assert.False(r.TryGetProperty("covariance", out _), "site keys must be absent for a line");
             foreach (var w in r.GetProperty("warnings").EnumerateArray())

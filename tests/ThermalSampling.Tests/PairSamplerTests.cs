@@ -271,6 +271,6 @@ public class PairSamplerTests
         var report = PairSampler.Run(landscape, ArgonMass, Temperature.FromKelvin(30), Settings(SamplingMethod.Metropolis, samples: 50_000));
         Assert.Contains(report.Warnings, w => w.Code == WarningCodes.WallMass);
         Assert.Contains(report.Warnings, w => w.Code == WarningCodes.EscapeRisk);
-        Assert.True(report.Exact.WallMass > 0.1);
+        Assert.True(report.Exact.ProbabilityNearWalls > 0.1);
     }
 }

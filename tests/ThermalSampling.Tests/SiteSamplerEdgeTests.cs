@@ -207,7 +207,7 @@ public class SiteSamplerEdgeTests
         double near = draws.Count(p => sphere.DistanceToWall(p.X, p.Y, p.Z) < band) / (double)draws.Length;
         Assert.InRange(near, 0.1, 0.9);
         var wall = Assert.Single(report.Warnings, w => w.Code == WarningCodes.WallMass);
-        Assert.Contains("hold about " + near.ToString("P2", CultureInfo.InvariantCulture), wall.Message);
+        Assert.StartsWith(near.ToString("P1", CultureInfo.InvariantCulture) + " of the probability lies within one RMS spread", wall.Message);
 
         double lowest = double.PositiveInfinity;
         for (int i = 0; i <= 180; i++)

@@ -14,10 +14,10 @@ namespace ThermalSampling.Analysis;
 /// <param name="QuantumToThermalRatio">The largest ħω/kT over the modes.</param>
 /// <param name="QuantumVarianceRatio">Quantum over classical harmonic variance for the stiffest mode, (x/2)coth(x/2) with x = ħω/kT.</param>
 /// <param name="ThermalEnergyOverWellDepth">kT divided by the depth of the well (0 when the well is infinitely deep).</param>
-/// <param name="WallHeldProbability">How much probability the walls hold, where known (see <see cref="ExactPairDistribution.WallHeldProbability"/>), otherwise null.</param>
+/// <param name="ProbabilityNearWalls">The probability within one RMS spread of the walls, where known (see <see cref="ExactPairDistribution.ProbabilityNearWalls"/>), otherwise null.</param>
 /// <param name="Warnings">Plain-language warnings for every threshold crossed.</param>
 public sealed record ValidityAssessment(double DeBroglieWavelengthInAngstroms, double RmsSpreadInAngstroms, double QuantumToThermalRatio,
-    double QuantumVarianceRatio, double ThermalEnergyOverWellDepth, double? WallHeldProbability, ImmutableArray<Warning> Warnings)
+    double QuantumVarianceRatio, double ThermalEnergyOverWellDepth, double? ProbabilityNearWalls, ImmutableArray<Warning> Warnings)
 {
     /// <summary>Whether no threshold was crossed.</summary>
     public bool IsClassicalPictureTrustworthy => Warnings.IsEmpty;
@@ -27,7 +27,7 @@ public sealed record ValidityAssessment(double DeBroglieWavelengthInAngstroms, d
 /// Judges whether classical Boltzmann statistics in this well can be trusted. Thresholds
 /// (common practice, no source; documented in docs/validity.md):
 /// quantum variance more than 5% above classical (ħω/kT ≳ 0.78); Λ above the RMS spread;
-/// kT above 5% of the well depth; walls holding more than 0.1% of the probability.
+/// kT above 5% of the well depth; more than 1% of the probability within one RMS spread of the walls.
 /// </summary>
 public static class ClassicalValidity
 {
@@ -40,8 +40,8 @@ public static class ClassicalValidity
     /// <summary>kT/depth above which <see cref="WarningCodes.EscapeRisk"/> is raised.</summary>
     public const double EscapeRiskThreshold = 0.05;
 
-    /// <summary>Wall-held probability above which <see cref="WarningCodes.WallMass"/> is raised.</summary>
-    public const double WallHeldProbabilityThreshold = 1e-3;
+    /// <summary>Probability within one RMS spread of the walls above which <see cref="WarningCodes.WallMass"/> is raised (walls at about 3.5 harmonic spreads, where they change the variance by about 0.5 %).</summary>
+    public const double ProbabilityNearWallsThreshold = 0.01;
 
     /// <summary>The thermal de Broglie wavelength Λ = h/√(2π m kB T), Å (the standard convention).</summary>
     /// <param name="mass">The particle's mass.</param>
@@ -60,10 +60,10 @@ public static class ClassicalValidity
     /// <param name="rmsSpreadInAngstroms">The RMS spread per direction (from the exact distribution, sampling or the harmonic estimate), Å.</param>
     /// <param name="largestQuantumToThermalRatio">The largest ħω/kT over the modes.</param>
     /// <param name="wellDepthInElectronVolts">The well depth, eV (+∞ for a harmonic bond).</param>
-    /// <param name="wallHeldProbability">How much probability the walls hold (density at the walls × RMS for a pair; the
-    /// fraction of draws within one RMS of the confinement for a site), when known.</param>
+    /// <param name="probabilityNearWalls">The probability within one RMS spread of the walls (exact for a pair; for a site, the
+    /// share of draws within one harmonic RMS spread of the confinement), when known; in [0, 1].</param>
     public static ValidityAssessment Assess(Mass mass, Temperature temperature, double rmsSpreadInAngstroms,
-        double largestQuantumToThermalRatio, double wellDepthInElectronVolts, double? wallHeldProbability)
+        double largestQuantumToThermalRatio, double wellDepthInElectronVolts, double? probabilityNearWalls)
     {
         double lambda = DeBroglieWavelengthInAngstroms(mass, temperature);
         Preconditions.CheckPositive(rmsSpreadInAngstroms, nameof(rmsSpreadInAngstroms));
@@ -73,9 +73,9 @@ public static class ClassicalValidity
             throw new ArgumentOutOfRangeException(nameof(wellDepthInElectronVolts), wellDepthInElectronVolts,
                 $"wellDepthInElectronVolts = {Preconditions.Format(wellDepthInElectronVolts)} is out of range; it must be greater than 0 (+∞ allowed).");
         }
-        if (wallHeldProbability is double wm)
+        if (probabilityNearWalls is double wm)
         {
-            Preconditions.CheckNonNegative(wm, nameof(wallHeldProbability));
+            Preconditions.CheckRange(wm, 0.0, 1.0, nameof(probabilityNearWalls));
         }
         double x = largestQuantumToThermalRatio;
         double ratio = x < 1e-8 ? 1 : 0.5 * x / Math.Tanh(0.5 * x);
@@ -101,13 +101,13 @@ public static class ClassicalValidity
                 "kT is {0:P1} of the well depth ({1:G4} eV): the particle can escape its well, and the answer depends on the window or confinement that holds it.",
                 escape, wellDepthInElectronVolts)));
         }
-        if (wallHeldProbability is double w && w > WallHeldProbabilityThreshold)
+        if (probabilityNearWalls is double w && w > ProbabilityNearWallsThreshold)
         {
             warnings.Add(new Warning(WarningCodes.WallMass, string.Format(c,
-                "The walls hold about {0:P2} of the probability (density at the walls times the RMS spread): the walls, not the potential, are holding the particle there, so the mean and spread depend on where the walls are. Move the walls out, or state the window with the result.",
-                w)));
+                "{0:P1} of the probability lies within one RMS spread ({1:G3} Å) of the walls: the walls, not only the potential, hold the particle, so the mean and spread depend on where the walls are. Move the walls out, or state the window with the result.",
+                w, rmsSpreadInAngstroms)));
         }
-        return new ValidityAssessment(lambda, rmsSpreadInAngstroms, x, ratio, escape, wallHeldProbability, warnings.ToImmutable());
+        return new ValidityAssessment(lambda, rmsSpreadInAngstroms, x, ratio, escape, probabilityNearWalls, warnings.ToImmutable());
     }
 
     /// <summary>Assesses a line or radial landscape at one temperature, from its exact distribution and harmonic estimate.</summary>
@@ -121,6 +121,6 @@ public static class ClassicalValidity
         var harmonic = PairAnalysis.Harmonic(landscape, mass, temperature);
         var exact = ExactPairDistribution.Compute(landscape, temperature);
         var well = PairAnalysis.RequireWellInside(landscape);
-        return Assess(mass, temperature, exact.RmsInAngstroms, harmonic.QuantumToThermalRatio, well.WellDepth, exact.WallHeldProbability);
+        return Assess(mass, temperature, exact.RmsInAngstroms, harmonic.QuantumToThermalRatio, well.WellDepth, exact.ProbabilityNearWalls);
     }
 }

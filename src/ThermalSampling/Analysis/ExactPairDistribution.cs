@@ -51,9 +51,11 @@ public sealed class ExactPairDistribution
         VarianceInAngstromsSquared = m2;
         ThirdCentralMomentInAngstromsCubed = m3;
         FourthCentralMomentInAngstromsToTheFourth = m4;
-        double band = 0.1 * (upper - lower);
-        LowerWallMass = Integrate(r => weight(r), lower, lower + band, out _) / z;
-        UpperWallMass = Integrate(r => weight(r), upper - band, upper, out _) / z;
+        // Within one RMS spread of each wall; when the two bands meet they cover the window and hold everything.
+        double band = Math.Sqrt(m2);
+        ProbabilityNearLowerWall = Math.Min(1, Integrate(r => weight(r), lower, Math.Min(upper, lower + band), out _) / z);
+        ProbabilityNearUpperWall = Math.Min(1, Integrate(r => weight(r), Math.Max(lower, upper - band), upper, out _) / z);
+        ProbabilityNearWalls = lower + band >= upper - band ? 1 : Math.Min(1, ProbabilityNearLowerWall + ProbabilityNearUpperWall);
     }
 
     private readonly double _normalisation;
@@ -97,21 +99,18 @@ public sealed class ExactPairDistribution
     /// <summary>The excess kurtosis μ4/μ2² − 3.</summary>
     public double ExcessKurtosis => FourthCentralMomentInAngstromsToTheFourth / (VarianceInAngstromsSquared * VarianceInAngstromsSquared) - 3;
 
-    /// <summary>The probability in the lowest 10% of the window.</summary>
-    public double LowerWallMass { get; }
+    /// <summary>The probability within one RMS spread of the lower wall.</summary>
+    public double ProbabilityNearLowerWall { get; }
 
-    /// <summary>The probability in the highest 10% of the window.</summary>
-    public double UpperWallMass { get; }
-
-    /// <summary>The probability in the outer 10% of the window at both ends together.</summary>
-    public double WallMass => LowerWallMass + UpperWallMass;
+    /// <summary>The probability within one RMS spread of the upper wall.</summary>
+    public double ProbabilityNearUpperWall { get; }
 
     /// <summary>
-    /// How much the walls hold the particle: (p(lower) + p(upper)) × RMS, the probability that would lie within one RMS
-    /// spread beyond the walls if they were removed and the density continued flat. Near 0 when the potential alone
-    /// confines the particle; the answer depends on the window when it is not small.
+    /// The probability within one RMS spread of either wall, in [0, 1]: the measure the <c>wall-mass</c> warning uses. Near 0
+    /// when the potential alone confines the particle; when it is not small, the walls hold the particle and the answer
+    /// depends on where they are.
     /// </summary>
-    public double WallHeldProbability => (Density(WindowLowerInAngstroms) + Density(WindowUpperInAngstroms)) * RmsInAngstroms;
+    public double ProbabilityNearWalls { get; }
 
     /// <summary>The normalised density p(r), 1/Å (zero outside the window).</summary>
     /// <param name="r">The separation, Å.</param>

@@ -67,11 +67,11 @@ internal static class PairSummary
 
         var meanEstimate = new Estimate(mean, meanSe);
         var varianceEstimate = new Estimate(variance, varianceSe);
-        var comparison = new ExactComparison(exact.MeanInAngstroms, exact.VarianceInAngstromsSquared, exact.Skewness, exact.ExcessKurtosis, exact.WallMass,
+        var comparison = new ExactComparison(exact.MeanInAngstroms, exact.VarianceInAngstromsSquared, exact.Skewness, exact.ExcessKurtosis, exact.ProbabilityNearWalls,
             meanEstimate.ZScore(exact.MeanInAngstroms), varianceEstimate.ZScore(exact.VarianceInAngstromsSquared));
 
         var validity = ClassicalValidity.Assess(mass, temperature, rms > 0 ? rms : exact.RmsInAngstroms, harmonic?.QuantumToThermalRatio ?? 0,
-            well?.WellDepth ?? double.PositiveInfinity, exact.WallHeldProbability);
+            well?.WellDepth ?? double.PositiveInfinity, exact.ProbabilityNearWalls);
         warnings.AddRange(validity.Warnings);
         ReportParts.AddConvergenceWarnings(warnings, summary, acceptance, metropolis ? target : null);
         if (Math.Abs(comparison.ZScoreMean) > 4 || Math.Abs(comparison.ZScoreVariance) > 4)

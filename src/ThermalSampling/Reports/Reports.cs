@@ -108,10 +108,10 @@ public sealed record RetainedDraws<T>(ImmutableArray<ImmutableArray<T>> Chains)
 /// <param name="Variance">Exact variance, Å².</param>
 /// <param name="Skewness">Exact skewness.</param>
 /// <param name="ExcessKurtosis">Exact excess kurtosis.</param>
-/// <param name="WallMass">Exact probability in the outer 10% of the window.</param>
+/// <param name="ProbabilityNearWalls">Exact probability within one RMS spread of either wall (the measure of the wall-mass warning).</param>
 /// <param name="ZScoreMean">(sampled − exact)/SE for the mean.</param>
 /// <param name="ZScoreVariance">(sampled − exact)/SE for the variance.</param>
-public sealed record ExactComparison(double Mean, double Variance, double Skewness, double ExcessKurtosis, double WallMass, double ZScoreMean, double ZScoreVariance);
+public sealed record ExactComparison(double Mean, double Variance, double Skewness, double ExcessKurtosis, double ProbabilityNearWalls, double ZScoreMean, double ZScoreVariance);
 
 /// <summary>The vibration report of a line or radial pair at one temperature.</summary>
 /// <param name="Temperature">The temperature.</param>

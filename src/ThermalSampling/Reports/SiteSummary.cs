@@ -50,7 +50,7 @@ internal static class SiteSummary
         double msdSe = ChainDiagnostics.PooledMeanStandardError(msdSeries);
         long draws = moments.Count;
         double acceptance = results.Sum(r => (double)r.Accepted) / results.Sum(r => (double)r.Proposals);
-        double wallMass = results.Sum(r => (double)r.NearWall) / draws; // fraction of draws within one harmonic RMS of the wall
+        double nearWalls = results.Sum(r => (double)r.NearWall) / draws; // share of draws within one harmonic RMS spread of the confinement
 
         var worst = summaries.OrderByDescending(s => s.Tau).First();
         var combined = new ChainDiagnostics.Summary(worst.Tau, summaries.Min(s => s.Ess), summaries[0].BlockingStandardError,
@@ -66,7 +66,7 @@ internal static class SiteSummary
         }
         double wayOut = basin.LowestWayOutInElectronVolts;
         var validity = ClassicalValidity.Assess(mass, temperature, Math.Sqrt(Math.Max(msd, 1e-300) / 3), harmonic.Modes.Max(m => m.QuantumToThermalRatio),
-            double.IsPositiveInfinity(wayOut) || wayOut > 0 ? wayOut : double.Epsilon, wallMass);
+            double.IsPositiveInfinity(wayOut) || wayOut > 0 ? wayOut : double.Epsilon, nearWalls);
         warnings.AddRange(validity.Warnings.Select(w => w.Code == WarningCodes.EscapeRisk ? SiteBasins.EscapeWarning(basin, temperature) : w));
         if (staysAtSite && ReportParts.FirstOrderCheck("mean shift (length of the vector)", harmonic.FirstOrderMeanShift.Norm, (mean - min).Norm, seMean.Norm) is { } firstOrderWarning)
         {
