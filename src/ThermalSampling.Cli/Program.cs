@@ -133,7 +133,14 @@ public static class Program
             }
             if (o.Command == "validate")
             {
-                stderr.WriteLine($"{o.File}: valid scenario ({loaded.TemperaturesInKelvin.Length} temperature(s), {loaded.Potential.Form} potential, {loaded.Landscape.Kind} landscape).");
+                // Everything run does short of sampling: the landscape is built, the minimum found and checked, the window
+                // and confinement checked; the same errors, and the same warnings that need no draws.
+                var checks = ScenarioRunner.Check(loaded).Checks!;
+                stderr.WriteLine($"{o.File}: valid scenario ({loaded.TemperaturesInKelvin.Length} temperature(s), {loaded.Potential.Form} potential, {loaded.Landscape.Kind} landscape); {(checks.Count == 0 ? "no warnings before sampling." : $"{checks.Count} warning(s) before sampling:")}");
+                foreach (var (kelvin, warning) in checks)
+                {
+                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"warning at {kelvin:G6} K [{warning.Code}]: {warning.Message}"));
+                }
                 return Success;
             }
             loaded = WithSweepTemperatures(loaded, o);

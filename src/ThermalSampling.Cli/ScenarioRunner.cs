@@ -18,8 +18,9 @@ namespace ThermalSampling.Cli;
 /// <param name="Sites">Site reports.</param>
 /// <param name="Cancelled">Whether the run was stopped before every temperature finished.</param>
 /// <param name="Figures">Figure files written, if any were asked for.</param>
+/// <param name="Checks">For <c>validate</c>: the warnings a run would give before sampling, with their temperature (K).</param>
 internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibrationReport> Pairs, IReadOnlyList<SiteVibrationReport> Sites, bool Cancelled = false,
-    IReadOnlyList<string>? Figures = null)
+    IReadOnlyList<string>? Figures = null, IReadOnlyList<(double Kelvin, Analysis.Warning Warning)>? Checks = null)
 {
     internal int Finished => Pairs.Count + Sites.Count;
 }
@@ -32,21 +33,24 @@ internal sealed record CheckpointPlan(CheckpointOptions Options, SamplingCheckpo
 /// <summary>Turns a validated scenario into library calls, specialised on the concrete potential type.</summary>
 internal static class ScenarioRunner
 {
+    /// <summary>Builds everything a run builds and returns the warnings it would give before sampling (for <c>validate</c>); throws what a run would throw.</summary>
+    internal static ScenarioResults Check(Scenario scenario) => Run(scenario, null, CancellationToken.None, checkOnly: true);
+
     internal static ScenarioResults Run(Scenario scenario, IProgress<SamplingProgress>? progress, CancellationToken ct, string? plotPath = null,
-        CheckpointPlan? checkpoint = null)
+        CheckpointPlan? checkpoint = null, bool checkOnly = false)
     {
         var p = scenario.Potential;
         return p.Form switch
         {
             "lennard-jones" => Dispatch(scenario, Guard(() => p.Parameters.ContainsKey("sigma")
                 ? LennardJones.FromSigmaEpsilon(Length.FromAngstroms(p.Parameters["sigma"]), Energy.FromElectronVolts(p.Parameters["epsilon"]))
-                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])), "$.potential"), progress, ct, plotPath, checkpoint),
+                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
             "morse" => Dispatch(scenario, Guard(() => new Morse(Energy.FromElectronVolts(p.Parameters["wellDepth"]), p.Parameters["width"],
-                Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath, checkpoint),
+                Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
             "buckingham" => Dispatch(scenario, Guard(() => new Buckingham(Energy.FromElectronVolts(p.Parameters["A"]), Length.FromAngstroms(p.Parameters["rho"]),
-                p.Parameters["C"]), "$.potential"), progress, ct, plotPath, checkpoint),
-            "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath, checkpoint),
-            "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), progress, ct, plotPath, checkpoint),
+                p.Parameters["C"]), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
+            "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
+            "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
             _ => throw new ScenarioException(new[] { $"$.potential.form: '{p.Form}' is not a known form." }),
         };
     }
@@ -87,7 +91,7 @@ internal static class ScenarioRunner
     };
 
     private static ScenarioResults Dispatch<TPotential>(Scenario scenario, TPotential potential, IProgress<SamplingProgress>? progress, CancellationToken ct,
-        string? plotPath, CheckpointPlan? checkpoint)
+        string? plotPath, CheckpointPlan? checkpoint, bool checkOnly)
         where TPotential : struct, IPairPotential
     {
         var l = scenario.Landscape;
@@ -99,6 +103,10 @@ internal static class ScenarioRunner
             {
                 var landscape = PairLandscape.Create(potential, l.Kind == "line" ? SeparationGeometry.Line : SeparationGeometry.Radial,
                     Length.FromAngstroms(l.WindowLower), Length.FromAngstroms(l.WindowUpper));
+                if (checkOnly)
+                {
+                    return new ScenarioResults(scenario, [], [], Checks: temperatures.SelectMany(t => PairSampler.Check(landscape, mass, t).Select(w => (t.InKelvin, w))).ToList());
+                }
                 var reports = new List<PairVibrationReport>();
                 bool cancelled = checkpoint is null
                     ? RunEach(temperatures, t => reports.Add(PairSampler.Run(landscape, mass, t, scenario.Sampling, progress, ct)))
@@ -138,6 +146,10 @@ internal static class ScenarioRunner
                 siteLandscape = SiteLandscape.Create(potential, l.Lattice is not null
                     ? LatticeSites.NeighbourCage(Lattice(l.Lattice), Length.FromAngstroms(l.NearestNeighbourDistance), l.Shells).Select(s => s + l.Centre).ToImmutableArray()
                     : l.Sites, centre, l.Confinement!.Value);
+            }
+            if (checkOnly)
+            {
+                return new ScenarioResults(scenario, [], [], Checks: temperatures.SelectMany(t => SiteSampler.Check(siteLandscape, mass, t).Select(w => (t.InKelvin, w))).ToList());
             }
             var siteReports = new List<SiteVibrationReport>();
             bool siteCancelled = checkpoint is null

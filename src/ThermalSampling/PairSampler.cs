@@ -40,6 +40,23 @@ public static class PairSampler
         return RunOne(landscape, mass, temperature, settings, progress, cancellationToken, null, 0);
     }
 
+    /// <summary>
+    /// Everything a run at <paramref name="temperature"/> would check or warn about before sampling, without sampling: the
+    /// analyses run (and throw as the run would, for example <see cref="LandscapeException"/> for a site that is no
+    /// minimum) and the warnings that need no draws are returned, in the order the run's report lists them.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="mass">The particle's mass.</param>
+    /// <param name="temperature">The temperature.</param>
+    public static ImmutableArray<Warning> Check<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature)
+        where TPotential : struct, IPairPotential
+    {
+        Internal.Preconditions.CheckNotNull(landscape, nameof(landscape));
+        PairAnalysis.CheckArguments(mass, temperature);
+        return PairSummary.Check(landscape, mass, temperature);
+    }
+
     /// <summary>Analyse, sample, summarise: the three steps of one temperature.</summary>
     private static PairVibrationReport RunOne<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
         IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex)

@@ -34,7 +34,7 @@ public sealed class CliCheckpointTests : IDisposable
         {
           "title": "Invented test pair (checkpoint)",
           "mass": 39.9,
-          "potential": { "form": "morse", "wellDepth": 0.3429, "width": 1.3588, "equilibriumDistance": 2.866 },
+          "potential": { "form": "morse", "wellDepth": 0.4, "width": 1.5, "equilibriumDistance": 2.8 },
           "landscape": { "kind": "radial", "window": [2.2, 4.0] },
           "temperatures": [100, 300],
           "sampling": { "chains": 3, "samplesPerChain": 40000, "burnIn": 5000, "seed": 5 }

@@ -239,7 +239,7 @@ public class CliCommandTests
         {
           "title": "invented test pair",
           "mass": 39.9,
-          "potential": { "form": "morse", "wellDepth": 0.3429, "width": 1.3588, "equilibriumDistance": 2.866 },
+          "potential": { "form": "morse", "wellDepth": 0.4, "width": 1.5, "equilibriumDistance": 2.8 },
           "landscape": { "kind": "radial", "window": [2.2, 4.0] },
           "temperatures": [100, 300],
           "sampling": { "chains": 2, "samplesPerChain": 5000, "burnIn": 1000, "seed": 1 }
@@ -404,5 +404,43 @@ public class CliCommandTests
         Assert.Equal(2, code);
         Assert.Contains(path, stderr);
         Assert.Contains(hint, stderr);
+    }
+
+    [Fact]
+    public void Validate_gives_the_warnings_run_gives_before_sampling()
+    {
+        // Invented: a window that excludes the minimum (3.5 Å) of an invented Lennard-Jones pair.
+        string file = WriteScenario(Scenario.Replace("\"landscape\": { \"kind\": \"radial\", \"window\": [2.2, 4.0] }",
+            "\"landscape\": { \"kind\": \"line\", \"window\": [3.8, 6.0] }")
+            .Replace("\"potential\": { \"form\": \"morse\", \"wellDepth\": 0.4, \"width\": 1.5, \"equilibriumDistance\": 2.8 }",
+                "\"potential\": { \"form\": \"lennard-jones\", \"wellDepth\": 0.015, \"equilibriumDistance\": 3.5 }"));
+        var (validateCode, _, validateErr) = Run("validate", file);
+        Assert.Equal(0, validateCode);
+        var (runCode, runOut, _) = Run("run", file, "--quiet");
+        Assert.Equal(0, runCode);
+        using var doc = JsonDocument.Parse(runOut);
+        var noSampling = new[] { "minimum-outside-window", "perturbation-invalid", "quantum-effects", "de-broglie-wavelength", "escape-risk", "wall-mass" };
+        var runCodes = doc.RootElement.GetProperty("results").EnumerateArray()
+            .SelectMany(r => r.GetProperty("warnings").EnumerateArray().Select(w => $"{r.GetProperty("temperature").GetDouble():G6} K [{w.GetProperty("code").GetString()}]"))
+            .Where(c => noSampling.Any(n => c.EndsWith($"[{n}]", StringComparison.Ordinal)))
+            .ToList();
+        Assert.Contains(runCodes, c => c.EndsWith("[minimum-outside-window]", StringComparison.Ordinal));
+        var validateCodes = validateErr.Split('\n').Where(l => l.StartsWith("warning at ", StringComparison.Ordinal))
+            .Select(l => l["warning at ".Length..(l.IndexOf(']') + 1)]).ToList();
+        Assert.Equal(runCodes, validateCodes);
+    }
+
+    [Fact]
+    public void Validate_refuses_a_top_site_that_is_a_saddle_as_run_does()
+    {
+        // For pair potentials an adatom above a surface atom sits on a saddle (it slides towards the hollows).
+        string file = WriteScenario(Scenario.Replace("\"landscape\": { \"kind\": \"radial\", \"window\": [2.2, 4.0] }",
+            "\"landscape\": { \"kind\": \"sites\", \"lattice\": \"fcc\", \"facet\": [1, 1, 1], \"adsorptionSite\": \"top\", \"nearestNeighbourDistance\": 2.9, \"confinement\": { \"shape\": \"sphere\", \"radius\": 1.0 } }"));
+        var (validateCode, _, validateErr) = Run("validate", file);
+        var (runCode, _, runErr) = Run("run", file, "--quiet");
+        Assert.Equal(2, validateCode);
+        Assert.Equal(2, runCode);
+        Assert.Contains("not a stable minimum", validateErr);
+        Assert.Equal(runErr.Split('\n')[1], validateErr.Split('\n')[1]);
     }
 }

@@ -39,6 +39,19 @@ internal static class PairSummary
         }
     }
 
+    /// <summary>The classical-validity warnings of a pair at the RMS spread <paramref name="rms"/>, with the exact wall probability.</summary>
+    internal static ImmutableArray<Warning> ValidityWarnings(Mass mass, Temperature temperature, References references, double rms)
+        => ClassicalValidity.Assess(mass, temperature, rms, references.Harmonic?.QuantumToThermalRatio ?? 0,
+            references.Well?.WellDepth ?? double.PositiveInfinity, references.Exact.ProbabilityNearWalls).Warnings;
+
+    /// <summary>What a run would warn about before it samples: the references' warnings and the validity checks at the exact spread.</summary>
+    internal static ImmutableArray<Warning> Check<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature)
+        where TPotential : struct, IPairPotential
+    {
+        var references = Analyse(landscape, mass, temperature);
+        return references.Warnings.AddRange(ValidityWarnings(mass, temperature, references, references.Exact.RmsInAngstroms));
+    }
+
     /// <summary>The report of one temperature from its run record.</summary>
     internal static PairVibrationReport Summarise<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
         References references, PairRunRecord run)
@@ -70,9 +83,7 @@ internal static class PairSummary
         var comparison = new ExactComparison(exact.MeanInAngstroms, exact.VarianceInAngstromsSquared, exact.Skewness, exact.ExcessKurtosis, exact.ProbabilityNearWalls,
             meanEstimate.ZScore(exact.MeanInAngstroms), varianceEstimate.ZScore(exact.VarianceInAngstromsSquared));
 
-        var validity = ClassicalValidity.Assess(mass, temperature, rms > 0 ? rms : exact.RmsInAngstroms, harmonic?.QuantumToThermalRatio ?? 0,
-            well?.WellDepth ?? double.PositiveInfinity, exact.ProbabilityNearWalls);
-        warnings.AddRange(validity.Warnings);
+        warnings.AddRange(ValidityWarnings(mass, temperature, references, exact.RmsInAngstroms)); // the exact spread, as validate uses
         ReportParts.AddConvergenceWarnings(warnings, summary, acceptance, metropolis ? target : null);
         if (Math.Abs(comparison.ZScoreMean) > 4 || Math.Abs(comparison.ZScoreVariance) > 4)
         {

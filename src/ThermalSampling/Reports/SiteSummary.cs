@@ -1,4 +1,5 @@
 using System;
+using System.Collections.Generic;
 using System.Collections.Immutable;
 using System.Linq;
 using ThermalSampling.Analysis;
@@ -14,6 +15,28 @@ namespace ThermalSampling.Reports;
 /// <summary>The summarising step for sites: merges the chains' records in chain order and builds the report users read.</summary>
 internal static class SiteSummary
 {
+    /// <summary>
+    /// The classical-validity warnings of a site: quantum and de Broglie checks at the RMS spread <paramref name="rms"/>, the
+    /// escape warning measured against the lowest way out of the site's basin, and (when known) the wall warning.
+    /// </summary>
+    internal static IEnumerable<Warning> ValidityWarnings(Mass mass, Temperature temperature, SiteHarmonicEstimate harmonic, SiteBasin basin, double rms,
+        double? nearWalls)
+    {
+        double wayOut = basin.LowestWayOutInElectronVolts;
+        var validity = ClassicalValidity.Assess(mass, temperature, rms, harmonic.Modes.Max(m => m.QuantumToThermalRatio),
+            double.IsPositiveInfinity(wayOut) || wayOut > 0 ? wayOut : double.Epsilon, nearWalls);
+        return validity.Warnings.Select(w => w.Code == WarningCodes.EscapeRisk ? SiteBasins.EscapeWarning(basin, temperature) : w);
+    }
+
+    /// <summary>What a run would warn about before it samples: the harmonic analysis (which refuses a saddle), the basin map and the validity checks at the harmonic spread.</summary>
+    internal static ImmutableArray<Warning> Check<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature)
+        where TPotential : struct, IPairPotential
+    {
+        var harmonic = SiteAnalysis.Harmonic(landscape, mass, temperature);
+        var basin = SiteBasins.AtTemperature(SiteBasins.Map(landscape, harmonic.Minimum), landscape, temperature);
+        return ValidityWarnings(mass, temperature, harmonic, basin, Math.Sqrt(harmonic.ClassicalMeanSquareDisplacement / 3), null).ToImmutableArray();
+    }
+
     /// <summary>The report of one temperature from its run record.</summary>
     internal static SiteVibrationReport Summarise<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
         SiteHarmonicEstimate harmonic, SiteRunRecord run)
@@ -64,10 +87,7 @@ internal static class SiteSummary
         {
             warnings.Add(SiteBasins.LeftSiteWarning(basin, outside));
         }
-        double wayOut = basin.LowestWayOutInElectronVolts;
-        var validity = ClassicalValidity.Assess(mass, temperature, Math.Sqrt(Math.Max(msd, 1e-300) / 3), harmonic.Modes.Max(m => m.QuantumToThermalRatio),
-            double.IsPositiveInfinity(wayOut) || wayOut > 0 ? wayOut : double.Epsilon, nearWalls);
-        warnings.AddRange(validity.Warnings.Select(w => w.Code == WarningCodes.EscapeRisk ? SiteBasins.EscapeWarning(basin, temperature) : w));
+        warnings.AddRange(ValidityWarnings(mass, temperature, harmonic, basin, Math.Sqrt(Math.Max(msd, 1e-300) / 3), nearWalls));
         if (staysAtSite && ReportParts.FirstOrderCheck("mean shift (length of the vector)", harmonic.FirstOrderMeanShift.Norm, (mean - min).Norm, seMean.Norm) is { } firstOrderWarning)
         {
             warnings.Add(firstOrderWarning);
