@@ -297,7 +297,7 @@ public static class Program
         }
         if (o.Output is null)
         {
-            Renderers.Write(results, o.Format, stdout);
+            Renderers.Write(results, o.Format, stdout, Renderers.OutputWidth());
             stdout.Flush();
         }
         else

@@ -27,6 +27,7 @@ internal static class ReportJsonWriter
         w.WriteString("temperature", "K");
         w.WriteEndObject();
         w.WriteString("libraryVersion", Provenance.CurrentLibraryVersion);
+        WriteInputs(w, s);
         w.WriteStartArray("results");
         foreach (var r in results.Pairs)
         {
@@ -38,6 +39,42 @@ internal static class ReportJsonWriter
             WriteSite(w, r, l, e);
         }
         w.WriteEndArray();
+        w.WriteEndObject();
+    }
+
+    /// <summary>
+    /// The inputs: the scenario document as given (<c>input</c>, in its own units) and what the run resolved from it
+    /// (<c>resolved</c>: the temperatures actually run, after a sweep's range, and every sampling setting with its default
+    /// filled in), so that the document alone is enough to reproduce every number in it with the same library version.
+    /// </summary>
+    private static void WriteInputs(Utf8JsonWriter w, Scenario s)
+    {
+        w.WritePropertyName("input");
+        using (var input = JsonDocument.Parse(s.SourceJson))
+        {
+            input.RootElement.WriteTo(w);
+        }
+        var o = s.Sampling;
+        w.WriteStartObject("resolved");
+        w.WriteNumber("mass", s.MassInAtomicMassUnits);
+        w.WriteStartArray("temperatures");
+        foreach (double t in s.TemperaturesInKelvin)
+        {
+            w.WriteNumberValue(t);
+        }
+        w.WriteEndArray();
+        w.WriteStartObject("sampling");
+        w.WriteString("method", o.Method == Sampling.SamplingMethod.Metropolis ? "metropolis" : "direct");
+        w.WriteNumber("seed", o.Seed);
+        w.WriteNumber("chains", o.Chains);
+        w.WriteNumber("samplesPerChain", o.SamplesPerChain);
+        w.WriteNumber("burnIn", o.BurnIn);
+        Number(w, "targetAcceptance", o.TargetAcceptance);
+        Number(w, "initialStepWidth", o.InitialStepWidthInAngstroms / s.AngstromsPerLengthUnit);
+        w.WriteNumber("histogramBins", o.HistogramBins);
+        w.WriteNumber("maxDiagnosticValuesPerChain", o.MaxDiagnosticValuesPerChain);
+        w.WriteNumber("retainedDrawsPerChain", o.RetainedDrawsPerChain);
+        w.WriteEndObject();
         w.WriteEndObject();
     }
 

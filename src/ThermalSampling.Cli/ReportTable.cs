@@ -6,8 +6,12 @@ using ThermalSampling.Reports;
 
 namespace ThermalSampling.Cli;
 
-/// <summary>One column of the human-readable report: a header with its unit and, optionally, a standard error.</summary>
-internal sealed record ReportColumn(string Name, string Unit, bool HasError);
+/// <summary>
+/// One column of the human-readable report: a header with its unit and, optionally, a standard error. A value with an error
+/// is rounded to what its error supports; a value without one is written with <paramref name="Format"/> (for example "F0" for
+/// counts, "F2" for z-scores, "G4" for reference values), and a value that is 0 to within 1e-12 of the column's scale as 0.
+/// </summary>
+internal sealed record ReportColumn(string Name, string Unit, bool HasError, string Format = "G4");
 
 /// <summary>One cell: a value with an optional standard error (NaN when absent).</summary>
 internal readonly record struct ReportCell(double Value, double Error = double.NaN);
@@ -16,6 +20,9 @@ internal readonly record struct ReportCell(double Value, double Error = double.N
 internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Columns, IReadOnlyList<ReportCell[]> Rows,
     IReadOnlyList<(double Temperature, string Code, string Message)> Warnings)
 {
+    /// <summary>The run's inputs in one line: mass, potential, landscape, sampling and seed (every document states them).</summary>
+    internal string Inputs { get; init; } = "";
+
     internal static ReportTable From(ScenarioResults results)
     {
         var s = results.Scenario;
@@ -26,9 +33,9 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
         {
             var columns = new List<ReportColumn>
             {
-                new("T", "K", false), new("mean", u, true), new("shift", u, true), new("shift 1st order", u, false),
-                new("RMS", u, true), new("RMS harmonic", u, false), new("RMS quantum", u, false), new("skewness", "", false),
-                new("exact mean", u, false), new("z(mean)", "", false), new("P(≤1 RMS of a wall)", "", false), new("ESS", "", false), new("R-hat", "", false),
+                new("T", "K", false, "0.###"), new("mean", u, true), new("shift", u, true), new("shift 1st order", u, false),
+                new("RMS about mean", u, true), new("RMS harmonic", u, false), new("RMS quantum harm.", u, false), new("skewness", "", false, "F2"),
+                new("exact mean", u, false, "G6"), new("z(mean)", "", false, "F2"), new("P(near wall)", "", false, "G2"), new("ESS", "", false, "F0"), new("R-hat", "", false, "F3"),
             };
             var rows = results.Pairs.Select(r =>
             {
@@ -50,13 +57,13 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
                     new ReportCell(r.Diagnostics.RHat ?? double.NaN),
                 };
             }).ToList();
-            return new ReportTable(s.Title, columns, rows, warnings);
+            return new ReportTable(s.Title, columns, rows, warnings) { Inputs = InputsOf(results) };
         }
         var siteColumns = new List<ReportColumn>
         {
-            new("T", "K", false), new("MSD", u2, true), new("MSD harmonic", u2, false), new("MSD quantum harm.", u2, false), new("B", u2, true),
+            new("T", "K", false, "0.###"), new("MSD", u2, true), new("MSD harmonic", u2, false), new("MSD quantum harm.", u2, false), new("B", u2, true),
             new("U_xx", u2, false), new("U_yy", u2, false), new("U_zz", u2, false), new("shift z", u, true), new("shift z 1st order", u, false),
-            new("acceptance", "", false), new("ESS", "", false), new("R-hat", "", false),
+            new("acceptance", "", false, "F2"), new("ESS", "", false, "F0"), new("R-hat", "", false, "F3"),
         };
         var siteRows = results.Sites.Select(r =>
         {
@@ -76,14 +83,47 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
                 new ReportCell(r.Diagnostics.RHat ?? double.NaN),
             };
         }).ToList();
-        return new ReportTable(s.Title, siteColumns, siteRows, warnings);
+        return new ReportTable(s.Title, siteColumns, siteRows, warnings) { Inputs = InputsOf(results) };
+    }
+
+    /// <summary>The inputs line: mass, the landscape's own description (potential parameters included), sampling and seed.</summary>
+    private static string InputsOf(ScenarioResults results)
+    {
+        var s = results.Scenario;
+        var o = s.Sampling;
+        string landscape = results.Pairs.Count > 0 ? results.Pairs[0].Provenance.Landscape : results.Sites.Count > 0 ? results.Sites[0].Provenance.Landscape : s.Landscape.Kind;
+        return string.Create(CultureInfo.InvariantCulture,
+            $"mass {s.MassInAtomicMassUnits:G6} u; {landscape}; {(o.Method == Sampling.SamplingMethod.Metropolis ? "Metropolis" : "direct sampling")}, {o.Chains} chains × {o.SamplesPerChain} draws{(o.Method == Sampling.SamplingMethod.Metropolis ? $" after {o.BurnIn} burn-in steps" : "")}, seed {o.Seed}; library {Provenance.CurrentLibraryVersion}. Lengths in Å in this line; RMS is the spread about the mean.");
     }
 
     internal static string Header(ReportColumn c) => c.Unit.Length > 0 ? $"{c.Name} ({c.Unit})" : c.Name;
 
-    /// <summary>"value ± error" with the error to two significant digits and the value to the same decimal place.</summary>
-    internal static string Format(ReportCell cell)
+    /// <summary>
+    /// "value ± error" with the error to two significant digits and the value to the same decimal place; a value without an
+    /// error in the column's format, with no exponent where a plain number of at most 12 characters fits; "–" when absent.
+    /// </summary>
+    internal static string Format(ReportCell cell, ReportColumn column)
     {
-        return new Estimate(cell.Value, double.IsFinite(cell.Error) ? cell.Error : 0).ToRoundedString();
+        if (double.IsFinite(cell.Error) && cell.Error > 0 || !double.IsFinite(cell.Value))
+        {
+            return new Estimate(cell.Value, double.IsFinite(cell.Error) ? cell.Error : 0).ToRoundedString();
+        }
+        double v = cell.Value;
+        if (column.Format.StartsWith('G'))
+        {
+            int digits = int.Parse(column.Format.AsSpan(1), CultureInfo.InvariantCulture);
+            if (Math.Abs(v) < 1e-12 * Math.Max(1, Math.Abs(v)) || Math.Abs(v) < 1e-15)
+            {
+                return "0";
+            }
+            // Significant digits without an exponent: as many decimals as the digits need, when that stays short.
+            int decimals = Math.Max(0, digits - 1 - (int)Math.Floor(Math.Log10(Math.Abs(v))));
+            string plain = v.ToString("F" + decimals.ToString(CultureInfo.InvariantCulture), CultureInfo.InvariantCulture);
+            return plain.Length <= 12 ? plain : v.ToString(column.Format, CultureInfo.InvariantCulture);
+        }
+        return v.ToString(column.Format, CultureInfo.InvariantCulture);
     }
+
+    /// <summary>The same for <see cref="ReportCell"/>s of the first-order shift, which is 0 by symmetry in many sites: a value 1e-12 of the spread or less prints 0.</summary>
+    internal static string Format(ReportCell cell) => Format(cell, new ReportColumn("", "", false));
 }

@@ -40,6 +40,9 @@ internal sealed record Scenario(
     ImmutableArray<double> TemperaturesInKelvin,
     SamplingSettings Sampling)
 {
+    /// <summary>The scenario document exactly as given (echoed in every output document, so a result can be reproduced from its file alone).</summary>
+    internal string SourceJson { get; init; } = "{}";
+
     internal double AngstromsPerLengthUnit => ScenarioUnits.Length[LengthUnit];
 }
 
@@ -297,7 +300,10 @@ internal static class ScenarioReader
         {
             throw new ScenarioException(c.Problems);
         }
-        return new Scenario(title, energyUnit, lengthUnit, mass, potential!, landscape!, temperatures.ToImmutableArray(), sampling!);
+        return new Scenario(title, energyUnit, lengthUnit, mass, potential!, landscape!, temperatures.ToImmutableArray(), sampling!)
+        {
+            SourceJson = root.GetRawText(),
+        };
     }
 
     private static PotentialSpec? ReadPotential(Context c, JsonElement root, double e, double l)

@@ -73,8 +73,14 @@ public class CliTests
         Assert.True(code == 0, stderr);
         using var doc = JsonDocument.Parse(stdout);
         var root = doc.RootElement;
-        AssertKeys(root, "title", "units", "libraryVersion", "results");
+        AssertKeys(root, "title", "units", "libraryVersion", "input", "resolved", "results");
         Assert.Equal("invented test pair", root.GetProperty("title").GetString());
+        // The inputs travel with the results: the scenario as given and what the run resolved from it.
+        Assert.Equal("invented test pair", root.GetProperty("input").GetProperty("title").GetString());
+        AssertKeys(root.GetProperty("input"), "mass", "potential", "landscape", "temperatures", "sampling");
+        AssertKeys(root.GetProperty("resolved"), "mass", "temperatures");
+        AssertKeys(root.GetProperty("resolved").GetProperty("sampling"), "method", "seed", "chains", "samplesPerChain", "burnIn", "histogramBins");
+        Assert.Equal(root.GetProperty("input").GetProperty("sampling").GetProperty("seed").GetUInt64(), root.GetProperty("resolved").GetProperty("sampling").GetProperty("seed").GetUInt64());
         Assert.Equal(2, root.GetProperty("results").GetArrayLength());
         foreach (var r in root.GetProperty("results").EnumerateArray())
         {
@@ -376,6 +382,32 @@ public class CliCommandTests
         Assert.Contains("fcc(111)", stdout);
         Assert.Contains("MSD (Å²)", stdout);
         Assert.Contains("shift (Å)", stdout);
+        // Fits 120 columns (tables split, warnings word-wrapped), states its invented inputs, and groups the two quantum warnings.
+        var lines = stdout.Split('\n').Select(l => l.TrimEnd('\r')).ToList();
+        Assert.All(lines, l => Assert.True(l.Length <= 120, $"{l.Length} columns: {l}"));
+        Assert.Contains(lines, l => l.StartsWith("Inputs: mass ", StringComparison.Ordinal) && l.Contains("ε = ", StringComparison.Ordinal));
+        Assert.Contains(lines, l => l.StartsWith("warning [quantum-effects, de-broglie-wavelength] at 10 K:", StringComparison.Ordinal));
+        Assert.DoesNotContain("E-2", stdout); // no exponent where a plain number fits (first-order shifts zero by symmetry print 0)
+    }
+
+    [Theory]
+    [InlineData("0.###", 10.0, double.NaN, "10")]
+    [InlineData("F0", 9783.5, double.NaN, "9784")]
+    [InlineData("F2", -0.045004, double.NaN, "-0.05")]
+    [InlineData("G4", 2.25e-22, double.NaN, "0")]
+    [InlineData("G4", 2.3328e-5, double.NaN, "0.00002333")]
+    [InlineData("G4", 3.5, 0.0123, "3.500 ± 0.012")]
+    public void Table_cells_are_rounded_as_a_scientist_writes_them(string format, double value, double error, string expected)
+        => Assert.Equal(expected, ReportTable.Format(new ReportCell(value, error), new ReportColumn("x", "", !double.IsNaN(error), format)));
+
+    [Fact]
+    public void Wrapped_warnings_never_pass_the_width_and_never_split_a_word_that_fits()
+    {
+        string text = string.Join(" ", Enumerable.Range(0, 60).Select(i => "word" + i));
+        var lines = Renderers.Wrap(text, 40, "    ").ToList();
+        Assert.All(lines, l => Assert.True(l.Length <= 40, l));
+        Assert.Equal(text, string.Join(" ", lines.Select(l => l.Trim())));
+        Assert.All(lines.Skip(1), l => Assert.StartsWith("    ", l));
     }
 
     [Fact]
