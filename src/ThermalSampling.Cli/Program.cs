@@ -21,37 +21,8 @@ public static class Program
     /// <summary>Exit code for invalid input (scenario or command line).</summary>
     public const int InvalidInput = 2;
 
-    private const string Usage = """
-        Usage:
-          thermal-sampling demo     [--format F] [--figures DIR] [--threads N] [--quiet]
-          thermal-sampling run      SCENARIO.json [--format F] [--output FILE] [--samples FILE.csv] [--plot FILE.png|svg] [--seed N] [--threads N] [--quiet]
-                                    [--checkpoint FILE [--checkpoint-every 30s|1s|5m]]
-          thermal-sampling sweep    SCENARIO.json --from K --to K --steps N [same options as run]
-          thermal-sampling resume   CHECKPOINT [--format F] [--output FILE] [--samples FILE.csv] [--plot FILE] [--threads N] [--quiet] [--checkpoint-every T]
-          thermal-sampling validate SCENARIO.json
-          thermal-sampling --version | --help
-
-        demo      Runs two built-in, invented scenarios (an adatom at an fcc(111) hollow site and the same atom on a line).
-        run       Samples the scenario at every temperature and writes the vibration report.
-        sweep     Like run, with the temperatures replaced by --steps values evenly spaced from --from to --to (K).
-        resume    Finishes a run or sweep from its checkpoint and writes exactly the report the uninterrupted run would
-                  have written (same output options unless given again); keeps checkpointing to the same file.
-        validate  Checks a scenario file without running it; lists every problem with its JSON path.
-
-        --format   table (default for demo), json (default for run and sweep), markdown or csv
-        --output   write the report to FILE instead of standard output
-        --samples  also write the raw draws (up to 1 000 000 per chain) to FILE.csv
-        --plot     also draw figures: FILE-T<K>K.png per temperature (sites: -marginals and -projection), FILE-sweep.png
-        --figures  where demo writes its figures (default: ./thermal-sampling-demo-figures)
-        --seed     override sampling.seed from the file
-        --threads  worker threads (results do not depend on it)
-        --quiet    no progress output (progress goes to standard error: bars on a terminal, lines otherwise)
-        --checkpoint        write the run's state to FILE (atomically) as it goes, and when stopped with Ctrl+C
-        --checkpoint-every  how often: a number and a unit, ms, s, m or h (default 60s)
-        """;
-
-    private sealed record Options(string Command, string? File, string Format, string? Output, string? Samples, ulong? Seed, int? Threads, bool Quiet,
-        double? From, double? To, int? Steps, string? Plot = null, string? Figures = null, string? Checkpoint = null, TimeSpan? CheckpointEvery = null,
+    internal sealed record Options(string Command, string? File, string Format, string? Output, string? Samples, ulong? Seed, int? Threads, bool Quiet,
+        double? From, double? To, int? Count, string? Plot = null, string? Figures = null, string? Checkpoint = null, TimeSpan? CheckpointEvery = null,
         bool FormatGiven = false);
 
     /// <summary>How often a checkpoint is written when --checkpoint-every is not given.</summary>
@@ -87,21 +58,26 @@ public static class Program
         ArgumentNullException.ThrowIfNull(stdout);
         ArgumentNullException.ThrowIfNull(stderr);
         CultureInfo.CurrentCulture = CultureInfo.InvariantCulture;
-        if (args.Length == 0 || args[0] is "--help" or "-h" or "help")
+        using var output = new StreamWriter(stdout, new System.Text.UTF8Encoding(false), leaveOpen: true) { AutoFlush = true };
+        Options? parsed = null;
+        var root = CommandLine.Build(o => parsed = o);
+        var result = root.Parse(args);
+        if (result.Errors.Count > 0 && result.Action is not { ClearsParseErrors: true })
         {
-            stderr.WriteLine(Usage);
-            return args.Length == 0 ? InvalidInput : Success;
-        }
-        if (args[0] == "--version")
-        {
-            using var writer = new StreamWriter(stdout, leaveOpen: true);
-            writer.WriteLine(Reports.Provenance.CurrentLibraryVersion);
-            return Success;
-        }
-        if (!TryParse(args, stderr, out var o))
-        {
+            foreach (var error in result.Errors)
+            {
+                stderr.WriteLine("error: " + error.Message);
+            }
+            string command = result.CommandResult.Command.Name;
+            stderr.WriteLine(command == root.Name ? "Run 'thermal-sampling --help' for the commands." : $"Run 'thermal-sampling {command} --help' for its options.");
             return InvalidInput;
         }
+        int early = result.Invoke(new System.CommandLine.InvocationConfiguration { Output = output, Error = stderr });
+        if (parsed is null)
+        {
+            return early; // help, version, or no command (usage on standard error, exit 2)
+        }
+        var o = parsed;
         string file = o.File ?? "demo";
         try
         {
@@ -183,8 +159,8 @@ public static class Program
         {
             return scenario;
         }
-        var temperatures = Enumerable.Range(0, o.Steps!.Value)
-            .Select(i => o.Steps == 1 ? o.From!.Value : o.From!.Value + (o.To!.Value - o.From.Value) * i / (o.Steps.Value - 1))
+        var temperatures = Enumerable.Range(0, o.Count!.Value)
+            .Select(i => o.Count == 1 ? o.From!.Value : o.From!.Value + (o.To!.Value - o.From.Value) * i / (o.Count.Value - 1))
             .ToArray();
         return scenario with { TemperaturesInKelvin = System.Collections.Immutable.ImmutableArray.Create(temperatures) };
     }
@@ -316,197 +292,11 @@ public static class Program
         return results.Cancelled ? Failure : Success;
     }
 
-    private static bool TryParse(string[] args, TextWriter stderr, out Options options)
-    {
-        options = null!;
-        string command = args[0];
-        if (command is not ("run" or "sweep" or "validate" or "demo" or "resume"))
-        {
-            stderr.WriteLine($"error: unknown command '{command}'. Commands: demo, run, sweep, resume, validate.");
-            stderr.WriteLine(Usage);
-            return false;
-        }
-        string? file = null, output = null, samples = null, format = null, plot = null, figures = null, checkpoint = null;
-        TimeSpan? every = null;
-        ulong? seed = null;
-        int? threads = null, steps = null;
-        double? from = null, to = null;
-        bool quiet = false;
-        var errors = new List<string>();
-        for (int i = 1; i < args.Length; i++)
-        {
-            string a = args[i];
-            string? Next() => i + 1 < args.Length ? args[++i] : null;
-            switch (a)
-            {
-                case "--format":
-                    format = Next();
-                    if (format is null || !Renderers.Formats.Contains(format))
-                    {
-                        errors.Add($"--format '{format}' is not supported; choose one of: {string.Join(", ", Renderers.Formats)}.");
-                    }
-                    break;
-                case "--output":
-                    output = Next() ?? Missing(errors, a, "a file name");
-                    break;
-                case "--samples":
-                    samples = Next() ?? Missing(errors, a, "a CSV file name");
-                    break;
-                case "--plot":
-                    plot = Next();
-                    if (plot is null || !FigureWriter.HasFigureExtension(plot))
-                    {
-                        errors.Add($"--plot needs a file name ending in .png or .svg, not '{plot}'.");
-                    }
-                    break;
-                case "--figures":
-                    figures = Next() ?? Missing(errors, a, "a folder name");
-                    break;
-                case "--quiet":
-                    quiet = true;
-                    break;
-                case "--checkpoint":
-                    checkpoint = Next() ?? Missing(errors, a, "a file name");
-                    if (checkpoint is not null && !Directory.Exists(Path.GetDirectoryName(Path.GetFullPath(checkpoint))))
-                    {
-                        errors.Add($"--checkpoint '{checkpoint}': the folder '{Path.GetDirectoryName(Path.GetFullPath(checkpoint))}' does not exist.");
-                    }
-                    break;
-                case "--checkpoint-every":
-                    string? text = Next();
-                    every = RunRecord.ParseInterval(text);
-                    if (every is null)
-                    {
-                        errors.Add($"--checkpoint-every '{text}' is not a duration; give a number and a unit, such as 500ms, 30s, 5m or 2h (at most 24h).");
-                    }
-                    break;
-                case "--seed":
-                    if (ulong.TryParse(Next(), NumberStyles.None, CultureInfo.InvariantCulture, out ulong s))
-                    {
-                        seed = s;
-                    }
-                    else
-                    {
-                        errors.Add("--seed needs a whole number from 0 to 18446744073709551615.");
-                    }
-                    break;
-                case "--threads":
-                    if (int.TryParse(Next(), NumberStyles.None, CultureInfo.InvariantCulture, out int t) && t is >= 1 and <= 1024)
-                    {
-                        threads = t;
-                    }
-                    else
-                    {
-                        errors.Add("--threads needs a whole number from 1 to 1024.");
-                    }
-                    break;
-                case "--steps":
-                    if (int.TryParse(Next(), NumberStyles.None, CultureInfo.InvariantCulture, out int n) && n is >= 1 and <= ScenarioReader.MaximumTemperatures)
-                    {
-                        steps = n;
-                    }
-                    else
-                    {
-                        errors.Add($"--steps needs a whole number from 1 to {ScenarioReader.MaximumTemperatures}.");
-                    }
-                    break;
-                case "--from":
-                case "--to":
-                    if (double.TryParse(Next(), NumberStyles.Float, CultureInfo.InvariantCulture, out double k) && double.IsFinite(k) && k > 0 && k <= 1e7)
-                    {
-                        if (a == "--from")
-                        {
-                            from = k;
-                        }
-                        else
-                        {
-                            to = k;
-                        }
-                    }
-                    else
-                    {
-                        errors.Add($"{a} needs a temperature in K, greater than 0 and at most 1e7.");
-                    }
-                    break;
-                default:
-                    if (a.StartsWith('-') || file is not null || command == "demo")
-                    {
-                        errors.Add($"unexpected argument '{a}'.");
-                    }
-                    else
-                    {
-                        file = a;
-                    }
-                    break;
-            }
-        }
-        if (command == "resume" && file is null)
-        {
-            errors.Add("resume needs a checkpoint file: thermal-sampling resume CHECKPOINT");
-        }
-        else if (command != "demo" && file is null)
-        {
-            errors.Add($"{command} needs a scenario file: thermal-sampling {command} SCENARIO.json");
-        }
-        if (checkpoint is not null && command is not ("run" or "sweep"))
-        {
-            errors.Add(command == "resume" ? "resume keeps writing to the checkpoint it reads; --checkpoint belongs to run and sweep." : "--checkpoint belongs to run and sweep.");
-        }
-        if (every is not null && checkpoint is null && command != "resume")
-        {
-            errors.Add("--checkpoint-every needs --checkpoint FILE.");
-        }
-        if (command == "resume" && seed is not null)
-        {
-            errors.Add("--seed cannot change on resume: the checkpoint continues the original seed's chains.");
-        }
-        if (figures is not null && command != "demo")
-        {
-            errors.Add("--figures belongs to demo; use --plot with run and sweep.");
-        }
-        if (plot is not null && command == "demo")
-        {
-            errors.Add("demo always draws its figures; choose the folder with --figures.");
-        }
-        if (command == "sweep")
-        {
-            if (from is null || to is null || steps is null)
-            {
-                errors.Add("sweep needs --from K --to K --steps N.");
-            }
-            else if (steps > 1 && !(from < to))
-            {
-                errors.Add("sweep needs --from below --to.");
-            }
-        }
-        else if (from is not null || to is not null || steps is not null)
-        {
-            errors.Add("--from, --to and --steps belong to sweep.");
-        }
-        foreach (string e in errors)
-        {
-            stderr.WriteLine("error: " + e);
-        }
-        if (errors.Count > 0)
-        {
-            return false;
-        }
-        options = new Options(command, file, format ?? (command == "demo" ? "table" : "json"), output, samples, seed, threads, quiet, from, to, steps, plot, figures,
-            checkpoint is null ? null : Path.GetFullPath(checkpoint), every, format is not null);
-        return true;
-    }
-
-    private static string? Missing(List<string> errors, string option, string what)
-    {
-        errors.Add($"{option} needs {what}.");
-        return null;
-    }
-
     /// <summary>
     /// What a checkpoint of a CLI run carries so that <c>resume CHECKPOINT</c> needs nothing else: the scenario file's
     /// bytes and the command line's options, as JSON in the checkpoint's application data.
     /// </summary>
-    private static class RunRecord
+    internal static class RunRecord
     {
         private const string Tool = "thermal-sampling";
 
@@ -536,7 +326,7 @@ public static class Program
                 }
                 Number("from", o.From);
                 Number("to", o.To);
-                Number("steps", o.Steps);
+                Number("count", o.Count);
                 Text("seed", o.Seed?.ToString(CultureInfo.InvariantCulture));
                 Number("threads", o.Threads);
                 w.WriteString("format", o.Format);
@@ -571,7 +361,7 @@ public static class Program
                 scenario = e.GetProperty("scenario").GetBytesFromBase64();
                 options = new Options(e.GetProperty("command").GetString()!, Text("scenarioFile"), e.GetProperty("format").GetString()!, Text("output"), Text("samples"),
                     Text("seed") is string seed ? ulong.Parse(seed, CultureInfo.InvariantCulture) : null, (int?)Number("threads"), e.GetProperty("quiet").GetBoolean(),
-                    Number("from"), Number("to"), (int?)Number("steps"), Text("plot"), null, null,
+                    Number("from"), Number("to"), (int?)Number("count"), Text("plot"), null, null,
                     Number("checkpointEverySeconds") is double every ? TimeSpan.FromSeconds(every) : null);
                 return options.Command is "run" or "sweep" && Renderers.Formats.Contains(options.Format);
             }

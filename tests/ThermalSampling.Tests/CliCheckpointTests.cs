@@ -196,9 +196,9 @@ public sealed class CliCheckpointTests : IDisposable
     public void A_sweep_checkpoint_resumes_the_sweep()
     {
         File.WriteAllText(PathOf("short.json"), ShortScenario);
-        var plain = Run("sweep", PathOf("short.json"), "--from", "50", "--to", "250", "--steps", "3", "--quiet", "--format", "csv");
+        var plain = Run("sweep", PathOf("short.json"), "--from", "50", "--to", "250", "--count", "3", "--quiet", "--format", "csv");
         string checkpoint = PathOf("sweep.checkpoint");
-        var first = Run("sweep", PathOf("short.json"), "--from", "50", "--to", "250", "--steps", "3", "--quiet", "--format", "csv", "--checkpoint", checkpoint);
+        var first = Run("sweep", PathOf("short.json"), "--from", "50", "--to", "250", "--count", "3", "--quiet", "--format", "csv", "--checkpoint", checkpoint);
         Assert.Equal(plain.Stdout, first.Stdout);
         Assert.Equal(plain.Stdout, Run("resume", checkpoint, "--quiet").Stdout);
     }

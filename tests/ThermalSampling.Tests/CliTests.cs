@@ -327,14 +327,15 @@ public class CliCommandTests
     public void Sweep_replaces_the_temperatures_with_an_even_range()
     {
         string file = WriteScenario(Scenario);
-        var (code, stdout, stderr) = Run("sweep", file, "--from", "50", "--to", "250", "--steps", "5", "--quiet");
+        var (code, stdout, stderr) = Run("sweep", file, "--from", "50", "--to", "250", "--count", "5", "--quiet");
         Assert.True(code == 0, stderr);
         using var doc = JsonDocument.Parse(stdout);
         var temperatures = doc.RootElement.GetProperty("results").EnumerateArray().Select(r => r.GetProperty("temperature").GetDouble()).ToArray();
         Assert.Equal(new[] { 50.0, 100, 150, 200, 250 }, temperatures);
         Assert.Equal(2, Run("sweep", file, "--from", "50").Code);
-        Assert.Equal(2, Run("sweep", file, "--from", "300", "--to", "100", "--steps", "3").Code);
-        Assert.Equal(2, Run("run", file, "--steps", "3").Code);
+        Assert.Equal(2, Run("sweep", file, "--from", "300", "--to", "100", "--count", "3").Code);
+        Assert.Equal(2, Run("run", file, "--count", "3").Code);
+        Assert.Contains("--steps is now --count", Run("sweep", file, "--from", "50", "--to", "250", "--steps", "5").Stderr);
     }
 
     [Fact]
@@ -474,5 +475,40 @@ public class CliCommandTests
         Assert.Equal(2, runCode);
         Assert.Contains("not a stable minimum", validateErr);
         Assert.Equal(runErr.Split('\n')[1], validateErr.Split('\n')[1]);
+    }
+
+    [Theory]
+    [InlineData("run")]
+    [InlineData("sweep")]
+    [InlineData("resume")]
+    [InlineData("validate")]
+    [InlineData("demo")]
+    public void Every_command_prints_its_help_on_standard_output_and_docs_cli_names_every_option(string command)
+    {
+        var (code, stdout, _) = Run(command, "--help");
+        Assert.Equal(0, code);
+        Assert.Contains($"thermal-sampling {command}", stdout);
+        string root = AppContext.BaseDirectory;
+        while (!File.Exists(Path.Combine(root, "ThermalSampling.sln")))
+        {
+            root = Path.GetDirectoryName(root)!;
+        }
+        var doc = File.ReadAllText(Path.Combine(root, "docs", "cli.md"));
+        int start = doc.IndexOf($"thermal-sampling {command,-8} ", StringComparison.Ordinal);
+        Assert.True(start >= 0, $"docs/cli.md has no synopsis line for {command}");
+        int end = doc.IndexOf("\nthermal-sampling ", start + 1, StringComparison.Ordinal);
+        string synopsis = doc[start..end];
+        var options = System.Text.RegularExpressions.Regex.Matches(stdout, @"^\s+(--[a-z-]+)", System.Text.RegularExpressions.RegexOptions.Multiline)
+            .Select(m => m.Groups[1].Value).Where(o => o != "--help").ToList();
+        Assert.All(options, o => Assert.Matches(System.Text.RegularExpressions.Regex.Escape(o) + "(?![a-z-])", synopsis));
+    }
+
+    [Fact]
+    public void The_tool_without_a_command_says_what_to_give_and_exits_2_and_help_exits_0()
+    {
+        Assert.Equal(2, Run().Code);
+        var (code, stdout, _) = Run("--help");
+        Assert.Equal(0, code);
+        Assert.Contains("validate", stdout);
     }
 }
