@@ -147,6 +147,22 @@ internal static class ScenarioReader
             return v;
         }
 
+        /// <summary>A required seed: a whole number from 0 to 2^64 − 1, the range of <see cref="SamplingSettings.Seed"/> and of --seed.</summary>
+        internal ulong? Seed(JsonElement parent, string key, string path)
+        {
+            if (!parent.TryGetProperty(key, out var e))
+            {
+                Add($"{path}.{key}", "is required.");
+                return null;
+            }
+            if (e.ValueKind != JsonValueKind.Number || !e.TryGetUInt64(out ulong v))
+            {
+                Add($"{path}.{key}", $"must be a whole number from 0 to {ulong.MaxValue}, not {Describe(e)}.");
+                return null;
+            }
+            return v;
+        }
+
         internal long? Integer(JsonElement parent, string key, string path, bool required, long min, long max)
         {
             if (!parent.TryGetProperty(key, out var e))
@@ -529,10 +545,10 @@ internal static class ScenarioReader
         long chains = c.Integer(p, "chains", path, false, 1, 1024) ?? 4;
         long samples = c.Integer(p, "samplesPerChain", path, false, 10, 1_000_000_000_000) ?? 100_000;
         long burnIn = c.Integer(p, "burnIn", path, false, 0, 1_000_000_000_000) ?? 10_000;
-        long seed = c.Integer(p, "seed", path, true, 0, long.MaxValue) ?? 0;
+        ulong seed = c.Seed(p, "seed", path) ?? 0;
         return new SamplingSettings
         {
-            Seed = (ulong)seed,
+            Seed = seed,
             Method = method == "direct" ? SamplingMethod.Direct : SamplingMethod.Metropolis,
             Chains = (int)chains,
             SamplesPerChain = samples,

@@ -18,7 +18,7 @@ namespace ThermalSampling.Tests;
 /// </summary>
 public class HostileInputTests
 {
-    private const string Base = """
+    internal const string Base = """
         {
           "mass": 39.9,
           "potential": { "form": "lennard-jones", "wellDepth": 0.0120, "equilibriumDistance": 3.50 },
@@ -28,7 +28,7 @@ public class HostileInputTests
         }
         """;
 
-    private const string Sites = """
+    internal const string Sites = """
         {
           "mass": 39.9,
           "potential": { "form": "lennard-jones", "wellDepth": 0.0120, "equilibriumDistance": 3.50 },
