@@ -134,6 +134,7 @@ internal static class ReportJsonWriter
         {
             w.WriteStartObject("harmonic");
             Number(w, "variance", h.ClassicalVarianceInAngstromsSquared / l2);
+            Number(w, "quantumVariance", h.QuantumVarianceInAngstromsSquared / l2);
             w.WriteEndObject();
         }
         if (r.FirstOrder is { } f)

@@ -29,7 +29,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
         double l = s.AngstromsPerLengthUnit;
         string u = s.LengthUnit == "angstrom" ? "Å" : s.LengthUnit, u2 = u + "²";
         var warnings = new List<(double, string, string)>();
-        if (results.Pairs.Count > 0)
+        if (s.Landscape.Kind is "line" or "radial") // by the scenario, so a run cancelled before any result still has its own columns
         {
             var columns = new List<ReportColumn>
             {

@@ -59,6 +59,12 @@ internal static class ScenarioReader
     internal const int MaximumBytes = 16 * 1024 * 1024;
     internal const int MaximumTemperatures = 10_000;
 
+    /// <summary>The lightest mass a scenario may give, u.</summary>
+    internal const double MinimumMass = 0.5;
+
+    /// <summary>The heaviest mass a scenario may give, u.</summary>
+    internal const double MaximumMass = 1000;
+
     private sealed class Context
     {
         internal List<string> Problems { get; } = new();
@@ -242,6 +248,10 @@ internal static class ScenarioReader
         {
             throw new ScenarioException(new[] { string.Create(CultureInfo.InvariantCulture, $"$: the file is {utf8.Length} bytes; scenario files are limited to {MaximumBytes} bytes.") });
         }
+        if (utf8.Trim(" \t\r\n"u8).IsEmpty)
+        {
+            throw new ScenarioException(new[] { "$: the file is empty; a scenario is a JSON object with mass, potential, landscape, temperatures and sampling (see docs/cli.md and docs/examples/scenarios/)." });
+        }
         if (!System.Text.Unicode.Utf8.IsValid(utf8))
         {
             int index = 0, line = 1, column = 1;
@@ -302,7 +312,14 @@ internal static class ScenarioReader
             lengthUnit = c.String(units, "length", "$.units", false, ScenarioUnits.Length.Keys.ToArray()) ?? lengthUnit;
         }
         double e = ScenarioUnits.Energy[energyUnit], l = ScenarioUnits.Length[lengthUnit];
+        // Atoms weigh from about 1 u (hydrogen) to about 300 u; 0.5 to 1000 u leaves room for reduced masses and clusters.
+        // A number far outside is almost certainly a mass in kg or g typed where u is expected.
         double mass = c.Number(root, "mass", "$", true, 0, 1e6, exclusiveMin: true) ?? 1;
+        if (mass is > 0 and (< MinimumMass or > MaximumMass))
+        {
+            c.Add("$.mass", string.Create(CultureInfo.InvariantCulture,
+                $"{mass:G4} is outside {MinimumMass}–{MaximumMass} u: the mass is in atomic mass units (u), not kg or g (an atom of 40 u weighs 6.6e-26 kg)."));
+        }
         var potential = ReadPotential(c, root, e, l);
         var landscape = ReadLandscape(c, root, l);
         var temperatures = c.Numbers(root, "temperatures", "$", true, 1, MaximumTemperatures, 0, 1e7, exclusiveMin: true) ?? Array.Empty<double>();

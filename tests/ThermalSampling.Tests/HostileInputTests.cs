@@ -61,6 +61,8 @@ public class HostileInputTests
         { "line", "\"mass\": 39.9", "\"mass\": 0", "$.mass" },
         { "line", "\"mass\": 39.9", "\"mass\": -39.9", "$.mass" },
         { "line", "\"mass\": 39.9", "\"mass\": 1e300", "$.mass" },
+        { "line", "\"mass\": 39.9", "\"mass\": 6.6e-26", "not kg" },
+        { "line", "\"mass\": 39.9", "\"mass\": 40000", "in atomic mass units" },
         { "line", "\"mass\": 39.9", "\"mass\": 1e999", "$.mass" },
         { "line", "\"mass\": 39.9", "\"mass\": NaN", "line 2" },
         { "line", "\"mass\": 39.9", "\"mass\": Infinity", "line 2" },

@@ -28,6 +28,7 @@ public class SchemaTests
     [
         "$.landscape.window", // lower below upper; the minimum inside it
         "not both", "on top of each other", "coincides with the centre", "$.potential.r[2]", "$.potential.energy", "$.potential",
+        "not kg", "in atomic mass units", // the schema refuses these too (0.5 to 1000 u); listed for the reader's own wording
         "$.temperatures", // each temperature once (uniqueItems is stated, but 40 and 40.0 are the same number only to the reader)
     ];
 
@@ -126,7 +127,8 @@ public class SchemaTests
         { "\"samplesPerChain\": 1000", "\"samplesPerChain\": 10" },
         { "\"burnIn\": 100", "\"burnIn\": 0" },
         { "\"temperatures\": [10, 40]", "\"temperatures\": [10000000]" },
-        { "\"mass\": 39.9", "\"mass\": 1" },
+        { "\"mass\": 39.9", "\"mass\": 0.5" },
+        { "\"mass\": 39.9", "\"mass\": 1000" },
         { "\"seed\": 7 }", "\"seed\": 7, \"method\": \"direct\" }" },
         { "\"mass\": 39.9,", "\"title\": \"edge\", \"units\": { \"energy\": \"meV\", \"length\": \"nm\" }, \"mass\": 39.9," },
     };
@@ -145,6 +147,8 @@ public class SchemaTests
     {
         { "\"seed\": 7", "\"seed\": 18446744073709551616" },
         { "\"chains\": 2", "\"chains\": 0" },
+        { "\"mass\": 39.9", "\"mass\": 0.49" },
+        { "\"mass\": 39.9", "\"mass\": 1000.5" },
         { "\"chains\": 2", "\"chains\": 1025" },
         { "\"samplesPerChain\": 1000", "\"samplesPerChain\": 9" },
         { "\"temperatures\": [10, 40]", "\"temperatures\": [10000001]" },

@@ -207,7 +207,7 @@ public class SiteSamplerEdgeTests
         double near = draws.Count(p => sphere.DistanceToWall(p.X, p.Y, p.Z) < band) / (double)draws.Length;
         Assert.InRange(near, 0.1, 0.9);
         var wall = Assert.Single(report.Warnings, w => w.Code == WarningCodes.WallMass);
-        Assert.StartsWith(near.ToString("P1", CultureInfo.InvariantCulture) + " of the probability lies within one RMS spread", wall.Message);
+        Assert.StartsWith(near.ToString("P1", CultureInfo.InvariantCulture) + " of the draws lie within one harmonic RMS spread (" + band.ToString("G3", CultureInfo.InvariantCulture) + " Å) of the confinement", wall.Message);
 
         double lowest = double.PositiveInfinity;
         for (int i = 0; i <= 180; i++)

@@ -1,6 +1,7 @@
 using System;
 using System.Collections.Generic;
 using System.Collections.Immutable;
+using System.Globalization;
 using System.Linq;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
@@ -25,7 +26,15 @@ internal static class SiteSummary
         double wayOut = basin.LowestWayOutInElectronVolts;
         var validity = ClassicalValidity.Assess(mass, temperature, rms, harmonic.Modes.Max(m => m.QuantumToThermalRatio),
             double.IsPositiveInfinity(wayOut) || wayOut > 0 ? wayOut : double.Epsilon, nearWalls);
-        return validity.Warnings.Select(w => w.Code == WarningCodes.EscapeRisk ? SiteBasins.EscapeWarning(basin, temperature) : w);
+        double band = Math.Sqrt(harmonic.ClassicalMeanSquareDisplacement / 3);
+        return validity.Warnings.Select(w => w.Code switch
+        {
+            WarningCodes.EscapeRisk => SiteBasins.EscapeWarning(basin, temperature),
+            // Name the site's own measure: the share of draws within one harmonic RMS spread of the confinement.
+            WarningCodes.WallMass => new Warning(WarningCodes.WallMass, string.Create(CultureInfo.InvariantCulture,
+                $"{nearWalls:P1} of the draws lie within one harmonic RMS spread ({band:G3} Å) of the confinement: the confinement, not only the potential, holds the particle, so the mean and spread depend on its size. Make it larger, or state it with the result.")),
+            _ => w,
+        });
     }
 
     /// <summary>What a run would warn about before it samples: the harmonic analysis (which refuses a saddle), the basin map and the validity checks at the harmonic spread.</summary>
