@@ -238,8 +238,34 @@ public static class Program
         return ScenarioReader.Read(File.ReadAllBytes(file));
     }
 
+    /// <summary>
+    /// A rough time for the planned run: chain-steps × a per-step cost (10 ns for a pair, 40 ns for a site, from
+    /// docs/performance.md rounded up) over the threads that can share the work; only a guide, printed before a long run.
+    /// </summary>
+    internal static double EstimatedSeconds(Scenario scenario)
+    {
+        var o = scenario.Sampling;
+        double steps = (double)o.Chains * ((o.Method == SamplingMethod.Metropolis ? o.BurnIn : 0) + o.SamplesPerChain) * scenario.TemperaturesInKelvin.Length;
+        double perStep = scenario.Landscape.Kind == "sites" ? 40e-9 : 10e-9;
+        int threads = Math.Max(1, Math.Min(o.MaxThreads ?? Environment.ProcessorCount, o.Chains));
+        return steps * perStep / threads;
+    }
+
+    /// <summary>A duration as people say it: "40 s", "12 min", "3.5 h".</summary>
+    internal static string Duration(double seconds) => seconds switch
+    {
+        < 90 => string.Create(CultureInfo.InvariantCulture, $"{seconds:F0} s"),
+        < 5400 => string.Create(CultureInfo.InvariantCulture, $"{seconds / 60:F0} min"),
+        _ => string.Create(CultureInfo.InvariantCulture, $"{seconds / 3600:F1} h"),
+    };
+
     private static int Execute(Scenario scenario, Options o, Stream stdout, TextWriter stderr, bool interactive, CancellationToken ct, CheckpointPlan? plan = null)
     {
+        double estimate = EstimatedSeconds(scenario);
+        if (!o.Quiet && estimate >= 60)
+        {
+            stderr.WriteLine($"planned: {scenario.Sampling.Chains} chains × {scenario.TemperaturesInKelvin.Length} temperature(s); estimated time about {Duration(estimate)} on this machine (a rough guide; progress below refines it){(plan is null ? "; consider --checkpoint FILE" : "")}.");
+        }
         ScenarioResults results;
         if (o.Quiet)
         {
@@ -252,7 +278,7 @@ public static class Program
         }
         else
         {
-            results = ScenarioRunner.Run(scenario, new LineProgress(stderr, scenario.Sampling.Chains), ct, o.Plot, plan);
+            results = ScenarioRunner.Run(scenario, new LineProgress(stderr, scenario.Sampling.Chains, scenario.TemperaturesInKelvin.Length), ct, o.Plot, plan);
         }
         if (results.Cancelled && plan is not null)
         {

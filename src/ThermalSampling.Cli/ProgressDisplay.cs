@@ -9,21 +9,25 @@ using ThermalSampling.Sampling;
 
 namespace ThermalSampling.Cli;
 
-/// <summary>Plain, line-by-line progress for redirected output: one line per 10% of each temperature, with time left.</summary>
+/// <summary>
+/// Plain, line-by-line progress for redirected output: a line at the first percent of each temperature and at every 10 %,
+/// with the time left for the whole run (all temperatures), estimated from the work done so far.
+/// </summary>
 internal sealed class LineProgress : IProgress<SamplingProgress>
 {
     private readonly TextWriter _writer;
-    private readonly int _chains;
+    private readonly int _chains, _temperatures;
     private readonly Dictionary<int, (long Done, long Total)> _chainsDone = new();
-    private readonly Stopwatch _clock = new();
+    private readonly Stopwatch _clock = Stopwatch.StartNew();
     private readonly Lock _gate = new();
     private double _temperature = double.NaN;
-    private int _lastDecile = -1;
+    private int _finished = -1, _lastMark = -1;
 
-    internal LineProgress(TextWriter writer, int chains)
+    internal LineProgress(TextWriter writer, int chains, int temperatures = 1)
     {
         _writer = writer;
         _chains = chains;
+        _temperatures = temperatures;
     }
 
     public void Report(SamplingProgress value)
@@ -34,8 +38,8 @@ internal sealed class LineProgress : IProgress<SamplingProgress>
             {
                 _temperature = value.Temperature;
                 _chainsDone.Clear();
-                _lastDecile = -1;
-                _clock.Restart();
+                _lastMark = -1;
+                _finished++;
             }
             _chainsDone[value.ChainIndex] = (value.ChainStepsDone, value.ChainStepsTotal);
             long done = 0, total = 0;
@@ -45,14 +49,17 @@ internal sealed class LineProgress : IProgress<SamplingProgress>
                 total += t;
             }
             total = total / _chainsDone.Count * _chains; // chains that have not reported yet have the same length
-            int decile = (int)(10.0 * done / Math.Max(total, 1));
-            if (decile > _lastDecile)
+            double fraction = (double)done / Math.Max(total, 1);
+            int mark = fraction >= 0.01 && fraction < 0.1 ? 0 : (int)(10 * fraction); // 0: the first percent; then deciles
+            if (mark > _lastMark && (fraction >= 0.01 || mark > 0))
             {
-                _lastDecile = decile;
+                _lastMark = mark;
+                double overall = (_finished + fraction) / _temperatures;
                 double elapsed = _clock.Elapsed.TotalSeconds;
-                double left = done > 0 ? elapsed * (total - done) / done : double.NaN;
+                double left = overall > 0 ? elapsed * (1 - overall) / overall : double.NaN;
+                string percent = mark == 0 ? "1%" : $"{10 * mark}%";
                 _writer.WriteLine(string.Create(CultureInfo.InvariantCulture,
-                    $"progress: T = {_temperature:G6} K: {10 * decile}%{(double.IsFinite(left) && decile < 10 ? $", about {left:F0} s left" : "")}"));
+                    $"progress: T = {_temperature:G6} K: {percent}{(double.IsFinite(left) && overall < 1 ? $", about {Program.Duration(left)} left for the whole run" : "")}"));
                 _writer.Flush();
             }
         }

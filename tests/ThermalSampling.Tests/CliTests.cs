@@ -304,7 +304,10 @@ public class CliCommandTests
         var (code, stdout, stderr) = Run("run", file);
         Assert.Equal(0, code);
         Assert.Contains("progress: T = 100 K: 100%", stderr);
-        Assert.Contains("progress: T = 300 K: 0%", stderr);
+        Assert.Contains("progress: T = 300 K: ", stderr);
+        // The first line of a temperature comes as soon as 1 % is done (here the first report, a 4096-step chunk, is further on)
+        // and gives the time left for the whole run, both temperatures.
+        Assert.Matches(@"progress: T = 100 K: \d+%, about \d+ s left for the whole run", stderr);
         using var doc = JsonDocument.Parse(stdout); // progress never pollutes the report
     }
 
@@ -510,5 +513,21 @@ public class CliCommandTests
         var (code, stdout, _) = Run("--help");
         Assert.Equal(0, code);
         Assert.Contains("validate", stdout);
+    }
+
+    [Theory]
+    [InlineData(40, "40 s")]
+    [InlineData(720, "12 min")]
+    [InlineData(12600, "3.5 h")]
+    public void Durations_read_as_people_say_them(double seconds, string expected) => Assert.Equal(expected, Program.Duration(seconds));
+
+    [Fact]
+    public void A_run_planned_for_hours_is_estimated_in_hours()
+    {
+        // 2 temperatures × 2 chains × 10^12 steps of a pair at the rough 10 ns per step on one thread: 4·10^4 s, about 11 h.
+        var scenario = ScenarioReader.Read(Encoding.UTF8.GetBytes(Scenario.Replace("\"samplesPerChain\": 5000", "\"samplesPerChain\": 1000000000000")));
+        double hours = Program.EstimatedSeconds(scenario with { Sampling = scenario.Sampling with { MaxThreads = 1 } }) / 3600;
+        Assert.InRange(hours, 11.0, 11.2);
+        Assert.Equal("11.1 h", Program.Duration(hours * 3600));
     }
 }
