@@ -204,7 +204,8 @@ internal static class Renderers
         w.WriteLine(string.Join(",", headers.Select(Quote)));
         foreach (var row in t.Rows)
         {
-            var cells = row.Zip(t.Columns).SelectMany(p => p.Second.HasError ? new[] { Number(p.First.Value), Number(p.First.Error) } : new[] { Number(p.First.Value) });
+            var cells = row.Zip(t.Columns).SelectMany(p => p.Second.HasError ? new[] { Number(p.First.Value), Number(p.First.Error) }
+                : new[] { p.First.Text is string text ? Quote(text) : Number(p.First.Value) });
             w.WriteLine(string.Join(",", cells));
         }
     }

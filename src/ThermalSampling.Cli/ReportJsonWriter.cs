@@ -78,6 +78,14 @@ internal static class ReportJsonWriter
         w.WriteEndObject();
     }
 
+    /// <summary>A harmonic frequency in the units the trade reads it in, whatever the scenario's units: meV, THz and cm⁻¹.</summary>
+    private static void Frequency(Utf8JsonWriter w, Units.VibrationFrequency f)
+    {
+        Number(w, "energyMeV", f.InMilliElectronVolts);
+        Number(w, "frequencyTHz", f.InTerahertz);
+        Number(w, "wavenumberPerCm", f.InReciprocalCentimetres);
+    }
+
     private static void Number(Utf8JsonWriter w, string name, double? value)
     {
         if (value is double v && double.IsFinite(v))
@@ -135,6 +143,7 @@ internal static class ReportJsonWriter
             w.WriteStartObject("harmonic");
             Number(w, "variance", h.ClassicalVarianceInAngstromsSquared / l2);
             Number(w, "quantumVariance", h.QuantumVarianceInAngstromsSquared / l2);
+            Frequency(w, h.Frequency);
             w.WriteEndObject();
         }
         if (r.FirstOrder is { } f)
@@ -179,6 +188,15 @@ internal static class ReportJsonWriter
         w.WriteEndArray();
         Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
         Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
+        w.WriteStartArray("modes");
+        foreach (var m in r.Harmonic.Modes)
+        {
+            w.WriteStartObject();
+            Vector(w, "direction", m.Direction, 1);
+            Frequency(w, m.Frequency);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
         w.WriteBoolean("atSite", r.StaysAtSite);
         if (r.DebyeWallerB is { } b)
         {

@@ -13,8 +13,8 @@ namespace ThermalSampling.Cli;
 /// </summary>
 internal sealed record ReportColumn(string Name, string Unit, bool HasError, string Format = "G4");
 
-/// <summary>One cell: a value with an optional standard error (NaN when absent).</summary>
-internal readonly record struct ReportCell(double Value, double Error = double.NaN);
+/// <summary>One cell: a value with an optional standard error (NaN when absent), or a short text (a list of values).</summary>
+internal readonly record struct ReportCell(double Value, double Error = double.NaN, string? Text = null);
 
 /// <summary>The table/markdown/csv view of a run, built once and rendered by each format.</summary>
 internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Columns, IReadOnlyList<ReportCell[]> Rows,
@@ -34,7 +34,8 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
             var columns = new List<ReportColumn>
             {
                 new("T", "K", false, "0.###"), new("mean", u, true), new("shift", u, true), new("shift 1st order", u, false),
-                new("RMS about mean", u, true), new("RMS harmonic", u, false), new("RMS quantum harm.", u, false), new("skewness", "", false, "F2"),
+                new("RMS about mean", u, true), new("RMS harmonic", u, false), new("RMS quantum harm.", u, false), new("ħω", "meV", false, "G3"),
+                new("skewness", "", false, "F2"),
                 new("exact mean", u, false, "G6"), new("z(mean)", "", false, "F2"), new("P(near wall)", "", false, "G2"), new("ESS", "", false, "F0"), new("R-hat", "", false, "F3"),
             };
             var rows = results.Pairs.Select(r =>
@@ -49,6 +50,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
                     new ReportCell(r.Rms.Value / l, r.Rms.StandardError / l),
                     new ReportCell((r.Harmonic?.ClassicalRmsInAngstroms ?? double.NaN) / l),
                     new ReportCell((r.Harmonic?.QuantumRmsInAngstroms ?? double.NaN) / l),
+                    new ReportCell(r.Harmonic?.Frequency.InMilliElectronVolts ?? double.NaN),
                     new ReportCell(r.Skewness),
                     new ReportCell(r.Exact.Mean / l),
                     new ReportCell(r.Exact.ZScoreMean),
@@ -63,7 +65,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
         {
             new("T", "K", false, "0.###"), new("MSD", u2, true), new("MSD harmonic", u2, false), new("MSD quantum harm.", u2, false), new("B", u2, true),
             new("U_xx", u2, false), new("U_yy", u2, false), new("U_zz", u2, false), new("shift z", u, true), new("shift z 1st order", u, false),
-            new("acceptance", "", false, "F2"), new("ESS", "", false, "F0"), new("R-hat", "", false, "F3"),
+            new("ħω modes", "meV", false), new("acceptance", "", false, "F2"), new("ESS", "", false, "F0"), new("R-hat", "", false, "F3"),
         };
         var siteRows = results.Sites.Select(r =>
         {
@@ -78,6 +80,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
                 new ReportCell(r.Covariance.XX / (l * l)), new ReportCell(r.Covariance.YY / (l * l)), new ReportCell(r.Covariance.ZZ / (l * l)),
                 new ReportCell(r.MeanShift.Z / l, r.MeanStandardError.Z / l),
                 new ReportCell(r.StaysAtSite ? r.Harmonic.FirstOrderMeanShift.Z / l : double.NaN),
+                new ReportCell(double.NaN, Text: string.Join(", ", r.Harmonic.Modes.Select(m => m.Frequency.InMilliElectronVolts.ToString("G3", CultureInfo.InvariantCulture)))),
                 new ReportCell(r.Diagnostics.AcceptanceRate ?? double.NaN),
                 new ReportCell(r.Diagnostics.EffectiveSampleSize),
                 new ReportCell(r.Diagnostics.RHat ?? double.NaN),
@@ -104,6 +107,10 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
     /// </summary>
     internal static string Format(ReportCell cell, ReportColumn column)
     {
+        if (cell.Text is not null)
+        {
+            return cell.Text;
+        }
         if (double.IsFinite(cell.Error) && cell.Error > 0 || !double.IsFinite(cell.Value))
         {
             return new Estimate(cell.Value, double.IsFinite(cell.Error) ? cell.Error : 0).ToRoundedString();

@@ -19,6 +19,8 @@ internal static class ScenarioUnits
         ["kJ/mol"] = 1 / Units.EnergyConversion.KilojoulePerMolePerElectronVolt,
         ["kcal/mol"] = 1 / Units.EnergyConversion.KilocaloriePerMolePerElectronVolt,
         ["K"] = Units.PhysicalConstants.BoltzmannElectronVoltPerKelvin,
+        ["hartree"] = 1 / Units.EnergyConversion.HartreePerElectronVolt,
+        ["cm-1"] = 1 / Units.EnergyConversion.ReciprocalCentimetrePerElectronVolt,
     };
 
     internal static readonly IReadOnlyDictionary<string, double> Length = new Dictionary<string, double>(StringComparer.Ordinal)
@@ -26,6 +28,7 @@ internal static class ScenarioUnits
         ["angstrom"] = 1.0,
         ["nm"] = 10.0,
         ["pm"] = 0.01,
+        ["bohr"] = Units.PhysicalConstants.BohrRadiusMetre * 1e10,
     };
 }
 

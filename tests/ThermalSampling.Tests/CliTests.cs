@@ -530,4 +530,21 @@ public class CliCommandTests
         Assert.InRange(hours, 11.0, 11.2);
         Assert.Equal("11.1 h", Program.Duration(hours * 3600));
     }
+
+    [Fact]
+    public void A_scenario_in_hartree_and_bohr_gives_the_numbers_of_the_same_scenario_in_eV_and_angstrom()
+    {
+        // The same invented Morse pair written twice: 0.4 eV, 1.5/Å, 2.8 Å, window [2.2, 4.0] Å, in atomic units.
+        double ha = Units.EnergyConversion.HartreePerElectronVolt, bohr = 1 / (Units.PhysicalConstants.BohrRadiusMetre * 1e10);
+        string atomic = Scenario
+            .Replace("\"mass\": 39.9,", "\"units\": { \"energy\": \"hartree\", \"length\": \"bohr\" }, \"mass\": 39.9,")
+            .Replace("\"wellDepth\": 0.4, \"width\": 1.5, \"equilibriumDistance\": 2.8", string.Create(System.Globalization.CultureInfo.InvariantCulture,
+                $"\"wellDepth\": {0.4 * ha:R}, \"width\": {1.5 / bohr:R}, \"equilibriumDistance\": {2.8 * bohr:R}"))
+            .Replace("\"window\": [2.2, 4.0]", string.Create(System.Globalization.CultureInfo.InvariantCulture, $"\"window\": [{2.2 * bohr:R}, {4.0 * bohr:R}]"));
+        var a = ScenarioReader.Read(Encoding.UTF8.GetBytes(atomic));
+        var b = ScenarioReader.Read(Encoding.UTF8.GetBytes(Scenario));
+        Assert.Equal(b.Potential.Parameters["wellDepth"], a.Potential.Parameters["wellDepth"], 12);
+        Assert.Equal(b.Potential.Parameters["equilibriumDistance"], a.Potential.Parameters["equilibriumDistance"], 12);
+        Assert.Equal(b.Landscape.WindowUpper, a.Landscape.WindowUpper, 12);
+    }
 }

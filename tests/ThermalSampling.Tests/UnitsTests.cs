@@ -91,4 +91,17 @@ public class UnitsTests
     [Fact]
     public void Reduced_mass_of_equal_masses_is_half()
         => Assert.Equal(19.974, Mass.Reduced(Mass.FromAtomicMassUnits(39.948), Mass.FromAtomicMassUnits(39.948)).InAtomicMassUnits, 12);
+
+    [Fact]
+    public void Vibration_frequencies_convert_as_the_CODATA_energy_table_says()
+    {
+        // Source: Sources.Codata2018 (energy equivalents): 1 meV = 0.241799 THz (h·ν) and 8.06554 cm⁻¹ (h·c·ν̃).
+        double omega = 1e-3 * PhysicalConstants.ElementaryChargeCoulomb / PhysicalConstants.ReducedPlanckJouleSecond;
+        var f = new VibrationFrequency(omega);
+        Assert.Equal(1.0, f.InMilliElectronVolts, 12);
+        Assert.Equal(0.2417989, f.InTerahertz, 6);
+        Assert.Equal(8.065544, f.InReciprocalCentimetres, 5);
+        Assert.Equal(8065.544, EnergyConversion.ReciprocalCentimetrePerElectronVolt, 2);
+        Assert.Equal(1 / 27.211386, EnergyConversion.HartreePerElectronVolt, 8);
+    }
 }

@@ -31,6 +31,9 @@ public sealed record PairHarmonicEstimate(
     /// <summary>√(kT/k), Å.</summary>
     public double ClassicalRmsInAngstroms => Math.Sqrt(ClassicalVarianceInAngstromsSquared);
 
+    /// <summary>The vibration's frequency (ħω in meV, ν in THz, ν̃ in cm⁻¹).</summary>
+    public Units.VibrationFrequency Frequency => new(AngularFrequencyPerSecond);
+
     /// <summary>The quantum RMS spread, Å.</summary>
     public double QuantumRmsInAngstroms => Math.Sqrt(QuantumVarianceInAngstromsSquared);
 }

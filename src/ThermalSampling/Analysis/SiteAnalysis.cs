@@ -17,7 +17,11 @@ namespace ThermalSampling.Analysis;
 /// <param name="ClassicalVarianceInAngstromsSquared">kT/k along the mode, Å².</param>
 /// <param name="QuantumVarianceInAngstromsSquared">(ħ/2mω) coth(ħω/2kT) along the mode, Å².</param>
 public sealed record NormalMode(Position Direction, double StiffnessElectronVoltsPerAngstromSquared, double AngularFrequencyPerSecond,
-    double QuantumToThermalRatio, double ClassicalVarianceInAngstromsSquared, double QuantumVarianceInAngstromsSquared);
+    double QuantumToThermalRatio, double ClassicalVarianceInAngstromsSquared, double QuantumVarianceInAngstromsSquared)
+{
+    /// <summary>The mode's frequency (ħω in meV, ν in THz, ν̃ in cm⁻¹).</summary>
+    public Units.VibrationFrequency Frequency => new(AngularFrequencyPerSecond);
+}
 
 /// <summary>The harmonic picture of a particle among fixed sites, with the first-order mean shift.</summary>
 /// <param name="Minimum">The energy minimum reached from the centre, Å.</param>

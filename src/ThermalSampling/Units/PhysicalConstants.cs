@@ -30,6 +30,9 @@ public static class PhysicalConstants
     /// <summary>Electron mass, kg (CODATA 2018 recommended value).</summary>
     public const double ElectronMassKilogram = 9.1093837015e-31;
 
+    /// <summary>Speed of light in vacuum, m/s (exact).</summary>
+    public const double SpeedOfLightMetrePerSecond = 299792458;
+
     /// <summary>Hartree energy, J (CODATA 2018 recommended value).</summary>
     public const double HartreeJoule = 4.3597447222071e-18;
 

@@ -209,4 +209,24 @@ public static class EnergyConversion
 
     /// <summary>kcal/mol in one eV per particle (thermochemical calorie, 4.184 J).</summary>
     public const double KilocaloriePerMolePerElectronVolt = KilojoulePerMolePerElectronVolt / 4.184;
+
+    /// <summary>cm⁻¹ in one eV (E = hc·ν̃, the spectroscopists' energy unit): e/(100·h·c), about 8065.54.</summary>
+    public const double ReciprocalCentimetrePerElectronVolt = PhysicalConstants.ElementaryChargeCoulomb / (100 * PhysicalConstants.PlanckJouleSecond * PhysicalConstants.SpeedOfLightMetrePerSecond);
+
+    /// <summary>Hartrees in one eV.</summary>
+    public const double HartreePerElectronVolt = PhysicalConstants.ElementaryChargeCoulomb / PhysicalConstants.HartreeJoule;
+}
+
+/// <summary>A harmonic vibration's frequency in the units the trade reads it in: quantum energy ħω, frequency ν = ω/2π, wavenumber ν/c.</summary>
+/// <param name="AngularFrequencyPerSecond">ω, rad/s.</param>
+public readonly record struct VibrationFrequency(double AngularFrequencyPerSecond)
+{
+    /// <summary>ħω, meV.</summary>
+    public double InMilliElectronVolts => PhysicalConstants.ReducedPlanckJouleSecond * AngularFrequencyPerSecond / PhysicalConstants.ElementaryChargeCoulomb * 1e3;
+
+    /// <summary>ν = ω/2π, THz.</summary>
+    public double InTerahertz => AngularFrequencyPerSecond / (2 * Math.PI) * 1e-12;
+
+    /// <summary>ν̃ = ν/c, cm⁻¹.</summary>
+    public double InReciprocalCentimetres => AngularFrequencyPerSecond / (2 * Math.PI * PhysicalConstants.SpeedOfLightMetrePerSecond) / 100;
 }
