@@ -392,6 +392,9 @@ public class CliCommandTests
         Assert.Contains(lines, l => l.StartsWith("Inputs: mass ", StringComparison.Ordinal) && l.Contains("ε = ", StringComparison.Ordinal));
         Assert.Contains(lines, l => l.StartsWith("warning [quantum-effects, de-broglie-wavelength] at 10 K:", StringComparison.Ordinal));
         Assert.DoesNotContain("E-2", stdout); // no exponent where a plain number fits (first-order shifts zero by symmetry print 0)
+        // A clean row per scenario: the coldest temperature has no wall or escape warning in either.
+        Assert.DoesNotContain(lines, l => System.Text.RegularExpressions.Regex.IsMatch(l, @"^warning \[(escape-risk|wall-mass|left-site)\] at 10(,| K)"));
+        Assert.Equal(2, lines.Count(l => l.StartsWith("Invented demo", StringComparison.Ordinal)));
     }
 
     [Theory]

@@ -221,7 +221,7 @@ public class SiteSamplerEdgeTests
         }
         double barrier = lowest - report.Harmonic.MinimumEnergyInElectronVolts;
         var escape = Assert.Single(report.Warnings, w => w.Code == WarningCodes.EscapeRisk);
-        var match = Regex.Match(escape.Message, @"the confinement wall, ([-0-9.eE+]+) eV above the minimum");
+        var match = Regex.Match(escape.Message, @"the rise from the minimum to the confinement wall \(([-0-9.eE+]+) eV;");
         Assert.True(match.Success, escape.Message);
         Assert.Equal(barrier, double.Parse(match.Groups[1].Value, CultureInfo.InvariantCulture), 2e-3 * barrier);
     }

@@ -98,8 +98,8 @@ public static class ClassicalValidity
         if (escape > EscapeRiskThreshold)
         {
             warnings.Add(new Warning(WarningCodes.EscapeRisk, string.Format(c,
-                "kT is {0:P1} of the well depth ({1:G4} eV): the particle can escape its well, and the answer depends on the window or confinement that holds it.",
-                escape, wellDepthInElectronVolts)));
+                "kT is {0:P1} of the well depth ({1:G4} eV), so the Boltzmann factor at the well's edge is e^(-depth/kT) = {2:G2}: {3}, and the answer depends on the window or confinement that holds it.",
+                escape, wellDepthInElectronVolts, Math.Exp(-1 / escape), EscapeLikelihood(escape))));
         }
         if (probabilityNearWalls is double w && w > ProbabilityNearWallsThreshold)
         {
@@ -109,6 +109,14 @@ public static class ClassicalValidity
         }
         return new ValidityAssessment(lambda, rmsSpreadInAngstroms, x, ratio, escape, probabilityNearWalls, warnings.ToImmutable());
     }
+
+    /// <summary>How readily a particle leaves over a barrier at kT/barrier = <paramref name="ratio"/>, in words that scale with e^(−1/ratio).</summary>
+    internal static string EscapeLikelihood(double ratio) => ratio switch
+    {
+        < 0.1 => "leaving is rare on the time of a run but not excluded",
+        < 0.2 => "the particle reaches the edge now and then and can leave over a long run",
+        _ => "the particle leaves readily",
+    };
 
     /// <summary>Assesses a line or radial landscape at one temperature, from its exact distribution and harmonic estimate.</summary>
     /// <typeparam name="TPotential">The potential type.</typeparam>

@@ -453,8 +453,11 @@ public static class SiteBasins
         string others = basin.OtherMinima.Length > 0 && basin.OutsidePopulation is double p
             ? string.Create(CultureInfo.InvariantCulture, $" In equilibrium in this confinement the harmonic estimate puts {p:P1} of the probability at the {basin.OtherMinima.Length} other minima found; a chain that stays at the site describes the site, not that equilibrium.")
             : "";
-        return new(WarningCodes.EscapeRisk, string.Create(CultureInfo.InvariantCulture,
-            $"kT is {kt / way:P1} of the lowest way out of the site's basin, {DescribeWayOut(basin)}: {(kt / way > 0.2 ? "the particle crosses it easily" : "the particle can cross it over a long run")}, and the answer then depends on the confinement.{others}"));
+        double ratio = kt / way;
+        string body = basin.WayOutLeadsToAnotherMinimum
+            ? string.Create(CultureInfo.InvariantCulture, $"kT is {ratio:P1} of the lowest way out of the site's basin, {DescribeWayOut(basin)}; the Boltzmann factor there is e^(-barrier/kT) = {Math.Exp(-1 / ratio):G2}: {ClassicalValidity.EscapeLikelihood(ratio)}, and the answer then depends on the confinement.")
+            : string.Create(CultureInfo.InvariantCulture, $"kT is {ratio:P1} of the rise from the minimum to the confinement wall ({Format(way)} eV; no pass to another minimum is lower); the Boltzmann factor at the wall is e^(-rise/kT) = {Math.Exp(-1 / ratio):G2}: {(ratio < 0.1 ? "the particle rarely reaches the wall" : ratio < 0.2 ? "the particle reaches the wall now and then" : "the particle presses on the wall")}, so the answer depends on the confinement's size.");
+        return new(WarningCodes.EscapeRisk, body + others);
     }
 
     private static string Format(double value) => value.ToString("G4", CultureInfo.InvariantCulture);
