@@ -1,6 +1,7 @@
 using System.Collections.Generic;
 using System.Globalization;
 using System.IO;
+using System.Linq;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Plotting;
 using ThermalSampling.Potentials;
@@ -9,38 +10,42 @@ using ThermalSampling.Reports;
 namespace ThermalSampling.Cli;
 
 /// <summary>
-/// Writes the figures asked for with <c>--plot BASE.png|svg</c>: one position distribution per temperature
-/// (BASE-T40K.png), the site marginals and projection per temperature, and a sweep figure (BASE-sweep.png) when there
-/// are at least two temperatures.
+/// Writes the figures asked for with <c>--plot FILE.png|svg</c>. FILE itself is always written: the figure against
+/// temperature when there are several temperatures, else the position distribution (pairs) or the marginals (sites).
+/// The figures of each temperature go beside it, named by the temperature rounded to what tells them apart
+/// (FILE-T40K.png, FILE-T37.8K-projection.png). Every figure carries the scenario's title and its cautions.
 /// </summary>
 internal static class FigureWriter
 {
-    internal static List<string> WritePair<TPotential>(IReadOnlyList<PairVibrationReport> reports, PairLandscape<TPotential> landscape, string basePath)
+    internal static List<string> WritePair<TPotential>(IReadOnlyList<PairVibrationReport> reports, PairLandscape<TPotential> landscape, string basePath,
+        string? title = null)
         where TPotential : struct, IPairPotential
     {
         var written = new List<string>();
-        foreach (var r in reports)
-        {
-            written.Add(Save(VibrationFigures.PositionDistribution(r, landscape), basePath, Suffix(r.Temperature.InKelvin)));
-        }
+        var names = TemperatureNames(reports.Select(r => r.Temperature.InKelvin).ToList());
         if (reports.Count >= 2)
         {
-            written.Add(Save(VibrationFigures.TemperatureSweep(reports), basePath, "-sweep"));
+            written.Add(Save(VibrationFigures.TemperatureSweep(reports, title), basePath, ""));
+        }
+        for (int i = 0; i < reports.Count; i++)
+        {
+            written.Add(Save(VibrationFigures.PositionDistribution(reports[i], landscape, title), basePath, reports.Count == 1 ? "" : names[i]));
         }
         return written;
     }
 
-    internal static List<string> WriteSite(IReadOnlyList<SiteVibrationReport> reports, string basePath)
+    internal static List<string> WriteSite(IReadOnlyList<SiteVibrationReport> reports, string basePath, string? title = null)
     {
         var written = new List<string>();
-        foreach (var r in reports)
-        {
-            written.Add(Save(VibrationFigures.SiteMarginals(r), basePath, Suffix(r.Temperature.InKelvin) + "-marginals"));
-            written.Add(Save(VibrationFigures.SiteProjection(r), basePath, Suffix(r.Temperature.InKelvin) + "-projection"));
-        }
+        var names = TemperatureNames(reports.Select(r => r.Temperature.InKelvin).ToList());
         if (reports.Count >= 2)
         {
-            written.Add(Save(VibrationFigures.TemperatureSweep(reports), basePath, "-sweep"));
+            written.Add(Save(VibrationFigures.TemperatureSweep(reports, title), basePath, ""));
+        }
+        for (int i = 0; i < reports.Count; i++)
+        {
+            written.Add(Save(VibrationFigures.SiteMarginals(reports[i], title), basePath, reports.Count == 1 ? "" : names[i] + "-marginals"));
+            written.Add(Save(VibrationFigures.SiteProjection(reports[i], title), basePath, (reports.Count == 1 ? "" : names[i]) + "-projection"));
         }
         return written;
     }
@@ -48,7 +53,29 @@ internal static class FigureWriter
     internal static bool HasFigureExtension(string path)
         => Path.GetExtension(path).ToLowerInvariant() is ".png" or ".svg";
 
-    private static string Suffix(double kelvin) => "-T" + kelvin.ToString("G6", CultureInfo.InvariantCulture) + "K";
+    /// <summary>"-T40K", "-T37.8K": each temperature with the fewest significant digits (2 to 6) that keep all the names distinct.</summary>
+    internal static List<string> TemperatureNames(IReadOnlyList<double> kelvins)
+    {
+        for (int digits = 2; digits <= 6; digits++)
+        {
+            var names = kelvins.Select(k => "-T" + Round(k, digits).ToString("G6", CultureInfo.InvariantCulture) + "K").ToList();
+            if (names.Distinct().Count() == names.Count || digits == 6)
+            {
+                return names;
+            }
+        }
+        return [];
+    }
+
+    private static double Round(double value, int significant)
+    {
+        if (value == 0)
+        {
+            return 0;
+        }
+        int decimals = significant - 1 - (int)System.Math.Floor(System.Math.Log10(System.Math.Abs(value)));
+        return decimals >= 0 ? System.Math.Round(value, System.Math.Min(decimals, 15)) : System.Math.Round(value / System.Math.Pow(10, -decimals)) * System.Math.Pow(10, -decimals);
+    }
 
     private static string Save(ScottPlot.Plot plot, string basePath, string suffix)
     {

@@ -23,6 +23,11 @@ public static class VibrationFigures
     private static readonly Color Harmonic = Color.FromHex("#d62728");
     private static readonly Color Potential = Color.FromHex("#7f7f7f");
     private static readonly Color FirstOrder = Color.FromHex("#ff7f0e");
+    private static readonly Color Quantum = Color.FromHex("#9467bd");
+    private static readonly Color[] Axes3 = [Color.FromHex("#17becf"), Color.FromHex("#8c564b"), Color.FromHex("#e377c2")]; // x, y, z: none of the line figure's colours
+
+    /// <summary>Ellipse levels of the projection: the share of a two-dimensional Gaussian each encloses.</summary>
+    private static readonly double[] EnclosedShares = [0.5, 0.9];
 
     /// <summary>The default figure size in pixels.</summary>
     public const int DefaultWidth = 900;
@@ -37,7 +42,8 @@ public static class VibrationFigures
     /// <typeparam name="TPotential">The potential type.</typeparam>
     /// <param name="report">The report.</param>
     /// <param name="landscape">The landscape it was sampled in (for the exact density and the potential curve).</param>
-    public static Plot PositionDistribution<TPotential>(PairVibrationReport report, PairLandscape<TPotential> landscape)
+    /// <param name="context">A line shown under the title, such as the scenario's title (say "invented" where it is); none when null.</param>
+    public static Plot PositionDistribution<TPotential>(PairVibrationReport report, PairLandscape<TPotential> landscape, string? context = null)
         where TPotential : struct, IPairPotential
     {
         ArgumentNullException.ThrowIfNull(report);
@@ -72,6 +78,15 @@ public static class VibrationFigures
             gauss.LinePattern = LinePattern.Dashed;
             gauss.LineWidth = 2;
             gauss.LegendText = "harmonic Gaussian";
+            if (HasQuantumWarning(report.Warnings))
+            {
+                double q = harm.QuantumRmsInAngstroms;
+                var quantum = plot.Add.Scatter(grid, grid.Select(r => Math.Exp(-0.5 * (r - m) * (r - m) / (q * q)) / (q * Math.Sqrt(2 * Math.PI))).ToArray(), Quantum);
+                quantum.MarkerSize = 0;
+                quantum.LinePattern = LinePattern.DenselyDashed;
+                quantum.LineWidth = 2;
+                quantum.LegendText = "quantum harmonic Gaussian";
+            }
         }
         double vMin = grid.Min(landscape.CheckedEnergy);
         double kt = report.Temperature.ThermalEnergyInElectronVolts;
@@ -84,7 +99,7 @@ public static class VibrationFigures
         potential.Axes.YAxis = plot.Axes.Right;
 
         string geometry = report.Geometry == SeparationGeometry.Radial ? "radial pair" : "line";
-        plot.Title(string.Create(CultureInfo.InvariantCulture, $"Position distribution, {geometry}, T = {report.Temperature.InKelvin:G4} K"));
+        Title(plot, string.Create(CultureInfo.InvariantCulture, $"Position distribution, {geometry}, T = {report.Temperature.InKelvin:G4} K"), context, report.Warnings);
         plot.XLabel("separation r (Å)");
         plot.YLabel("probability density (1/Å)");
         plot.Axes.Right.Label.Text = "V(r) − V_min (meV)";
@@ -97,14 +112,18 @@ public static class VibrationFigures
 
     /// <summary>The three marginal distributions of a site report (x, y, z about the mean), with the harmonic Gaussians.</summary>
     /// <param name="report">A site report with retained draws (<see cref="Sampling.SamplingSettings.RetainedDrawsPerChain"/> above 0).</param>
+    /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
     /// <exception cref="ArgumentException">When the report holds no retained draws.</exception>
-    public static Plot SiteMarginals(SiteVibrationReport report)
+    public static Plot SiteMarginals(SiteVibrationReport report, string? context = null)
     {
         var draws = Draws(report);
         var plot = new Plot();
         var mean = report.Mean;
         string[] names = { "x", "y", "z" };
-        Color[] colors = { Sampled, Exact, FirstOrder };
+        var colors = Axes3;
+        bool quantum = HasQuantumWarning(report.Warnings);
+        // Error bars: the binomial error of each bin's share, inflated by the autocorrelation (N/ESS), as for the numbers.
+        double inflation = Math.Max(1, report.Diagnostics.Draws / Math.Max(report.Diagnostics.EffectiveSampleSize, 1));
         double extent = 4 * Math.Sqrt(Math.Max(report.Covariance.XX, Math.Max(report.Covariance.YY, report.Covariance.ZZ)));
         const int bins = 60;
         for (int axis = 0; axis < 3; axis++)
@@ -121,16 +140,28 @@ public static class VibrationFigures
             }
             double width = 2 * extent / bins;
             var xs = Enumerable.Range(0, bins).Select(b => -extent + (b + 0.5) * width).ToArray();
-            var line = plot.Add.Scatter(xs, counts.Select(c => c / (draws.Count * width)).ToArray(), colors[axis]);
+            var density = counts.Select(c => c / (draws.Count * width)).ToArray();
+            var line = plot.Add.Scatter(xs, density, colors[axis]);
             line.MarkerSize = 4;
-            line.LegendText = $"sampled {names[axis]}";
+            line.LineWidth = 0;
+            line.LegendText = $"sampled {names[axis]} (± 1 SE)";
+            var errors = plot.Add.ErrorBar(xs, density, counts.Select(c => Math.Sqrt(c / draws.Count * (1 - c / draws.Count) * inflation / draws.Count) / width).ToArray());
+            errors.Color = colors[axis];
             double s = Math.Sqrt(report.Harmonic.ClassicalCovariance[axis, axis]);
             var g = plot.Add.Scatter(xs, xs.Select(u => Math.Exp(-0.5 * u * u / (s * s)) / (s * Math.Sqrt(2 * Math.PI))).ToArray(), colors[axis]);
             g.MarkerSize = 0;
             g.LinePattern = LinePattern.Dashed;
             g.LegendText = $"harmonic {names[axis]}";
+            if (quantum)
+            {
+                double q = Math.Sqrt(report.Harmonic.QuantumCovariance[axis, axis]);
+                var qg = plot.Add.Scatter(xs, xs.Select(u => Math.Exp(-0.5 * u * u / (q * q)) / (q * Math.Sqrt(2 * Math.PI))).ToArray(), colors[axis]);
+                qg.MarkerSize = 0;
+                qg.LinePattern = LinePattern.Dotted;
+                qg.LegendText = $"quantum harmonic {names[axis]}";
+            }
         }
-        plot.Title(string.Create(CultureInfo.InvariantCulture, $"Marginal distributions about the mean, T = {report.Temperature.InKelvin:G4} K"));
+        Title(plot, string.Create(CultureInfo.InvariantCulture, $"Marginal distributions about the mean, T = {report.Temperature.InKelvin:G4} K"), context, report.Warnings);
         plot.XLabel("displacement from the mean (Å)");
         plot.YLabel("probability density (1/Å)");
         plot.ShowLegend(Alignment.UpperRight);
@@ -139,11 +170,14 @@ public static class VibrationFigures
 
     /// <summary>
     /// The density of a site's draws projected on the two most spread principal directions of the sampled covariance,
-    /// with the 1σ and 2σ displacement ellipses and the principal axes.
+    /// with the ellipses that enclose 50 % and 90 % of a Gaussian of that covariance in the plane, and the principal axes.
+    /// Of two equally spread directions (a degenerate pair, as at a three-fold site) the one nearest the x axis of the
+    /// landscape's frame is drawn first, so the picture is the same every run.
     /// </summary>
     /// <param name="report">A site report with retained draws.</param>
+    /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
     /// <exception cref="ArgumentException">When the report holds no retained draws.</exception>
-    public static Plot SiteProjection(SiteVibrationReport report)
+    public static Plot SiteProjection(SiteVibrationReport report, string? context = null)
     {
         var draws = Draws(report);
         var evd = report.Covariance.ToMatrix().Evd(Symmetricity.Symmetric);
@@ -151,6 +185,28 @@ public static class VibrationFigures
         var e1 = evd.EigenVectors.Column(2);
         var e2 = evd.EigenVectors.Column(1);
         double s1 = Math.Sqrt(evd.EigenValues[2].Real), s2 = Math.Sqrt(evd.EigenValues[1].Real);
+        if (Math.Abs(s1 - s2) < 0.05 * s1)
+        {
+            // A (nearly) degenerate pair spans a plane; any basis of it is as good, so take the frame's x projected into it.
+            var x = Vector<double>.Build.Dense([1.0, 0, 0]);
+            var px = e1 * (e1 * x) + e2 * (e2 * x);
+            if (px.L2Norm() < 1e-6)
+            {
+                x = Vector<double>.Build.Dense([0, 1.0, 0]);
+                px = e1 * (e1 * x) + e2 * (e2 * x);
+            }
+            var n3 = evd.EigenVectors.Column(0);
+            e1 = px / px.L2Norm();
+            e2 = Vector<double>.Build.Dense([n3[1] * e1[2] - n3[2] * e1[1], n3[2] * e1[0] - n3[0] * e1[2], n3[0] * e1[1] - n3[1] * e1[0]]);
+        }
+        if (e1.AbsoluteMaximum() != e1.Maximum())
+        {
+            e1 = -e1; // sign: the largest component positive
+        }
+        if (e2.AbsoluteMaximum() != e2.Maximum())
+        {
+            e2 = -e2;
+        }
         double extent = 3.5 * s1;
         const int n = 80;
         var grid = new double[n, n];
@@ -179,21 +235,25 @@ public static class VibrationFigures
         heat.Extent = new CoordinateRect(-extent, extent, -extent, extent);
         heat.Colormap = new ScottPlot.Colormaps.Viridis();
         plot.Add.ColorBar(heat).Label = "density (1/Å²)";
-        foreach (double k in new[] { 1.0, 2.0 })
+        foreach (double share in EnclosedShares)
         {
+            double k = Math.Sqrt(-2 * Math.Log(1 - share)); // a 2D Gaussian holds 1 − e^(−k²/2) inside k σ
             var ellipse = plot.Add.Ellipse(0, 0, k * s1, k * s2);
             ellipse.LineColor = Colors.White;
             ellipse.LineWidth = 1.5f;
-            ellipse.LinePattern = k == 1 ? LinePattern.Solid : LinePattern.Dashed;
+            ellipse.LinePattern = share < 0.75 ? LinePattern.Solid : LinePattern.Dashed;
+            var label = plot.Add.Text(string.Create(CultureInfo.InvariantCulture, $"{share:P0}"), k * s1 * 0.72, k * s2 * 0.72);
+            label.LabelFontColor = Colors.White;
+            label.LabelFontSize = 13;
         }
         var axis1 = plot.Add.Line(-2 * s1, 0, 2 * s1, 0);
         axis1.LineColor = Colors.White;
         var axis2 = plot.Add.Line(0, -2 * s2, 0, 2 * s2);
         axis2.LineColor = Colors.White;
         var c = CultureInfo.InvariantCulture;
-        plot.Title(string.Format(c, "Projected density, T = {0:G4} K (ellipses: 1σ, 2σ)", report.Temperature.InKelvin));
-        plot.XLabel(string.Format(c, "along ({0:F2}, {1:F2}, {2:F2}), σ = {3:G3} Å", e1[0], e1[1], e1[2], s1));
-        plot.YLabel(string.Format(c, "along ({0:F2}, {1:F2}, {2:F2}), σ = {3:G3} Å", e2[0], e2[1], e2[2], s2));
+        Title(plot, string.Format(c, "Projected density, T = {0:G4} K (ellipses hold 50 % and 90 % of a Gaussian in this plane)", report.Temperature.InKelvin), context, report.Warnings);
+        plot.XLabel(string.Format(c, "along {0}, σ = {1:G3} Å", Direction(e1), s1));
+        plot.YLabel(string.Format(c, "along {0}, σ = {1:G3} Å", Direction(e2), s2));
         plot.Axes.SetLimits(-extent, extent, -extent, extent);
         plot.Axes.SquareUnits();
         return plot;
@@ -204,7 +264,8 @@ public static class VibrationFigures
     /// and the first-order anharmonic curves.
     /// </summary>
     /// <param name="reports">Reports at several temperatures (any order; at least two).</param>
-    public static Plot TemperatureSweep(IReadOnlyList<PairVibrationReport> reports)
+    /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
+    public static Plot TemperatureSweep(IReadOnlyList<PairVibrationReport> reports, string? context = null)
     {
         var sorted = SortedByTemperature(reports, r => r.Temperature);
         double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
@@ -222,11 +283,13 @@ public static class VibrationFigures
             double KT(double kelvin) => kelvin * Units.PhysicalConstants.BoltzmannElectronVoltPerKelvin;
             AddCurve(plot, dense, dense.Select(x => Math.Sqrt(KT(x) / k)).ToArray(), Harmonic, LinePattern.Dashed, "RMS, harmonic √(kT/k)");
             AddCurve(plot, dense, dense.Select(x => Math.Sqrt(Math.Max(KT(x) / k + c * KT(x) * KT(x), 0))).ToArray(), Harmonic, LinePattern.Dotted, "RMS, first order");
+            double zeroPoint = h0.ZeroPointVarianceInAngstromsSquared, hw = h0.QuantumEnergyInElectronVolts;
+            AddCurve(plot, dense, dense.Select(x => Math.Sqrt(zeroPoint / Math.Tanh(0.5 * hw / KT(x)))).ToArray(), Quantum, LinePattern.DenselyDashed, "RMS, quantum harmonic");
             AddSeries(plot, t, sorted.Select(r => r.MeanShift!.Value).ToArray(), sorted.Select(r => r.MeanShift!.StandardError).ToArray(), FirstOrder, "mean shift, sampled");
             AddCurve(plot, dense, dense.Select(x => s * KT(x)).ToArray(), FirstOrder, LinePattern.Dotted, "mean shift, first order");
         }
         plot.Axes.SetLimitsX(0, 1.05 * t[^1]);
-        plot.Title("Thermal spread and shift against temperature");
+        Title(plot, "Thermal spread and shift against temperature", context, sorted.SelectMany(r => r.Warnings).ToList());
         plot.XLabel("temperature (K)");
         plot.YLabel("length (Å)");
         plot.ShowLegend(Alignment.UpperLeft);
@@ -235,19 +298,29 @@ public static class VibrationFigures
 
     /// <summary>The mean-square displacement of a site against temperature: sampled with error bars, classical and quantum harmonic.</summary>
     /// <param name="reports">Reports at several temperatures (at least two).</param>
-    public static Plot TemperatureSweep(IReadOnlyList<SiteVibrationReport> reports)
+    /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
+    public static Plot TemperatureSweep(IReadOnlyList<SiteVibrationReport> reports, string? context = null)
     {
         var sorted = SortedByTemperature(reports, r => r.Temperature);
         double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
         var plot = new Plot();
         AddSeries(plot, t, sorted.Select(r => r.MeanSquareDisplacement.Value).ToArray(), sorted.Select(r => r.MeanSquareDisplacement.StandardError).ToArray(), Sampled, "MSD, sampled");
-        // Classical harmonic MSD is linear in T; the quantum harmonic one needs the modes, so it is drawn through the sampled temperatures.
+        // Both harmonic curves are closed forms in T, drawn smooth: classical MSD = Σ kT/k_i, quantum MSD = Σ z_i coth(ħω_i/2kT)
+        // with z_i = ħ/(2mω_i) the zero-point variance of mode i (recovered from the lowest temperature's modes).
+        var modes = sorted[0].Harmonic.Modes;
+        double kt0 = sorted[0].Temperature.ThermalEnergyInElectronVolts;
+        var zeroPoint = modes.Select(m => m.QuantumVarianceInAngstromsSquared * Math.Tanh(0.5 * m.QuantumToThermalRatio)).ToArray();
+        var quantumEnergies = modes.Select(m => m.QuantumToThermalRatio * kt0).ToArray();
         double perKelvin = sorted[0].Harmonic.ClassicalMeanSquareDisplacement / t[0];
         var dense = Enumerable.Range(0, 200).Select(i => t[^1] * (i + 1) / 200.0).ToArray();
         AddCurve(plot, dense, dense.Select(x => perKelvin * x).ToArray(), Harmonic, LinePattern.Dashed, "MSD, classical harmonic");
-        AddCurve(plot, t, sorted.Select(r => r.Harmonic.QuantumMeanSquareDisplacement).ToArray(), Exact, LinePattern.Dotted, "MSD, quantum harmonic");
+        AddCurve(plot, dense, dense.Select(x =>
+        {
+            double kt = x * Units.PhysicalConstants.BoltzmannElectronVoltPerKelvin;
+            return zeroPoint.Select((z, i) => z / Math.Tanh(0.5 * quantumEnergies[i] / kt)).Sum();
+        }).ToArray(), Quantum, LinePattern.Dotted, "MSD, quantum harmonic");
         plot.Axes.SetLimitsX(0, 1.05 * t[^1]);
-        plot.Title("Mean-square displacement against temperature");
+        Title(plot, "Mean-square displacement against temperature", context, sorted.SelectMany(r => r.Warnings).ToList());
         plot.XLabel("temperature (K)");
         plot.YLabel("mean-square displacement (Å²)");
         plot.ShowLegend(Alignment.UpperLeft);
@@ -300,6 +373,67 @@ public static class VibrationFigures
             throw new ArgumentException("the report holds no retained draws; sample with SamplingSettings.RetainedDrawsPerChain above 0 to draw site figures.", nameof(report));
         }
         return draws;
+    }
+
+    private static bool HasQuantumWarning(IEnumerable<Warning> warnings)
+        => warnings.Any(w => w.Code is WarningCodes.QuantumEffects or WarningCodes.DeBroglieWavelength);
+
+    /// <summary>
+    /// The title, the caller's context line (for example the scenario's title, with "invented" where it is) and, in red
+    /// at the foot of the plot, a note naming the cautions that apply to what is drawn.
+    /// </summary>
+    private static void Title(Plot plot, string title, string? context, IReadOnlyCollection<Warning> warnings)
+    {
+        plot.Title(context is null ? title : title + "\n" + WrapLines(context, 90));
+        var notes = new List<string>();
+        if (HasQuantumWarning(warnings))
+        {
+            notes.Add("classical statistics unreliable (quantum-effects): see the quantum harmonic curve");
+        }
+        if (warnings.Any(w => w.Code == WarningCodes.LeftSite))
+        {
+            notes.Add("the particle left its site (left-site)");
+        }
+        if (warnings.Any(w => w.Code is WarningCodes.WallMass or WarningCodes.EscapeRisk))
+        {
+            notes.Add("walls or confinement hold the particle (wall-mass, escape-risk)");
+        }
+        if (notes.Count > 0)
+        {
+            var note = plot.Add.Annotation("caution: " + string.Join("\n         ", notes), Alignment.LowerLeft);
+            note.LabelFontColor = Color.FromHex("#b00020");
+            note.LabelFontSize = 11;
+            note.LabelBackgroundColor = Colors.White.WithAlpha(0.85);
+        }
+    }
+
+    /// <summary>Breaks <paramref name="text"/> into lines of at most <paramref name="width"/> characters at spaces.</summary>
+    private static string WrapLines(string text, int width)
+    {
+        var lines = new List<string>();
+        var line = new System.Text.StringBuilder();
+        foreach (string word in text.Split(' ', StringSplitOptions.RemoveEmptyEntries))
+        {
+            if (line.Length > 0 && line.Length + 1 + word.Length > width)
+            {
+                lines.Add(line.ToString());
+                line.Clear();
+            }
+            line.Append(line.Length > 0 ? " " : "").Append(word);
+        }
+        lines.Add(line.ToString());
+        return string.Join("\n", lines);
+    }
+
+    /// <summary>A unit direction as "(0.71, 0.71, 0)", with no "−0.00" for a component that rounds to zero.</summary>
+    internal static string Direction(Vector<double> v)
+    {
+        string Component(double x)
+        {
+            string text = x.ToString("F2", CultureInfo.InvariantCulture);
+            return text is "-0.00" or "0.00" ? "0" : text;
+        }
+        return $"({Component(v[0])}, {Component(v[1])}, {Component(v[2])})";
     }
 
     private static void AddSeries(Plot plot, double[] x, double[] y, double[] error, Color color, string label)

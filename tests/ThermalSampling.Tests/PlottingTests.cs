@@ -87,7 +87,7 @@ public class PlottingTests
     }
 
     [Fact]
-    public void Cli_plot_option_writes_one_figure_per_temperature_and_a_sweep()
+    public void Cli_plot_option_writes_the_file_asked_for_and_one_figure_per_temperature_beside_it()
     {
         string scenario = Temp(".json");
         File.WriteAllText(scenario, """
@@ -101,7 +101,8 @@ public class PlottingTests
         int code = ThermalSampling.Cli.Program.Run(new[] { "run", scenario, "--plot", basePath, "--quiet" }, stdout, stderr);
         Assert.True(code == 0, stderr.ToString());
         string dir = Path.GetDirectoryName(basePath)!, stem = Path.GetFileNameWithoutExtension(basePath);
-        foreach (string suffix in new[] { "-T100K", "-T300K", "-sweep" })
+        // FILE itself is the figure against temperature; each temperature's figure goes beside it.
+        foreach (string suffix in new[] { "-T100K", "-T300K", "" })
         {
             string f = Path.Combine(dir, stem + suffix + ".png");
             Assert.True(File.Exists(f), f);
@@ -109,6 +110,27 @@ public class PlottingTests
             File.Delete(f);
         }
         Assert.Contains("figure: ", stderr.ToString());
+    }
+
+    [Fact]
+    public void Temperatures_in_figure_names_are_rounded_to_what_tells_them_apart()
+    {
+        var names = ThermalSampling.Cli.FigureWriter.TemperatureNames([10, 37.77777777, 65.5555555, 100]);
+        Assert.Equal(["-T10K", "-T38K", "-T66K", "-T100K"], names);
+        Assert.Equal(["-T37.7K", "-T37.8K"], ThermalSampling.Cli.FigureWriter.TemperatureNames([37.71, 37.78]));
+    }
+
+    [Fact]
+    public void Figures_carry_their_context_and_cautions_and_print_directions_without_minus_zero()
+    {
+        // Invented pair at a temperature where the quantum warning fires: the title line, the caution and the quantum curve.
+        var report = PairSampler.Run(Line, Mass.FromAtomicMassUnits(2), Temperature.FromKelvin(20), Settings);
+        Assert.Contains(report.Warnings, w => w.Code == ThermalSampling.Analysis.WarningCodes.QuantumEffects);
+        string svg = SvgText(VibrationFigures.PositionDistribution(report, Line, "Invented example: a light atom").GetSvgXml(900, 560));
+        Assert.Contains("Invented example: a light atom", svg);
+        Assert.Contains("caution:", svg);
+        Assert.Contains("quantum harmonic Gaussian", svg);
+        Assert.Equal("(0.71, 0, -0.71)", VibrationFigures.Direction(MathNet.Numerics.LinearAlgebra.Vector<double>.Build.Dense([Math.Sqrt(0.5), -1e-9, -Math.Sqrt(0.5)])));
     }
 
     private static class ScottPlotSize
