@@ -27,7 +27,7 @@ internal static class ReportJsonWriter
         w.WriteString("temperature", "K");
         w.WriteEndObject();
         w.WriteString("libraryVersion", Provenance.CurrentLibraryVersion);
-        WriteInputs(w, s);
+        WriteInputs(w, s, results.Surface);
         w.WriteStartArray("results");
         foreach (var r in results.Pairs)
         {
@@ -47,7 +47,7 @@ internal static class ReportJsonWriter
     /// (<c>resolved</c>: the temperatures actually run, after a sweep's range, and every sampling setting with its default
     /// filled in), so that the document alone is enough to reproduce every number in it with the same library version.
     /// </summary>
-    private static void WriteInputs(Utf8JsonWriter w, Scenario s)
+    private static void WriteInputs(Utf8JsonWriter w, Scenario s, (string Site, string Frame)? surface)
     {
         w.WritePropertyName("input");
         using (var input = JsonDocument.Parse(s.SourceJson))
@@ -75,6 +75,13 @@ internal static class ReportJsonWriter
         w.WriteNumber("maxDiagnosticValuesPerChain", o.MaxDiagnosticValuesPerChain);
         w.WriteNumber("retainedDrawsPerChain", o.RetainedDrawsPerChain);
         w.WriteEndObject();
+        if (surface is { } sf)
+        {
+            w.WriteStartObject("surface");
+            w.WriteString("site", sf.Site);
+            w.WriteString("frame", sf.Frame);
+            w.WriteEndObject();
+        }
         w.WriteEndObject();
     }
 

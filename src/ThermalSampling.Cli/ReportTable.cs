@@ -96,7 +96,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
         var o = s.Sampling;
         string landscape = results.Pairs.Count > 0 ? results.Pairs[0].Provenance.Landscape : results.Sites.Count > 0 ? results.Sites[0].Provenance.Landscape : s.Landscape.Kind;
         return string.Create(CultureInfo.InvariantCulture,
-            $"mass {s.MassInAtomicMassUnits:G6} u; {landscape}; {(o.Method == Sampling.SamplingMethod.Metropolis ? "Metropolis" : "direct sampling")}, {o.Chains} chains × {o.SamplesPerChain} draws{(o.Method == Sampling.SamplingMethod.Metropolis ? $" after {o.BurnIn} burn-in steps" : "")}, seed {o.Seed}; library {Provenance.CurrentLibraryVersion}. Lengths in Å in this line; RMS is the spread about the mean.");
+            $"mass {s.MassInAtomicMassUnits:G6} u; {landscape}; {(o.Method == Sampling.SamplingMethod.Metropolis ? "Metropolis" : "direct sampling")}, {o.Chains} chains × {o.SamplesPerChain} draws{(o.Method == Sampling.SamplingMethod.Metropolis ? $" after {o.BurnIn} burn-in steps" : "")}, seed {o.Seed}; library {Provenance.CurrentLibraryVersion}.{(results.Surface is { } sf ? $" Surface: {sf.Site}; {sf.Frame}." : "")} Lengths in Å in this line; RMS is the spread about the mean.");
     }
 
     internal static string Header(ReportColumn c) => c.Unit.Length > 0 ? $"{c.Name} ({c.Unit})" : c.Name;

@@ -22,6 +22,9 @@ namespace ThermalSampling.Cli;
 internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibrationReport> Pairs, IReadOnlyList<SiteVibrationReport> Sites, bool Cancelled = false,
     IReadOnlyList<string>? Figures = null, IReadOnlyList<(double Kelvin, Analysis.Warning Warning)>? Checks = null)
 {
+    /// <summary>For a surface: the site built and the frame its coordinates are in (every document states them).</summary>
+    internal (string Site, string Frame)? Surface { get; init; }
+
     internal int Finished => Pairs.Count + Sites.Count;
 }
 
@@ -118,6 +121,7 @@ internal static class ScenarioRunner
             }
             var centre = l.Centre;
             SiteLandscape<TPotential> siteLandscape;
+            (string Site, string Frame)? surface = null;
             if (l.Facet is { } facet)
             {
                 // The slab reaches at least four neighbour distances, and far enough past the confinement that the
@@ -135,6 +139,7 @@ internal static class ScenarioRunner
                         _ => AdsorptionSiteKind.Hollow,
                     },
                     Length.FromAngstroms(l.NearestNeighbourDistance), l.Layers, lateral);
+                surface = (geometry.SiteDescription, geometry.Frame.Description + (l.Centre == Position.Origin ? "" : $"; everything shifted by the scenario's centre {l.Centre}"));
                 siteLandscape = SiteLandscape.AboveSurface(potential, geometry with
                 {
                     Sites = geometry.Sites.Select(s => s + l.Centre).ToImmutableArray(),
@@ -149,7 +154,7 @@ internal static class ScenarioRunner
             }
             if (checkOnly)
             {
-                return new ScenarioResults(scenario, [], [], Checks: temperatures.SelectMany(t => SiteSampler.Check(siteLandscape, mass, t).Select(w => (t.InKelvin, w))).ToList());
+                return new ScenarioResults(scenario, [], [], Checks: temperatures.SelectMany(t => SiteSampler.Check(siteLandscape, mass, t).Select(w => (t.InKelvin, w))).ToList()) { Surface = surface };
             }
             var siteReports = new List<SiteVibrationReport>();
             bool siteCancelled = checkpoint is null
@@ -158,7 +163,7 @@ internal static class ScenarioRunner
                     ? SiteSampler.SweepWithCheckpoints(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.Options, progress, ct)
                     : SiteSampler.Resume(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
             var siteFigures = plotPath is null ? null : FigureWriter.WriteSite(siteReports, plotPath, scenario.Title);
-            return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled, siteFigures);
+            return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled, siteFigures) { Surface = surface };
         }
         catch (ArgumentException ex) when (ex is not ArgumentNullException)
         {

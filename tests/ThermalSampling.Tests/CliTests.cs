@@ -426,6 +426,9 @@ public class CliCommandTests
         Assert.True(code == 0, stderr);
         using var doc = JsonDocument.Parse(stdout);
         Assert.True(doc.RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble() > 0);
+        var surface = doc.RootElement.GetProperty("resolved").GetProperty("surface");
+        Assert.StartsWith("hollow of fcc(100): 4-fold", surface.GetProperty("site").GetString());
+        Assert.Contains("z along [1 0 0] (outward)", surface.GetProperty("frame").GetString());
     }
 
     [Theory]
