@@ -115,7 +115,7 @@ public static class Program
                 stderr.WriteLine($"{o.File}: valid scenario ({loaded.TemperaturesInKelvin.Length} temperature(s), {loaded.Potential.Form} potential, {loaded.Landscape.Kind} landscape); {(checks.Count == 0 ? "no warnings before sampling." : $"{checks.Count} warning(s) before sampling:")}");
                 foreach (var (kelvin, warning) in checks)
                 {
-                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"warning at {kelvin:G6} K [{warning.Code}]: {warning.Message}"));
+                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"warning at {kelvin:G6} K [{warning.Code}]: {UnitText.InUnits(warning.Message, loaded.EnergyUnit, loaded.LengthUnit)}"));
                 }
                 return Success;
             }

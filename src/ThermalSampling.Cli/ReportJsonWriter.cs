@@ -31,12 +31,12 @@ internal static class ReportJsonWriter
         w.WriteStartArray("results");
         foreach (var r in results.Pairs)
         {
-            WritePair(w, r, l);
+            WritePair(w, r, l, s);
         }
         double e = ScenarioUnits.Energy[s.EnergyUnit];
         foreach (var r in results.Sites)
         {
-            WriteSite(w, r, l, e);
+            WriteSite(w, r, l, e, s);
         }
         w.WriteEndArray();
         w.WriteEndObject();
@@ -110,7 +110,7 @@ internal static class ReportJsonWriter
         w.WriteEndArray();
     }
 
-    private static void Common(Utf8JsonWriter w, SamplingDiagnostics d, System.Collections.Immutable.ImmutableArray<Warning> warnings)
+    private static void Common(Utf8JsonWriter w, SamplingDiagnostics d, System.Collections.Immutable.ImmutableArray<Warning> warnings, Scenario s)
     {
         w.WriteStartObject("diagnostics");
         Number(w, "acceptanceRate", d.AcceptanceRate);
@@ -124,13 +124,13 @@ internal static class ReportJsonWriter
         {
             w.WriteStartObject();
             w.WriteString("code", warning.Code);
-            w.WriteString("message", warning.Message);
+            w.WriteString("message", UnitText.InUnits(warning.Message, s.EnergyUnit, s.LengthUnit)); // in the scenario's units
             w.WriteEndObject();
         }
         w.WriteEndArray();
     }
 
-    private static void WritePair(Utf8JsonWriter w, PairVibrationReport r, double l)
+    private static void WritePair(Utf8JsonWriter w, PairVibrationReport r, double l, Scenario s)
     {
         double l2 = l * l;
         w.WriteStartObject();
@@ -169,11 +169,11 @@ internal static class ReportJsonWriter
         Number(w, "zScoreMean", r.Exact.ZScoreMean);
         Number(w, "zScoreVariance", r.Exact.ZScoreVariance);
         w.WriteEndObject();
-        Common(w, r.Diagnostics, r.Warnings);
+        Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
     }
 
-    private static void WriteSite(Utf8JsonWriter w, SiteVibrationReport r, double l, double e)
+    private static void WriteSite(Utf8JsonWriter w, SiteVibrationReport r, double l, double e, Scenario s)
     {
         double l2 = l * l;
         w.WriteStartObject();
@@ -235,7 +235,7 @@ internal static class ReportJsonWriter
         Number(w, "outerRadius", basin.OuterRadiusInAngstroms / l);
         Number(w, "gridSpacing", basin.GridSpacingInAngstroms / l);
         w.WriteEndObject();
-        Common(w, r.Diagnostics, r.Warnings);
+        Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
     }
 }

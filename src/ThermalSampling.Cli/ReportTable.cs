@@ -40,7 +40,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
             };
             var rows = results.Pairs.Select(r =>
             {
-                warnings.AddRange(r.Warnings.Select(w => (r.Temperature.InKelvin, w.Code, w.Message)));
+                warnings.AddRange(r.Warnings.Select(w => (r.Temperature.InKelvin, w.Code, UnitText.InUnits(w.Message, s.EnergyUnit, s.LengthUnit))));
                 return new[]
                 {
                     new ReportCell(r.Temperature.InKelvin),
@@ -69,7 +69,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
         };
         var siteRows = results.Sites.Select(r =>
         {
-            warnings.AddRange(r.Warnings.Select(w => (r.Temperature.InKelvin, w.Code, w.Message)));
+            warnings.AddRange(r.Warnings.Select(w => (r.Temperature.InKelvin, w.Code, UnitText.InUnits(w.Message, s.EnergyUnit, s.LengthUnit))));
             return new[]
             {
                 new ReportCell(r.Temperature.InKelvin),

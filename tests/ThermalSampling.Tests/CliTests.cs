@@ -553,4 +553,13 @@ public class CliCommandTests
         Assert.Equal(b.Potential.Parameters["equilibriumDistance"], a.Potential.Parameters["equilibriumDistance"], 12);
         Assert.Equal(b.Landscape.WindowUpper, a.Landscape.WindowUpper, 12);
     }
+
+    [Fact]
+    public void Warnings_read_in_the_scenarios_own_units()
+    {
+        const string message = "the confinement wall, 0.0079 eV above the minimum at (1.7, -0.98, 2.7) Å; within 0.216 Å of it, 0.06 Å² spread; 5.2 % of kT, 10 K.";
+        Assert.Equal("the confinement wall, 7.9 meV above the minimum at (0.17, -0.098, 0.27) nm; within 0.0216 nm of it, 0.0006 nm² spread; 5.2 % of kT, 10 K.",
+            UnitText.InUnits(message, "meV", "nm"));
+        Assert.Equal(message, UnitText.InUnits(message, "eV", "angstrom"));
+    }
 }
