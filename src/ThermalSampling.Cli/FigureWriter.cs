@@ -18,36 +18,45 @@ namespace ThermalSampling.Cli;
 internal static class FigureWriter
 {
     internal static List<string> WritePair<TPotential>(IReadOnlyList<PairVibrationReport> reports, PairLandscape<TPotential> landscape, string basePath,
-        string? title = null)
+        string? title = null, FigureUnits? units = null)
         where TPotential : struct, IPairPotential
     {
         var written = new List<string>();
         var names = TemperatureNames(reports.Select(r => r.Temperature.InKelvin).ToList());
         if (reports.Count >= 2)
         {
-            written.Add(Save(VibrationFigures.TemperatureSweep(reports, title), basePath, ""));
+            written.Add(Save(VibrationFigures.TemperatureSweep(reports, title, units), basePath, ""));
         }
         for (int i = 0; i < reports.Count; i++)
         {
-            written.Add(Save(VibrationFigures.PositionDistribution(reports[i], landscape, title), basePath, reports.Count == 1 ? "" : names[i]));
+            written.Add(Save(VibrationFigures.PositionDistribution(reports[i], landscape, title, units), basePath, reports.Count == 1 ? "" : names[i]));
         }
         return written;
     }
 
-    internal static List<string> WriteSite(IReadOnlyList<SiteVibrationReport> reports, string basePath, string? title = null)
+    internal static List<string> WriteSite(IReadOnlyList<SiteVibrationReport> reports, string basePath, string? title = null, FigureUnits? units = null)
     {
         var written = new List<string>();
         var names = TemperatureNames(reports.Select(r => r.Temperature.InKelvin).ToList());
         if (reports.Count >= 2)
         {
-            written.Add(Save(VibrationFigures.TemperatureSweep(reports, title), basePath, ""));
+            written.Add(Save(VibrationFigures.TemperatureSweep(reports, title, units), basePath, ""));
         }
         for (int i = 0; i < reports.Count; i++)
         {
-            written.Add(Save(VibrationFigures.SiteMarginals(reports[i], title), basePath, reports.Count == 1 ? "" : names[i] + "-marginals"));
-            written.Add(Save(VibrationFigures.SiteProjection(reports[i], title), basePath, (reports.Count == 1 ? "" : names[i]) + "-projection"));
+            written.Add(Save(VibrationFigures.SiteMarginals(reports[i], title, units), basePath, reports.Count == 1 ? "" : names[i] + "-marginals"));
+            written.Add(Save(VibrationFigures.SiteProjection(reports[i], title, units), basePath, (reports.Count == 1 ? "" : names[i]) + "-projection"));
         }
         return written;
+    }
+
+    /// <summary>The scenario's own units for its figures (an energy given as E/kB in K is drawn in meV).</summary>
+    internal static FigureUnits UnitsOf(Scenario scenario)
+    {
+        string length = scenario.LengthUnit == "angstrom" ? "Å" : scenario.LengthUnit;
+        return scenario.EnergyUnit == "K"
+            ? new FigureUnits(length, ScenarioUnits.Length[scenario.LengthUnit], "meV", 1e-3)
+            : new FigureUnits(length, ScenarioUnits.Length[scenario.LengthUnit], scenario.EnergyUnit, ScenarioUnits.Energy[scenario.EnergyUnit]);
     }
 
     internal static bool HasFigureExtension(string path)

@@ -116,7 +116,7 @@ internal static class ScenarioRunner
                     : RunAll(() => reports.AddRange(checkpoint.ResumeFrom is null
                         ? PairSampler.SweepWithCheckpoints(landscape, mass, temperatures, scenario.Sampling, checkpoint.Options, progress, ct)
                         : PairSampler.Resume(landscape, mass, temperatures, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
-                var figures = plotPath is null ? null : FigureWriter.WritePair(reports, landscape, plotPath, scenario.Title);
+                var figures = plotPath is null ? null : FigureWriter.WritePair(reports, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario));
                 return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled, figures);
             }
             var centre = l.Centre;
@@ -162,7 +162,7 @@ internal static class ScenarioRunner
                 : RunAll(() => siteReports.AddRange(checkpoint.ResumeFrom is null
                     ? SiteSampler.SweepWithCheckpoints(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.Options, progress, ct)
                     : SiteSampler.Resume(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
-            var siteFigures = plotPath is null ? null : FigureWriter.WriteSite(siteReports, plotPath, scenario.Title);
+            var siteFigures = plotPath is null ? null : FigureWriter.WriteSite(siteReports, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario));
             return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled, siteFigures) { Surface = surface };
         }
         catch (ArgumentException ex) when (ex is not ArgumentNullException)

@@ -12,9 +12,21 @@ using ThermalSampling.Reports;
 
 namespace ThermalSampling.Plotting;
 
+/// <summary>The units a figure is drawn in: lengths per <see cref="AngstromsPerUnit"/> Å, energies per <see cref="ElectronVoltsPerUnit"/> eV.</summary>
+/// <param name="LengthName">The length unit as printed, for example "Å" or "nm".</param>
+/// <param name="AngstromsPerUnit">Å in one length unit.</param>
+/// <param name="EnergyName">The energy unit as printed, for example "meV".</param>
+/// <param name="ElectronVoltsPerUnit">eV in one energy unit.</param>
+public sealed record FigureUnits(string LengthName, double AngstromsPerUnit, string EnergyName, double ElectronVoltsPerUnit)
+{
+    /// <summary>Å and meV.</summary>
+    public static FigureUnits Default { get; } = new("Å", 1, "meV", 1e-3);
+}
+
 /// <summary>
 /// Figures of vibration reports, drawn with ScottPlot. Every method returns a <see cref="Plot"/> that callers may
-/// restyle before saving with <see cref="Save"/>. Lengths are in Å, energies in meV, temperatures in K.
+/// restyle before saving with <see cref="Save"/>. Lengths and energies are in the <see cref="FigureUnits"/> given (Å and meV
+/// by default), temperatures in K.
 /// </summary>
 public static class VibrationFigures
 {
@@ -43,9 +55,13 @@ public static class VibrationFigures
     /// <param name="report">The report.</param>
     /// <param name="landscape">The landscape it was sampled in (for the exact density and the potential curve).</param>
     /// <param name="context">A line shown under the title, such as the scenario's title (say "invented" where it is); none when null.</param>
-    public static Plot PositionDistribution<TPotential>(PairVibrationReport report, PairLandscape<TPotential> landscape, string? context = null)
+    /// <param name="units">The units to draw in; Å and meV when null.</param>
+    public static Plot PositionDistribution<TPotential>(PairVibrationReport report, PairLandscape<TPotential> landscape, string? context = null,
+        FigureUnits? units = null)
         where TPotential : struct, IPairPotential
     {
+        var u = units ?? FigureUnits.Default;
+        double L = u.AngstromsPerUnit;
         ArgumentNullException.ThrowIfNull(report);
         ArgumentNullException.ThrowIfNull(landscape);
         var exact = ExactPairDistribution.Compute(landscape, report.Temperature);
@@ -57,23 +73,24 @@ public static class VibrationFigures
         double lo = h.Lower + first * h.BinWidth, hi = h.Lower + (last + 1) * h.BinWidth;
 
         var plot = new Plot();
-        var xs = Enumerable.Range(0, h.Density.Length).Select(h.BinCentre).ToArray();
-        var sampled = plot.Add.Scatter(xs, h.Density.ToArray(), Sampled);
+        var xs = Enumerable.Range(0, h.Density.Length).Select(i => h.BinCentre(i) / L).ToArray();
+        var sampled = plot.Add.Scatter(xs, h.Density.Select(d => d * L).ToArray(), Sampled);
         sampled.LineWidth = 0;
         sampled.MarkerSize = 6;
         sampled.LegendText = "sampled (± 1 SE)";
-        var bars = plot.Add.ErrorBar(xs, h.Density.ToArray(), h.DensityStandardError.ToArray());
+        var bars = plot.Add.ErrorBar(xs, h.Density.Select(d => d * L).ToArray(), h.DensityStandardError.Select(d => d * L).ToArray());
         bars.Color = Sampled;
 
         var grid = Enumerable.Range(0, 400).Select(i => lo + (hi - lo) * i / 399).ToArray();
-        var exactLine = plot.Add.Scatter(grid, grid.Select(exact.Density).ToArray(), Exact);
+        var gridU = grid.Select(r => r / L).ToArray();
+        var exactLine = plot.Add.Scatter(gridU, grid.Select(r => exact.Density(r) * L).ToArray(), Exact);
         exactLine.MarkerSize = 0;
         exactLine.LineWidth = 2;
         exactLine.LegendText = "exact (quadrature)";
         if (report.Harmonic is { } harm)
         {
             double s = harm.ClassicalRmsInAngstroms, m = harm.EquilibriumDistanceInAngstroms;
-            var gauss = plot.Add.Scatter(grid, grid.Select(r => Math.Exp(-0.5 * (r - m) * (r - m) / (s * s)) / (s * Math.Sqrt(2 * Math.PI))).ToArray(), Harmonic);
+            var gauss = plot.Add.Scatter(gridU, grid.Select(r => L * Math.Exp(-0.5 * (r - m) * (r - m) / (s * s)) / (s * Math.Sqrt(2 * Math.PI))).ToArray(), Harmonic);
             gauss.MarkerSize = 0;
             gauss.LinePattern = LinePattern.Dashed;
             gauss.LineWidth = 2;
@@ -81,7 +98,7 @@ public static class VibrationFigures
             if (HasQuantumWarning(report.Warnings))
             {
                 double q = harm.QuantumRmsInAngstroms;
-                var quantum = plot.Add.Scatter(grid, grid.Select(r => Math.Exp(-0.5 * (r - m) * (r - m) / (q * q)) / (q * Math.Sqrt(2 * Math.PI))).ToArray(), Quantum);
+                var quantum = plot.Add.Scatter(gridU, grid.Select(r => L * Math.Exp(-0.5 * (r - m) * (r - m) / (q * q)) / (q * Math.Sqrt(2 * Math.PI))).ToArray(), Quantum);
                 quantum.MarkerSize = 0;
                 quantum.LinePattern = LinePattern.DenselyDashed;
                 quantum.LineWidth = 2;
@@ -91,7 +108,7 @@ public static class VibrationFigures
         double vMin = grid.Min(landscape.CheckedEnergy);
         double kt = report.Temperature.ThermalEnergyInElectronVolts;
         double vMax = 12 * kt;
-        var potential = plot.Add.Scatter(grid, grid.Select(r => Math.Min((landscape.CheckedEnergy(r) - vMin), vMax) * 1e3).ToArray(), Potential);
+        var potential = plot.Add.Scatter(gridU, grid.Select(r => Math.Min((landscape.CheckedEnergy(r) - vMin), vMax) / u.ElectronVoltsPerUnit).ToArray(), Potential);
         potential.MarkerSize = 0;
         potential.LinePattern = LinePattern.Dotted;
         potential.LineWidth = 2;
@@ -100,12 +117,12 @@ public static class VibrationFigures
 
         string geometry = report.Geometry == SeparationGeometry.Radial ? "radial pair" : "line";
         Title(plot, string.Create(CultureInfo.InvariantCulture, $"Position distribution, {geometry}, T = {report.Temperature.InKelvin:G4} K"), context, report.Warnings);
-        plot.XLabel("separation r (Å)");
-        plot.YLabel("probability density (1/Å)");
-        plot.Axes.Right.Label.Text = "V(r) − V_min (meV)";
-        plot.Axes.SetLimitsX(lo, hi);
-        plot.Axes.SetLimitsY(0, 1.15 * Math.Max(peak, exactLine.Data.GetLimits().Top), plot.Axes.Left);
-        plot.Axes.SetLimitsY(0, vMax * 1e3 * 1.05, plot.Axes.Right);
+        plot.XLabel($"separation r ({u.LengthName})");
+        plot.YLabel($"probability density (1/{u.LengthName})");
+        plot.Axes.Right.Label.Text = $"V(r) − V_min ({u.EnergyName})";
+        plot.Axes.SetLimitsX(lo / L, hi / L);
+        plot.Axes.SetLimitsY(0, 1.15 * Math.Max(peak * L, exactLine.Data.GetLimits().Top), plot.Axes.Left);
+        plot.Axes.SetLimitsY(0, vMax / u.ElectronVoltsPerUnit * 1.05, plot.Axes.Right);
         plot.ShowLegend(Alignment.UpperRight);
         return plot;
     }
@@ -114,8 +131,11 @@ public static class VibrationFigures
     /// <param name="report">A site report with retained draws (<see cref="Sampling.SamplingSettings.RetainedDrawsPerChain"/> above 0).</param>
     /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
     /// <exception cref="ArgumentException">When the report holds no retained draws.</exception>
-    public static Plot SiteMarginals(SiteVibrationReport report, string? context = null)
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot SiteMarginals(SiteVibrationReport report, string? context = null, FigureUnits? units = null)
     {
+        var unit = units ?? FigureUnits.Default;
+        double L = unit.AngstromsPerUnit;
         var draws = Draws(report);
         var plot = new Plot();
         var mean = report.Mean;
@@ -139,31 +159,32 @@ public static class VibrationFigures
                 }
             }
             double width = 2 * extent / bins;
-            var xs = Enumerable.Range(0, bins).Select(b => -extent + (b + 0.5) * width).ToArray();
-            var density = counts.Select(c => c / (draws.Count * width)).ToArray();
+            var xsA = Enumerable.Range(0, bins).Select(b => -extent + (b + 0.5) * width).ToArray();
+            var xs = xsA.Select(x => x / L).ToArray();
+            var density = counts.Select(c => L * c / (draws.Count * width)).ToArray();
             var line = plot.Add.Scatter(xs, density, colors[axis]);
             line.MarkerSize = 4;
             line.LineWidth = 0;
             line.LegendText = $"sampled {names[axis]} (± 1 SE)";
-            var errors = plot.Add.ErrorBar(xs, density, counts.Select(c => Math.Sqrt(c / draws.Count * (1 - c / draws.Count) * inflation / draws.Count) / width).ToArray());
+            var errors = plot.Add.ErrorBar(xs, density, counts.Select(c => L * Math.Sqrt(c / draws.Count * (1 - c / draws.Count) * inflation / draws.Count) / width).ToArray());
             errors.Color = colors[axis];
             double s = Math.Sqrt(report.Harmonic.ClassicalCovariance[axis, axis]);
-            var g = plot.Add.Scatter(xs, xs.Select(u => Math.Exp(-0.5 * u * u / (s * s)) / (s * Math.Sqrt(2 * Math.PI))).ToArray(), colors[axis]);
+            var g = plot.Add.Scatter(xs, xsA.Select(u => L * Math.Exp(-0.5 * u * u / (s * s)) / (s * Math.Sqrt(2 * Math.PI))).ToArray(), colors[axis]);
             g.MarkerSize = 0;
             g.LinePattern = LinePattern.Dashed;
             g.LegendText = $"harmonic {names[axis]}";
             if (quantum)
             {
                 double q = Math.Sqrt(report.Harmonic.QuantumCovariance[axis, axis]);
-                var qg = plot.Add.Scatter(xs, xs.Select(u => Math.Exp(-0.5 * u * u / (q * q)) / (q * Math.Sqrt(2 * Math.PI))).ToArray(), colors[axis]);
+                var qg = plot.Add.Scatter(xs, xsA.Select(u => L * Math.Exp(-0.5 * u * u / (q * q)) / (q * Math.Sqrt(2 * Math.PI))).ToArray(), colors[axis]);
                 qg.MarkerSize = 0;
                 qg.LinePattern = LinePattern.Dotted;
                 qg.LegendText = $"quantum harmonic {names[axis]}";
             }
         }
         Title(plot, string.Create(CultureInfo.InvariantCulture, $"Marginal distributions about the mean, T = {report.Temperature.InKelvin:G4} K"), context, report.Warnings);
-        plot.XLabel("displacement from the mean (Å)");
-        plot.YLabel("probability density (1/Å)");
+        plot.XLabel($"displacement from the mean ({unit.LengthName})");
+        plot.YLabel($"probability density (1/{unit.LengthName})");
         plot.ShowLegend(Alignment.UpperRight);
         return plot;
     }
@@ -177,15 +198,27 @@ public static class VibrationFigures
     /// <param name="report">A site report with retained draws.</param>
     /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
     /// <exception cref="ArgumentException">When the report holds no retained draws.</exception>
-    public static Plot SiteProjection(SiteVibrationReport report, string? context = null)
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot SiteProjection(SiteVibrationReport report, string? context = null, FigureUnits? units = null)
     {
+        var unit = units ?? FigureUnits.Default;
+        double L = unit.AngstromsPerUnit;
         var draws = Draws(report);
         var evd = report.Covariance.ToMatrix().Evd(Symmetricity.Symmetric);
         // Eigenvalues ascend: the two most spread directions are columns 2 and 1.
         var e1 = evd.EigenVectors.Column(2);
         var e2 = evd.EigenVectors.Column(1);
         double s1 = Math.Sqrt(evd.EigenValues[2].Real), s2 = Math.Sqrt(evd.EigenValues[1].Real);
-        if (Math.Abs(s1 - s2) < 0.05 * s1)
+        double s3 = Math.Sqrt(Math.Max(evd.EigenValues[0].Real, 0));
+        if (Math.Abs(s1 - s3) < 0.05 * s1)
+        {
+            // Isotropic within 5 %: every plane is alike, so draw the frame's x and y.
+            e1 = Vector<double>.Build.Dense([1.0, 0, 0]);
+            e2 = Vector<double>.Build.Dense([0, 1.0, 0]);
+            s1 = Math.Sqrt(report.Covariance.XX);
+            s2 = Math.Sqrt(report.Covariance.YY);
+        }
+        else if (Math.Abs(s1 - s2) < 0.05 * s1)
         {
             // A (nearly) degenerate pair spans a plane; any basis of it is as good, so take the frame's x projected into it.
             var x = Vector<double>.Build.Dense([1.0, 0, 0]);
@@ -227,34 +260,34 @@ public static class VibrationFigures
         {
             for (int j = 0; j < n; j++)
             {
-                grid[i, j] /= draws.Count * cell * cell;
+                grid[i, j] *= L * L / (draws.Count * cell * cell);
             }
         }
         var plot = new Plot();
         var heat = plot.Add.Heatmap(grid);
-        heat.Extent = new CoordinateRect(-extent, extent, -extent, extent);
+        heat.Extent = new CoordinateRect(-extent / L, extent / L, -extent / L, extent / L);
         heat.Colormap = new ScottPlot.Colormaps.Viridis();
-        plot.Add.ColorBar(heat).Label = "density (1/Å²)";
+        plot.Add.ColorBar(heat).Label = $"density (1/{unit.LengthName}²)";
         foreach (double share in EnclosedShares)
         {
             double k = Math.Sqrt(-2 * Math.Log(1 - share)); // a 2D Gaussian holds 1 − e^(−k²/2) inside k σ
-            var ellipse = plot.Add.Ellipse(0, 0, k * s1, k * s2);
+            var ellipse = plot.Add.Ellipse(0, 0, k * s1 / L, k * s2 / L);
             ellipse.LineColor = Colors.White;
             ellipse.LineWidth = 1.5f;
             ellipse.LinePattern = share < 0.75 ? LinePattern.Solid : LinePattern.Dashed;
-            var label = plot.Add.Text(string.Create(CultureInfo.InvariantCulture, $"{share:P0}"), k * s1 * 0.72, k * s2 * 0.72);
+            var label = plot.Add.Text(string.Create(CultureInfo.InvariantCulture, $"{share:P0}"), k * s1 * 0.72 / L, k * s2 * 0.72 / L);
             label.LabelFontColor = Colors.White;
             label.LabelFontSize = 13;
         }
-        var axis1 = plot.Add.Line(-2 * s1, 0, 2 * s1, 0);
+        var axis1 = plot.Add.Line(-2 * s1 / L, 0, 2 * s1 / L, 0);
         axis1.LineColor = Colors.White;
-        var axis2 = plot.Add.Line(0, -2 * s2, 0, 2 * s2);
+        var axis2 = plot.Add.Line(0, -2 * s2 / L, 0, 2 * s2 / L);
         axis2.LineColor = Colors.White;
         var c = CultureInfo.InvariantCulture;
         Title(plot, string.Format(c, "Projected density, T = {0:G4} K (ellipses hold 50 % and 90 % of a Gaussian in this plane)", report.Temperature.InKelvin), context, report.Warnings);
-        plot.XLabel(string.Format(c, "along {0}, σ = {1:G3} Å", Direction(e1), s1));
-        plot.YLabel(string.Format(c, "along {0}, σ = {1:G3} Å", Direction(e2), s2));
-        plot.Axes.SetLimits(-extent, extent, -extent, extent);
+        plot.XLabel(string.Format(c, "along {0}, σ = {1:G3} {2}", Direction(e1), s1 / L, unit.LengthName));
+        plot.YLabel(string.Format(c, "along {0}, σ = {1:G3} {2}", Direction(e2), s2 / L, unit.LengthName));
+        plot.Axes.SetLimits(-extent / L, extent / L, -extent / L, extent / L);
         plot.Axes.SquareUnits();
         return plot;
     }
@@ -265,12 +298,15 @@ public static class VibrationFigures
     /// </summary>
     /// <param name="reports">Reports at several temperatures (any order; at least two).</param>
     /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
-    public static Plot TemperatureSweep(IReadOnlyList<PairVibrationReport> reports, string? context = null)
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot TemperatureSweep(IReadOnlyList<PairVibrationReport> reports, string? context = null, FigureUnits? units = null)
     {
+        var unit = units ?? FigureUnits.Default;
+        double L = unit.AngstromsPerUnit;
         var sorted = SortedByTemperature(reports, r => r.Temperature);
         double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
         var plot = new Plot();
-        AddSeries(plot, t, sorted.Select(r => r.Rms.Value).ToArray(), sorted.Select(r => r.Rms.StandardError).ToArray(), Sampled, "RMS spread, sampled");
+        AddSeries(plot, t, sorted.Select(r => r.Rms.Value / L).ToArray(), sorted.Select(r => r.Rms.StandardError / L).ToArray(), Sampled, "RMS spread, sampled");
         if (sorted[0].Harmonic is { } h0 && sorted[0].FirstOrder is { } f0)
         {
             // The harmonic and first-order curves are closed forms in T: Var = kT/k + c·(kT)², shift = s·kT.
@@ -281,17 +317,17 @@ public static class VibrationFigures
             double s = f0.MeanShiftInAngstroms / kt0;
             var dense = Enumerable.Range(0, 200).Select(i => t[^1] * (i + 1) / 200.0).ToArray();
             double KT(double kelvin) => kelvin * Units.PhysicalConstants.BoltzmannElectronVoltPerKelvin;
-            AddCurve(plot, dense, dense.Select(x => Math.Sqrt(KT(x) / k)).ToArray(), Harmonic, LinePattern.Dashed, "RMS, harmonic √(kT/k)");
-            AddCurve(plot, dense, dense.Select(x => Math.Sqrt(Math.Max(KT(x) / k + c * KT(x) * KT(x), 0))).ToArray(), Harmonic, LinePattern.Dotted, "RMS, first order");
+            AddCurve(plot, dense, dense.Select(x => Math.Sqrt(KT(x) / k) / L).ToArray(), Harmonic, LinePattern.Dashed, "RMS, harmonic √(kT/k)");
+            AddCurve(plot, dense, dense.Select(x => Math.Sqrt(Math.Max(KT(x) / k + c * KT(x) * KT(x), 0)) / L).ToArray(), Harmonic, LinePattern.Dotted, "RMS, first order");
             double zeroPoint = h0.ZeroPointVarianceInAngstromsSquared, hw = h0.QuantumEnergyInElectronVolts;
-            AddCurve(plot, dense, dense.Select(x => Math.Sqrt(zeroPoint / Math.Tanh(0.5 * hw / KT(x)))).ToArray(), Quantum, LinePattern.DenselyDashed, "RMS, quantum harmonic");
-            AddSeries(plot, t, sorted.Select(r => r.MeanShift!.Value).ToArray(), sorted.Select(r => r.MeanShift!.StandardError).ToArray(), FirstOrder, "mean shift, sampled");
-            AddCurve(plot, dense, dense.Select(x => s * KT(x)).ToArray(), FirstOrder, LinePattern.Dotted, "mean shift, first order");
+            AddCurve(plot, dense, dense.Select(x => Math.Sqrt(zeroPoint / Math.Tanh(0.5 * hw / KT(x))) / L).ToArray(), Quantum, LinePattern.DenselyDashed, "RMS, quantum harmonic");
+            AddSeries(plot, t, sorted.Select(r => r.MeanShift!.Value / L).ToArray(), sorted.Select(r => r.MeanShift!.StandardError / L).ToArray(), FirstOrder, "mean shift, sampled");
+            AddCurve(plot, dense, dense.Select(x => s * KT(x) / L).ToArray(), FirstOrder, LinePattern.Dotted, "mean shift, first order");
         }
         plot.Axes.SetLimitsX(0, 1.05 * t[^1]);
         Title(plot, "Thermal spread and shift against temperature", context, sorted.SelectMany(r => r.Warnings).ToList());
         plot.XLabel("temperature (K)");
-        plot.YLabel("length (Å)");
+        plot.YLabel($"length ({unit.LengthName})");
         plot.ShowLegend(Alignment.UpperLeft);
         return plot;
     }
@@ -299,12 +335,15 @@ public static class VibrationFigures
     /// <summary>The mean-square displacement of a site against temperature: sampled with error bars, classical and quantum harmonic.</summary>
     /// <param name="reports">Reports at several temperatures (at least two).</param>
     /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
-    public static Plot TemperatureSweep(IReadOnlyList<SiteVibrationReport> reports, string? context = null)
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot TemperatureSweep(IReadOnlyList<SiteVibrationReport> reports, string? context = null, FigureUnits? units = null)
     {
+        var unit = units ?? FigureUnits.Default;
+        double L2 = unit.AngstromsPerUnit * unit.AngstromsPerUnit;
         var sorted = SortedByTemperature(reports, r => r.Temperature);
         double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
         var plot = new Plot();
-        AddSeries(plot, t, sorted.Select(r => r.MeanSquareDisplacement.Value).ToArray(), sorted.Select(r => r.MeanSquareDisplacement.StandardError).ToArray(), Sampled, "MSD, sampled");
+        AddSeries(plot, t, sorted.Select(r => r.MeanSquareDisplacement.Value / L2).ToArray(), sorted.Select(r => r.MeanSquareDisplacement.StandardError / L2).ToArray(), Sampled, "MSD, sampled");
         // Both harmonic curves are closed forms in T, drawn smooth: classical MSD = Σ kT/k_i, quantum MSD = Σ z_i coth(ħω_i/2kT)
         // with z_i = ħ/(2mω_i) the zero-point variance of mode i (recovered from the lowest temperature's modes).
         var modes = sorted[0].Harmonic.Modes;
@@ -313,16 +352,16 @@ public static class VibrationFigures
         var quantumEnergies = modes.Select(m => m.QuantumToThermalRatio * kt0).ToArray();
         double perKelvin = sorted[0].Harmonic.ClassicalMeanSquareDisplacement / t[0];
         var dense = Enumerable.Range(0, 200).Select(i => t[^1] * (i + 1) / 200.0).ToArray();
-        AddCurve(plot, dense, dense.Select(x => perKelvin * x).ToArray(), Harmonic, LinePattern.Dashed, "MSD, classical harmonic");
+        AddCurve(plot, dense, dense.Select(x => perKelvin * x / L2).ToArray(), Harmonic, LinePattern.Dashed, "MSD, classical harmonic");
         AddCurve(plot, dense, dense.Select(x =>
         {
             double kt = x * Units.PhysicalConstants.BoltzmannElectronVoltPerKelvin;
-            return zeroPoint.Select((z, i) => z / Math.Tanh(0.5 * quantumEnergies[i] / kt)).Sum();
+            return zeroPoint.Select((z, i) => z / Math.Tanh(0.5 * quantumEnergies[i] / kt)).Sum() / L2;
         }).ToArray(), Quantum, LinePattern.Dotted, "MSD, quantum harmonic");
         plot.Axes.SetLimitsX(0, 1.05 * t[^1]);
         Title(plot, "Mean-square displacement against temperature", context, sorted.SelectMany(r => r.Warnings).ToList());
         plot.XLabel("temperature (K)");
-        plot.YLabel("mean-square displacement (Å²)");
+        plot.YLabel($"mean-square displacement ({unit.LengthName}²)");
         plot.ShowLegend(Alignment.UpperLeft);
         return plot;
     }

@@ -130,6 +130,9 @@ public class PlottingTests
         Assert.Contains("Invented example: a light atom", svg);
         Assert.Contains("caution:", svg);
         Assert.Contains("quantum harmonic Gaussian", svg);
+        string nm = SvgText(VibrationFigures.PositionDistribution(report, Line, null, new FigureUnits("nm", 10, "meV", 1e-3)).GetSvgXml(900, 560));
+        Assert.Contains("separation r (nm)", nm);
+        Assert.Contains("probability density (1/nm)", nm);
         Assert.Equal("(0.71, 0, -0.71)", VibrationFigures.Direction(MathNet.Numerics.LinearAlgebra.Vector<double>.Build.Dense([Math.Sqrt(0.5), -1e-9, -Math.Sqrt(0.5)])));
     }
 
