@@ -70,6 +70,34 @@ public static class ReportHtml
     /// <param name="report">The report.</param>
     public static string ToHtml(this SiteVibrationReport report) => new[] { report }.ToHtml();
 
+    /// <summary>
+    /// One pair report as a notebook shows it: the table, its warnings and the sampled distribution with the harmonic
+    /// Gaussian (the exact density needs the landscape: draw <see cref="VibrationFigures.PositionDistribution{TPotential}"/> for it).
+    /// </summary>
+    /// <param name="report">The report.</param>
+    public static string ToHtmlWithFigure(this PairVibrationReport report)
+        => report.ToHtml() + VibrationFigures.SampledDistribution(report).ToHtml(720, 440);
+
+    /// <summary>One site report as a notebook shows it: the table, its warnings and, when draws were kept, the marginals and the projection.</summary>
+    /// <param name="report">The report.</param>
+    public static string ToHtmlWithFigure(this SiteVibrationReport report)
+    {
+        ArgumentNullException.ThrowIfNull(report);
+        return report.Draws.Chains.All(c => c.IsEmpty)
+            ? report.ToHtml() + "<p><i>No figure: keep draws with SamplingSettings.RetainedDrawsPerChain to see the marginals and the projection.</i></p>"
+            : report.ToHtml() + VibrationFigures.SiteMarginals(report).ToHtml(720, 440) + VibrationFigures.SiteProjection(report).ToHtml(720, 440);
+    }
+
+    /// <summary>Pair reports of a sweep as a notebook shows them: the table, the warnings and, for two or more temperatures, the figure against temperature.</summary>
+    /// <param name="reports">The reports.</param>
+    public static string ToHtmlWithFigure(this IReadOnlyList<PairVibrationReport> reports)
+        => reports.ToHtml() + (reports.Count >= 2 ? VibrationFigures.TemperatureSweep(reports).ToHtml(720, 440) : "");
+
+    /// <summary>Site reports of a sweep as a notebook shows them: the table, the warnings and, for two or more temperatures, the figure against temperature.</summary>
+    /// <param name="reports">The reports.</param>
+    public static string ToHtmlWithFigure(this IReadOnlyList<SiteVibrationReport> reports)
+        => reports.ToHtml() + (reports.Count >= 2 ? VibrationFigures.TemperatureSweep(reports).ToHtml(720, 440) : "");
+
     /// <summary>A figure as an inline PNG image tag.</summary>
     /// <param name="plot">The figure.</param>
     /// <param name="width">Width in pixels.</param>

@@ -127,6 +127,53 @@ public static class VibrationFigures
         return plot;
     }
 
+    /// <summary>
+    /// The sampled distribution of a pair from its report alone: the histogram with error bars, the harmonic Gaussian and,
+    /// when the quantum warning fires, the quantum-harmonic one. (With the landscape, <see cref="PositionDistribution{TPotential}"/>
+    /// adds the exact density and the potential.)
+    /// </summary>
+    /// <param name="report">The report.</param>
+    /// <param name="context">A line shown under the title; none when null.</param>
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot SampledDistribution(PairVibrationReport report, string? context = null, FigureUnits? units = null)
+    {
+        ArgumentNullException.ThrowIfNull(report);
+        var u = units ?? FigureUnits.Default;
+        double L = u.AngstromsPerUnit;
+        var h = report.Histogram;
+        var plot = new Plot();
+        var xs = Enumerable.Range(0, h.Density.Length).Select(i => h.BinCentre(i) / L).ToArray();
+        var ys = h.Density.Select(d => d * L).ToArray();
+        var sampled = plot.Add.Scatter(xs, ys, Sampled);
+        sampled.LineWidth = 0;
+        sampled.MarkerSize = 6;
+        sampled.LegendText = "sampled (± 1 SE)";
+        plot.Add.ErrorBar(xs, ys, h.DensityStandardError.Select(d => d * L).ToArray()).Color = Sampled;
+        if (report.Harmonic is { } harm)
+        {
+            var grid = Enumerable.Range(0, 400).Select(i => h.Lower + (h.Upper - h.Lower) * i / 399).ToArray();
+            void Gaussian(double s, Color color, LinePattern pattern, string label)
+            {
+                double m = harm.EquilibriumDistanceInAngstroms;
+                var line = plot.Add.Scatter(grid.Select(r => r / L).ToArray(), grid.Select(r => L * Math.Exp(-0.5 * (r - m) * (r - m) / (s * s)) / (s * Math.Sqrt(2 * Math.PI))).ToArray(), color);
+                line.MarkerSize = 0;
+                line.LineWidth = 2;
+                line.LinePattern = pattern;
+                line.LegendText = label;
+            }
+            Gaussian(harm.ClassicalRmsInAngstroms, Harmonic, LinePattern.Dashed, "harmonic Gaussian");
+            if (HasQuantumWarning(report.Warnings))
+            {
+                Gaussian(harm.QuantumRmsInAngstroms, Quantum, LinePattern.DenselyDashed, "quantum harmonic Gaussian");
+            }
+        }
+        Title(plot, string.Create(CultureInfo.InvariantCulture, $"Sampled distribution, T = {report.Temperature.InKelvin:G4} K"), context, report.Warnings);
+        plot.XLabel($"separation r ({u.LengthName})");
+        plot.YLabel($"probability density (1/{u.LengthName})");
+        plot.ShowLegend(Alignment.UpperRight);
+        return plot;
+    }
+
     /// <summary>The three marginal distributions of a site report (x, y, z about the mean), with the harmonic Gaussians.</summary>
     /// <param name="report">A site report with retained draws (<see cref="Sampling.SamplingSettings.RetainedDrawsPerChain"/> above 0).</param>
     /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
