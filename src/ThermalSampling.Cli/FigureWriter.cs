@@ -2,6 +2,7 @@ using System.Collections.Generic;
 using System.Globalization;
 using System.IO;
 using System.Linq;
+using ScottPlot;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Plotting;
 using ThermalSampling.Potentials;
@@ -27,9 +28,15 @@ internal static class FigureWriter
         {
             written.Add(Save(VibrationFigures.TemperatureSweep(reports, title, units), basePath, ""));
         }
+        var plots = reports.Select(r => VibrationFigures.PositionDistribution(r, landscape, title, units)).ToList();
+        if (Panelled(basePath, reports.Count))
+        {
+            written.Add(SavePanels(plots, basePath, "-distributions"));
+            return written;
+        }
         for (int i = 0; i < reports.Count; i++)
         {
-            written.Add(Save(VibrationFigures.PositionDistribution(reports[i], landscape, title, units), basePath, reports.Count == 1 ? "" : names[i]));
+            written.Add(Save(plots[i], basePath, reports.Count == 1 ? "" : names[i]));
         }
         return written;
     }
@@ -41,6 +48,12 @@ internal static class FigureWriter
         if (reports.Count >= 2)
         {
             written.Add(Save(VibrationFigures.TemperatureSweep(reports, title, units), basePath, ""));
+        }
+        if (Panelled(basePath, reports.Count))
+        {
+            written.Add(SavePanels(reports.Select(r => VibrationFigures.SiteMarginals(r, title, units)).ToList(), basePath, "-marginals"));
+            written.Add(SavePanels(reports.Select(r => VibrationFigures.SiteProjection(r, title, units)).ToList(), basePath, "-projections"));
+            return written;
         }
         for (int i = 0; i < reports.Count; i++)
         {
@@ -84,6 +97,39 @@ internal static class FigureWriter
         }
         int decimals = significant - 1 - (int)System.Math.Floor(System.Math.Log10(System.Math.Abs(value)));
         return decimals >= 0 ? System.Math.Round(value, System.Math.Min(decimals, 15)) : System.Math.Round(value / System.Math.Pow(10, -decimals)) * System.Math.Pow(10, -decimals);
+    }
+
+    /// <summary>Four or more temperatures drawn as PNG go into one figure of panels (a reader compares them side by side) rather than a file each.</summary>
+    private static bool Panelled(string basePath, int temperatures)
+        => temperatures >= PanelThreshold && Path.GetExtension(basePath).Equals(".png", System.StringComparison.OrdinalIgnoreCase);
+
+    /// <summary>The smallest number of temperatures drawn as panels of one figure.</summary>
+    internal const int PanelThreshold = 4;
+
+    /// <summary>The plots as panels of one PNG, three to a row, each at the usual size.</summary>
+    private static string SavePanels(IReadOnlyList<ScottPlot.Plot> plots, string basePath, string suffix)
+    {
+        const int columns = 3;
+        int rows = (plots.Count + columns - 1) / columns;
+        int w = VibrationFigures.DefaultWidth, h = VibrationFigures.DefaultHeight;
+        string directory = Path.GetDirectoryName(Path.GetFullPath(basePath))!;
+        Directory.CreateDirectory(directory);
+        string path = Path.Combine(directory, Path.GetFileNameWithoutExtension(basePath) + suffix + ".png");
+        // Each panel rendered at the usual size and placed on one canvas (SkiaSharp, which ScottPlot draws with).
+        using (var surface = SkiaSharp.SKSurface.Create(new SkiaSharp.SKImageInfo(columns * w, rows * h)))
+        {
+            surface.Canvas.Clear(SkiaSharp.SKColors.White);
+            for (int i = 0; i < plots.Count; i++)
+            {
+                using var panel = SkiaSharp.SKBitmap.Decode(plots[i].GetImageBytes(w, h, ImageFormat.Png));
+                surface.Canvas.DrawBitmap(panel, i % columns * w, i / columns * h);
+            }
+            using var image = surface.Snapshot();
+            using var data = image.Encode(SkiaSharp.SKEncodedImageFormat.Png, 100);
+            using var file = File.Create(path);
+            data.SaveTo(file);
+        }
+        return path;
     }
 
     private static string Save(ScottPlot.Plot plot, string basePath, string suffix)

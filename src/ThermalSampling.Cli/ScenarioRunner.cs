@@ -116,7 +116,7 @@ internal static class ScenarioRunner
                     : RunAll(() => reports.AddRange(checkpoint.ResumeFrom is null
                         ? PairSampler.SweepWithCheckpoints(landscape, mass, temperatures, scenario.Sampling, checkpoint.Options, progress, ct)
                         : PairSampler.Resume(landscape, mass, temperatures, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
-                var figures = plotPath is null ? null : FigureWriter.WritePair(reports, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario));
+                var figures = plotPath is null ? null : Figures(() => FigureWriter.WritePair(reports, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
                 return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled, figures);
             }
             var centre = l.Centre;
@@ -162,7 +162,7 @@ internal static class ScenarioRunner
                 : RunAll(() => siteReports.AddRange(checkpoint.ResumeFrom is null
                     ? SiteSampler.SweepWithCheckpoints(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.Options, progress, ct)
                     : SiteSampler.Resume(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
-            var siteFigures = plotPath is null ? null : FigureWriter.WriteSite(siteReports, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario));
+            var siteFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSite(siteReports, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
             return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled, siteFigures) { Surface = surface };
         }
         catch (ArgumentException ex) when (ex is not ArgumentNullException)
@@ -172,6 +172,19 @@ internal static class ScenarioRunner
         catch (LandscapeException ex)
         {
             throw new ScenarioException(new[] { $"$.landscape: {ex.Message}" });
+        }
+    }
+
+    /// <summary>Draws the figures; a failure there is the drawing's, not the scenario's (exit 1 with the reason, not a JSON path).</summary>
+    private static List<string> Figures(Func<List<string>> draw)
+    {
+        try
+        {
+            return draw();
+        }
+        catch (ArgumentException ex)
+        {
+            throw new InvalidOperationException("the figures could not be drawn: " + ex.Message, ex);
         }
     }
 

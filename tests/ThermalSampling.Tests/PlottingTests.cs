@@ -113,6 +113,28 @@ public class PlottingTests
     }
 
     [Fact]
+    public void A_sweep_of_four_or_more_temperatures_draws_its_distributions_as_panels_of_one_figure()
+    {
+        string scenario = Temp(".json");
+        File.WriteAllText(scenario, """
+            { "title": "Invented test pair", "mass": 50, "potential": { "form": "morse", "wellDepth": 0.4, "width": 1.5, "equilibriumDistance": 2.8 },
+              "landscape": { "kind": "radial", "window": [2.2, 4.0] }, "temperatures": [100, 200, 300, 400],
+              "sampling": { "chains": 2, "samplesPerChain": 2000, "burnIn": 500, "seed": 5 } }
+            """);
+        string basePath = Temp(".png");
+        using var stdout = new MemoryStream();
+        using var stderr = new StringWriter();
+        Assert.Equal(0, ThermalSampling.Cli.Program.Run(["run", scenario, "--plot", basePath, "--quiet"], stdout, stderr));
+        string dir = Path.GetDirectoryName(basePath)!, stem = Path.GetFileNameWithoutExtension(basePath);
+        Assert.True(File.Exists(basePath));
+        string panels = Path.Combine(dir, stem + "-distributions.png");
+        Assert.Equal((3 * VibrationFigures.DefaultWidth, 2 * VibrationFigures.DefaultHeight), PngSize(panels));
+        Assert.False(File.Exists(Path.Combine(dir, stem + "-T100K.png")));
+        File.Delete(basePath);
+        File.Delete(panels);
+    }
+
+    [Fact]
     public void Temperatures_in_figure_names_are_rounded_to_what_tells_them_apart()
     {
         var names = ThermalSampling.Cli.FigureWriter.TemperatureNames([10, 37.77777777, 65.5555555, 100]);
