@@ -15,11 +15,11 @@ public static class ThermalGenerators
     private static Gen<double> Between(double lower, double upper, int steps = 10_000)
         => Gen.Choose(0, steps).Select(i => lower + (upper - lower) * i / steps);
 
-    /// <summary>Lennard-Jones potentials with r0 in [2, 5] Å and u0 in [1 meV, 0.5 eV].</summary>
+    /// <summary>Lennard-Jones potentials with the minimum r_min in [2, 5] Å and the well depth ε in [1 meV, 0.5 eV].</summary>
     public static Gen<LennardJones> LennardJones() =>
-        from r0 in Between(2, 5)
-        from u0 in Between(1e-3, 0.5)
-        select Potentials.LennardJones.FromMinimum(Length.FromAngstroms(r0), Energy.FromElectronVolts(u0));
+        from rMin in Between(2, 5)
+        from epsilon in Between(1e-3, 0.5)
+        select Potentials.LennardJones.FromMinimum(Length.FromAngstroms(rMin), Energy.FromElectronVolts(epsilon));
 
     /// <summary>Morse potentials with D in [0.05, 2] eV, a in [0.8, 2.5] 1/Å and re in [1.5, 4] Å.</summary>
     public static Gen<Morse> Morse() =>

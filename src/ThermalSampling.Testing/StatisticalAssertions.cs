@@ -181,7 +181,7 @@ public static class StatisticalAssert
         }
     }
 
-    /// <summary>Passes when the potential's minimum lies at r0 and its depth is u0, within the given tolerances.</summary>
+    /// <summary>Passes when the potential's minimum lies at r_min and its depth (ε for Lennard-Jones) is as given, within the given tolerances.</summary>
     /// <typeparam name="TPotential">The potential type.</typeparam>
     /// <param name="potential">The potential, for example a fit to reference energies.</param>
     /// <param name="equilibriumDistance">The expected r0, Å.</param>
