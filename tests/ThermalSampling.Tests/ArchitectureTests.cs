@@ -48,15 +48,7 @@ public class ArchitectureTests
         return layers;
     }
 
-    private static string RepositoryRoot()
-    {
-        string root = AppContext.BaseDirectory;
-        while (!File.Exists(Path.Combine(root, "ThermalSampling.sln")))
-        {
-            root = Path.GetDirectoryName(root) ?? throw new InvalidOperationException("solution root not found");
-        }
-        return root;
-    }
+    private static string RepositoryRoot() => Repository.Root;
 
     private static string? LayerOf(IType type)
     {

@@ -497,11 +497,7 @@ public class CliCommandTests
         var (code, stdout, _) = Run(command, "--help");
         Assert.Equal(0, code);
         Assert.Contains($"thermal-sampling {command}", stdout);
-        string root = AppContext.BaseDirectory;
-        while (!File.Exists(Path.Combine(root, "ThermalSampling.sln")))
-        {
-            root = Path.GetDirectoryName(root)!;
-        }
+        string root = Repository.Root;
         var doc = File.ReadAllText(Path.Combine(root, "docs", "cli.md"));
         int start = doc.IndexOf($"thermal-sampling {command,-8} ", StringComparison.Ordinal);
         Assert.True(start >= 0, $"docs/cli.md has no synopsis line for {command}");

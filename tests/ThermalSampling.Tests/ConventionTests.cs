@@ -22,11 +22,7 @@ public class ConventionTests
     {
         // docs/validity.md lists exactly the codes of WarningCodes, and every code is asserted by a test somewhere
         // (its WarningCodes name appears in an Assert line of a test file other than this one).
-        string root = AppContext.BaseDirectory;
-        while (!File.Exists(Path.Combine(root, "ThermalSampling.sln")))
-        {
-            root = Path.GetDirectoryName(root) ?? throw new InvalidOperationException("solution root not found");
-        }
+        string root = Repository.Root;
         var codes = typeof(Analysis.WarningCodes).GetFields(BindingFlags.Public | BindingFlags.Static)
             .Where(f => f.IsLiteral).ToDictionary(f => (string)f.GetRawConstantValue()!, f => f.Name);
         var documented = File.ReadAllLines(Path.Combine(root, "docs", "validity.md"))
@@ -80,11 +76,7 @@ public class ConventionTests
     [Fact]
     public void Public_api_files_are_tracked_beside_the_library()
     {
-        string root = AppContext.BaseDirectory;
-        while (!File.Exists(Path.Combine(root, "ThermalSampling.sln")))
-        {
-            root = Path.GetDirectoryName(root) ?? throw new InvalidOperationException("solution root not found");
-        }
+        string root = Repository.Root;
         string unshipped = File.ReadAllText(Path.Combine(root, "src", "ThermalSampling", "PublicAPI.Unshipped.txt"));
         Assert.Contains("ThermalSampling.Units.Energy", unshipped);
     }

@@ -14,15 +14,7 @@ namespace ThermalSampling.Tests;
 /// </summary>
 public sealed class FuzzFindingsTests
 {
-    private static string RepositoryRoot()
-    {
-        var dir = new DirectoryInfo(AppContext.BaseDirectory);
-        while (dir is not null && !File.Exists(Path.Combine(dir.FullName, "ThermalSampling.sln")))
-        {
-            dir = dir.Parent;
-        }
-        return dir?.FullName ?? throw new InvalidOperationException("repository root not found above " + AppContext.BaseDirectory);
-    }
+    private static string RepositoryRoot() => Repository.Root;
 
     public static IEnumerable<object[]> Inputs()
     {

@@ -43,11 +43,7 @@ public class ReadmeTests
     [Fact]
     public void Readme_mentions_the_commands_that_ci_runs()
     {
-        string root = AppContext.BaseDirectory;
-        while (!File.Exists(Path.Combine(root, "ThermalSampling.sln")))
-        {
-            root = Path.GetDirectoryName(root)!;
-        }
+        string root = Repository.Root;
         string readme = File.ReadAllText(Path.Combine(root, "README.md"));
         string ci = File.ReadAllText(Path.Combine(root, ".ci", "run"));
         Assert.Contains("dotnet test ThermalSampling.sln -c Release", readme);

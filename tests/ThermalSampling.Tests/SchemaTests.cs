@@ -19,7 +19,7 @@ namespace ThermalSampling.Tests;
 /// </summary>
 public class SchemaTests
 {
-    private static readonly string Root = FindRoot();
+    private static readonly string Root = Repository.Root;
 
     private static readonly JsonSchema Schema = JsonSchema.FromText(File.ReadAllText(Path.Combine(Root, "docs", "scenario.schema.json")));
 
@@ -31,16 +31,6 @@ public class SchemaTests
         "not kg", "in atomic mass units", // the schema refuses these too (0.5 to 1000 u); listed for the reader's own wording
         "$.temperatures", // each temperature once (uniqueItems is stated, but 40 and 40.0 are the same number only to the reader)
     ];
-
-    private static string FindRoot()
-    {
-        string root = AppContext.BaseDirectory;
-        while (!File.Exists(Path.Combine(root, "ThermalSampling.sln")))
-        {
-            root = Path.GetDirectoryName(root) ?? throw new InvalidOperationException("solution root not found");
-        }
-        return root;
-    }
 
     private static bool SchemaAccepts(string json)
     {
