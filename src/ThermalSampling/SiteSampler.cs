@@ -48,15 +48,7 @@ public static class SiteSampler
         return RunOne(landscape, mass, temperature, settings, progress, cancellationToken, null, 0);
     }
 
-    /// <summary>
-    /// Everything a run at <paramref name="temperature"/> would check or warn about before sampling, without sampling: the
-    /// analyses run (and throw as the run would, for example <see cref="LandscapeException"/> for a site that is no
-    /// minimum) and the warnings that need no draws are returned, in the order the run's report lists them.
-    /// </summary>
-    /// <typeparam name="TPotential">The potential type.</typeparam>
-    /// <param name="landscape">The landscape.</param>
-    /// <param name="mass">The particle's mass.</param>
-    /// <param name="temperature">The temperature.</param>
+    /// <inheritdoc cref="PairSampler.Check{TPotential}(PairLandscape{TPotential}, Mass, Temperature)"/>
     public static ImmutableArray<Warning> Check<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature)
         where TPotential : struct, IPairPotential
     {
@@ -76,14 +68,7 @@ public static class SiteSampler
         return SiteSummary.Summarise(landscape, mass, temperature, settings, harmonic, run);
     }
 
-    /// <summary>Runs the sampler at several temperatures with the same settings.</summary>
-    /// <typeparam name="TPotential">The potential type.</typeparam>
-    /// <param name="landscape">The landscape.</param>
-    /// <param name="mass">The particle's mass.</param>
-    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
-    /// <param name="settings">The sampling settings.</param>
-    /// <param name="progress">Optional progress sink.</param>
-    /// <param name="cancellationToken">Optional cancellation.</param>
+    /// <inheritdoc cref="PairSampler.Sweep{TPotential}(PairLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, IProgress{SamplingProgress}?, CancellationToken)"/>
     public static ImmutableArray<SiteVibrationReport> Sweep<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
         SamplingSettings settings, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential

@@ -62,12 +62,7 @@ public readonly struct CutOffPotential<TPotential> : IPairPotential where TPoten
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
-    {
-        // Lanes beyond the cut-off evaluate the inner form at rc (inside its domain) and are then set to 0.
-        var inside = TOps.LessThan(r, TOps.Broadcast(_rc));
-        var e = _inner.LaneEnergy<TOps, TD, TB>(TOps.Select(inside, r, TOps.Broadcast(_rc)));
-        return TOps.Select(inside, e, TOps.Broadcast(0.0));
-    }
+        => CutOffLanes.Energy<TOps, TD, TB, TPotential>(_inner, r, _rc, 0.0, squared: false);
 
     /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -75,10 +70,27 @@ public readonly struct CutOffPotential<TPotential> : IPairPotential where TPoten
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
+        => CutOffLanes.Energy<TOps, TD, TB, TPotential>(_inner, squaredDistance, _rcSquared, 0.0, squared: true);
+}
+
+/// <summary>The lane form of a cut-off, plain or shifted: one place for the select at the cut-off.</summary>
+internal static class CutOffLanes
+{
+    /// <summary>
+    /// inner(x) − shift below <paramref name="limit"/> and 0 from it on, in every lane; x is r (limit rc) or r² (limit rc²).
+    /// Lanes beyond the cut-off evaluate the inner form at the limit (inside its domain) and are then set to 0.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD Energy<TOps, TD, TB, TPotential>(in TPotential inner, TD x, double limit, double shift, bool squared)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        where TPotential : struct, IPairPotential
     {
-        var inside = TOps.LessThan(squaredDistance, TOps.Broadcast(_rcSquared));
-        var e = _inner.LaneEnergyAtSquaredDistance<TOps, TD, TB>(TOps.Select(inside, squaredDistance, TOps.Broadcast(_rcSquared)));
-        return TOps.Select(inside, e, TOps.Broadcast(0.0));
+        var inside = TOps.LessThan(x, TOps.Broadcast(limit));
+        var clamped = TOps.Select(inside, x, TOps.Broadcast(limit));
+        var e = squared ? inner.LaneEnergyAtSquaredDistance<TOps, TD, TB>(clamped) : inner.LaneEnergy<TOps, TD, TB>(clamped);
+        return TOps.Select(inside, shift == 0 ? e : TOps.Subtract(e, TOps.Broadcast(shift)), TOps.Broadcast(0.0));
     }
 }
 
@@ -150,12 +162,7 @@ public readonly struct ShiftedCutOffPotential<TPotential> : IPairPotential where
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
-    {
-        // Lanes beyond the cut-off evaluate the inner form at rc (inside its domain) and are then set to 0.
-        var inside = TOps.LessThan(r, TOps.Broadcast(_rc));
-        var e = _inner.LaneEnergy<TOps, TD, TB>(TOps.Select(inside, r, TOps.Broadcast(_rc)));
-        return TOps.Select(inside, TOps.Subtract(e, TOps.Broadcast(_shift)), TOps.Broadcast(0.0));
-    }
+        => CutOffLanes.Energy<TOps, TD, TB, TPotential>(_inner, r, _rc, _shift, squared: false);
 
     /// <inheritdoc/>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -163,11 +170,7 @@ public readonly struct ShiftedCutOffPotential<TPotential> : IPairPotential where
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
-    {
-        var inside = TOps.LessThan(squaredDistance, TOps.Broadcast(_rcSquared));
-        var e = _inner.LaneEnergyAtSquaredDistance<TOps, TD, TB>(TOps.Select(inside, squaredDistance, TOps.Broadcast(_rcSquared)));
-        return TOps.Select(inside, TOps.Subtract(e, TOps.Broadcast(_shift)), TOps.Broadcast(0.0));
-    }
+        => CutOffLanes.Energy<TOps, TD, TB, TPotential>(_inner, squaredDistance, _rcSquared, _shift, squared: true);
 }
 
 /// <summary>The sum of two pair potentials, V = V1 + V2, on the intersection of their domains. Nest it for more terms.</summary>
