@@ -261,6 +261,39 @@ public sealed class LaneKernelTests
             => LaneForms.ByLaneAtSquaredDistance<TOps, TD, TB, FaultyBand>(this, squaredDistance);
     }
 
+    /// <summary>
+    /// β per lane: chains at two temperatures sharing one register (alternate lanes) draw, chain by chain, exactly the
+    /// bits of the same chains run with every lane at that chain's temperature. Invented harmonic bond, k = 2 eV/Å².
+    /// </summary>
+    [Theory]
+    [InlineData(8)]
+    [InlineData(4)]
+    public void ChainsAtDifferentTemperaturesInOneRegisterDrawWhatTheyDrawAlone(int lanes)
+    {
+        const long samples = 6000;
+        double cold = 1 / Temperature.FromKelvin(100).ThermalEnergyInElectronVolts, hot = 1 / Temperature.FromKelvin(400).ThermalEnergyInElectronVolts;
+        var bond = new HarmonicBond(2.0, Length.FromAngstroms(1.5));
+        PairLaneChains.Plan<HarmonicBond> Plan(double beta, double[]? betas)
+            => new(bond, 1.0, 2.0, beta, false, 0.05, 0.44, 0.5, 1000, samples, 17, betas);
+        double[] DrawsOf(PairLaneChains.Plan<HarmonicBond> plan, int chain)
+        {
+            var outcomes = PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.45 + 0.01 * c,
+                c => new PairChainRecord(new BinCounter(1.0, 2.0, 20), new BatchMeansStore(samples, 1024, 1.5), new DrawRecorder<double>(samples, (int)samples)),
+                c => new ProgressReporter(null, c, 1000 + samples, 300), GroupCheckpoints.None, 0, default);
+            return outcomes[chain].Record.Draws.ToImmutable().ToArray();
+        }
+        var ladder = Enumerable.Range(0, lanes).Select(c => c % 2 == 0 ? cold : hot).ToArray();
+        var mixed = Plan(cold, ladder);
+        for (int chain = 0; chain < lanes; chain++)
+        {
+            var alone = Plan(ladder[chain], null);
+            Assert.Equal(DrawsOf(alone, chain), DrawsOf(mixed, chain));
+        }
+        // And the temperatures really differ: the hot chains spread about twice as wide.
+        double Spread(int chain) { var d = DrawsOf(mixed, chain); double m = d.Average(); return Math.Sqrt(d.Average(x => (x - m) * (x - m))); }
+        Assert.InRange(Spread(1) / Spread(0), 1.6, 2.5);
+    }
+
     [Theory]
     [InlineData(double.NaN, 8)]
     [InlineData(double.NegativeInfinity, 8)]

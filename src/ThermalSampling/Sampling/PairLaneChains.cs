@@ -24,8 +24,13 @@ internal static class PairLaneChains
     private const int ChunkSteps = LaneAdaptation.ChunkSteps;
 
     /// <summary>Everything fixed for a run.</summary>
+    /// <remarks>ChainBetas: β of each chain when they differ (a temperature ladder in one register); null: every chain at Beta.</remarks>
     internal sealed record Plan<TPotential>(TPotential Potential, double Lower, double Upper, double Beta, bool Radial, double InitialWidth,
-        double TargetAcceptance, double MaxWidth, long BurnIn, long Samples, ulong Seed) where TPotential : struct, IPairPotential;
+        double TargetAcceptance, double MaxWidth, long BurnIn, long Samples, ulong Seed, double[]? ChainBetas = null) where TPotential : struct, IPairPotential
+    {
+        /// <summary>The inverse temperature of chain <paramref name="chain"/>, 1/eV.</summary>
+        internal double BetaOf(int chain) => ChainBetas?[chain] ?? Beta;
+    }
 
     /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond the chain count are computed and dropped),
     /// from the start or from the group's checkpointed state.</summary>
@@ -91,6 +96,7 @@ internal static class PairLaneChains
         private protected override void PlaceLane(int lane, int chain)
         {
             SeedLane(ref State.R0, ref State.R1, ref State.R2, ref State.R3, lane, RandomStream.ForChain(_plan.Seed, chain));
+            State.NegativeBeta = TOps.Set(State.NegativeBeta, lane, -_plan.BetaOf(chain)); // β per lane: one register may hold several temperatures
             _starts = TOps.Set(_starts, lane, _start(chain));
         }
 
@@ -166,7 +172,7 @@ internal static class PairLaneChains
         where TPotential : struct, IPairPotential
     {
         private readonly TPotential _potential;
-        private readonly double _lower, _upper, _beta, _target, _maxWidth;
+        private readonly double _lower, _upper, _target, _maxWidth;
         private readonly bool _radial;
 
         internal Kernel(Plan<TPotential> plan)
@@ -174,7 +180,6 @@ internal static class PairLaneChains
             _potential = plan.Potential;
             _lower = plan.Lower;
             _upper = plan.Upper;
-            _beta = plan.Beta;
             _radial = plan.Radial;
             _target = plan.TargetAcceptance;
             _maxWidth = plan.MaxWidth;
@@ -205,7 +210,7 @@ internal static class PairLaneChains
 
         /// <summary>One step in every lane; returns the acceptance mask. State comes as separate locals so that it stays in registers.</summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Step(ref TD position, ref TD energy, ref TD jacobian, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD width, ref LaneFaults<TD> faults)
+        private TD Step(ref TD position, ref TD energy, ref TD jacobian, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD width, TD negativeBeta, ref LaneFaults<TD> faults)
         {
             var u1 = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
             var u2 = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
@@ -216,7 +221,7 @@ internal static class PairLaneChains
             var candidate = TOps.Select(inside, proposal, position); // outside lanes evaluate the current point and are rejected below
             var candidateEnergy = Energy(candidate);
             NoteFaults(candidate, candidateEnergy, ref faults);
-            var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(TOps.Broadcast(-_beta), TOps.Subtract(candidateEnergy, energy)));
+            var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(negativeBeta, TOps.Subtract(candidateEnergy, energy)));
             TD accept;
             if (_radial)
             {
@@ -240,13 +245,13 @@ internal static class PairLaneChains
         [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
         internal TD AdaptChunk(ref Walk<TD, TB> walk, TD logWidth, double[] gains, int chunk)
         {
-            TD position = walk.Position, energy = walk.Energy, jacobian = walk.Jacobian;
+            TD position = walk.Position, energy = walk.Energy, jacobian = walk.Jacobian, negativeBeta = walk.NegativeBeta;
             TB r0 = walk.R0, r1 = walk.R1, r2 = walk.R2, r3 = walk.R3;
             var faults = walk.Faults;
             var logMax = TOps.Broadcast(Math.Log(_maxWidth));
             for (int j = 0; j < chunk; j++)
             {
-                var accept = Step(ref position, ref energy, ref jacobian, ref r0, ref r1, ref r2, ref r3, WidthFrom(logWidth), ref faults);
+                var accept = Step(ref position, ref energy, ref jacobian, ref r0, ref r1, ref r2, ref r3, WidthFrom(logWidth), negativeBeta, ref faults);
                 logWidth = LaneAdaptation.Update<TOps, TD, TB>(logWidth, accept, _target, gains[j], logMax);
             }
             walk.Position = position;
@@ -269,7 +274,7 @@ internal static class PairLaneChains
         {
             int closed = 0, filled = inBatch;
             var batchSums = tally.BatchSums;
-            TD position = walk.Position, energy = walk.Energy, jacobian = walk.Jacobian;
+            TD position = walk.Position, energy = walk.Energy, jacobian = walk.Jacobian, negativeBeta = walk.NegativeBeta;
             TB r0 = walk.R0, r1 = walk.R1, r2 = walk.R2, r3 = walk.R3;
             TD accepted = walk.Accepted, s1 = walk.S1, s2 = walk.S2, s3 = walk.S3, s4 = walk.S4, b1 = walk.B1, b2 = walk.B2;
             var faults = walk.Faults;
@@ -295,7 +300,7 @@ internal static class PairLaneChains
             long retain = Math.Max(0, Math.Min(chunk, tally.Retained - done)); // the first steps of the chain may be kept raw
             for (int j = 0; j < chunk; j++)
             {
-                var accept = Step(ref position, ref energy, ref jacobian, ref r0, ref r1, ref r2, ref r3, width, ref faults);
+                var accept = Step(ref position, ref energy, ref jacobian, ref r0, ref r1, ref r2, ref r3, width, negativeBeta, ref faults);
                 accepted = TOps.Add(accepted, TOps.Select(accept, one, zero));
                 var x = position;
 
@@ -379,14 +384,14 @@ internal static class PairLaneChains
         }
     }
 
-    /// <summary>The running state of every lane of a group: position, energy, Jacobian, random stream, sums and faults (saved
+    /// <summary>The running state of every lane of a group: position, energy, Jacobian, −β, random stream, sums and faults (saved
     /// word for word, field by field in this order, lanes within a field: docs/checkpoints.md).</summary>
     [StructLayout(LayoutKind.Sequential)]
     internal struct Walk<TD, TB>
         where TD : struct
         where TB : struct
     {
-        internal TD Position, Energy, Jacobian;
+        internal TD Position, Energy, Jacobian, NegativeBeta;
         internal TB R0, R1, R2, R3;
         internal TD Accepted, S1, S2, S3, S4, B1, B2, BlockReference;
         internal LaneFaults<TD> Faults;

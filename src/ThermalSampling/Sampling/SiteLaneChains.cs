@@ -33,7 +33,12 @@ internal static class SiteLaneChains
     /// <summary>Everything fixed for a run.</summary>
     internal sealed record Plan<TPotential>(TPotential Potential, double[] Sites, Position Centre, Confinement Confinement, Position Minimum,
         double L00, double L10, double L11, double L20, double L21, double L22, double Beta, double InitialScale, double TargetAcceptance,
-        double MaxScale, double WallBand, long BurnIn, long Samples, ulong Seed, string Description, BasinGrid Basin) where TPotential : struct, IPairPotential;
+        double MaxScale, double WallBand, long BurnIn, long Samples, ulong Seed, string Description, BasinGrid Basin, double[]? ChainBetas = null)
+        where TPotential : struct, IPairPotential
+    {
+        /// <summary>The inverse temperature of chain <paramref name="chain"/> (<see cref="ChainBetas"/> when the chains' temperatures differ), 1/eV.</summary>
+        internal double BetaOf(int chain) => ChainBetas?[chain] ?? Beta;
+    }
 
     /// <summary>Per chain: its stream advanced past the start-point draws, and the start.</summary>
     internal delegate (RandomStream Stream, Position Start) ChainStart(int chain);
@@ -105,6 +110,7 @@ internal static class SiteLaneChains
         {
             var (stream, p) = _start(chain);
             SeedLane(ref State.R0, ref State.R1, ref State.R2, ref State.R3, lane, stream);
+            State.NegativeBeta = TOps.Set(State.NegativeBeta, lane, -_plan.BetaOf(chain)); // β per lane: one register may hold several temperatures
             _x = TOps.Set(_x, lane, p.X);
             _y = TOps.Set(_y, lane, p.Y);
             _z = TOps.Set(_z, lane, p.Z);
@@ -281,7 +287,7 @@ internal static class SiteLaneChains
         /// code is the same as without it (the JIT listings were compared).
         /// </summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Step(ref TD x, ref TD y, ref TD z, ref TD energy, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD scale, ref LaneFaults<TD> faults,
+        private TD Step(ref TD x, ref TD y, ref TD z, ref TD energy, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD scale, TD negativeBeta, ref LaneFaults<TD> faults,
             out TD evaluatedX, out TD evaluatedY, out TD evaluatedZ)
         {
             var a = TOps.Multiply(scale, LaneMath.NextOffsetPair<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, out var bUnit));
@@ -300,7 +306,7 @@ internal static class SiteLaneChains
             (evaluatedX, evaluatedY, evaluatedZ) = (px, py, pz);
             var candidate = Energy(px, py, pz);
             LaneFaultCheck.Note<TOps, TD, TB>(ref faults, TOps.Broadcast(0.0), candidate);
-            var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(TOps.Broadcast(-_plan.Beta), TOps.Subtract(candidate, energy)));
+            var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(negativeBeta, TOps.Subtract(candidate, energy)));
             var accept = TOps.And(inside, TOps.LessThan(u, ratio));
             x = TOps.Select(accept, px, x);
             y = TOps.Select(accept, py, y);
@@ -313,13 +319,13 @@ internal static class SiteLaneChains
         [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
         internal TD AdaptChunk(ref SiteWalk<TD, TB> w, TD logScale, double[] gains, int chunk)
         {
-            TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy;
+            TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy, negativeBeta = w.NegativeBeta;
             TB r0 = w.R0, r1 = w.R1, r2 = w.R2, r3 = w.R3;
             var faults = w.Faults;
             var logMax = TOps.Broadcast(Math.Log(_plan.MaxScale));
             for (int j = 0; j < chunk; j++)
             {
-                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale), ref faults,
+                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale), negativeBeta, ref faults,
                     out _, out _, out _);
                 logScale = LaneAdaptation.Update<TOps, TD, TB>(logScale, accept, _plan.TargetAcceptance, gains[j], logMax);
             }
@@ -338,14 +344,14 @@ internal static class SiteLaneChains
         /// </summary>
         internal void ThrowAtFirstFault(SiteWalk<TD, TB> before, in LaneFaults<TD> noted, TD logScale, double[]? gains, TD scale, int chunk)
         {
-            TD x = before.X, y = before.Y, z = before.Z, energy = before.Energy;
+            TD x = before.X, y = before.Y, z = before.Z, energy = before.Energy, negativeBeta = before.NegativeBeta;
             TB r0 = before.R0, r1 = before.R1, r2 = before.R2, r3 = before.R3;
             var logMax = TOps.Broadcast(Math.Log(_plan.MaxScale));
             for (int j = 0; j < chunk; j++)
             {
                 var faults = LaneFaultCheck.None<TOps, TD, TB>();
                 var width = gains is null ? scale : LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale);
-                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, width, ref faults, out var ex, out var ey, out var ez);
+                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, width, negativeBeta, ref faults, out var ex, out var ey, out var ez);
                 if (!TOps.AllTrue(faults.AllFinite))
                 {
                     ThrowAt(faults, ex, ey, ez);
@@ -372,7 +378,7 @@ internal static class SiteLaneChains
         [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
         internal int RecordChunk(ref SiteWalk<TD, TB> w, TD scale, int chunk, long done, ref int inBatch, int batchSize, SiteTally tally)
         {
-            TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy;
+            TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy, negativeBeta = w.NegativeBeta;
             TB r0 = w.R0, r1 = w.R1, r2 = w.R2, r3 = w.R3;
             var faults = w.Faults;
             // Individual locals, not the sum structs: a struct copy or clear here becomes a memcpy call, and any call in the
@@ -411,7 +417,7 @@ internal static class SiteLaneChains
             long retain = Math.Max(0, Math.Min(chunk, tally.Retained - done));
             for (int j = 0; j < chunk; j++)
             {
-                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, scale, ref faults, out _, out _, out _);
+                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, scale, negativeBeta, ref faults, out _, out _, out _);
                 accepted = TOps.Add(accepted, TOps.Select(accept, one, zero));
 
                 // Deviations from the harmonic minimum (within the confinement, so small): the covariance block sums (converted
@@ -540,7 +546,7 @@ internal struct SiteWalk<TD, TB>
     where TD : struct
     where TB : struct
 {
-    internal TD X, Y, Z, Energy, Accepted, NearWall;
+    internal TD X, Y, Z, Energy, Accepted, NearWall, NegativeBeta;
     internal TB R0, R1, R2, R3;
     internal LaneSums3<TD> Sums, Batch;
     internal LaneFaults<TD> Faults;
