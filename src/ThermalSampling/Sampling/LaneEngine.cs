@@ -71,10 +71,16 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
     /// <summary>A chunk of the recorded phase at the frozen <paramref name="width"/>; returns how many batches closed in it.</summary>
     private protected abstract int RecordChunk(TD width, int chunk, long done, ref int inBatch, int batchSize);
 
+    /// <summary>
+    /// Whether <see cref="ThrowIfFaulted"/> replays a faulted chunk from the walk as it was before it (the site walk does, to
+    /// name the failing pair); only then is the walk copied before every chunk.
+    /// </summary>
+    private protected virtual bool ReplaysFaults => false;
+
     /// <summary>Clears the fault notes before a chunk.</summary>
     private protected abstract void ClearFaults();
 
-    /// <summary>Throws when the chunk just run from <paramref name="before"/> noted a NaN or −∞ energy (burn-in when <paramref name="gains"/> is set).</summary>
+    /// <summary>Throws when the chunk just run from <paramref name="before"/> (the walk before it when <see cref="ReplaysFaults"/>, else default) noted a NaN or −∞ energy (burn-in when <paramref name="gains"/> is set).</summary>
     private protected abstract void ThrowIfFaulted(in TState before, TD logWidthBefore, double[]? gains, TD width, int chunk);
 
     /// <summary>Burn-in is over: clears the sums and counts the recorded phase starts from.</summary>
@@ -146,7 +152,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
             int chunk = (int)Math.Min(ChunkSteps, _burnIn - Step);
             LaneAdaptation.FillGains(gains, Step, chunk);
             ClearFaults();
-            var before = State;
+            var before = ReplaysFaults ? State : default;
             var logWidthBefore = _logWidth;
             _logWidth = AdaptChunk(_logWidth, gains, chunk);
             ThrowIfFaulted(before, logWidthBefore, gains, default, chunk);
@@ -168,7 +174,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
             }
             int chunk = (int)Math.Min(_blockSize - InBlock, Math.Min(_samples - Step, ChunkSteps - (Step & (ChunkSteps - 1))));
             ClearFaults();
-            var before = State;
+            var before = ReplaysFaults ? State : default;
             int closed = RecordChunk(width, chunk, Step, ref InBatch, batchSize);
             ThrowIfFaulted(before, default, null, width, chunk);
             AddClosedBatches(closed);

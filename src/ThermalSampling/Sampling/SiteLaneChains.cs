@@ -125,6 +125,8 @@ internal static class SiteLaneChains
 
         private protected override void ClearFaults() => State.Faults = LaneFaultCheck.None<TOps, TD, TB>();
 
+        private protected override bool ReplaysFaults => true;
+
         private protected override void ThrowIfFaulted(in SiteWalk<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
         {
             if (!TOps.AllTrue(State.Faults.AllFinite))
