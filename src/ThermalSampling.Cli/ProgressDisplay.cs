@@ -34,9 +34,9 @@ internal sealed class LineProgress : IProgress<SamplingProgress>
     {
         lock (_gate)
         {
-            if (value.Temperature != _temperature)
+            if (value.TemperatureInKelvin != _temperature)
             {
-                _temperature = value.Temperature;
+                _temperature = value.TemperatureInKelvin;
                 _chainsDone.Clear();
                 _lastMark = -1;
                 _finished++;
@@ -93,15 +93,15 @@ internal static class InteractiveProgress
                 {
                     lock (gate)
                     {
-                        if (p.Temperature != current)
+                        if (p.TemperatureInKelvin != current)
                         {
-                            current = p.Temperature;
+                            current = p.TemperatureInKelvin;
                             finishedTemperatures++;
                             foreach (var t in tasks)
                             {
                                 t.Value = 0;
                             }
-                            overall.Description = string.Create(CultureInfo.InvariantCulture, $"T = {p.Temperature:G6} K");
+                            overall.Description = string.Create(CultureInfo.InvariantCulture, $"T = {p.TemperatureInKelvin:G6} K");
                         }
                         tasks[p.ChainIndex].Value = p.ChainStepsDone;
                         double fraction = 0;

@@ -192,11 +192,11 @@ public static class StatisticalAssert
         where TPotential : struct, IPairPotential
     {
         var well = potential.Well ?? throw new StatisticalAssertionException($"{potential.Description} has no minimum.");
-        double dr = well.EquilibriumDistance - equilibriumDistance, du = -well.MinimumEnergy - wellDepth;
+        double dr = well.EquilibriumDistanceInAngstroms - equilibriumDistance, du = -well.MinimumEnergyInElectronVolts - wellDepth;
         if (!(Math.Abs(dr) <= distanceTolerance) || !(Math.Abs(du) <= depthTolerance))
         {
             throw new StatisticalAssertionException(string.Create(CultureInfo.InvariantCulture,
-                $"{potential.Description}: minimum at {well.EquilibriumDistance:G6} Å with depth {-well.MinimumEnergy:G6} eV; expected {equilibriumDistance:G6} ± {distanceTolerance:G3} Å and {wellDepth:G6} ± {depthTolerance:G3} eV."));
+                $"{potential.Description}: minimum at {well.EquilibriumDistanceInAngstroms:G6} Å with depth {-well.MinimumEnergyInElectronVolts:G6} eV; expected {equilibriumDistance:G6} ± {distanceTolerance:G3} Å and {wellDepth:G6} ± {depthTolerance:G3} eV."));
         }
     }
 

@@ -66,7 +66,7 @@ public static class PairSampler
         double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
         double width0 = settings.InitialStepWidthInAngstroms ?? references.Harmonic?.ClassicalRmsInAngstroms ?? landscape.WindowWidthInAngstroms / 10;
         width0 = Math.Min(width0, landscape.WindowWidthInAngstroms);
-        var run = PairChains.Sample(landscape, references.Exact, references.Well?.EquilibriumDistance ?? references.Exact.MeanInAngstroms, width0, target,
+        var run = PairChains.Sample(landscape, references.Exact, references.Well?.EquilibriumDistanceInAngstroms ?? references.Exact.MeanInAngstroms, width0, target,
             temperature, settings, progress, cancellationToken, session, temperatureIndex);
         return PairSummary.Summarise(landscape, mass, temperature, settings, references, run);
     }

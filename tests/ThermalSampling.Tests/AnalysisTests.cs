@@ -108,7 +108,7 @@ public class AnalysisTests
             default:
             {
                 var l = PairLandscape.Create(OxygenOxygen, g, Length.FromAngstroms(OxygenOxygen.BarrierDistanceInAngstroms + 0.1), Length.FromAngstroms(2.5));
-                return (t => ExactPairDistribution.Compute(l, t), t => PairAnalysis.FirstOrder(l, t), OxygenOxygen.Well!.EquilibriumDistance, 80);
+                return (t => ExactPairDistribution.Compute(l, t), t => PairAnalysis.FirstOrder(l, t), OxygenOxygen.Well!.EquilibriumDistanceInAngstroms, 80);
             }
         }
     }

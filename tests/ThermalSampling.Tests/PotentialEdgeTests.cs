@@ -51,10 +51,10 @@ public sealed class PotentialEdgeTests
         double V(double r) => 22764.0 * Math.Exp(-r / 0.149) - 27.88 / Math.Pow(r, 6);
         var (rMin, vMin) = GridMinimum(V, 1.0, 6.0); // the barrier is near 0.87 Å, the (spurious) minimum near 1.24 Å
         var well = b.Well!;
-        Assert.Equal(rMin, well.EquilibriumDistance, 1e-6);
-        Assert.Equal(vMin, well.MinimumEnergy, 1e-12);
-        Assert.True(well.MinimumEnergy < 0);
-        Assert.Equal(-vMin, well.WellDepth, 1e-12);
+        Assert.Equal(rMin, well.EquilibriumDistanceInAngstroms, 1e-6);
+        Assert.Equal(vMin, well.MinimumEnergyInElectronVolts, 1e-12);
+        Assert.True(well.MinimumEnergyInElectronVolts < 0);
+        Assert.Equal(-vMin, well.WellDepthInElectronVolts, 1e-12);
         // The barrier is the maximum of V below the minimum: the negative of the minimum of −V.
         var (rBarrier, minusVBarrier) = GridMinimum(r => -V(r), 0.3, rMin);
         Assert.Equal(rBarrier, b.BarrierDistanceInAngstroms, 1e-6);
@@ -76,8 +76,8 @@ public sealed class PotentialEdgeTests
         var b = new Buckingham(Energy.FromElectronVolts(a), Length.FromAngstroms(rho), c);
         double V(double r) => a * Math.Exp(-r / rho) - c / Math.Pow(r, 6);
         var (rMin, vMin) = GridMinimum(V, peak, 3 * peak);
-        Assert.Equal(rMin, b.Well!.EquilibriumDistance, 1e-5);
-        Assert.Equal(vMin, b.Well.MinimumEnergy, 1e-12);
+        Assert.Equal(rMin, b.Well!.EquilibriumDistanceInAngstroms, 1e-5);
+        Assert.Equal(vMin, b.Well.MinimumEnergyInElectronVolts, 1e-12);
         Assert.InRange(b.BarrierDistanceInAngstroms, 0.9 * peak, peak);
         var none = Assert.Throws<ArgumentException>(() => new Buckingham(Energy.FromElectronVolts(a), Length.FromAngstroms(rho), c / 0.999 * 1.001));
         Assert.Contains("no barrier and no minimum", none.Message);
@@ -103,7 +103,7 @@ public sealed class PotentialEdgeTests
     public void Morse_well_lies_at_minus_the_depth()
     {
         var m = new Morse(Energy.FromElectronVolts(0.4174), 1.3885, Length.FromAngstroms(2.845)); // Girifalco & Weizer 1959 (Fe)
-        Assert.Equal((2.845, -0.4174, 0.4174), (m.Well!.EquilibriumDistance, m.Well.MinimumEnergy, m.Well.WellDepth));
+        Assert.Equal((2.845, -0.4174, 0.4174), (m.Well!.EquilibriumDistanceInAngstroms, m.Well.MinimumEnergyInElectronVolts, m.Well.WellDepthInElectronVolts));
         Assert.Equal(-0.4174, m.Energy(2.845), 1e-15);
     }
 
@@ -115,9 +115,9 @@ public sealed class PotentialEdgeTests
         Assert.Equal("domainUpper", Assert.ThrowsAny<ArgumentException>(() => new FunctionPotential(Quadratic, Length.FromAngstroms(3), Length.FromAngstroms(1))).ParamName);
         var f = new FunctionPotential(Quadratic, Length.FromAngstroms(1), Length.FromAngstroms(3));
         Assert.Equal("user-supplied potential", f.Description);
-        Assert.Equal(2.2, f.Well!.EquilibriumDistance, 1e-7);
-        Assert.Equal(-1, f.Well.MinimumEnergy, 1e-12);
-        Assert.Equal(Quadratic(3) - Quadratic(2.2), f.Well.WellDepth, 1e-9); // depth measured to the domain's upper end
+        Assert.Equal(2.2, f.Well!.EquilibriumDistanceInAngstroms, 1e-7);
+        Assert.Equal(-1, f.Well.MinimumEnergyInElectronVolts, 1e-12);
+        Assert.Equal(Quadratic(3) - Quadratic(2.2), f.Well.WellDepthInElectronVolts, 1e-9); // depth measured to the domain's upper end
         Assert.Equal("invented", new FunctionPotential(Quadratic, Length.FromAngstroms(1), Length.FromAngstroms(3), description: "invented").Description);
     }
 
@@ -126,7 +126,7 @@ public sealed class PotentialEdgeTests
     {
         // The well search keeps 4·10⁻⁴ of the domain clear of each end; a minimum just inside that is found, one outside is not.
         var inside = new FunctionPotential(r => (r - 2.999) * (r - 2.999), Length.FromAngstroms(1), Length.FromAngstroms(3));
-        Assert.Equal(2.999, inside.Well!.EquilibriumDistance, 1e-7);
+        Assert.Equal(2.999, inside.Well!.EquilibriumDistanceInAngstroms, 1e-7);
         var outside = new FunctionPotential(r => (r - 2.9997) * (r - 2.9997), Length.FromAngstroms(1), Length.FromAngstroms(3));
         Assert.Null(outside.Well);
     }
@@ -178,8 +178,8 @@ public sealed class PotentialEdgeTests
             Assert.Equal(exact.Third, t.Third, 0.03 * Math.Abs(exact.Third));
             Assert.Equal(exact.Fourth, t.Fourth, 0.15 * Math.Abs(exact.Fourth));
         }
-        Assert.Equal(2.845, table.Well!.EquilibriumDistance, 1e-4);
-        Assert.Equal(m.Energy(4.0) - table.Well.MinimumEnergy, table.Well.WellDepth, 1e-12);
+        Assert.Equal(2.845, table.Well!.EquilibriumDistanceInAngstroms, 1e-4);
+        Assert.Equal(m.Energy(4.0) - table.Well.MinimumEnergyInElectronVolts, table.Well.WellDepthInElectronVolts, 1e-12);
     }
 
     [Fact]
@@ -200,9 +200,9 @@ public sealed class PotentialEdgeTests
         var sum = new SumPotential<LennardJones, FunctionPotential>(lj, narrow);
         Assert.Equal((2.0, 6.0), (sum.DomainLower, sum.DomainUpper));
         var (rMin, vMin) = GridMinimum(r => lj.Energy(r) + 0.002 * r, 2.5, 4.0);
-        Assert.Equal(rMin, sum.Well!.EquilibriumDistance, 1e-6);
-        Assert.Equal(vMin, sum.Well.MinimumEnergy, 1e-12);
-        Assert.Equal(sum.Energy(6.0) - vMin, sum.Well.WellDepth, 1e-12); // a finite domain: depth to its upper end
+        Assert.Equal(rMin, sum.Well!.EquilibriumDistanceInAngstroms, 1e-6);
+        Assert.Equal(vMin, sum.Well.MinimumEnergyInElectronVolts, 1e-12);
+        Assert.Equal(sum.Energy(6.0) - vMin, sum.Well.WellDepthInElectronVolts, 1e-12); // a finite domain: depth to its upper end
         var disjoint = new FunctionPotential(r => r, Length.FromAngstroms(7.0), Length.FromAngstroms(8.0));
         Assert.Contains("do not overlap", Assert.Throws<ArgumentException>(() => new SumPotential<FunctionPotential, FunctionPotential>(narrow, disjoint)).Message);
 
@@ -210,9 +210,9 @@ public sealed class PotentialEdgeTests
         var far = LennardJones.FromMinimum(Length.FromAngstroms(9.0), Energy.FromElectronVolts(0.05));
         var twoWells = new SumPotential<LennardJones, LennardJones>(lj, far);
         var (rDeep, vDeep) = GridMinimum(r => lj.Energy(r) + far.Energy(r), 7.0, 12.0);
-        Assert.Equal(rDeep, twoWells.Well!.EquilibriumDistance, 1e-5);
-        Assert.Equal(vDeep, twoWells.Well.MinimumEnergy, 1e-12);
-        Assert.Equal(twoWells.Energy(1e4 * 9.0) - vDeep, twoWells.Well.WellDepth, 1e-12); // an open domain: depth to 10⁴ × the larger well distance
+        Assert.Equal(rDeep, twoWells.Well!.EquilibriumDistanceInAngstroms, 1e-5);
+        Assert.Equal(vDeep, twoWells.Well.MinimumEnergyInElectronVolts, 1e-12);
+        Assert.Equal(twoWells.Energy(1e4 * 9.0) - vDeep, twoWells.Well.WellDepthInElectronVolts, 1e-12); // an open domain: depth to 10⁴ × the larger well distance
     }
 
     [Fact]

@@ -54,8 +54,8 @@ public class PotentialTests
         Assert.Equal(2 * dd * a * a, d.Second, 14);
         Assert.Equal(-6 * dd * a * a * a, d.Third, 13);
         Assert.Equal(14 * dd * Math.Pow(a, 4), d.Fourth, 13);
-        Assert.Equal(2.866, Copper.Well!.EquilibriumDistance);
-        Assert.Equal(dd, Copper.Well.WellDepth);
+        Assert.Equal(2.866, Copper.Well!.EquilibriumDistanceInAngstroms);
+        Assert.Equal(dd, Copper.Well.WellDepthInElectronVolts);
     }
 
     [Fact]
@@ -63,12 +63,12 @@ public class PotentialTests
     {
         // Source: Sources.Buckingham (values from memory: generous tolerance)
         Assert.InRange(OxygenOxygen.BarrierDistanceInAngstroms, 0.80, 0.95);
-        Assert.InRange(OxygenOxygen.Well!.EquilibriumDistance, 1.15, 1.35);
+        Assert.InRange(OxygenOxygen.Well!.EquilibriumDistanceInAngstroms, 1.15, 1.35);
         // Both are stationary points of the analytic form.
         Assert.True(Math.Abs(OxygenOxygen.Derivatives(OxygenOxygen.BarrierDistanceInAngstroms).First) < 1e-6 * OxygenOxygen.BarrierEnergyInElectronVolts);
-        Assert.True(Math.Abs(OxygenOxygen.Derivatives(OxygenOxygen.Well.EquilibriumDistance).First) < 1e-8);
+        Assert.True(Math.Abs(OxygenOxygen.Derivatives(OxygenOxygen.Well.EquilibriumDistanceInAngstroms).First) < 1e-8);
         Assert.True(OxygenOxygen.Derivatives(OxygenOxygen.BarrierDistanceInAngstroms).Second < 0, "the barrier is a maximum");
-        Assert.True(OxygenOxygen.Derivatives(OxygenOxygen.Well.EquilibriumDistance).Second > 0, "the well is a minimum");
+        Assert.True(OxygenOxygen.Derivatives(OxygenOxygen.Well.EquilibriumDistanceInAngstroms).Second > 0, "the well is a minimum");
         Assert.Equal(OxygenOxygen.BarrierDistanceInAngstroms, OxygenOxygen.DomainLower);
         // Inside the barrier the energy really does fall: the reason the domain stops there.
         Assert.True(OxygenOxygen.Energy(0.5 * OxygenOxygen.BarrierDistanceInAngstroms) < OxygenOxygen.BarrierEnergyInElectronVolts);
@@ -100,7 +100,7 @@ public class PotentialTests
         Assert.Equal(5.0, d.Second);
         Assert.Equal(0.0, d.Third);
         Assert.Equal(0.0, d.Fourth);
-        Assert.True(double.IsPositiveInfinity(bond.Well!.WellDepth));
+        Assert.True(double.IsPositiveInfinity(bond.Well!.WellDepthInElectronVolts));
     }
 
     // Properties: every analytic derivative matches an independent finite difference of the order below,
@@ -161,8 +161,8 @@ public class PotentialTests
     {
         var lj = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.012));
         var f = new FunctionPotential(lj.Energy, Length.FromAngstroms(2.5), Length.FromAngstroms(12));
-        Assert.Equal(3.5, f.Well!.EquilibriumDistance, 8);
-        Assert.Equal(0.012, -f.Well.MinimumEnergy, 12);
+        Assert.Equal(3.5, f.Well!.EquilibriumDistanceInAngstroms, 8);
+        Assert.Equal(0.012, -f.Well.MinimumEnergyInElectronVolts, 12);
         var exact = lj.Derivatives(3.6);
         var numeric = f.Derivatives(3.6);
         Assert.True(FiniteDifference.RelativeError(numeric.First, exact.First, 1e-3) < 1e-6);
@@ -186,7 +186,7 @@ public class PotentialTests
         var lj = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.012));
         var r = Enumerable.Range(0, 400).Select(i => 2.8 + i * 0.02).ToArray();
         var table = new TabulatedPotential(r, r.Select(lj.Energy).ToArray());
-        Assert.Equal(3.5, table.Well!.EquilibriumDistance, 4);
+        Assert.Equal(3.5, table.Well!.EquilibriumDistanceInAngstroms, 4);
         foreach (double x in new[] { 3.0, 3.41, 3.5, 4.77, 10.0 })
         {
             Assert.True(Math.Abs(table.Energy(x) - lj.Energy(x)) < 1e-6 * 0.012 * 50, $"V at {x}");
@@ -218,8 +218,8 @@ public class PotentialTests
         Assert.Equal(0.0, cut.Energy(9));
         Assert.Equal(Argon.Energy(5) - Argon.Energy(8.5), shifted.Energy(5), 15);
         Assert.Equal(0.0, shifted.Energy(8.5 - 1e-12), 12);
-        Assert.Equal(Argon.Well!.EquilibriumDistance, shifted.Well!.EquilibriumDistance);
-        Assert.Equal(Argon.Well.WellDepth + Argon.Energy(8.5), shifted.Well.WellDepth, 15);
+        Assert.Equal(Argon.Well!.EquilibriumDistanceInAngstroms, shifted.Well!.EquilibriumDistanceInAngstroms);
+        Assert.Equal(Argon.Well.WellDepthInElectronVolts + Argon.Energy(8.5), shifted.Well.WellDepthInElectronVolts, 15);
     }
 
     [Fact]
@@ -229,9 +229,9 @@ public class PotentialTests
         var d = sum.Derivatives(3.3);
         Assert.Equal(Argon.Energy(3.3) + Copper.Energy(3.3), sum.Energy(3.3), 15);
         Assert.Equal(Argon.Derivatives(3.3).Second + Copper.Derivatives(3.3).Second, d.Second, 14);
-        Assert.True(Math.Abs(sum.Derivatives(sum.Well!.EquilibriumDistance).First) < 1e-9);
+        Assert.True(Math.Abs(sum.Derivatives(sum.Well!.EquilibriumDistanceInAngstroms).First) < 1e-9);
         var same = new SumPotential<HarmonicBond, HarmonicBond>(new HarmonicBond(1, Length.FromAngstroms(2)), new HarmonicBond(3, Length.FromAngstroms(3)));
-        Assert.Equal((1 * 2 + 3 * 3) / 4.0, same.Well!.EquilibriumDistance, 9); // minimum of two springs: weighted mean
+        Assert.Equal((1 * 2 + 3 * 3) / 4.0, same.Well!.EquilibriumDistanceInAngstroms, 9); // minimum of two springs: weighted mean
     }
 
     [Fact]

@@ -89,7 +89,7 @@ public class TestingPackageTests
         {
             var exact = ExactPairDistribution.Compute(landscape, t);
             var first = PairAnalysis.FirstOrder(landscape, t);
-            return landscape.Contains(landscape.Potential.Well!.EquilibriumDistance)
+            return landscape.Contains(landscape.Potential.Well!.EquilibriumDistanceInAngstroms)
                 && double.IsFinite(exact.MeanInAngstroms) && exact.VarianceInAngstromsSquared > 0
                 && double.IsFinite(first.MeanShiftInAngstroms) && first.MeanShiftInAngstroms > 0; // Morse: 3kT/(4Da) > 0
         });

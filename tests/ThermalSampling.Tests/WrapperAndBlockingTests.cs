@@ -57,8 +57,8 @@ public sealed class WrapperAndBlockingTests
         Assert.Equal(0.0, cut.EnergyAtSquaredDistance((rc + 1) * (rc + 1)));
         Assert.Equal(default, cut.Derivatives(rc + 1));
         var well = cut.Well!;
-        Assert.Equal(Lj.Energy(3.8) - shift, well.MinimumEnergy, 15);
-        Assert.Equal(shift - Lj.Energy(3.8), well.WellDepth, 15);
+        Assert.Equal(Lj.Energy(3.8) - shift, well.MinimumEnergyInElectronVolts, 15);
+        Assert.Equal(shift - Lj.Energy(3.8), well.WellDepthInElectronVolts, 15);
         Assert.Contains("shifted", cut.Description, StringComparison.Ordinal);
         Assert.Throws<ArgumentOutOfRangeException>(() => new ShiftedCutOffPotential<LennardJones>(Lj, Length.FromAngstroms(-1)));
     }
@@ -76,9 +76,9 @@ public sealed class WrapperAndBlockingTests
         }
         // The minimum of the sum: V'(r) = 0 between the two minima, found numerically; check it against the derivative.
         var well = sum.Well!;
-        Assert.InRange(well.EquilibriumDistance, 3.8, 4.2);
-        Assert.Equal(0.0, sum.Derivatives(well.EquilibriumDistance).First, 8);
-        Assert.Equal(sum.Energy(well.EquilibriumDistance), well.MinimumEnergy, 12);
+        Assert.InRange(well.EquilibriumDistanceInAngstroms, 3.8, 4.2);
+        Assert.Equal(0.0, sum.Derivatives(well.EquilibriumDistanceInAngstroms).First, 8);
+        Assert.Equal(sum.Energy(well.EquilibriumDistanceInAngstroms), well.MinimumEnergyInElectronVolts, 12);
         Assert.Contains(Lj.Description, sum.Description, StringComparison.Ordinal);
         Assert.Contains(bond.Description, sum.Description, StringComparison.Ordinal);
 

@@ -129,6 +129,6 @@ public static class ClassicalValidity
         var harmonic = PairAnalysis.Harmonic(landscape, mass, temperature);
         var exact = ExactPairDistribution.Compute(landscape, temperature);
         var well = PairAnalysis.RequireWellInside(landscape);
-        return Assess(mass, temperature, exact.RmsInAngstroms, harmonic.QuantumToThermalRatio, well.WellDepth, exact.ProbabilityNearWalls);
+        return Assess(mass, temperature, exact.RmsInAngstroms, harmonic.QuantumToThermalRatio, well.WellDepthInElectronVolts, exact.ProbabilityNearWalls);
     }
 }

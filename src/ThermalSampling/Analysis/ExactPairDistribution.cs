@@ -203,13 +203,13 @@ public sealed class ExactPairDistribution
             }
         }
         var well = landscape.Potential.Well;
-        if (well is not null && landscape.Contains(well.EquilibriumDistance))
+        if (well is not null && landscape.Contains(well.EquilibriumDistanceInAngstroms))
         {
-            double v = landscape.CheckedEnergy(well.EquilibriumDistance);
+            double v = landscape.CheckedEnergy(well.EquilibriumDistanceInAngstroms);
             if (v <= vRef)
             {
                 vRef = v;
-                rRef = well.EquilibriumDistance;
+                rRef = well.EquilibriumDistanceInAngstroms;
             }
         }
         if (!double.IsFinite(vRef))

@@ -61,10 +61,10 @@ public static class PairAnalysis
         Preconditions.CheckNotNull(landscape, nameof(landscape));
         var well = landscape.Potential.Well ?? throw new LandscapeException(
             $"The potential '{landscape.Potential.Description}' has no minimum, so there is no harmonic or perturbative estimate; use the exact distribution or sampling.");
-        if (!(well.EquilibriumDistance > landscape.WindowLowerInAngstroms && well.EquilibriumDistance < landscape.WindowUpperInAngstroms))
+        if (!(well.EquilibriumDistanceInAngstroms > landscape.WindowLowerInAngstroms && well.EquilibriumDistanceInAngstroms < landscape.WindowUpperInAngstroms))
         {
             throw new LandscapeException(string.Create(CultureInfo.InvariantCulture,
-                $"The potential's minimum at {well.EquilibriumDistance:G6} Å lies outside the window [{landscape.WindowLowerInAngstroms:G6}, {landscape.WindowUpperInAngstroms:G6}] Å; harmonic and perturbative estimates do not apply."));
+                $"The potential's minimum at {well.EquilibriumDistanceInAngstroms:G6} Å lies outside the window [{landscape.WindowLowerInAngstroms:G6}, {landscape.WindowUpperInAngstroms:G6}] Å; harmonic and perturbative estimates do not apply."));
         }
         return well;
     }
@@ -79,13 +79,13 @@ public static class PairAnalysis
     {
         var well = RequireWellInside(landscape);
         CheckArguments(mass, temperature);
-        double k = landscape.Potential.Derivatives(well.EquilibriumDistance).Second;
+        double k = landscape.Potential.Derivatives(well.EquilibriumDistanceInAngstroms).Second;
         if (!(k > 0) || !double.IsFinite(k))
         {
             throw new LandscapeException(string.Create(CultureInfo.InvariantCulture,
-                $"V''(r_min) = {k:R} eV/Å² at the minimum r_min = {well.EquilibriumDistance:G6} Å is not positive; the harmonic estimate needs a curved minimum."));
+                $"V''(r_min) = {k:R} eV/Å² at the minimum r_min = {well.EquilibriumDistanceInAngstroms:G6} Å is not positive; the harmonic estimate needs a curved minimum."));
         }
-        return HarmonicOscillator.Estimate(well.EquilibriumDistance, k, mass.InAtomicMassUnits, temperature.ThermalEnergyInElectronVolts);
+        return HarmonicOscillator.Estimate(well.EquilibriumDistanceInAngstroms, k, mass.InAtomicMassUnits, temperature.ThermalEnergyInElectronVolts);
     }
 
     /// <summary>
@@ -102,8 +102,8 @@ public static class PairAnalysis
     {
         var well = RequireWellInside(landscape);
         CheckTemperature(temperature);
-        var d = landscape.Potential.Derivatives(well.EquilibriumDistance);
-        double k = d.Second, v3 = d.Third, v4 = d.Fourth, kt = temperature.ThermalEnergyInElectronVolts, r0 = well.EquilibriumDistance;
+        var d = landscape.Potential.Derivatives(well.EquilibriumDistanceInAngstroms);
+        double k = d.Second, v3 = d.Third, v4 = d.Fourth, kt = temperature.ThermalEnergyInElectronVolts, r0 = well.EquilibriumDistanceInAngstroms;
         if (!(k > 0))
         {
             throw new LandscapeException(string.Create(CultureInfo.InvariantCulture,

@@ -153,8 +153,8 @@ public readonly record struct PairDerivatives(double Energy, double First, doubl
 }
 
 /// <summary>The minimum of a pair potential.</summary>
-/// <param name="EquilibriumDistance">The separation of the minimum, Å.</param>
-/// <param name="MinimumEnergy">V at the minimum, eV.</param>
-/// <param name="WellDepth">The energy needed to leave the well towards large separations, eV:
+/// <param name="EquilibriumDistanceInAngstroms">The separation of the minimum, Å.</param>
+/// <param name="MinimumEnergyInElectronVolts">V at the minimum, eV.</param>
+/// <param name="WellDepthInElectronVolts">The energy needed to leave the well towards large separations, eV:
 /// V(far) − V(min), where "far" is infinity, the cut-off, or the last table point; +∞ for a harmonic bond.</param>
-public sealed record PotentialWell(double EquilibriumDistance, double MinimumEnergy, double WellDepth);
+public sealed record PotentialWell(double EquilibriumDistanceInAngstroms, double MinimumEnergyInElectronVolts, double WellDepthInElectronVolts);

@@ -39,8 +39,8 @@ public readonly struct CutOffPotential<TPotential> : IPairPotential where TPoten
     public double DomainUpper => _inner.DomainUpper;
 
     /// <inheritdoc/>
-    public PotentialWell? Well => _inner.Well is { } w && w.EquilibriumDistance < _rc
-        ? new PotentialWell(w.EquilibriumDistance, w.MinimumEnergy, Math.Max(0, -w.MinimumEnergy)) : null;
+    public PotentialWell? Well => _inner.Well is { } w && w.EquilibriumDistanceInAngstroms < _rc
+        ? new PotentialWell(w.EquilibriumDistanceInAngstroms, w.MinimumEnergyInElectronVolts, Math.Max(0, -w.MinimumEnergyInElectronVolts)) : null;
 
     /// <inheritdoc/>
     public string Description => string.Create(CultureInfo.InvariantCulture, $"{_inner.Description}, cut off at {_rc:G6} Å");
@@ -131,8 +131,8 @@ public readonly struct ShiftedCutOffPotential<TPotential> : IPairPotential where
     public double DomainUpper => _inner.DomainUpper;
 
     /// <inheritdoc/>
-    public PotentialWell? Well => _inner.Well is { } w && w.EquilibriumDistance < _rc
-        ? new PotentialWell(w.EquilibriumDistance, w.MinimumEnergy - _shift, Math.Max(0, _shift - w.MinimumEnergy)) : null;
+    public PotentialWell? Well => _inner.Well is { } w && w.EquilibriumDistanceInAngstroms < _rc
+        ? new PotentialWell(w.EquilibriumDistanceInAngstroms, w.MinimumEnergyInElectronVolts - _shift, Math.Max(0, _shift - w.MinimumEnergyInElectronVolts)) : null;
 
     /// <inheritdoc/>
     public string Description => string.Create(CultureInfo.InvariantCulture, $"{_inner.Description}, shifted and cut off at {_rc:G6} Å");
@@ -211,8 +211,8 @@ public readonly struct SumPotential<TFirst, TSecond> : IPairPotential
         {
             if (w is not null)
             {
-                small = Math.Min(small, w.EquilibriumDistance);
-                large = Math.Max(large, w.EquilibriumDistance);
+                small = Math.Min(small, w.EquilibriumDistanceInAngstroms);
+                large = Math.Max(large, w.EquilibriumDistanceInAngstroms);
             }
         }
         if (large == 0)

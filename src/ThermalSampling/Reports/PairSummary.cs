@@ -29,7 +29,7 @@ internal static class PairSummary
         {
             var well = PairAnalysis.RequireWellInside(landscape);
             var firstOrder = PairAnalysis.FirstOrder(landscape, temperature);
-            var check = ReportParts.FirstOrderCheck("shift", firstOrder.MeanShiftInAngstroms, exact.MeanInAngstroms - well.EquilibriumDistance, 0)
+            var check = ReportParts.FirstOrderCheck("shift", firstOrder.MeanShiftInAngstroms, exact.MeanInAngstroms - well.EquilibriumDistanceInAngstroms, 0)
                 ?? ReportParts.FirstOrderCheck("variance", firstOrder.VarianceInAngstromsSquared, exact.VarianceInAngstromsSquared, 0);
             return new References(exact, well, PairAnalysis.Harmonic(landscape, mass, temperature), firstOrder, check is null ? [] : [check]);
         }
@@ -42,7 +42,7 @@ internal static class PairSummary
     /// <summary>The classical-validity warnings of a pair at the RMS spread <paramref name="rms"/>, with the exact wall probability.</summary>
     internal static ImmutableArray<Warning> ValidityWarnings(Mass mass, Temperature temperature, References references, double rms)
         => ClassicalValidity.Assess(mass, temperature, rms, references.Harmonic?.QuantumToThermalRatio ?? 0,
-            references.Well?.WellDepth ?? double.PositiveInfinity, references.Exact.ProbabilityNearWalls).Warnings;
+            references.Well?.WellDepthInElectronVolts ?? double.PositiveInfinity, references.Exact.ProbabilityNearWalls).Warnings;
 
     /// <summary>What a run would warn about before it samples: the references' warnings and the validity checks at the exact spread.</summary>
     internal static ImmutableArray<Warning> Check<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature)
@@ -95,9 +95,25 @@ internal static class PairSummary
             metropolis ? results.Average(r => r.Width) : null);
         var histogram = ReportParts.Histogram(results.Select(r => r.Record.Bins).ToList(), summary.Ess);
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
-        return new PairVibrationReport(temperature, landscape.Geometry, well?.EquilibriumDistance, meanEstimate,
-            well is null ? null : new Estimate(mean - well.EquilibriumDistance, meanSe), varianceEstimate, new Estimate(rms, rms > 0 ? varianceSe / (2 * rms) : 0),
-            moments.Skewness, moments.ExcessKurtosis, harmonic, firstOrder, comparison, diagnostics, histogram, warnings.ToImmutable(), provenance,
-            ReportParts.Draws(results.Select(r => r.Record.Draws)));
+        return new PairVibrationReport
+        {
+            Temperature = temperature,
+            Geometry = landscape.Geometry,
+            MinimumInAngstroms = well?.EquilibriumDistanceInAngstroms,
+            Mean = meanEstimate,
+            MeanShift = well is null ? null : new Estimate(mean - well.EquilibriumDistanceInAngstroms, meanSe),
+            Variance = varianceEstimate,
+            Rms = new Estimate(rms, rms > 0 ? varianceSe / (2 * rms) : 0),
+            Skewness = moments.Skewness,
+            ExcessKurtosis = moments.ExcessKurtosis,
+            Harmonic = harmonic,
+            FirstOrder = firstOrder,
+            Exact = comparison,
+            Diagnostics = diagnostics,
+            Histogram = histogram,
+            Warnings = warnings.ToImmutable(),
+            Provenance = provenance,
+            Draws = ReportParts.Draws(results.Select(r => r.Record.Draws)),
+        };
     }
 }

@@ -113,27 +113,61 @@ public sealed record RetainedDraws<T>(ImmutableArray<ImmutableArray<T>> Chains)
 /// <param name="ZScoreVariance">(sampled − exact)/SE for the variance.</param>
 public sealed record ExactComparison(double Mean, double Variance, double Skewness, double ExcessKurtosis, double ProbabilityNearWalls, double ZScoreMean, double ZScoreVariance);
 
-/// <summary>The vibration report of a line or radial pair at one temperature.</summary>
-/// <param name="Temperature">The temperature.</param>
-/// <param name="Geometry">Line or radial.</param>
-/// <param name="MinimumInAngstroms">The potential's minimum, when it lies inside the window.</param>
-/// <param name="Mean">Sampled ⟨r⟩, Å.</param>
-/// <param name="MeanShift">⟨r⟩ − minimum, Å (absent without a minimum inside the window).</param>
-/// <param name="Variance">Sampled variance, Å².</param>
-/// <param name="Rms">Sampled RMS spread, Å.</param>
-/// <param name="Skewness">Sampled skewness.</param>
-/// <param name="ExcessKurtosis">Sampled excess kurtosis.</param>
-/// <param name="Harmonic">The harmonic estimate (absent without a minimum inside the window).</param>
-/// <param name="FirstOrder">The first-order anharmonic estimate (absent without a minimum inside the window).</param>
-/// <param name="Exact">The exact quadrature reference and z-scores.</param>
-/// <param name="Diagnostics">Convergence diagnostics.</param>
-/// <param name="Histogram">The sampled density.</param>
-/// <param name="Warnings">Everything that could mislead, in plain words.</param>
-/// <param name="Provenance">What produced it.</param>
-/// <param name="Draws">Raw draws kept per chain (empty unless requested).</param>
-public sealed record PairVibrationReport(Temperature Temperature, SeparationGeometry Geometry, double? MinimumInAngstroms, Estimate Mean, Estimate? MeanShift,
-    Estimate Variance, Estimate Rms, double Skewness, double ExcessKurtosis, PairHarmonicEstimate? Harmonic, PairFirstOrderEstimate? FirstOrder,
-    ExactComparison Exact, SamplingDiagnostics Diagnostics, Histogram Histogram, ImmutableArray<Warning> Warnings, Provenance Provenance, RetainedDraws<double> Draws);
+/// <summary>The vibration report of a line or radial pair at one temperature: the sampled mean, shift, spread and shape with
+/// error bars, beside the exact, harmonic and first-order references, the diagnostics and every warning.</summary>
+public sealed record PairVibrationReport
+{
+    /// <summary>The temperature.</summary>
+    public required Temperature Temperature { get; init; }
+
+    /// <summary>Line or radial.</summary>
+    public required SeparationGeometry Geometry { get; init; }
+
+    /// <summary>The potential's minimum, when it lies inside the window.</summary>
+    public required double? MinimumInAngstroms { get; init; }
+
+    /// <summary>Sampled ⟨r⟩, Å.</summary>
+    public required Estimate Mean { get; init; }
+
+    /// <summary>⟨r⟩ − minimum, Å (absent without a minimum inside the window).</summary>
+    public required Estimate? MeanShift { get; init; }
+
+    /// <summary>Sampled variance, Å².</summary>
+    public required Estimate Variance { get; init; }
+
+    /// <summary>Sampled RMS spread, Å.</summary>
+    public required Estimate Rms { get; init; }
+
+    /// <summary>Sampled skewness.</summary>
+    public required double Skewness { get; init; }
+
+    /// <summary>Sampled excess kurtosis.</summary>
+    public required double ExcessKurtosis { get; init; }
+
+    /// <summary>The harmonic estimate (absent without a minimum inside the window).</summary>
+    public required PairHarmonicEstimate? Harmonic { get; init; }
+
+    /// <summary>The first-order anharmonic estimate (absent without a minimum inside the window).</summary>
+    public required PairFirstOrderEstimate? FirstOrder { get; init; }
+
+    /// <summary>The exact quadrature reference and z-scores.</summary>
+    public required ExactComparison Exact { get; init; }
+
+    /// <summary>Convergence diagnostics.</summary>
+    public required SamplingDiagnostics Diagnostics { get; init; }
+
+    /// <summary>The sampled density.</summary>
+    public required Histogram Histogram { get; init; }
+
+    /// <summary>Everything that could mislead, in plain words.</summary>
+    public required ImmutableArray<Warning> Warnings { get; init; }
+
+    /// <summary>What produced it.</summary>
+    public required Provenance Provenance { get; init; }
+
+    /// <summary>Raw draws kept per chain (empty unless requested).</summary>
+    public required RetainedDraws<double> Draws { get; init; }
+}
 
 /// <summary>
 /// The vibration of a particle at a 3D site at one temperature: the sampled mean, covariance tensor, mean-square

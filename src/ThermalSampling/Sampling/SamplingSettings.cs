@@ -100,5 +100,5 @@ public sealed record SamplingSettings
 /// <param name="ChainIndex">The chain that reported.</param>
 /// <param name="ChainStepsDone">Steps this chain has done (burn-in included).</param>
 /// <param name="ChainStepsTotal">Steps this chain will do.</param>
-/// <param name="Temperature">The temperature being sampled, K.</param>
-public readonly record struct SamplingProgress(int ChainIndex, long ChainStepsDone, long ChainStepsTotal, double Temperature);
+/// <param name="TemperatureInKelvin">The temperature being sampled, K.</param>
+public readonly record struct SamplingProgress(int ChainIndex, long ChainStepsDone, long ChainStepsTotal, double TemperatureInKelvin);
