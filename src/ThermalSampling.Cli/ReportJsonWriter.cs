@@ -145,6 +145,9 @@ internal static class ReportJsonWriter
         Number(w, "rmsStdErr", r.Rms.StandardError / l);
         Number(w, "skewness", r.Skewness);
         Number(w, "excessKurtosis", r.ExcessKurtosis);
+        double e = ScenarioUnits.Energy[s.EnergyUnit];
+        Number(w, "potentialEnergy", r.PotentialEnergy.Value / e);
+        Number(w, "potentialEnergyStdErr", r.PotentialEnergy.StandardError / e);
         if (r.Harmonic is { } h)
         {
             w.WriteStartObject("harmonic");

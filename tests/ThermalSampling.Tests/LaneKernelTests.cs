@@ -278,7 +278,7 @@ public sealed class LaneKernelTests
         double[] DrawsOf(PairLaneChains.Plan<HarmonicBond> plan, int chain)
         {
             var outcomes = PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.45 + 0.01 * c,
-                c => new PairChainRecord(new BinCounter(1.0, 2.0, 20), new BatchMeansStore(samples, 1024, 1.5), new DrawRecorder<double>(samples, (int)samples)),
+                c => new PairChainRecord(new BinCounter(1.0, 2.0, 20), new BatchMeansStore(samples, 1024, 1.5), new DrawRecorder<double>(samples, (int)samples), new BatchMeansStore(samples, 1024, 0)),
                 c => new ProgressReporter(null, c, 1000 + samples, 300), GroupCheckpoints.None, 0, default);
             return outcomes[chain].Record.Draws.ToImmutable().ToArray();
         }
@@ -303,7 +303,7 @@ public sealed class LaneKernelTests
     {
         var plan = new PairLaneChains.Plan<FaultyBand>(new FaultyBand(bad), 1.0, 2.0, 40.0, false, 0.3, 0.44, 1.0, 1000, 100_000, 5);
         var ex = Assert.Throws<NonFiniteEnergyException>(() => PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.2 + 0.05 * c,
-            c => new PairChainRecord(new BinCounter(1.0, 2.0, 20), new BatchMeansStore(100_000, 1024, 1.5), new DrawRecorder<double>(100_000, 0)),
+            c => new PairChainRecord(new BinCounter(1.0, 2.0, 20), new BatchMeansStore(100_000, 1024, 1.5), new DrawRecorder<double>(100_000, 0), new BatchMeansStore(100_000, 1024, 0)),
             c => new ProgressReporter(null, c, 101_000, 300), GroupCheckpoints.None, 0, default));
         Assert.InRange(ex.Separation, 1.55, 1.56);
         Assert.Contains("invented faulty band", ex.Message, StringComparison.Ordinal);

@@ -273,4 +273,21 @@ public class PairSamplerTests
         Assert.Contains(report.Warnings, w => w.Code == WarningCodes.EscapeRisk);
         Assert.True(report.Exact.ProbabilityNearWalls > 0.1);
     }
+
+    [Theory]
+    [InlineData(SamplingMethod.Metropolis)]
+    [InlineData(SamplingMethod.Direct)]
+    public void The_mean_potential_energy_of_a_harmonic_line_is_half_kT(SamplingMethod method)
+    {
+        // Equipartition (common practice, no source): on a line, ⟨V⟩ − V_min = kT/2 and Var(V) = (kT)²/2 for V = k x²/2.
+        // Invented bond k = 2 eV/Å² at 1.5 Å, window ±9σ (the walls remove less than 1e-18).
+        var t = Temperature.FromKelvin(300);
+        double kT = t.ThermalEnergyInElectronVolts, sigma = Math.Sqrt(kT / 2.0);
+        var line = PairLandscape.Line(new HarmonicBond(2.0, Length.FromAngstroms(1.5)), Length.FromAngstroms(1.5 - 9 * sigma), Length.FromAngstroms(1.5 + 9 * sigma));
+        var report = PairSampler.Run(line, Mass.FromAtomicMassUnits(12), t, Settings(method, samples: 100_000));
+        Assert.True(Math.Abs(report.PotentialEnergy.Value - kT / 2) < 4 * report.PotentialEnergy.StandardError,
+            $"⟨V⟩ − V_min = {report.PotentialEnergy.ToRoundedString()} eV against kT/2 = {kT / 2:G5} eV");
+        Assert.InRange(report.PotentialEnergy.StandardError, 1e-6, 0.02 * kT);
+        Assert.InRange(report.PotentialEnergyVarianceInElectronVoltsSquared / (kT * kT), 0.45, 0.55);
+    }
 }

@@ -141,6 +141,12 @@ public sealed record PairVibrationReport
     /// <summary>Sampled skewness.</summary>
     public required double Skewness { get; init; }
 
+    /// <summary>The mean potential energy above the minimum (or above the lowest energy in the window when no minimum lies in it), ⟨V⟩ − V_min, eV, with its standard error; kT/2 for a harmonic line.</summary>
+    public required Estimate PotentialEnergy { get; init; }
+
+    /// <summary>The variance of the potential energy, eV²; Var(V)/(kT)² is the potential part of the heat capacity in units of kB.</summary>
+    public required double PotentialEnergyVarianceInElectronVoltsSquared { get; init; }
+
     /// <summary>Sampled excess kurtosis.</summary>
     public required double ExcessKurtosis { get; init; }
 

@@ -54,7 +54,8 @@ internal static class PairChains
         PairChainRecord NewRecord(int c) => new(
             new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins),
             new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, reference),
-            new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain));
+            new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain),
+            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, exact.ReferenceEnergyInElectronVolts));
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
 
         PairChainOutcome[] results;
@@ -75,7 +76,7 @@ internal static class PairChains
         {
             var checkpoints = session?.Begin(temperatureIndex, chains) ?? GroupCheckpoints.None;
             results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken,
-                c => new DirectChain(table!, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
+                c => new DirectChain(table!, landscape.CheckedEnergy, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
         }
         session?.End(temperatureIndex);
         return new PairRunRecord(results, metropolis, targetAcceptance);
@@ -135,7 +136,7 @@ internal static class PairChains
     }
 
     /// <summary>One chain of direct draws from the inverse-CDF table, resumable at every 4096th draw.</summary>
-    private sealed class DirectChain(InverseCdfTable table, SamplingSettings settings, int chain, PairChainRecord record, ProgressReporter progress) : IResumableGroup
+    private sealed class DirectChain(InverseCdfTable table, Func<double, double> energy, SamplingSettings settings, int chain, PairChainRecord record, ProgressReporter progress) : IResumableGroup
     {
         private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
         private long _done;
@@ -160,7 +161,8 @@ internal static class PairChains
                 {
                     boundary.Reached(_done);
                 }
-                record.Add(table.Draw(ref _random));
+                double r = table.Draw(ref _random);
+                record.Add(r, energy(r));
             }
             checkpoints.Finished(chain, this);
             progress.Finish();
@@ -178,18 +180,23 @@ internal static class PairChains
     }
 }
 
-/// <summary>Everything a pair chain records per draw: blocked moments, histogram, batch means and retained draws.</summary>
+/// <summary>Everything a pair chain records per draw: blocked moments, histogram, batch means and retained draws of the
+/// separation, and batch means of the potential energy (what reweighting across temperatures needs).</summary>
 internal sealed class PairChainRecord
 {
     private BlockedMomentAccumulator _moments;
     private MomentAccumulator? _completed;
 
-    internal PairChainRecord(BinCounter bins, BatchMeansStore store, DrawRecorder<double> draws)
+    internal PairChainRecord(BinCounter bins, BatchMeansStore store, DrawRecorder<double> draws, BatchMeansStore energies)
     {
         Bins = bins;
         Store = store;
         Draws = draws;
+        Energies = energies;
     }
+
+    /// <summary>Batch means of V − V_ref and (V − V_ref)², with the same batches as <see cref="Store"/>.</summary>
+    internal BatchMeansStore Energies { get; }
 
     internal BinCounter Bins { get; }
 
@@ -206,6 +213,7 @@ internal sealed class PairChainRecord
     {
         _moments.Save(w);
         Store.Save(w);
+        Energies.Save(w);
         Bins.Save(w);
         Draws.Save(w, 1);
     }
@@ -215,6 +223,7 @@ internal sealed class PairChainRecord
     {
         _moments.Load(r);
         Store.Load(r);
+        Energies.Load(r);
         Bins.Load(r);
         Draws.Load(r, 1);
     }
@@ -223,11 +232,12 @@ internal sealed class PairChainRecord
     internal MomentAccumulator Moments => _completed ??= _moments.Complete();
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal void Add(double r)
+    internal void Add(double r, double energy)
     {
         _moments.Add(r);
         Bins.Add(r);
         Store.Add(r);
+        Energies.Add(energy);
         Draws.Add(r);
     }
 }

@@ -115,7 +115,7 @@ internal static class PairLaneChains
         private protected override void ResetForRecording()
         {
             var zero = TOps.Broadcast(0.0);
-            State.S1 = State.S2 = State.S3 = State.S4 = State.B1 = State.B2 = State.Accepted = zero;
+            State.S1 = State.S2 = State.S3 = State.S4 = State.B1 = State.B2 = State.E1 = State.E2 = State.Accepted = zero;
             State.BlockReference = State.Position;
         }
 
@@ -127,7 +127,8 @@ internal static class PairLaneChains
             {
                 for (int lane = 0; lane < _records.Length; lane++)
                 {
-                    _records[lane].Store.AddBatchSums(_tally.BatchSums[2 * k * TOps.Count + lane], _tally.BatchSums[(2 * k + 1) * TOps.Count + lane]);
+                    _records[lane].Store.AddBatchSums(_tally.BatchSums[4 * k * TOps.Count + lane], _tally.BatchSums[(4 * k + 1) * TOps.Count + lane]);
+                    _records[lane].Energies.AddBatchSums(_tally.BatchSums[(4 * k + 2) * TOps.Count + lane], _tally.BatchSums[(4 * k + 3) * TOps.Count + lane]);
                 }
             }
         }
@@ -276,12 +277,13 @@ internal static class PairLaneChains
             var batchSums = tally.BatchSums;
             TD position = walk.Position, energy = walk.Energy, jacobian = walk.Jacobian, negativeBeta = walk.NegativeBeta;
             TB r0 = walk.R0, r1 = walk.R1, r2 = walk.R2, r3 = walk.R3;
-            TD accepted = walk.Accepted, s1 = walk.S1, s2 = walk.S2, s3 = walk.S3, s4 = walk.S4, b1 = walk.B1, b2 = walk.B2;
+            TD accepted = walk.Accepted, s1 = walk.S1, s2 = walk.S2, s3 = walk.S3, s4 = walk.S4, b1 = walk.B1, b2 = walk.B2, e1 = walk.E1, e2 = walk.E2;
             var faults = walk.Faults;
             var blockReference = walk.BlockReference;
             var one = TOps.Broadcast(1.0);
             var zero = TOps.Broadcast(0.0);
             var batchReference = TOps.Broadcast(tally.BatchReference);
+            var energyReference = TOps.Broadcast(tally.EnergyReference);
             var binLower = TOps.Broadcast(tally.BinLower);
             var binScale = TOps.Broadcast(tally.BinScale);
             var counts = tally.Counts;
@@ -316,13 +318,19 @@ internal static class PairLaneChains
                 var b = TOps.Subtract(x, batchReference);
                 b1 = TOps.Add(b1, b);
                 b2 = TOps.Add(b2, TOps.Multiply(b, b));
+                // The same batches of the potential energy, V − V_ref (what reweighting across temperatures needs).
+                var de = TOps.Subtract(energy, energyReference);
+                e1 = TOps.Add(e1, de);
+                e2 = TOps.Add(e2, TOps.Multiply(de, de));
                 if (++filled == batchSize)
                 {
-                    TOps.Store(b1, ref batchSums[2 * closed * TOps.Count]);
-                    TOps.Store(b2, ref batchSums[(2 * closed + 1) * TOps.Count]);
+                    TOps.Store(b1, ref batchSums[4 * closed * TOps.Count]);
+                    TOps.Store(b2, ref batchSums[(4 * closed + 1) * TOps.Count]);
+                    TOps.Store(e1, ref batchSums[(4 * closed + 2) * TOps.Count]);
+                    TOps.Store(e2, ref batchSums[(4 * closed + 3) * TOps.Count]);
                     closed++;
                     filled = 0;
-                    b1 = b2 = zero;
+                    b1 = b2 = e1 = e2 = zero;
                 }
 
                 // Histogram: x is inside the window, so t = (x − lower)·scale is in [0, bins]; t = bins (the upper wall) goes to
@@ -357,6 +365,8 @@ internal static class PairLaneChains
             walk.S4 = s4;
             walk.B1 = b1;
             walk.B2 = b2;
+            walk.E1 = e1;
+            walk.E2 = e2;
             walk.Faults = faults;
             inBatch = filled;
             return closed;
@@ -364,9 +374,11 @@ internal static class PairLaneChains
     }
 
     /// <summary>The histogram counts and retained draws of a lane group, in flat arrays the inner loop can reach without calls.</summary>
-    private sealed class Tally(PairChainRecord first, int width, int lanes) : LaneTally(first.Bins, first.Draws.Capacity, width, lanes, 1)
+    private sealed class Tally(PairChainRecord first, int width, int lanes) : LaneTally(first.Bins, first.Draws.Capacity, width, lanes, 1, batchValues: 4)
     {
         internal double BatchReference { get; } = first.Store.Reference;
+
+        internal double EnergyReference { get; } = first.Energies.Reference;
 
         internal double BinLower { get; } = first.Bins.Lower;
 
@@ -393,7 +405,7 @@ internal static class PairLaneChains
     {
         internal TD Position, Energy, Jacobian, NegativeBeta;
         internal TB R0, R1, R2, R3;
-        internal TD Accepted, S1, S2, S3, S4, B1, B2, BlockReference;
+        internal TD Accepted, S1, S2, S3, S4, B1, B2, E1, E2, BlockReference;
         internal LaneFaults<TD> Faults;
     }
 }
