@@ -198,6 +198,8 @@ internal static class ReportJsonWriter
         w.WriteEndArray();
         Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
         Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
+        Number(w, "potentialEnergy", r.PotentialEnergy.Value / e);
+        Number(w, "potentialEnergyStdErr", r.PotentialEnergy.StandardError / e);
         w.WriteStartArray("modes");
         foreach (var m in r.Harmonic.Modes)
         {

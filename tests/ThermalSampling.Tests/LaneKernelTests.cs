@@ -321,7 +321,7 @@ public sealed class LaneKernelTests
 
     private static SiteLaneChains.ChainOutcome[] RunFaultySites(SiteLaneChains.Plan<FaultyBand> plan, int lanes, Func<int, Position> start)
         => SiteLaneChains.Run(lanes, plan, 0, lanes, c => (RandomStream.ForChain(plan.Seed, c), start(c)),
-            c => ([new BatchMeansStore(plan.Samples, 1024, FaultyCentre.X), new BatchMeansStore(plan.Samples, 1024, FaultyCentre.Y), new BatchMeansStore(plan.Samples, 1024, FaultyCentre.Z)],
+            c => ([new BatchMeansStore(plan.Samples, 1024, FaultyCentre.X), new BatchMeansStore(plan.Samples, 1024, FaultyCentre.Y), new BatchMeansStore(plan.Samples, 1024, FaultyCentre.Z), new BatchMeansStore(plan.Samples, 1024, 0)],
                 new BinCounter(0, 0.25, 20), new DrawRecorder<Position>(plan.Samples, 0)),
             c => new ProgressReporter(null, c, plan.BurnIn + plan.Samples, 300), GroupCheckpoints.None, 0, default);
 

@@ -146,4 +146,19 @@ public class SiteSamplerTests
         Assert.Equal(single.ZZ, merged.ZZ, 12);
         Assert.Equal(single.YZ, merged.YZ, 12);
     }
+
+    [Theory]
+    [InlineData(SamplingMethod.Metropolis)]
+    [InlineData(SamplingMethod.Direct)]
+    public void The_mean_potential_energy_at_a_site_approaches_three_halves_kT_at_low_temperature(SamplingMethod method)
+    {
+        // Equipartition in 3D (common practice, no source): ⟨V⟩ − V_min → 3kT/2 and Var(V) → 3(kT)²/2 as the site becomes
+        // harmonic; anharmonicity is O(kT) relative, about 1 % here (the fcc cage at 2 K).
+        var t = Temperature.FromKelvin(2);
+        double kT = t.ThermalEnergyInElectronVolts;
+        var report = SiteSampler.Run(FccCage(), ArgonMass, t, Settings(method));
+        Assert.True(Math.Abs(report.PotentialEnergy.Value - 1.5 * kT) < 0.03 * 1.5 * kT + 4 * report.PotentialEnergy.StandardError,
+            $"⟨V⟩ − V_min = {report.PotentialEnergy.ToRoundedString()} eV against 3kT/2 = {1.5 * kT:G5} eV");
+        Assert.InRange(report.PotentialEnergyVarianceInElectronVoltsSquared / (kT * kT), 1.35, 1.65);
+    }
 }

@@ -91,15 +91,8 @@ internal static class PairSummary
                 $"The sampled mean or variance differs from the exact quadrature value by more than 4 standard errors (z = {comparison.ZScoreMean:G3}, {comparison.ZScoreVariance:G3}): the chains are not converged or the error bars are too small. Trust the exact value.")));
         }
 
-        // The potential energy from the energy batch means (equal batches, so their mean is the mean of the batched draws).
-        var energyMeans = results.Select(r => r.Record.Energies.Means()).ToList();
-        double energyMean = energyMeans.SelectMany(m => m).DefaultIfEmpty(double.NaN).Average();
-        double energyReference = results[0].Record.Energies.Reference;
-        double energyVariance = Math.Max(0, results.SelectMany(r => r.Record.Energies.Second).DefaultIfEmpty(double.NaN).Average()
-            - Math.Pow(energyMean - energyReference, 2));
-        var energySummary = ChainDiagnostics.Summarise(energyMeans, batch, settings.SamplesPerChain, energyVariance, withRHat: false);
-        double energyFloor = well?.MinimumEnergyInElectronVolts ?? energyReference;
-        var potentialEnergy = new Estimate(energyMean - energyFloor, Math.Sqrt(energyVariance / Math.Max(energySummary.Ess, 1)));
+        var (potentialEnergy, energyVariance) = ReportParts.PotentialEnergy(results.Select(r => r.Record.Energies).ToList(), batch, settings.SamplesPerChain,
+            well?.MinimumEnergyInElectronVolts);
 
         var diagnostics = new SamplingDiagnostics(acceptance, summary.Tau, summary.Ess, summary.RHat, moments.Count, summary.BlockingStandardError,
             metropolis ? results.Average(r => r.Width) : null);

@@ -16,6 +16,21 @@ namespace ThermalSampling.Reports;
 /// </summary>
 internal static class ReportParts
 {
+    /// <summary>
+    /// The mean potential energy above <paramref name="floor"/> (the minimum's energy; the stores' reference when null),
+    /// with its standard error from the chains' energy batch means, and the energy's variance. The batches are equal, so the
+    /// mean of the batch means is the mean of the batched draws.
+    /// </summary>
+    internal static (Estimate Mean, double Variance) PotentialEnergy(IReadOnlyList<BatchMeansStore> stores, int batch, long samples, double? floor)
+    {
+        var means = stores.Select(s => s.Means()).ToList();
+        double reference = stores[0].Reference;
+        double mean = means.SelectMany(m => m).DefaultIfEmpty(double.NaN).Average();
+        double variance = Math.Max(0, stores.SelectMany(s => s.Second).DefaultIfEmpty(double.NaN).Average() - Math.Pow(mean - reference, 2));
+        var summary = ChainDiagnostics.Summarise(means, batch, samples, variance, withRHat: false);
+        return (new Estimate(mean - (floor ?? reference), Math.Sqrt(variance / Math.Max(summary.Ess, 1))), variance);
+    }
+
     /// <summary>The share by which a first-order estimate may differ from the exact or sampled value before it is called outside its range.</summary>
     internal const double FirstOrderTolerance = 0.2;
 

@@ -204,6 +204,12 @@ public sealed record SiteVibrationReport
     /// <summary>tr(covariance) = ⟨|u − ⟨u⟩|²⟩, Å².</summary>
     public required Estimate MeanSquareDisplacement { get; init; }
 
+    /// <summary>The mean potential energy above the site's minimum, ⟨V⟩ − V_min, eV, with its standard error; 3kT/2 in the harmonic limit.</summary>
+    public required Estimate PotentialEnergy { get; init; }
+
+    /// <summary>The variance of the potential energy, eV²; Var(V)/(kT)² is the potential part of the heat capacity in units of kB.</summary>
+    public required double PotentialEnergyVarianceInElectronVoltsSquared { get; init; }
+
     /// <summary>B = 8π² U_iso = 8π² MSD/3, Å²; null when the particle leaves its site (a B factor describes vibration at a site).</summary>
     public required Estimate? DebyeWallerB { get; init; }
 

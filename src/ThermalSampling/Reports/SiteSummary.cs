@@ -103,6 +103,8 @@ internal static class SiteSummary
         }
         ReportParts.AddConvergenceWarnings(warnings, combined, metropolis ? acceptance : null, metropolis ? target : null);
 
+        var (potentialEnergy, energyVariance) = ReportParts.PotentialEnergy(results.Select(r => r.Stores[SiteChains.EnergyStore]).ToList(), batch,
+            settings.SamplesPerChain, harmonic.MinimumEnergyInElectronVolts);
         var diagnostics = new SamplingDiagnostics(acceptance, combined.Tau, combined.Ess, combined.RHat, draws, combined.BlockingStandardError,
             metropolis ? results.Average(r => r.Scale) * sigmaMin : null);
         var radialHistogram = ReportParts.Histogram(results.Select(r => r.Radial).ToList(), combined.Ess);
@@ -117,6 +119,8 @@ internal static class SiteSummary
             MeanShift = mean - min,
             Covariance = covariance,
             MeanSquareDisplacement = new Estimate(msd, msdSe),
+            PotentialEnergy = potentialEnergy,
+            PotentialEnergyVarianceInElectronVoltsSquared = energyVariance,
             DebyeWallerB = staysAtSite ? new Estimate(b, b * msdSe / msd) : null,
             Harmonic = harmonic,
             Basin = basin,

@@ -15,6 +15,7 @@ using ThermalSampling.Units;
 namespace ThermalSampling.Sampling;
 
 /// <summary>What one site chain hands back: its moments, batch means per axis, radial bins, kept draws and counts.</summary>
+/// <remarks>Stores: the batch means of x, y, z and the potential energy (<see cref="SiteChains.EnergyStore"/>).</remarks>
 internal sealed record SiteChainOutcome(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws,
     long Accepted, long Proposals, long NearWall, long OutsideBasin, double Scale);
 
@@ -62,6 +63,7 @@ internal static class SiteChains
             new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.X),
             new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Y),
             new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Z),
+            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, harmonic.MinimumEnergyInElectronVolts), // the potential energy
         };
         BinCounter NewRadial() => new(0, radialMax, settings.HistogramBins);
         DrawRecorder<Position> NewDraws() => new(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
@@ -151,6 +153,9 @@ internal static class SiteChains
     /// <summary>The near-wall band: one harmonic RMS spread per direction, √(tr Σ/3).</summary>
     private static double WallBand(Matrix<double> cholesky) => Math.Sqrt(cholesky.Multiply(cholesky.Transpose()).Trace() / 3);
 
+    /// <summary>The index of the potential energy's batch-means store among a site chain's stores (after x, y and z).</summary>
+    internal const int EnergyStore = 3;
+
     private static void Record(double x, double y, double z, Position min, ref CovarianceAccumulator moments, BatchMeansStore[] stores, BinCounter radial)
     {
         moments.Add(x, y, z);
@@ -204,6 +209,7 @@ internal static class SiteChains
                     if (Math.Log(_random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
                     {
                         Record(x, y, z, min, ref _moments, stores, radial);
+                        stores[EnergyStore].Add(landscape.Energy(new Position(x, y, z)));
                         draws.Add(new Position(x, y, z));
                         if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, band))
                         {

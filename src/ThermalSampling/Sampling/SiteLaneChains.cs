@@ -91,7 +91,7 @@ internal static class SiteLaneChains
             }
             _moments = new CovarianceAccumulator[Live];
             _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
-            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live, plan.Basin);
+            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live, plan.Basin, _records[0].Stores[SiteChains.EnergyStore].Reference);
         }
 
         internal ChainOutcome[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
@@ -151,9 +151,9 @@ internal static class SiteLaneChains
             {
                 for (int lane = 0; lane < _records.Length; lane++)
                 {
-                    for (int axis = 0; axis < 3; axis++)
+                    for (int value = 0; value < 4; value++) // x, y, z, then the potential energy
                     {
-                        _records[lane].Stores[axis].AddBatchSums(_tally.BatchSums[(6 * k + 2 * axis) * TOps.Count + lane], _tally.BatchSums[(6 * k + 2 * axis + 1) * TOps.Count + lane]);
+                        _records[lane].Stores[value].AddBatchSums(_tally.BatchSums[(8 * k + 2 * value) * TOps.Count + lane], _tally.BatchSums[(8 * k + 2 * value + 1) * TOps.Count + lane]);
                     }
                 }
             }
@@ -386,7 +386,8 @@ internal static class SiteLaneChains
             // Individual locals, not the sum structs: a struct copy or clear here becomes a memcpy call, and any call in the
             // loop sends every vector register to memory.
             TD sX = w.Sums.X, sY = w.Sums.Y, sZ = w.Sums.Z, sXX = w.Sums.XX, sYY = w.Sums.YY, sZZ = w.Sums.ZZ, sXY = w.Sums.XY, sXZ = w.Sums.XZ, sYZ = w.Sums.YZ;
-            TD bX = w.Batch.X, bY = w.Batch.Y, bZ = w.Batch.Z, bXX = w.Batch.XX, bYY = w.Batch.YY, bZZ = w.Batch.ZZ;
+            TD bX = w.Batch.X, bY = w.Batch.Y, bZ = w.Batch.Z, bXX = w.Batch.XX, bYY = w.Batch.YY, bZZ = w.Batch.ZZ, bE = w.Batch.XY, bEE = w.Batch.XZ;
+            var energyReference = TOps.Broadcast(tally.EnergyReference);
             TD accepted = w.Accepted, nearWall = w.NearWall;
             var one = TOps.Broadcast(1.0);
             var zero = TOps.Broadcast(0.0);
@@ -442,16 +443,21 @@ internal static class SiteLaneChains
                 bXX = TOps.Add(bXX, TOps.Multiply(mx, mx));
                 bYY = TOps.Add(bYY, TOps.Multiply(my, my));
                 bZZ = TOps.Add(bZZ, TOps.Multiply(mz, mz));
+                var de = TOps.Subtract(energy, energyReference); // the same batches of V − V_min (what reweighting needs)
+                bE = TOps.Add(bE, de);
+                bEE = TOps.Add(bEE, TOps.Multiply(de, de));
                 if (++filled == batchSize)
                 {
-                    int at = 6 * closed * TOps.Count;
+                    int at = 8 * closed * TOps.Count;
                     TOps.Store(bX, ref batchSums[at]);
                     TOps.Store(bXX, ref batchSums[at + TOps.Count]);
                     TOps.Store(bY, ref batchSums[at + 2 * TOps.Count]);
                     TOps.Store(bYY, ref batchSums[at + 3 * TOps.Count]);
                     TOps.Store(bZ, ref batchSums[at + 4 * TOps.Count]);
                     TOps.Store(bZZ, ref batchSums[at + 5 * TOps.Count]);
-                    bX = bY = bZ = bXX = bYY = bZZ = zero;
+                    TOps.Store(bE, ref batchSums[at + 6 * TOps.Count]);
+                    TOps.Store(bEE, ref batchSums[at + 7 * TOps.Count]);
+                    bX = bY = bZ = bXX = bYY = bZZ = bE = bEE = zero;
                     closed++;
                     filled = 0;
                 }
@@ -497,7 +503,8 @@ internal static class SiteLaneChains
             (w.R0, w.R1, w.R2, w.R3) = (r0, r1, r2, r3);
             w.Faults = faults;
             w.Sums = new LaneSums3<TD> { X = sX, Y = sY, Z = sZ, XX = sXX, YY = sYY, ZZ = sZZ, XY = sXY, XZ = sXZ, YZ = sYZ };
-            w.Batch = new LaneSums3<TD> { X = bX, Y = bY, Z = bZ, XX = bXX, YY = bYY, ZZ = bZZ, XY = zero, XZ = zero, YZ = zero };
+            // The batch sums use the cross-product slots of LaneSums3 for the energy (batches need no cross products).
+            w.Batch = new LaneSums3<TD> { X = bX, Y = bY, Z = bZ, XX = bXX, YY = bYY, ZZ = bZZ, XY = bE, XZ = bEE, YZ = zero };
             w.Accepted = accepted;
             w.NearWall = nearWall;
             inBatch = filled;
@@ -506,8 +513,12 @@ internal static class SiteLaneChains
     }
 
     /// <summary>Histogram counts, batch sums and retained draws of a lane group, in flat arrays the inner loop reaches without calls.</summary>
-    private sealed class SiteTally(BinCounter radial, int retained, int width, int lanes, BasinGrid basin) : LaneTally(radial, retained, width, lanes, 3)
+    private sealed class SiteTally(BinCounter radial, int retained, int width, int lanes, BasinGrid basin, double energyReference)
+        : LaneTally(radial, retained, width, lanes, 3, batchValues: 8)
     {
+        /// <summary>The reference the energy batch sums are taken about (the harmonic minimum's energy).</summary>
+        internal double EnergyReference { get; } = energyReference;
+
         /// <summary>The site's basin map, for the membership test of every draw.</summary>
         internal BasinGrid Basin { get; } = basin;
 
