@@ -76,7 +76,7 @@ internal static class PairChains
         {
             var checkpoints = session?.Begin(temperatureIndex, chains) ?? GroupCheckpoints.None;
             results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken,
-                c => new DirectChain(table!, landscape.CheckedEnergy, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
+                c => new DirectChain<TPotential>(table!, landscape.Potential, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
         }
         session?.End(temperatureIndex);
         return new PairRunRecord(results, metropolis, targetAcceptance);
@@ -136,7 +136,9 @@ internal static class PairChains
     }
 
     /// <summary>One chain of direct draws from the inverse-CDF table, resumable at every 4096th draw.</summary>
-    private sealed class DirectChain(InverseCdfTable table, Func<double, double> energy, SamplingSettings settings, int chain, PairChainRecord record, ProgressReporter progress) : IResumableGroup
+    private sealed class DirectChain<TPotential>(InverseCdfTable table, TPotential potential, SamplingSettings settings, int chain, PairChainRecord record, ProgressReporter progress)
+        : IResumableGroup
+        where TPotential : struct, IPairPotential
     {
         private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
         private long _done;
@@ -162,7 +164,7 @@ internal static class PairChains
                     boundary.Reached(_done);
                 }
                 double r = table.Draw(ref _random);
-                record.Add(r, energy(r));
+                record.Add(r, potential.Energy(r)); // a struct call the JIT inlines; the draw lies where the table's density is finite
             }
             checkpoints.Finished(chain, this);
             progress.Finish();
