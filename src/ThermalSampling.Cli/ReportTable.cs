@@ -130,7 +130,4 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
         }
         return v.ToString(column.Format, CultureInfo.InvariantCulture);
     }
-
-    /// <summary>The same for <see cref="ReportCell"/>s of the first-order shift, which is 0 by symmetry in many sites: a value 1e-12 of the spread or less prints 0.</summary>
-    internal static string Format(ReportCell cell) => Format(cell, new ReportColumn("", "", false));
 }

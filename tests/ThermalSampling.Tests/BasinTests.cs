@@ -100,7 +100,9 @@ public class BasinTests
     public void In_a_confinement_inside_the_basin_the_way_out_is_the_wall_and_no_other_minimum_is_found()
     {
         var landscape = Tight();
-        var basin = SiteBasins.Map(landscape, SiteMinimum(landscape));
+        var (basin, grid) = SiteBasins.MapWithGrid(landscape, SiteMinimum(landscape));
+        Assert.False(grid.AnyOutside); // so the samplers skip the per-draw lookup
+        Assert.True(SiteBasins.MapWithGrid(Wide(), SiteMinimum(Wide())).Grid.AnyOutside);
         Assert.Null(basin.BarrierToNeighbourInElectronVolts);
         Assert.Empty(basin.OtherMinima);
         Assert.False(basin.WayOutLeadsToAnotherMinimum);

@@ -317,7 +317,7 @@ public sealed class LaneKernelTests
         => new(new FaultyBand(bad), [FaultySiteA.X, FaultySiteA.Y, FaultySiteA.Z, FaultyCentre.X, FaultyCentre.Y + 2.5, FaultyCentre.Z],
             FaultyCentre, Confinement.Sphere(Length.FromAngstroms(0.25)), FaultyCentre, 0.1, 0, 0.1, 0, 0, 0.1, 40.0, 0.5, 0.44, 1.0, 0.02,
             burnIn, 100_000, 5, "invented faulty band",
-            new BasinGrid(FaultyCentre.X - 0.25, FaultyCentre.Y - 0.25, FaultyCentre.Z - 0.25, 0.5, 2, new byte[8])); // one basin: every point inside
+            new BasinGrid(FaultyCentre.X - 0.25, FaultyCentre.Y - 0.25, FaultyCentre.Z - 0.25, 0.5, 2, new byte[8], AnyOutside: false)); // one basin: every point inside
 
     private static SiteLaneChains.ChainOutcome[] RunFaultySites(SiteLaneChains.Plan<FaultyBand> plan, int lanes, Func<int, Position> start)
         => SiteLaneChains.Run(lanes, plan, 0, lanes, c => (RandomStream.ForChain(plan.Seed, c), start(c)),

@@ -327,7 +327,8 @@ public static class SiteBasins
                 }
             }
         }
-        var grid = new BasinGrid(centre.X - size, centre.Y - size, centre.Z - size, h, n, outsideMask);
+        bool anyOutside = Enumerable.Range(0, energy.Length).Any(c => inside[c] && sink[c] != site);
+        var grid = new BasinGrid(centre.X - size, centre.Y - size, centre.Z - size, h, n, outsideMask, anyOutside);
         return (new SiteBasin
         {
             Minimum = minimum,
@@ -467,8 +468,11 @@ public static class SiteBasins
 /// The basin map as the samplers read it: grid points at (X0 + i·h, Y0 + j·h, Z0 + k·h), i, j, k in [0, N), and a byte per
 /// point, 1 where the point is outside the site's basin (or outside the confinement). A position belongs to its nearest grid point.
 /// </summary>
-internal sealed record BasinGrid(double X0, double Y0, double Z0, double Spacing, int N, byte[] Outside)
+/// <remarks>AnyOutside: whether some point inside the confinement lies outside the basin; when none does (a confinement
+/// inside one basin, the usual case) no draw can be outside, and the samplers skip the lookup.</remarks>
+internal sealed record BasinGrid(double X0, double Y0, double Z0, double Spacing, int N, byte[] Outside, bool AnyOutside)
 {
+
     /// <summary>Whether the position is outside the site's basin (by its nearest grid point).</summary>
     internal bool IsOutside(double x, double y, double z) => Outside[Index(x, y, z)] != 0;
 

@@ -220,7 +220,7 @@ public sealed record SiteVibrationReport
     public required SiteBasin Basin { get; init; }
 
     /// <summary>Whether the draws stay in the basin of the site's minimum (no more than 0.1 % of them outside it).</summary>
-    public required bool StaysAtSite { get; init; }
+    public bool StaysAtSite => ShareOutsideBasin <= SiteBasins.LeftSiteThreshold;
 
     /// <summary>The share of recorded draws outside the basin of the site's minimum (each draw placed by the nearest point of the basin map).</summary>
     public required double ShareOutsideBasin { get; init; }

@@ -124,7 +124,6 @@ internal static class SiteSummary
             DebyeWallerB = staysAtSite ? new Estimate(b, b * msdSe / msd) : null,
             Harmonic = harmonic,
             Basin = basin,
-            StaysAtSite = staysAtSite,
             ShareOutsideBasin = outside,
             Diagnostics = diagnostics,
             RadialHistogram = radialHistogram,

@@ -215,7 +215,7 @@ internal static class SiteChains
                         {
                             _nearWall++;
                         }
-                        if (basin.IsOutside(x, y, z))
+                        if (basin.AnyOutside && basin.IsOutside(x, y, z))
                         {
                             _outsideBasin++;
                         }

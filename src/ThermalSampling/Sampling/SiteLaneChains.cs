@@ -406,6 +406,7 @@ internal static class SiteLaneChains
             var grid = tally.Basin;
             var outsideMask = grid.Outside;
             var outsideBasin = tally.OutsideBasin;
+            bool countOutside = grid.AnyOutside;
             var gridX0 = TOps.Broadcast(grid.X0);
             var gridY0 = TOps.Broadcast(grid.Y0);
             var gridZ0 = TOps.Broadcast(grid.Z0);
@@ -473,16 +474,20 @@ internal static class SiteLaneChains
                     counts[index[lane]]++;
                 }
 
-                // Basin membership by the nearest point of the basin grid: i = round((x − x0)/h) by adding and removing 2^52
-                // (exact for 0 ≤ t < 2^51), the flat index (k·N + j)·N + i formed in the vector, one byte looked up per lane.
-                var gi = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(x, gridX0), gridScale, roundShift), roundShift);
-                var gj = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(y, gridY0), gridScale, roundShift), roundShift);
-                var gk = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(z, gridZ0), gridScale, roundShift), roundShift);
-                var flat = TOps.MultiplyAdd(TOps.MultiplyAdd(gk, gridN, gj), gridN, gi);
-                TOps.StoreBits(TOps.Truncate(flat), ref index[0]);
-                for (int lane = 0; lane < lanes; lane++)
+                // Basin membership by the nearest point of the basin grid, only when the confinement reaches outside the basin
+                // (a loop-invariant branch): i = round((x − x0)/h) by adding and removing 2^52 (exact for 0 ≤ t < 2^51), the
+                // flat index (k·N + j)·N + i formed in the vector, one byte looked up per lane.
+                if (countOutside)
                 {
-                    outsideBasin[lane] += outsideMask[index[lane]];
+                    var gi = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(x, gridX0), gridScale, roundShift), roundShift);
+                    var gj = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(y, gridY0), gridScale, roundShift), roundShift);
+                    var gk = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(z, gridZ0), gridScale, roundShift), roundShift);
+                    var flat = TOps.MultiplyAdd(TOps.MultiplyAdd(gk, gridN, gj), gridN, gi);
+                    TOps.StoreBits(TOps.Truncate(flat), ref index[0]);
+                    for (int lane = 0; lane < lanes; lane++)
+                    {
+                        outsideBasin[lane] += outsideMask[index[lane]];
+                    }
                 }
                 if (j < retain)
                 {
