@@ -195,7 +195,7 @@ public class CheckpointFormatTests
         { "\"massInAtomicMassUnits\":39.948", "\"massInAtomicMassUnits\":\"39.948\"", "lacks \"massInAtomicMassUnits\"" },
         { "\"temperaturesInKelvin\":[30,60]", "\"temperaturesInKelvin\":{}", "lacks \"temperaturesInKelvin\"" },
         { "\"libraryVersion\":", "\"libraryVersionX\":", "lacks \"libraryVersion\"" },
-        { "\"formatVersion\":3", "\"formatVersion\":\"3\"", "lacks \"formatVersion\"" },
+        { "\"formatVersion\":" + SamplingCheckpoint.FormatVersion, "\"formatVersion\":\"" + SamplingCheckpoint.FormatVersion + "\"", "lacks \"formatVersion\"" },
         { "\"format\":\"thermal-sampling-checkpoint\"", "\"format\":\"something-else\"", "This is not a checkpoint" },
         { "\"format\":\"thermal-sampling-checkpoint\"", "\"format\":1", "This is not a checkpoint" },
         { "\"seed\":5", "\"seedling\":5", "settings lack \"seed\"" },

@@ -296,7 +296,7 @@ public sealed class CheckpointTests
         var other = Read(WithMetadata(bytes, "\"libraryVersion\":\"" + Provenance.CurrentLibraryVersion, "\"libraryVersion\":\"0.0.1"));
         var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(Line, Argon, TwoTemperatures, settings, other));
         Assert.Contains("library version 0.0.1", ex.Message);
-        Assert.Contains("format version 2; this library reads version 3", Assert.Throws<CheckpointException>(() => Read(WithMetadata(bytes, "\"formatVersion\":3", "\"formatVersion\":2"))).Message); // a checkpoint of the layout before β per lane
+        Assert.Contains("format version 3; this library reads version 4", Assert.Throws<CheckpointException>(() => Read(WithMetadata(bytes, "\"formatVersion\":4", "\"formatVersion\":3"))).Message); // a checkpoint of the layout before the walk and its sums were saved apart
 
         var checkpoint = Read(bytes);
         Assert.Contains("temperatures are [30, 60] K, and this run's are [30, 61] K",

@@ -93,12 +93,12 @@ internal sealed class ChunkBoundary(ProgressReporter[] reporters, GroupCheckpoin
 /// <summary>Lane values and whole walks as 64-bit words (field by field, lanes within a field).</summary>
 internal static class LaneWalkWords
 {
-    internal static void Save<TWalk>(StateWriter w, ref TWalk walk) where TWalk : struct => w.Words("WALK", Words(ref walk));
+    internal static void Save<TWalk>(StateWriter w, string tag, ref TWalk walk) where TWalk : struct => w.Words(tag, Words(ref walk));
 
-    internal static void Load<TWalk>(StateReader r, ref TWalk walk) where TWalk : struct
+    internal static void Load<TWalk>(StateReader r, string tag, ref TWalk walk) where TWalk : struct
     {
         var words = Words(ref walk);
-        r.Words("WALK", words.Length).CopyTo(words);
+        r.Words(tag, words.Length).CopyTo(words);
     }
 
     private static Span<ulong> Words<TWalk>(ref TWalk walk) where TWalk : struct => MemoryMarshal.Cast<TWalk, ulong>(MemoryMarshal.CreateSpan(ref walk, 1));

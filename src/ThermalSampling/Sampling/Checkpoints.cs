@@ -72,7 +72,7 @@ public sealed class SamplingCheckpoint
     public const string FormatName = "thermal-sampling-checkpoint";
 
     /// <summary>The version of the file layout this library writes and reads.</summary>
-    public const int FormatVersion = 3;
+    public const int FormatVersion = 4;
 
     private const int MaximumMetadataBytes = 32 * 1024 * 1024;
     private const int ChecksumBytes = 32;

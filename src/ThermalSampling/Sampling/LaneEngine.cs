@@ -1,5 +1,6 @@
 using System;
 using System.Globalization;
+using System.Runtime.CompilerServices;
 using System.Threading;
 using ThermalSampling.Numerics;
 using ThermalSampling.Persistence;
@@ -8,49 +9,132 @@ using ThermalSampling.Randomness;
 namespace ThermalSampling.Sampling;
 
 /// <summary>
+/// The walk seam: a kind of Metropolis chain is its state in every lane and one step of it. Implemented by a struct,
+/// so the engine's chunk loops are compiled once per walk and the step inlines into them with no call in the loop (a call
+/// there would send every vector register to memory: they are all caller-saved). A step must make no calls either.
+/// </summary>
+/// <typeparam name="TD">Doubles, one per lane.</typeparam>
+/// <typeparam name="TState">The walk's state in every lane: positions, energy, −β, random stream, fault notes (saved word for word).</typeparam>
+internal interface ILaneWalk<TD, TState>
+    where TD : struct
+    where TState : struct
+{
+    /// <summary>One proposal and its acceptance test in every lane at proposal scale <paramref name="width"/>; returns the acceptance mask.</summary>
+    TD Step(ref TState state, TD width);
+
+    /// <summary>What the records see of the state after a step (the draw).</summary>
+    LanePoint<TD> Point(in TState state);
+
+    /// <summary>After every lane is placed: the starting energies, with their fault check.</summary>
+    void Start(ref TState state);
+
+    /// <summary>Clears the fault notes before a chunk.</summary>
+    void ClearFaults(ref TState state);
+
+    /// <summary>
+    /// Whether <see cref="ThrowIfFaulted"/> replays a faulted chunk from the state before it (to name the failing pair);
+    /// only then does the engine copy the state before every chunk.
+    /// </summary>
+    bool ReplaysFaults { get; }
+
+    /// <summary>
+    /// Throws when the chunk just run (from <paramref name="before"/>, the state before it when <see cref="ReplaysFaults"/>,
+    /// else default) noted a NaN or −∞ energy. <paramref name="gains"/> is set for a burn-in chunk (then the widths follow
+    /// <paramref name="logWidthBefore"/>), null for a recorded chunk at <paramref name="width"/>.
+    /// </summary>
+    void ThrowIfFaulted(in TState state, in TState before, TD logWidthBefore, double[]? gains, TD width, int chunk);
+}
+
+/// <summary>
+/// The record seam: what each recorded draw adds to the running sums of its chain (moments, batch sums, histograms,
+/// counts), and where a batch's sums go when it closes. Implemented by a struct made for each chunk (it carries the
+/// chunk's place in the run); like a walk's step, <see cref="Add"/> inlines and makes no calls.
+/// </summary>
+/// <typeparam name="TD">Doubles, one per lane.</typeparam>
+/// <typeparam name="TSums">The running sums in every lane (saved word for word).</typeparam>
+internal interface ILaneRecorder<TD, TSums>
+    where TD : struct
+    where TSums : struct
+{
+    /// <summary>Adds the <paramref name="j"/>-th draw of the chunk, <paramref name="point"/>, reached with acceptance mask <paramref name="accept"/>.</summary>
+    void Add(ref TSums sums, in LanePoint<TD> point, TD accept, int j);
+
+    /// <summary>The batch just filled is the <paramref name="closed"/>-th closed in this chunk: stores its sums for the records and clears them.</summary>
+    void CloseBatch(ref TSums sums, int closed);
+}
+
+/// <summary>A draw as the records see it: up to three coordinates (unused ones stay zero) and the potential energy, per lane.</summary>
+/// <typeparam name="TD">Doubles, one per lane.</typeparam>
+internal readonly struct LanePoint<TD>(TD x, TD y, TD z, TD energy) where TD : struct
+{
+    internal TD X { get; } = x;
+
+    internal TD Y { get; } = y;
+
+    internal TD Z { get; } = z;
+
+    internal TD Energy { get; } = energy;
+}
+
+/// <summary>
 /// The one lane engine: runs a group of chains, one per vector lane, through seeding, adaptive burn-in, the recorded
 /// phase and the chunk boundaries between (checkpoints, progress, cancellation), and writes and reads its whole state.
-/// A kind of chain is a subclass that supplies its walk state <typeparamref name="TState"/> (saved word for word), its two
-/// call-free chunk kernels and what its records do with a chunk's sums. The engine calls the subclass once per chunk of
-/// up to 4096 steps, never per step, so the kernels keep the walk in registers and the engine costs nothing per step.
+/// A kind of chain is a walk (<typeparamref name="TWalk"/>, its state <typeparamref name="TState"/>), a recorder
+/// (<typeparamref name="TRecorder"/>, its sums <typeparamref name="TSums"/>) and a subclass that places the chains in the
+/// lanes and hands closed batches, moment blocks and the final tallies to the chains' records. The chunk loops are the
+/// engine's own, written once (<see cref="AdaptLoop"/>, <see cref="RecordLoop"/>); the engine makes its calls once per
+/// chunk of up to 4096 steps, never per step, so the loops keep the walk in registers and the engine costs nothing per step.
 /// </summary>
 /// <typeparam name="TOps">The lane width.</typeparam>
 /// <typeparam name="TD">Doubles, one per lane.</typeparam>
 /// <typeparam name="TB">Raw words, one per lane.</typeparam>
-/// <typeparam name="TState">The walk's running state in every lane (positions, energies, random streams, open sums, faults).</typeparam>
-internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
+/// <typeparam name="TWalk">The walk.</typeparam>
+/// <typeparam name="TState">The walk's running state in every lane.</typeparam>
+/// <typeparam name="TRecorder">The recorder.</typeparam>
+/// <typeparam name="TSums">The recorder's running sums in every lane.</typeparam>
+internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums> : LaneGroupProgress
     where TOps : struct, ILaneOps<TD, TB>
     where TD : struct
     where TB : struct
+    where TWalk : struct, ILaneWalk<TD, TState>
     where TState : struct
+    where TRecorder : struct, ILaneRecorder<TD, TSums>
+    where TSums : struct
 {
     private const int ChunkSteps = LaneAdaptation.ChunkSteps;
 
     private readonly string _headerTag, _widthTag, _what;
-    private readonly double _initialWidth, _maxWidth;
+    private readonly double _initialWidth, _maxWidth, _targetAcceptance;
     private readonly long _burnIn, _samples;
     private readonly int _blockSize;
+    private readonly TWalk _walk;
     private TD _logWidth;
 
     /// <summary>The walk in every lane; its layout is the checkpoint's WALK section.</summary>
     private protected TState State;
 
+    /// <summary>The recorder's running sums in every lane; their layout is the checkpoint's SUMS section.</summary>
+    private protected TSums Sums;
+
     /// <param name="settings">What the subclass's plan fixes: steps, widths, the moment block and the checkpoint tags.</param>
+    /// <param name="walk">The walk (its fixed parameters).</param>
     /// <param name="firstChain">The chain in lane 0.</param>
     /// <param name="chains">The run's chain count (lanes at or beyond it repeat the last chain and are dropped).</param>
     /// <param name="reporters">Progress per live lane.</param>
-    private protected LaneEngine(EngineSettings settings, int firstChain, int chains, ProgressReporter[] reporters)
+    private protected LaneEngine(EngineSettings settings, TWalk walk, int firstChain, int chains, ProgressReporter[] reporters)
         : base(settings.BurnIn, settings.Samples, TOps.Count, Math.Min(TOps.Count, chains - firstChain))
     {
         (_burnIn, _samples, _initialWidth, _maxWidth, _blockSize) = (settings.BurnIn, settings.Samples, settings.InitialWidth, settings.MaxWidth, settings.BlockSize);
+        _targetAcceptance = settings.TargetAcceptance;
         (_headerTag, _widthTag, _what) = (settings.HeaderTag, settings.WidthTag, settings.What);
+        _walk = walk;
         FirstChain = firstChain;
         Chains = chains;
         Reporters = reporters;
     }
 
     /// <summary>What a lane group's plan fixes for the engine.</summary>
-    internal readonly record struct EngineSettings(long BurnIn, long Samples, double InitialWidth, double MaxWidth, int BlockSize,
+    internal readonly record struct EngineSettings(long BurnIn, long Samples, double InitialWidth, double MaxWidth, double TargetAcceptance, int BlockSize,
         string HeaderTag, string WidthTag, string What);
 
     private protected int FirstChain { get; }
@@ -59,32 +143,16 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
 
     private protected ProgressReporter[] Reporters { get; }
 
-    /// <summary>Puts chain <paramref name="chain"/>'s stream and start into lane <paramref name="lane"/> of <see cref="State"/>.</summary>
+    /// <summary>Puts chain <paramref name="chain"/>'s stream, −β and start into lane <paramref name="lane"/> of <see cref="State"/>.</summary>
     private protected abstract void PlaceLane(int lane, int chain);
 
-    /// <summary>After every lane is placed: the starting energies (and their fault check).</summary>
-    private protected abstract void Start();
+    /// <summary>The recorder for a recorded chunk of <paramref name="chunk"/> steps after <paramref name="done"/> recorded steps.</summary>
+    private protected abstract TRecorder Recorder(long done, int chunk);
 
-    /// <summary>A chunk of adaptive burn-in; returns the updated log widths.</summary>
-    private protected abstract TD AdaptChunk(TD logWidth, double[] gains, int chunk);
-
-    /// <summary>A chunk of the recorded phase at the frozen <paramref name="width"/>; returns how many batches closed in it.</summary>
-    private protected abstract int RecordChunk(TD width, int chunk, long done, ref int inBatch, int batchSize);
-
-    /// <summary>
-    /// Whether <see cref="ThrowIfFaulted"/> replays a faulted chunk from the walk as it was before it (the site walk does, to
-    /// name the failing pair); only then is the walk copied before every chunk.
-    /// </summary>
-    private protected virtual bool ReplaysFaults => false;
-
-    /// <summary>Clears the fault notes before a chunk.</summary>
-    private protected abstract void ClearFaults();
-
-    /// <summary>Throws when the chunk just run from <paramref name="before"/> (the walk before it when <see cref="ReplaysFaults"/>, else default) noted a NaN or −∞ energy (burn-in when <paramref name="gains"/> is set).</summary>
-    private protected abstract void ThrowIfFaulted(in TState before, TD logWidthBefore, double[]? gains, TD width, int chunk);
-
-    /// <summary>Burn-in is over: clears the sums and counts the recorded phase starts from.</summary>
-    private protected abstract void ResetForRecording();
+    /// <summary>Burn-in is over and <see cref="Sums"/> is cleared: what else the recorded phase starts from.</summary>
+    private protected virtual void StartRecords()
+    {
+    }
 
     /// <summary>Draws per batch of the records.</summary>
     private protected abstract int BatchSize { get; }
@@ -95,7 +163,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
     /// <summary>Closes the open moment block of <paramref name="count"/> steps into the records and clears its sums.</summary>
     private protected abstract void CloseBlock(int count);
 
-    /// <summary>Writes the records and the tally (after the walk and the widths).</summary>
+    /// <summary>Writes the records and the tally (after the walk, the sums and the widths).</summary>
     private protected abstract void SaveRecords(StateWriter w);
 
     /// <summary>Reads what <see cref="SaveRecords"/> wrote.</summary>
@@ -103,6 +171,67 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
 
     /// <summary>The run is over: moves the tally's counts and kept draws into the records.</summary>
     private protected abstract void Complete();
+
+    /// <summary>Loads <paramref name="stream"/> into lane <paramref name="lane"/> of the four generator words.</summary>
+    private protected static void SeedLane(ref TB r0, ref TB r1, ref TB r2, ref TB r3, int lane, in RandomStream stream)
+        => LaneSeeding.Load<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, lane, stream);
+
+    /// <summary>Progress reporters for the live lanes of the group whose lane 0 is <paramref name="firstChain"/>.</summary>
+    private protected static ProgressReporter[] MakeReporters(int firstChain, int chains, Func<int, ProgressReporter> make)
+    {
+        var reporters = new ProgressReporter[Math.Min(TOps.Count, chains - firstChain)];
+        for (int lane = 0; lane < reporters.Length; lane++)
+        {
+            reporters[lane] = make(firstChain + lane);
+        }
+        return reporters;
+    }
+
+    /// <summary>
+    /// One chunk of burn-in: step, then the Robbins–Monro width update, in every lane. A separate method with no calls
+    /// inside, so that the JIT keeps the walk in registers; the walk's state is copied into a local for the loop.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
+    private static TD AdaptLoop(TWalk walk, ref TState stateRef, TD logWidth, double[] gains, int chunk, double target, double maxWidth)
+    {
+        var state = stateRef;
+        var logMax = TOps.Broadcast(Math.Log(maxWidth));
+        for (int j = 0; j < chunk; j++)
+        {
+            var accept = walk.Step(ref state, LaneAdaptation.Width<TOps, TD, TB>(logWidth, maxWidth));
+            logWidth = LaneAdaptation.Update<TOps, TD, TB>(logWidth, accept, target, gains[j], logMax);
+        }
+        stateRef = state;
+        return logWidth;
+    }
+
+    /// <summary>
+    /// One chunk of the recorded phase at the frozen <paramref name="width"/>: step, add the draw to the sums, close a
+    /// batch every <paramref name="batchSize"/> draws (its sums left where the recorder keeps them); returns how many
+    /// batches closed. Like <see cref="AdaptLoop"/>, a separate method with no calls inside.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
+    private static int RecordLoop(TWalk walk, TRecorder recorder, ref TState stateRef, ref TSums sumsRef, TD width, int chunk, ref int inBatch, int batchSize)
+    {
+        var state = stateRef;
+        var sums = sumsRef;
+        int closed = 0, filled = inBatch;
+        for (int j = 0; j < chunk; j++)
+        {
+            var accept = walk.Step(ref state, width);
+            recorder.Add(ref sums, walk.Point(state), accept, j);
+            if (++filled == batchSize)
+            {
+                recorder.CloseBatch(ref sums, closed);
+                closed++;
+                filled = 0;
+            }
+        }
+        stateRef = state;
+        sumsRef = sums;
+        inBatch = filled;
+        return closed;
+    }
 
     /// <summary>Runs the group from its start or from its checkpointed state to the end; returns the frozen widths.</summary>
     private protected TD RunLanes(GroupCheckpoints checkpoints, int group, CancellationToken ct)
@@ -114,7 +243,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
             {
                 PlaceLane(lane, Math.Min(FirstChain + lane, Chains - 1)); // padding lanes repeat the last chain and are dropped
             }
-            Start();
+            _walk.Start(ref State);
             _logWidth = TOps.Broadcast(Math.Log(_initialWidth));
         }
         else
@@ -126,7 +255,8 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
         {
             BurnIn(boundary);
             StartRecording();
-            ResetForRecording();
+            Sums = default;
+            StartRecords();
         }
         var width = LaneAdaptation.Width<TOps, TD, TB>(_logWidth, _maxWidth);
         if (Phase == GroupPhase.Recording)
@@ -151,11 +281,11 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
             boundary.Reached(Step);
             int chunk = (int)Math.Min(ChunkSteps, _burnIn - Step);
             LaneAdaptation.FillGains(gains, Step, chunk);
-            ClearFaults();
-            var before = ReplaysFaults ? State : default;
+            _walk.ClearFaults(ref State);
+            var before = _walk.ReplaysFaults ? State : default;
             var logWidthBefore = _logWidth;
-            _logWidth = AdaptChunk(_logWidth, gains, chunk);
-            ThrowIfFaulted(before, logWidthBefore, gains, default, chunk);
+            _logWidth = AdaptLoop(_walk, ref State, _logWidth, gains, chunk, _targetAcceptance, _maxWidth);
+            _walk.ThrowIfFaulted(State, before, logWidthBefore, gains, default, chunk);
         }
     }
 
@@ -173,10 +303,10 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
                 boundary.Reached(_burnIn + Step);
             }
             int chunk = (int)Math.Min(_blockSize - InBlock, Math.Min(_samples - Step, ChunkSteps - (Step & (ChunkSteps - 1))));
-            ClearFaults();
-            var before = ReplaysFaults ? State : default;
-            int closed = RecordChunk(width, chunk, Step, ref InBatch, batchSize);
-            ThrowIfFaulted(before, default, null, width, chunk);
+            _walk.ClearFaults(ref State);
+            var before = _walk.ReplaysFaults ? State : default;
+            int closed = RecordLoop(_walk, Recorder(Step, chunk), ref State, ref Sums, width, chunk, ref InBatch, batchSize);
+            _walk.ThrowIfFaulted(State, before, default, null, width, chunk);
             AddClosedBatches(closed);
             Step += chunk;
             InBlock += chunk;
@@ -191,7 +321,8 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
     public sealed override void Save(StateWriter w)
     {
         SaveProgress(w, _headerTag);
-        LaneWalkWords.Save(w, ref State);
+        LaneWalkWords.Save(w, "WALK", ref State);
+        LaneWalkWords.Save(w, "SUMS", ref Sums);
         w.Words(_widthTag, LaneWalkWords.Lanes<TOps, TD, TB>(_logWidth));
         SaveRecords(w);
     }
@@ -199,24 +330,10 @@ internal abstract class LaneEngine<TOps, TD, TB, TState> : LaneGroupProgress
     private void Load(StateReader r)
     {
         LoadProgress(r, _headerTag, BatchSize);
-        LaneWalkWords.Load(r, ref State);
+        LaneWalkWords.Load(r, "WALK", ref State);
+        LaneWalkWords.Load(r, "SUMS", ref Sums);
         _logWidth = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words(_widthTag, TOps.Count));
         LoadRecords(r);
         r.End();
     }
-
-    /// <summary>Progress reporters for the live lanes of the group whose lane 0 is <paramref name="firstChain"/>.</summary>
-    private protected static ProgressReporter[] MakeReporters(int firstChain, int chains, Func<int, ProgressReporter> make)
-    {
-        var reporters = new ProgressReporter[Math.Min(TOps.Count, chains - firstChain)];
-        for (int lane = 0; lane < reporters.Length; lane++)
-        {
-            reporters[lane] = make(firstChain + lane);
-        }
-        return reporters;
-    }
-
-    /// <summary>Loads <paramref name="stream"/> into lane <paramref name="lane"/> of the four generator words.</summary>
-    private protected static void SeedLane(ref TB r0, ref TB r1, ref TB r2, ref TB r3, int lane, in RandomStream stream)
-        => LaneSeeding.Load<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, lane, stream);
 }

@@ -21,7 +21,6 @@ namespace ThermalSampling.Sampling;
 /// </summary>
 internal static class PairLaneChains
 {
-    private const int ChunkSteps = LaneAdaptation.ChunkSteps;
 
     /// <summary>Everything fixed for a run.</summary>
     /// <remarks>ChainBetas: β of each chain when they differ (a temperature ladder in one register); null: every chain at Beta.</remarks>
@@ -52,8 +51,9 @@ internal static class PairLaneChains
             => new Group<TOps, TD, TB, TPotential>(Plan, FirstChain, Chains, Start, Record, Progress).Run(Checkpoints, Group, Ct);
     }
 
-    /// <summary>One lane group of pair chains on the lane engine: the pair walk's state, its kernels and its records.</summary>
-    private sealed class Group<TOps, TD, TB, TPotential> : LaneEngine<TOps, TD, TB, Walk<TD, TB>>
+    /// <summary>One lane group of pair chains on the lane engine: the pair walk, the line recorder and the chains' records.</summary>
+    private sealed class Group<TOps, TD, TB, TPotential>
+        : LaneEngine<TOps, TD, TB, PairWalk<TOps, TD, TB, TPotential>, PairWalkState<TD, TB>, LineRecorder<TOps, TD, TB>, LineSums<TD>>
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
@@ -61,15 +61,13 @@ internal static class PairLaneChains
     {
         private readonly PairChainRecord[] _records;
         private readonly Plan<TPotential> _plan;
-        private readonly Kernel<TOps, TD, TB, TPotential> _kernel;
         private readonly Tally _tally;
         private readonly Func<int, double> _start;
-        private TD _starts;
 
         internal Group(Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start, Func<int, PairChainRecord> makeRecord,
             Func<int, ProgressReporter> makeProgress)
-            : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, BlockedMomentAccumulator.BlockSize, "PLGH", "LOGW", "pair chain group"),
-                firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
+            : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, plan.TargetAcceptance, BlockedMomentAccumulator.BlockSize,
+                "PLGH", "LOGW", "pair chain group"), new PairWalk<TOps, TD, TB, TPotential>(plan), firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
         {
             _plan = plan;
             _start = start;
@@ -78,7 +76,6 @@ internal static class PairLaneChains
             {
                 _records[lane] = makeRecord(firstChain + lane);
             }
-            _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
             _tally = new Tally(_records[0], TOps.Count, Live);
         }
 
@@ -88,7 +85,7 @@ internal static class PairLaneChains
             var outcomes = new PairChainOutcome[Live];
             for (int lane = 0; lane < Live; lane++)
             {
-                outcomes[lane] = new PairChainOutcome(_records[lane], (long)TOps.Get(State.Accepted, lane), TOps.Get(stepWidth, lane));
+                outcomes[lane] = new PairChainOutcome(_records[lane], (long)TOps.Get(Sums.Accepted, lane), TOps.Get(stepWidth, lane));
             }
             return outcomes;
         }
@@ -97,27 +94,12 @@ internal static class PairLaneChains
         {
             SeedLane(ref State.R0, ref State.R1, ref State.R2, ref State.R3, lane, RandomStream.ForChain(_plan.Seed, chain));
             State.NegativeBeta = TOps.Set(State.NegativeBeta, lane, -_plan.BetaOf(chain)); // β per lane: one register may hold several temperatures
-            _starts = TOps.Set(_starts, lane, _start(chain));
+            State.Position = TOps.Set(State.Position, lane, _start(chain));
         }
 
-        private protected override void Start() => _kernel.Start(ref State, _starts);
+        private protected override LineRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, done, chunk);
 
-        private protected override TD AdaptChunk(TD logWidth, double[] gains, int chunk) => _kernel.AdaptChunk(ref State, logWidth, gains, chunk);
-
-        private protected override int RecordChunk(TD width, int chunk, long done, ref int inBatch, int batchSize)
-            => _kernel.RecordChunk(ref State, width, chunk, done, ref inBatch, batchSize, _tally);
-
-        private protected override void ClearFaults() => State.Faults = Kernel<TOps, TD, TB, TPotential>.NoFaults;
-
-        private protected override void ThrowIfFaulted(in Walk<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
-            => _kernel.ThrowIfFaulted(State.Faults);
-
-        private protected override void ResetForRecording()
-        {
-            var zero = TOps.Broadcast(0.0);
-            State.S1 = State.S2 = State.S3 = State.S4 = State.B1 = State.B2 = State.E1 = State.E2 = State.Accepted = zero;
-            State.BlockReference = State.Position;
-        }
+        private protected override void StartRecords() => Sums.BlockReference = State.Position;
 
         private protected override int BatchSize => _records[0].Store.BatchSize;
 
@@ -137,12 +119,12 @@ internal static class PairLaneChains
         {
             for (int lane = 0; lane < _records.Length; lane++)
             {
-                _records[lane].AddMomentBlock(count, TOps.Get(State.BlockReference, lane), TOps.Get(State.S1, lane), TOps.Get(State.S2, lane),
-                    TOps.Get(State.S3, lane), TOps.Get(State.S4, lane));
+                _records[lane].AddMomentBlock(count, TOps.Get(Sums.BlockReference, lane), TOps.Get(Sums.S1, lane), TOps.Get(Sums.S2, lane),
+                    TOps.Get(Sums.S3, lane), TOps.Get(Sums.S4, lane));
             }
             var zero = TOps.Broadcast(0.0);
-            State.S1 = State.S2 = State.S3 = State.S4 = zero;
-            State.BlockReference = State.Position;
+            Sums.S1 = Sums.S2 = Sums.S3 = Sums.S4 = zero;
+            Sums.BlockReference = State.Position;
         }
 
         private protected override void SaveRecords(StateWriter w)
@@ -166,215 +148,180 @@ internal static class PairLaneChains
         private protected override void Complete() => _tally.CopyTo(_records, _plan.Samples);
     }
 
-    private readonly struct Kernel<TOps, TD, TB, TPotential>
+    /// <summary>
+    /// The pair walk: r' = r + w(2u₁ − 1 + 2^−52), rejected outside the window, accepted when u₂·J(r) &lt; J(r')·e^(−β(V(r') − V(r)))
+    /// with J = 1 (line) or r² (radial).
+    /// </summary>
+    internal readonly struct PairWalk<TOps, TD, TB, TPotential> : ILaneWalk<TD, PairWalkState<TD, TB>>
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
         where TPotential : struct, IPairPotential
     {
         private readonly TPotential _potential;
-        private readonly double _lower, _upper, _target, _maxWidth;
+        private readonly double _lower, _upper;
         private readonly bool _radial;
 
-        internal Kernel(Plan<TPotential> plan)
+        internal PairWalk(Plan<TPotential> plan)
         {
             _potential = plan.Potential;
             _lower = plan.Lower;
             _upper = plan.Upper;
             _radial = plan.Radial;
-            _target = plan.TargetAcceptance;
-            _maxWidth = plan.MaxWidth;
         }
 
-        internal void Start(ref Walk<TD, TB> w, TD r)
+        public void Start(ref PairWalkState<TD, TB> state)
         {
-            var e = Energy(r);
-            var faults = NoFaults;
-            NoteFaults(r, e, ref faults);
-            ThrowIfFaulted(faults);
-            w.Position = r;
-            w.Energy = e;
-            w.Jacobian = _radial ? TOps.Multiply(r, r) : TOps.Broadcast(1.0);
+            var r = state.Position;
+            var e = _potential.LaneEnergy<TOps, TD, TB>(r);
+            var faults = LaneFaultCheck.None<TOps, TD, TB>();
+            LaneFaultCheck.Note<TOps, TD, TB>(ref faults, r, e);
+            LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _potential.Description);
+            state.Energy = e;
+            state.Jacobian = _radial ? TOps.Multiply(r, r) : TOps.Broadcast(1.0);
         }
 
-        internal TD WidthFrom(TD logWidth) => LaneAdaptation.Width<TOps, TD, TB>(logWidth, _maxWidth);
+        public void ClearFaults(ref PairWalkState<TD, TB> state) => state.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+
+        public bool ReplaysFaults => false;
+
+        public void ThrowIfFaulted(in PairWalkState<TD, TB> state, in PairWalkState<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
+            => LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(state.Faults, _potential.Description);
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Energy(TD r) => _potential.LaneEnergy<TOps, TD, TB>(r);
+        public LanePoint<TD> Point(in PairWalkState<TD, TB> state) => new(state.Position, default, default, state.Energy);
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private static void NoteFaults(TD r, TD e, ref LaneFaults<TD> faults) => LaneFaultCheck.Note<TOps, TD, TB>(ref faults, r, e);
-
-        internal void ThrowIfFaulted(in LaneFaults<TD> faults) => LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _potential.Description);
-
-        internal static LaneFaults<TD> NoFaults => LaneFaultCheck.None<TOps, TD, TB>();
-
-        /// <summary>One step in every lane; returns the acceptance mask. State comes as separate locals so that it stays in registers.</summary>
-        [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Step(ref TD position, ref TD energy, ref TD jacobian, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD width, TD negativeBeta, ref LaneFaults<TD> faults)
+        public TD Step(ref PairWalkState<TD, TB> state, TD width)
         {
-            var u1 = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
-            var u2 = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
-            var one = TOps.Broadcast(1.0);
+            var position = state.Position;
+            var u1 = LaneMath.NextUnit<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3);
+            var u2 = LaneMath.NextUnit<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3);
             // 2u − (1 − 2^−52): the 52-bit grid of u shifted half a cell, so the offsets are symmetric about 0 and so is the proposal.
             var proposal = TOps.MultiplyAdd(width, TOps.Subtract(TOps.Add(u1, u1), TOps.Broadcast(1.0 - 1.0 / 4503599627370496.0)), position);
             var inside = TOps.And(TOps.LessOrEqual(TOps.Broadcast(_lower), proposal), TOps.LessOrEqual(proposal, TOps.Broadcast(_upper)));
             var candidate = TOps.Select(inside, proposal, position); // outside lanes evaluate the current point and are rejected below
-            var candidateEnergy = Energy(candidate);
-            NoteFaults(candidate, candidateEnergy, ref faults);
-            var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(negativeBeta, TOps.Subtract(candidateEnergy, energy)));
+            var candidateEnergy = _potential.LaneEnergy<TOps, TD, TB>(candidate);
+            LaneFaultCheck.Note<TOps, TD, TB>(ref state.Faults, candidate, candidateEnergy);
+            var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(state.NegativeBeta, TOps.Subtract(candidateEnergy, state.Energy)));
             TD accept;
             if (_radial)
             {
                 var candidateJacobian = TOps.Multiply(candidate, candidate);
-                accept = TOps.And(inside, TOps.LessThan(TOps.Multiply(u2, jacobian), TOps.Multiply(candidateJacobian, ratio)));
-                jacobian = TOps.Select(accept, candidateJacobian, jacobian);
+                accept = TOps.And(inside, TOps.LessThan(TOps.Multiply(u2, state.Jacobian), TOps.Multiply(candidateJacobian, ratio)));
+                state.Jacobian = TOps.Select(accept, candidateJacobian, state.Jacobian);
             }
             else
             {
                 accept = TOps.And(inside, TOps.LessThan(u2, ratio));
             }
-            position = TOps.Select(accept, candidate, position);
-            energy = TOps.Select(accept, candidateEnergy, energy);
+            state.Position = TOps.Select(accept, candidate, position);
+            state.Energy = TOps.Select(accept, candidateEnergy, state.Energy);
             return accept;
         }
+    }
 
-        /// <summary>
-        /// One chunk of burn-in. A separate method with no calls inside, so that the JIT keeps the whole walk in
-        /// registers (any call in the loop would force every vector register to memory: they are all caller-saved).
-        /// </summary>
-        [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
-        internal TD AdaptChunk(ref Walk<TD, TB> walk, TD logWidth, double[] gains, int chunk)
-        {
-            TD position = walk.Position, energy = walk.Energy, jacobian = walk.Jacobian, negativeBeta = walk.NegativeBeta;
-            TB r0 = walk.R0, r1 = walk.R1, r2 = walk.R2, r3 = walk.R3;
-            var faults = walk.Faults;
-            var logMax = TOps.Broadcast(Math.Log(_maxWidth));
-            for (int j = 0; j < chunk; j++)
-            {
-                var accept = Step(ref position, ref energy, ref jacobian, ref r0, ref r1, ref r2, ref r3, WidthFrom(logWidth), negativeBeta, ref faults);
-                logWidth = LaneAdaptation.Update<TOps, TD, TB>(logWidth, accept, _target, gains[j], logMax);
-            }
-            walk.Position = position;
-            walk.Energy = energy;
-            walk.Jacobian = jacobian;
-            walk.R0 = r0;
-            walk.R1 = r1;
-            walk.R2 = r2;
-            walk.R3 = r3;
-            walk.Faults = faults;
-            return logWidth;
-        }
+    /// <summary>
+    /// The line recorder: per draw, the acceptance count, the raw power sums about the position before the moment block
+    /// (converted as <see cref="BlockedMomentAccumulator"/> does), the batch sums of x − ref and of V − V_ref
+    /// (<see cref="BatchMeansStore"/>'s rule), the histogram count and, among the first draws of a chain, the draw itself.
+    /// </summary>
+    internal readonly struct LineRecorder<TOps, TD, TB> : ILaneRecorder<TD, LineSums<TD>>
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        private readonly TD _batchReference, _energyReference, _binLower, _binScale, _binCount, _lastBin;
+        private readonly TB _laneOffsets;
+        private readonly long[] _counts;
+        private readonly ulong[] _index;
+        private readonly double[] _scratch, _kept, _batchSums;
+        private readonly long _keptStride, _done, _retain;
+        private readonly int _lanes;
 
-        /// <summary>
-        /// One chunk of the recorded phase; like <see cref="AdaptChunk"/>, a separate method with no calls inside. Batches
-        /// that close inside the chunk leave their sums in <see cref="LaneTally.BatchSums"/>; returns how many closed.
-        /// </summary>
-        [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
-        internal int RecordChunk(ref Walk<TD, TB> walk, TD width, int chunk, long done, ref int inBatch, int batchSize, Tally tally)
+        internal LineRecorder(Tally tally, long done, int chunk)
         {
-            int closed = 0, filled = inBatch;
-            var batchSums = tally.BatchSums;
-            TD position = walk.Position, energy = walk.Energy, jacobian = walk.Jacobian, negativeBeta = walk.NegativeBeta;
-            TB r0 = walk.R0, r1 = walk.R1, r2 = walk.R2, r3 = walk.R3;
-            TD accepted = walk.Accepted, s1 = walk.S1, s2 = walk.S2, s3 = walk.S3, s4 = walk.S4, b1 = walk.B1, b2 = walk.B2, e1 = walk.E1, e2 = walk.E2;
-            var faults = walk.Faults;
-            var blockReference = walk.BlockReference;
-            var one = TOps.Broadcast(1.0);
-            var zero = TOps.Broadcast(0.0);
-            var batchReference = TOps.Broadcast(tally.BatchReference);
-            var energyReference = TOps.Broadcast(tally.EnergyReference);
-            var binLower = TOps.Broadcast(tally.BinLower);
-            var binScale = TOps.Broadcast(tally.BinScale);
-            var counts = tally.Counts;
-            var scaled = tally.Scratch;
-            var kept = tally.Kept;
-            long keptStride = tally.Retained;
-            int lanes = tally.Lanes;
-            var binCount = TOps.Broadcast(tally.Bins);
-            var lastBin = TOps.Broadcast(tally.Bins - 1);
-            var laneOffsets = TOps.BroadcastBits(0);
+            _batchReference = TOps.Broadcast(tally.BatchReference);
+            _energyReference = TOps.Broadcast(tally.EnergyReference);
+            _binLower = TOps.Broadcast(tally.BinLower);
+            _binScale = TOps.Broadcast(tally.BinScale);
+            _binCount = TOps.Broadcast(tally.Bins);
+            _lastBin = TOps.Broadcast(tally.Bins - 1);
+            _lanes = tally.Lanes;
+            _laneOffsets = TOps.BroadcastBits(0);
             for (int lane = 0; lane < TOps.Count; lane++)
             {
-                laneOffsets = TOps.SetBits(laneOffsets, lane, (ulong)(Math.Min(lane, lanes - 1) * tally.Bins)); // padding lanes are never counted
+                _laneOffsets = TOps.SetBits(_laneOffsets, lane, (ulong)(Math.Min(lane, _lanes - 1) * tally.Bins)); // padding lanes are never counted
             }
-            var index = tally.Index;
-            long retain = Math.Max(0, Math.Min(chunk, tally.Retained - done)); // the first steps of the chain may be kept raw
-            for (int j = 0; j < chunk; j++)
+            _counts = tally.Counts;
+            _index = tally.Index;
+            _scratch = tally.Scratch;
+            _kept = tally.Kept;
+            _batchSums = tally.BatchSums;
+            _keptStride = tally.Retained;
+            _done = done;
+            _retain = Math.Max(0, Math.Min(chunk, tally.Retained - done)); // the first steps of the chain may be kept raw
+        }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Add(ref LineSums<TD> sums, in LanePoint<TD> point, TD accept, int j)
+        {
+            sums.Accepted = TOps.Add(sums.Accepted, TOps.Select(accept, TOps.Broadcast(1.0), TOps.Broadcast(0.0)));
+            var x = point.X;
+
+            // Raw power sums about the position before the block.
+            var d = TOps.Subtract(x, sums.BlockReference);
+            var d2 = TOps.Multiply(d, d);
+            sums.S1 = TOps.Add(sums.S1, d);
+            sums.S2 = TOps.Add(sums.S2, d2);
+            sums.S3 = TOps.Add(sums.S3, TOps.Multiply(d2, d));
+            sums.S4 = TOps.Add(sums.S4, TOps.Multiply(d2, d2));
+
+            // Batch sums of x − ref and (x − ref)², and of V − V_ref (what reweighting across temperatures needs).
+            var b = TOps.Subtract(x, _batchReference);
+            sums.B1 = TOps.Add(sums.B1, b);
+            sums.B2 = TOps.Add(sums.B2, TOps.Multiply(b, b));
+            var de = TOps.Subtract(point.Energy, _energyReference);
+            sums.E1 = TOps.Add(sums.E1, de);
+            sums.E2 = TOps.Add(sums.E2, TOps.Multiply(de, de));
+
+            // Histogram: x is inside the window, so t = (x − lower)·scale is in [0, bins]; t = bins (the upper wall) goes to
+            // the last bin. The flat index lane·bins + ⌊t⌋ is formed in the vector; only the increments are per lane.
+            var t = TOps.Multiply(TOps.Subtract(x, _binLower), _binScale);
+            t = TOps.Select(TOps.LessThan(t, _binCount), t, _lastBin);
+            var index = _index;
+            var counts = _counts;
+            TOps.StoreBits(TOps.AddBits(TOps.Truncate(t), _laneOffsets), ref index[0]);
+            for (int lane = 0; lane < _lanes; lane++)
             {
-                var accept = Step(ref position, ref energy, ref jacobian, ref r0, ref r1, ref r2, ref r3, width, negativeBeta, ref faults);
-                accepted = TOps.Add(accepted, TOps.Select(accept, one, zero));
-                var x = position;
-
-                // Raw power sums about the position before the block (converted as BlockedMomentAccumulator does).
-                var d = TOps.Subtract(x, blockReference);
-                var d2 = TOps.Multiply(d, d);
-                s1 = TOps.Add(s1, d);
-                s2 = TOps.Add(s2, d2);
-                s3 = TOps.Add(s3, TOps.Multiply(d2, d));
-                s4 = TOps.Add(s4, TOps.Multiply(d2, d2));
-
-                // Batch sums of x − ref and (x − ref)² (BatchMeansStore's rule).
-                var b = TOps.Subtract(x, batchReference);
-                b1 = TOps.Add(b1, b);
-                b2 = TOps.Add(b2, TOps.Multiply(b, b));
-                // The same batches of the potential energy, V − V_ref (what reweighting across temperatures needs).
-                var de = TOps.Subtract(energy, energyReference);
-                e1 = TOps.Add(e1, de);
-                e2 = TOps.Add(e2, TOps.Multiply(de, de));
-                if (++filled == batchSize)
+                counts[index[lane]]++;
+            }
+            if (j < _retain)
+            {
+                var scaled = _scratch;
+                TOps.Store(x, ref scaled[0]);
+                for (int lane = 0; lane < _lanes; lane++)
                 {
-                    TOps.Store(b1, ref batchSums[4 * closed * TOps.Count]);
-                    TOps.Store(b2, ref batchSums[(4 * closed + 1) * TOps.Count]);
-                    TOps.Store(e1, ref batchSums[(4 * closed + 2) * TOps.Count]);
-                    TOps.Store(e2, ref batchSums[(4 * closed + 3) * TOps.Count]);
-                    closed++;
-                    filled = 0;
-                    b1 = b2 = e1 = e2 = zero;
-                }
-
-                // Histogram: x is inside the window, so t = (x − lower)·scale is in [0, bins]; t = bins (the upper wall) goes to
-                // the last bin. The flat index lane·bins + ⌊t⌋ is formed in the vector; only the increments are per lane.
-                var t = TOps.Multiply(TOps.Subtract(x, binLower), binScale);
-                t = TOps.Select(TOps.LessThan(t, binCount), t, lastBin);
-                TOps.StoreBits(TOps.AddBits(TOps.Truncate(t), laneOffsets), ref index[0]);
-                for (int lane = 0; lane < lanes; lane++)
-                {
-                    counts[index[lane]]++;
-                }
-                if (j < retain)
-                {
-                    TOps.Store(x, ref scaled[0]);
-                    for (int lane = 0; lane < lanes; lane++)
-                    {
-                        kept[lane * keptStride + done + j] = scaled[lane];
-                    }
+                    _kept[lane * _keptStride + _done + j] = scaled[lane];
                 }
             }
-            walk.Position = position;
-            walk.Energy = energy;
-            walk.Jacobian = jacobian;
-            walk.R0 = r0;
-            walk.R1 = r1;
-            walk.R2 = r2;
-            walk.R3 = r3;
-            walk.Accepted = accepted;
-            walk.S1 = s1;
-            walk.S2 = s2;
-            walk.S3 = s3;
-            walk.S4 = s4;
-            walk.B1 = b1;
-            walk.B2 = b2;
-            walk.E1 = e1;
-            walk.E2 = e2;
-            walk.Faults = faults;
-            inBatch = filled;
-            return closed;
+        }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void CloseBatch(ref LineSums<TD> sums, int closed)
+        {
+            var batchSums = _batchSums;
+            TOps.Store(sums.B1, ref batchSums[4 * closed * TOps.Count]);
+            TOps.Store(sums.B2, ref batchSums[(4 * closed + 1) * TOps.Count]);
+            TOps.Store(sums.E1, ref batchSums[(4 * closed + 2) * TOps.Count]);
+            TOps.Store(sums.E2, ref batchSums[(4 * closed + 3) * TOps.Count]);
+            var zero = TOps.Broadcast(0.0);
+            sums.B1 = sums.B2 = sums.E1 = sums.E2 = zero;
         }
     }
 
     /// <summary>The histogram counts and retained draws of a lane group, in flat arrays the inner loop can reach without calls.</summary>
-    private sealed class Tally(PairChainRecord first, int width, int lanes) : LaneTally(first.Bins, first.Draws.Capacity, width, lanes, 1, batchValues: 4)
+    internal sealed class Tally(PairChainRecord first, int width, int lanes) : LaneTally(first.Bins, first.Draws.Capacity, width, lanes, 1, batchValues: 4)
     {
         internal double BatchReference { get; } = first.Store.Reference;
 
@@ -396,16 +343,23 @@ internal static class PairLaneChains
         }
     }
 
-    /// <summary>The running state of every lane of a group: position, energy, Jacobian, −β, random stream, sums and faults (saved
+    /// <summary>The pair walk's state in every lane: position, energy, Jacobian, −β, random stream and fault notes (saved
     /// word for word, field by field in this order, lanes within a field: docs/checkpoints.md).</summary>
     [StructLayout(LayoutKind.Sequential)]
-    internal struct Walk<TD, TB>
+    internal struct PairWalkState<TD, TB>
         where TD : struct
         where TB : struct
     {
         internal TD Position, Energy, Jacobian, NegativeBeta;
         internal TB R0, R1, R2, R3;
-        internal TD Accepted, S1, S2, S3, S4, B1, B2, E1, E2, BlockReference;
         internal LaneFaults<TD> Faults;
+    }
+
+    /// <summary>The line recorder's running sums in every lane: accepted proposals, the open moment block's power sums, the
+    /// open batch's sums of x and V, and the moment block's reference (saved word for word in this order).</summary>
+    [StructLayout(LayoutKind.Sequential)]
+    internal struct LineSums<TD> where TD : struct
+    {
+        internal TD Accepted, S1, S2, S3, S4, B1, B2, E1, E2, BlockReference;
     }
 }

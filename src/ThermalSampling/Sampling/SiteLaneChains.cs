@@ -23,7 +23,6 @@ namespace ThermalSampling.Sampling;
 /// </summary>
 internal static class SiteLaneChains
 {
-    private const int ChunkSteps = LaneAdaptation.ChunkSteps;
     private const int BlockSize = 4096;
 
     /// <summary>What one chain hands back.</summary>
@@ -63,8 +62,9 @@ internal static class SiteLaneChains
             => new Group<TOps, TD, TB, TPotential>(Plan, FirstChain, Chains, Start, Record, Progress).Run(Checkpoints, Group, Ct);
     }
 
-    /// <summary>One lane group of site chains on the lane engine: the site walk's state, its kernels and its records.</summary>
-    private sealed class Group<TOps, TD, TB, TPotential> : LaneEngine<TOps, TD, TB, SiteWalk<TD, TB>>
+    /// <summary>One lane group of site chains on the lane engine: the site walk, the site recorder and the chains' records.</summary>
+    private sealed class Group<TOps, TD, TB, TPotential>
+        : LaneEngine<TOps, TD, TB, SiteWalk<TOps, TD, TB, TPotential>, SiteWalkState<TD, TB>, SiteRecorder<TOps, TD, TB>, SiteSums<TD>>
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
@@ -73,14 +73,12 @@ internal static class SiteLaneChains
         private readonly Plan<TPotential> _plan;
         private readonly (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] _records;
         private readonly CovarianceAccumulator[] _moments;
-        private readonly Kernel<TOps, TD, TB, TPotential> _kernel;
         private readonly SiteTally _tally;
         private readonly ChainStart _start;
-        private TD _x, _y, _z;
 
         internal Group(Plan<TPotential> plan, int firstChain, int chains, ChainStart start, ChainRecord makeRecord, Func<int, ProgressReporter> makeProgress)
-            : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialScale, plan.MaxScale, BlockSize, "SLGH", "LOGS", "site chain group"),
-                firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
+            : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialScale, plan.MaxScale, plan.TargetAcceptance, BlockSize, "SLGH", "LOGS", "site chain group"),
+                new SiteWalk<TOps, TD, TB, TPotential>(plan), firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
         {
             _plan = plan;
             _start = start;
@@ -90,8 +88,8 @@ internal static class SiteLaneChains
                 _records[lane] = makeRecord(firstChain + lane);
             }
             _moments = new CovarianceAccumulator[Live];
-            _kernel = new Kernel<TOps, TD, TB, TPotential>(plan);
-            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live, plan.Basin, _records[0].Stores[SiteChains.EnergyStore].Reference);
+            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live, plan.Basin, plan.Minimum, plan.Confinement, plan.Centre,
+                plan.WallBand, _records[0].Stores[SiteChains.EnergyStore].Reference);
         }
 
         internal ChainOutcome[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
@@ -101,7 +99,7 @@ internal static class SiteLaneChains
             for (int lane = 0; lane < Live; lane++)
             {
                 outcomes[lane] = new ChainOutcome(_moments[lane], _records[lane].Stores, _records[lane].Radial, _records[lane].Draws,
-                    (long)TOps.Get(State.Accepted, lane), (long)TOps.Get(State.NearWall, lane), _tally.OutsideBasin[lane], TOps.Get(scale, lane));
+                    (long)TOps.Get(Sums.Accepted, lane), (long)TOps.Get(Sums.NearWall, lane), _tally.OutsideBasin[lane], TOps.Get(scale, lane));
             }
             return outcomes;
         }
@@ -111,37 +109,14 @@ internal static class SiteLaneChains
             var (stream, p) = _start(chain);
             SeedLane(ref State.R0, ref State.R1, ref State.R2, ref State.R3, lane, stream);
             State.NegativeBeta = TOps.Set(State.NegativeBeta, lane, -_plan.BetaOf(chain)); // β per lane: one register may hold several temperatures
-            _x = TOps.Set(_x, lane, p.X);
-            _y = TOps.Set(_y, lane, p.Y);
-            _z = TOps.Set(_z, lane, p.Z);
+            State.X = TOps.Set(State.X, lane, p.X);
+            State.Y = TOps.Set(State.Y, lane, p.Y);
+            State.Z = TOps.Set(State.Z, lane, p.Z);
         }
 
-        private protected override void Start() => _kernel.Start(ref State, _x, _y, _z);
+        private protected override SiteRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, done, chunk);
 
-        private protected override TD AdaptChunk(TD logWidth, double[] gains, int chunk) => _kernel.AdaptChunk(ref State, logWidth, gains, chunk);
-
-        private protected override int RecordChunk(TD width, int chunk, long done, ref int inBatch, int batchSize)
-            => _kernel.RecordChunk(ref State, width, chunk, done, ref inBatch, batchSize, _tally);
-
-        private protected override void ClearFaults() => State.Faults = LaneFaultCheck.None<TOps, TD, TB>();
-
-        private protected override bool ReplaysFaults => true;
-
-        private protected override void ThrowIfFaulted(in SiteWalk<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
-        {
-            if (!TOps.AllTrue(State.Faults.AllFinite))
-            {
-                _kernel.ThrowAtFirstFault(before, State.Faults, logWidthBefore, gains, width, chunk);
-            }
-        }
-
-        private protected override void ResetForRecording()
-        {
-            State.Sums = default;
-            State.Batch = default;
-            State.Accepted = State.NearWall = TOps.Broadcast(0.0);
-            Array.Clear(_tally.OutsideBasin);
-        }
+        private protected override void StartRecords() => Array.Clear(_tally.OutsideBasin);
 
         private protected override int BatchSize => _records[0].Stores[0].BatchSize;
 
@@ -162,7 +137,7 @@ internal static class SiteLaneChains
         private protected override void CloseBlock(int count)
         {
             var minimum = _plan.Minimum;
-            var s = State.Sums;
+            ref var s = ref Sums;
             for (int lane = 0; lane < _records.Length; lane++)
             {
                 var block = CovarianceAccumulator.FromRawSums(count, minimum.X, minimum.Y, minimum.Z,
@@ -170,7 +145,8 @@ internal static class SiteLaneChains
                     TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane));
                 _moments[lane] = CovarianceAccumulator.Merge(_moments[lane], block);
             }
-            State.Sums = default;
+            var zero = TOps.Broadcast(0.0);
+            s.X = s.Y = s.Z = s.XX = s.YY = s.ZZ = s.XY = s.XZ = s.YZ = zero;
         }
 
         private protected override void SaveRecords(StateWriter w)
@@ -208,7 +184,51 @@ internal static class SiteLaneChains
         private protected override void Complete() => _tally.CopyTo(_records, _plan.Samples);
     }
 
-    private readonly struct Kernel<TOps, TD, TB, TPotential>
+    /// <summary>The confinement test (<see cref="Confinement.Contains"/>'s arithmetic) and the wall band, in every lane, without a square root.</summary>
+    internal readonly struct LaneConfinement<TOps, TD, TB>
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        private readonly double _size, _innerEdge, _cx, _cy, _cz;
+        private readonly bool _sphere;
+
+        internal LaneConfinement(Confinement confinement, Position centre, double wallBand)
+        {
+            _size = confinement.SizeInAngstroms;
+            _innerEdge = Math.Max(_size - wallBand, 0); // |d| beyond this is within the band of the wall
+            _sphere = confinement.Shape == ConfinementShape.Sphere;
+            (_cx, _cy, _cz) = (centre.X, centre.Y, centre.Z);
+        }
+
+        /// <summary>Whether (x, y, z) is inside, and in <paramref name="nearWall"/> whether it lies within the wall band.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        internal TD Inside(TD x, TD y, TD z, out TD nearWall)
+        {
+            var dx = TOps.Subtract(x, TOps.Broadcast(_cx));
+            var dy = TOps.Subtract(y, TOps.Broadcast(_cy));
+            var dz = TOps.Subtract(z, TOps.Broadcast(_cz));
+            if (_sphere)
+            {
+                var r2 = TOps.Add(TOps.Add(TOps.Multiply(dx, dx), TOps.Multiply(dy, dy)), TOps.Multiply(dz, dz));
+                nearWall = TOps.GreaterThan(r2, TOps.Broadcast(_innerEdge * _innerEdge));
+                return TOps.LessOrEqual(r2, TOps.Broadcast(_size * _size));
+            }
+            var ax = TOps.Abs(dx);
+            var ay = TOps.Abs(dy);
+            var az = TOps.Abs(dz);
+            var largest = TOps.Select(TOps.LessThan(ax, ay), ay, ax);
+            largest = TOps.Select(TOps.LessThan(largest, az), az, largest);
+            nearWall = TOps.GreaterThan(largest, TOps.Broadcast(_innerEdge));
+            return TOps.LessOrEqual(largest, TOps.Broadcast(_size));
+        }
+    }
+
+    /// <summary>
+    /// The site walk: p' = p + s·L·v with v uniform in (−1, 1)³ on a symmetric grid and L the Cholesky factor of the
+    /// harmonic covariance; rejected outside the confinement; accepted when u₄ &lt; e^(−β(V(p') − V(p))).
+    /// </summary>
+    internal readonly struct SiteWalk<TOps, TD, TB, TPotential> : ILaneWalk<TD, SiteWalkState<TD, TB>>
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
@@ -217,14 +237,14 @@ internal static class SiteLaneChains
         private readonly Plan<TPotential> _plan;
         private readonly TPotential _potential;
         private readonly double[] _sites;
-        private readonly bool _sphere;
+        private readonly LaneConfinement<TOps, TD, TB> _confinement;
 
-        internal Kernel(Plan<TPotential> plan)
+        internal SiteWalk(Plan<TPotential> plan)
         {
             _plan = plan;
             _potential = plan.Potential;
             _sites = plan.Sites;
-            _sphere = plan.Confinement.Shape == ConfinementShape.Sphere;
+            _confinement = new LaneConfinement<TOps, TD, TB>(plan.Confinement, plan.Centre, plan.WallBand);
         }
 
         /// <summary>Σ_sites V(|p − site|²) in every lane, summed site by site in the landscape's order.</summary>
@@ -244,119 +264,84 @@ internal static class SiteLaneChains
             return e;
         }
 
-        /// <summary>The confinement test (<see cref="Confinement.Contains"/>'s arithmetic) and whether the point lies within
-        /// the wall band (distance to the wall below the band), without a square root.</summary>
-        [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Inside(TD dx, TD dy, TD dz, out TD nearWall)
+        public void Start(ref SiteWalkState<TD, TB> state)
         {
-            double size = _plan.Confinement.SizeInAngstroms;
-            double innerEdge = Math.Max(size - _plan.WallBand, 0); // |d| beyond this is within the band of the wall
-            if (_sphere)
-            {
-                var r2 = TOps.Add(TOps.Add(TOps.Multiply(dx, dx), TOps.Multiply(dy, dy)), TOps.Multiply(dz, dz));
-                nearWall = TOps.GreaterThan(r2, TOps.Broadcast(innerEdge * innerEdge));
-                return TOps.LessOrEqual(r2, TOps.Broadcast(size * size));
-            }
-            var ax = TOps.Abs(dx);
-            var ay = TOps.Abs(dy);
-            var az = TOps.Abs(dz);
-            var largest = TOps.Select(TOps.LessThan(ax, ay), ay, ax);
-            largest = TOps.Select(TOps.LessThan(largest, az), az, largest);
-            nearWall = TOps.GreaterThan(largest, TOps.Broadcast(innerEdge));
-            return TOps.LessOrEqual(largest, TOps.Broadcast(size));
-        }
-
-        private static TD Distance(TD x, TD y, TD z) => TOps.Sqrt(TOps.Add(TOps.Add(TOps.Multiply(x, x), TOps.Multiply(y, y)), TOps.Multiply(z, z)));
-
-        internal void Start(ref SiteWalk<TD, TB> w, TD x, TD y, TD z)
-        {
-            var e = Energy(x, y, z);
+            var e = Energy(state.X, state.Y, state.Z);
             var faults = LaneFaultCheck.None<TOps, TD, TB>();
             LaneFaultCheck.Note<TOps, TD, TB>(ref faults, TOps.Broadcast(0.0), e);
             if (!TOps.AllTrue(faults.AllFinite))
             {
-                ThrowAt(faults, x, y, z);
+                ThrowAt(faults, state.X, state.Y, state.Z);
             }
-            w.X = x;
-            w.Y = y;
-            w.Z = z;
-            w.Energy = e;
+            state.Energy = e;
         }
+
+        public void ClearFaults(ref SiteWalkState<TD, TB> state) => state.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+
+        public bool ReplaysFaults => true;
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public LanePoint<TD> Point(in SiteWalkState<TD, TB> state) => new(state.X, state.Y, state.Z, state.Energy);
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public TD Step(ref SiteWalkState<TD, TB> state, TD width) => Step(ref state, width, out _, out _, out _);
 
         /// <summary>
         /// One step in every lane; returns the acceptance mask and the point whose energy was evaluated (the proposal, or the
-        /// current point where the proposal left the confinement). The chunk loops discard that point, and their machine
-        /// code is the same as without it (the JIT listings were compared).
+        /// current point where the proposal left the confinement), which only the fault replay reads.
         /// </summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Step(ref TD x, ref TD y, ref TD z, ref TD energy, ref TB r0, ref TB r1, ref TB r2, ref TB r3, TD scale, TD negativeBeta, ref LaneFaults<TD> faults,
-            out TD evaluatedX, out TD evaluatedY, out TD evaluatedZ)
+        private TD Step(ref SiteWalkState<TD, TB> state, TD scale, out TD evaluatedX, out TD evaluatedY, out TD evaluatedZ)
         {
-            var a = TOps.Multiply(scale, LaneMath.NextOffsetPair<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, out var bUnit));
+            TD x = state.X, y = state.Y, z = state.Z;
+            var a = TOps.Multiply(scale, LaneMath.NextOffsetPair<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3, out var bUnit));
             var b = TOps.Multiply(scale, bUnit);
-            var c = TOps.Multiply(scale, LaneMath.NextOffsetPair<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, out _));
-            var u = LaneMath.NextUnit<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3);
+            var c = TOps.Multiply(scale, LaneMath.NextOffsetPair<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3, out _));
+            var u = LaneMath.NextUnit<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3);
             var px = TOps.MultiplyAdd(TOps.Broadcast(_plan.L00), a, x);
             var py = TOps.MultiplyAdd(TOps.Broadcast(_plan.L11), b, TOps.MultiplyAdd(TOps.Broadcast(_plan.L10), a, y));
             var pz = TOps.MultiplyAdd(TOps.Broadcast(_plan.L22), c, TOps.MultiplyAdd(TOps.Broadcast(_plan.L21), b, TOps.MultiplyAdd(TOps.Broadcast(_plan.L20), a, z)));
-            var centre = _plan.Centre;
-            var inside = Inside(TOps.Subtract(px, TOps.Broadcast(centre.X)), TOps.Subtract(py, TOps.Broadcast(centre.Y)), TOps.Subtract(pz, TOps.Broadcast(centre.Z)), out _);
+            var inside = _confinement.Inside(px, py, pz, out _);
             // Outside lanes evaluate the current point and are rejected below.
             px = TOps.Select(inside, px, x);
             py = TOps.Select(inside, py, y);
             pz = TOps.Select(inside, pz, z);
             (evaluatedX, evaluatedY, evaluatedZ) = (px, py, pz);
             var candidate = Energy(px, py, pz);
-            LaneFaultCheck.Note<TOps, TD, TB>(ref faults, TOps.Broadcast(0.0), candidate);
-            var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(negativeBeta, TOps.Subtract(candidate, energy)));
+            LaneFaultCheck.Note<TOps, TD, TB>(ref state.Faults, TOps.Broadcast(0.0), candidate);
+            var ratio = LaneMath.Exp<TOps, TD, TB>(TOps.Multiply(state.NegativeBeta, TOps.Subtract(candidate, state.Energy)));
             var accept = TOps.And(inside, TOps.LessThan(u, ratio));
-            x = TOps.Select(accept, px, x);
-            y = TOps.Select(accept, py, y);
-            z = TOps.Select(accept, pz, z);
-            energy = TOps.Select(accept, candidate, energy);
+            state.X = TOps.Select(accept, px, x);
+            state.Y = TOps.Select(accept, py, y);
+            state.Z = TOps.Select(accept, pz, z);
+            state.Energy = TOps.Select(accept, candidate, state.Energy);
             return accept;
-        }
-
-        /// <summary>A chunk of burn-in, in a method with no calls inside so the walk stays in registers.</summary>
-        [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
-        internal TD AdaptChunk(ref SiteWalk<TD, TB> w, TD logScale, double[] gains, int chunk)
-        {
-            TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy, negativeBeta = w.NegativeBeta;
-            TB r0 = w.R0, r1 = w.R1, r2 = w.R2, r3 = w.R3;
-            var faults = w.Faults;
-            var logMax = TOps.Broadcast(Math.Log(_plan.MaxScale));
-            for (int j = 0; j < chunk; j++)
-            {
-                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale), negativeBeta, ref faults,
-                    out _, out _, out _);
-                logScale = LaneAdaptation.Update<TOps, TD, TB>(logScale, accept, _plan.TargetAcceptance, gains[j], logMax);
-            }
-            (w.X, w.Y, w.Z, w.Energy) = (x, y, z, energy);
-            (w.R0, w.R1, w.R2, w.R3) = (r0, r1, r2, r3);
-            w.Faults = faults;
-            return logScale;
         }
 
         /// <summary>
         /// Throws for a chunk that noted a NaN or −∞ energy. The chunk loops keep no per-lane fault position (registers are
-        /// scarce there), so the chunk is replayed step by step from the walk as it was before it (<paramref name="before"/>;
-        /// with the burn-in's width and gains when <paramref name="gains"/> is set, else at the frozen <paramref name="scale"/>)
-        /// until the first step that faults, and the error names the separation of the pair that failed at the point
-        /// evaluated there. Only this error path pays for the replay.
+        /// scarce there), so the chunk is replayed step by step from the state before it (<paramref name="before"/>; with the
+        /// burn-in's widths and gains when <paramref name="gains"/> is set, else at the frozen <paramref name="width"/>) until
+        /// the first step that faults, and the error names the separation of the pair that failed at the point evaluated
+        /// there. Only this error path pays for the replay.
         /// </summary>
-        internal void ThrowAtFirstFault(SiteWalk<TD, TB> before, in LaneFaults<TD> noted, TD logScale, double[]? gains, TD scale, int chunk)
+        public void ThrowIfFaulted(in SiteWalkState<TD, TB> state, in SiteWalkState<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
         {
-            TD x = before.X, y = before.Y, z = before.Z, energy = before.Energy, negativeBeta = before.NegativeBeta;
-            TB r0 = before.R0, r1 = before.R1, r2 = before.R2, r3 = before.R3;
+            if (TOps.AllTrue(state.Faults.AllFinite))
+            {
+                return;
+            }
+            var replay = before;
+            var logScale = logWidthBefore;
             var logMax = TOps.Broadcast(Math.Log(_plan.MaxScale));
             for (int j = 0; j < chunk; j++)
             {
-                var faults = LaneFaultCheck.None<TOps, TD, TB>();
-                var width = gains is null ? scale : LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale);
-                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, width, negativeBeta, ref faults, out var ex, out var ey, out var ez);
-                if (!TOps.AllTrue(faults.AllFinite))
+                replay.Faults = LaneFaultCheck.None<TOps, TD, TB>();
+                var scale = gains is null ? width : LaneAdaptation.Width<TOps, TD, TB>(logScale, _plan.MaxScale);
+                var accept = Step(ref replay, scale, out var ex, out var ey, out var ez);
+                if (!TOps.AllTrue(replay.Faults.AllFinite))
                 {
-                    ThrowAt(faults, ex, ey, ez);
+                    ThrowAt(replay.Faults, ex, ey, ez);
                 }
                 if (gains is not null)
                 {
@@ -364,8 +349,8 @@ internal static class SiteLaneChains
                 }
             }
             // Not reproduced (a potential whose value changes between calls): the noted energy, with no separation.
-            int lane = LaneFaultCheck.FirstFaultedLane<TOps, TD, TB>(noted);
-            throw new NonFiniteEnergyException(double.NaN, TOps.Get(noted.Energy, lane), _plan.Description);
+            int lane = LaneFaultCheck.FirstFaultedLane<TOps, TD, TB>(state.Faults);
+            throw new NonFiniteEnergyException(double.NaN, TOps.Get(state.Faults.Energy, lane), _plan.Description);
         }
 
         /// <summary>Throws for the first faulted lane of <paramref name="faults"/>, naming the separation of the pair that failed at that lane's point.</summary>
@@ -375,160 +360,188 @@ internal static class SiteLaneChains
             double separation = SitePairs.OffendingSeparation(_potential, _sites, TOps.Get(x, lane), TOps.Get(y, lane), TOps.Get(z, lane));
             throw new NonFiniteEnergyException(separation, TOps.Get(faults.Energy, lane), _plan.Description);
         }
+    }
 
-        /// <summary>A chunk of the recorded phase, with no calls inside; batches closed in it leave their sums in the tally.</summary>
-        [MethodImpl(MethodImplOptions.NoInlining | MethodImplOptions.AggressiveOptimization)]
-        internal int RecordChunk(ref SiteWalk<TD, TB> w, TD scale, int chunk, long done, ref int inBatch, int batchSize, SiteTally tally)
+    /// <summary>
+    /// The site recorder: per draw, the acceptance and near-wall counts, the covariance block sums and the batch sums per
+    /// axis of the deviation from the harmonic minimum, the batch sums of V − V_min, the radial histogram count, the
+    /// basin membership (only when the confinement reaches outside the basin) and, among the first draws, the draw itself.
+    /// </summary>
+    internal readonly struct SiteRecorder<TOps, TD, TB> : ILaneRecorder<TD, SiteSums<TD>>
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        private readonly LaneConfinement<TOps, TD, TB> _confinement;
+        private readonly TD _minX, _minY, _minZ, _energyReference, _binScale, _binCount, _lastBin, _gridX0, _gridY0, _gridZ0, _gridScale, _gridN;
+        private readonly TB _laneOffsets;
+        private readonly long[] _counts, _outsideBasin;
+        private readonly ulong[] _index;
+        private readonly byte[] _outsideMask;
+        private readonly double[] _scratch, _kept, _batchSums;
+        private readonly long _keptStride, _done, _retain;
+        private readonly int _lanes;
+        private readonly bool _countOutside;
+
+        internal SiteRecorder(SiteTally tally, long done, int chunk)
         {
-            TD x = w.X, y = w.Y, z = w.Z, energy = w.Energy, negativeBeta = w.NegativeBeta;
-            TB r0 = w.R0, r1 = w.R1, r2 = w.R2, r3 = w.R3;
-            var faults = w.Faults;
-            // Individual locals, not the sum structs: a struct copy or clear here becomes a memcpy call, and any call in the
-            // loop sends every vector register to memory.
-            TD sX = w.Sums.X, sY = w.Sums.Y, sZ = w.Sums.Z, sXX = w.Sums.XX, sYY = w.Sums.YY, sZZ = w.Sums.ZZ, sXY = w.Sums.XY, sXZ = w.Sums.XZ, sYZ = w.Sums.YZ;
-            TD bX = w.Batch.X, bY = w.Batch.Y, bZ = w.Batch.Z, bXX = w.Batch.XX, bYY = w.Batch.YY, bZZ = w.Batch.ZZ, bE = w.Batch.XY, bEE = w.Batch.XZ;
-            var energyReference = TOps.Broadcast(tally.EnergyReference);
-            TD accepted = w.Accepted, nearWall = w.NearWall;
-            var one = TOps.Broadcast(1.0);
-            var zero = TOps.Broadcast(0.0);
-            var minimum = _plan.Minimum;
-            var centre = _plan.Centre;
-            var binScale = TOps.Broadcast(tally.BinScale);
-            var binCount = TOps.Broadcast(tally.Bins);
-            var lastBin = TOps.Broadcast(tally.Bins - 1);
-            var laneOffsets = TOps.BroadcastBits(0);
+            _confinement = new LaneConfinement<TOps, TD, TB>(tally.Confinement.Confinement, tally.Confinement.Centre, tally.Confinement.WallBand);
+            var minimum = tally.Minimum;
+            (_minX, _minY, _minZ) = (TOps.Broadcast(minimum.X), TOps.Broadcast(minimum.Y), TOps.Broadcast(minimum.Z));
+            _energyReference = TOps.Broadcast(tally.EnergyReference);
+            _binScale = TOps.Broadcast(tally.BinScale);
+            _binCount = TOps.Broadcast(tally.Bins);
+            _lastBin = TOps.Broadcast(tally.Bins - 1);
+            _lanes = tally.Lanes;
+            _laneOffsets = TOps.BroadcastBits(0);
             for (int lane = 0; lane < TOps.Count; lane++)
             {
-                laneOffsets = TOps.SetBits(laneOffsets, lane, (ulong)(Math.Min(lane, tally.Lanes - 1) * tally.Bins));
+                _laneOffsets = TOps.SetBits(_laneOffsets, lane, (ulong)(Math.Min(lane, _lanes - 1) * tally.Bins)); // padding lanes are never counted
             }
-            var counts = tally.Counts;
-            var index = tally.Index;
+            _counts = tally.Counts;
+            _index = tally.Index;
             var grid = tally.Basin;
-            var outsideMask = grid.Outside;
-            var outsideBasin = tally.OutsideBasin;
-            bool countOutside = grid.AnyOutside;
-            var gridX0 = TOps.Broadcast(grid.X0);
-            var gridY0 = TOps.Broadcast(grid.Y0);
-            var gridZ0 = TOps.Broadcast(grid.Z0);
-            var gridScale = TOps.Broadcast(1 / grid.Spacing);
-            var gridN = TOps.Broadcast(grid.N);
-            var roundShift = TOps.Broadcast(4503599627370496.0); // 2^52
-            var scratch = tally.Scratch;
-            var kept = tally.Kept;
-            var batchSums = tally.BatchSums;
-            long keptStride = tally.Retained;
-            int lanes = tally.Lanes, closed = 0, filled = inBatch;
-            long retain = Math.Max(0, Math.Min(chunk, tally.Retained - done));
-            for (int j = 0; j < chunk; j++)
+            _outsideMask = grid.Outside;
+            _outsideBasin = tally.OutsideBasin;
+            _countOutside = grid.AnyOutside;
+            (_gridX0, _gridY0, _gridZ0) = (TOps.Broadcast(grid.X0), TOps.Broadcast(grid.Y0), TOps.Broadcast(grid.Z0));
+            _gridScale = TOps.Broadcast(1 / grid.Spacing);
+            _gridN = TOps.Broadcast(grid.N);
+            _scratch = tally.Scratch;
+            _kept = tally.Kept;
+            _batchSums = tally.BatchSums;
+            _keptStride = tally.Retained;
+            _done = done;
+            _retain = Math.Max(0, Math.Min(chunk, tally.Retained - done));
+        }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Add(ref SiteSums<TD> s, in LanePoint<TD> point, TD accept, int j)
+        {
+            var one = TOps.Broadcast(1.0);
+            var zero = TOps.Broadcast(0.0);
+            s.Accepted = TOps.Add(s.Accepted, TOps.Select(accept, one, zero));
+
+            // Deviations from the harmonic minimum (within the confinement, so small): the covariance block sums (converted
+            // by CovarianceAccumulator.FromRawSums) and the batch sums per axis (BatchMeansStore's rule) share them.
+            var mx = TOps.Subtract(point.X, _minX);
+            var my = TOps.Subtract(point.Y, _minY);
+            var mz = TOps.Subtract(point.Z, _minZ);
+            s.X = TOps.Add(s.X, mx);
+            s.Y = TOps.Add(s.Y, my);
+            s.Z = TOps.Add(s.Z, mz);
+            s.XX = TOps.MultiplyAdd(mx, mx, s.XX);
+            s.YY = TOps.MultiplyAdd(my, my, s.YY);
+            s.ZZ = TOps.MultiplyAdd(mz, mz, s.ZZ);
+            s.XY = TOps.MultiplyAdd(mx, my, s.XY);
+            s.XZ = TOps.MultiplyAdd(mx, mz, s.XZ);
+            s.YZ = TOps.MultiplyAdd(my, mz, s.YZ);
+            s.BX = TOps.Add(s.BX, mx);
+            s.BY = TOps.Add(s.BY, my);
+            s.BZ = TOps.Add(s.BZ, mz);
+            s.BXX = TOps.Add(s.BXX, TOps.Multiply(mx, mx));
+            s.BYY = TOps.Add(s.BYY, TOps.Multiply(my, my));
+            s.BZZ = TOps.Add(s.BZZ, TOps.Multiply(mz, mz));
+            var de = TOps.Subtract(point.Energy, _energyReference); // the same batches of V − V_min (what reweighting needs)
+            s.BE = TOps.Add(s.BE, de);
+            s.BEE = TOps.Add(s.BEE, TOps.Multiply(de, de));
+
+            // The near-wall fraction (within the band of the wall) and the radial histogram about the minimum.
+            _confinement.Inside(point.X, point.Y, point.Z, out var near);
+            s.NearWall = TOps.Add(s.NearWall, TOps.Select(near, one, zero));
+            var t = TOps.Multiply(TOps.Sqrt(TOps.Add(TOps.Add(TOps.Multiply(mx, mx), TOps.Multiply(my, my)), TOps.Multiply(mz, mz))), _binScale);
+            t = TOps.Select(TOps.LessThan(t, _binCount), t, _lastBin);
+            var index = _index;
+            var counts = _counts;
+            int lanes = _lanes;
+            TOps.StoreBits(TOps.AddBits(TOps.Truncate(t), _laneOffsets), ref index[0]);
+            for (int lane = 0; lane < lanes; lane++)
             {
-                var accept = Step(ref x, ref y, ref z, ref energy, ref r0, ref r1, ref r2, ref r3, scale, negativeBeta, ref faults, out _, out _, out _);
-                accepted = TOps.Add(accepted, TOps.Select(accept, one, zero));
+                counts[index[lane]]++;
+            }
 
-                // Deviations from the harmonic minimum (within the confinement, so small): the covariance block sums (converted
-                // by CovarianceAccumulator.FromRawSums) and the batch sums per axis (BatchMeansStore's rule) share them.
-                var mx = TOps.Subtract(x, TOps.Broadcast(minimum.X));
-                var my = TOps.Subtract(y, TOps.Broadcast(minimum.Y));
-                var mz = TOps.Subtract(z, TOps.Broadcast(minimum.Z));
-                sX = TOps.Add(sX, mx);
-                sY = TOps.Add(sY, my);
-                sZ = TOps.Add(sZ, mz);
-                sXX = TOps.MultiplyAdd(mx, mx, sXX);
-                sYY = TOps.MultiplyAdd(my, my, sYY);
-                sZZ = TOps.MultiplyAdd(mz, mz, sZZ);
-                sXY = TOps.MultiplyAdd(mx, my, sXY);
-                sXZ = TOps.MultiplyAdd(mx, mz, sXZ);
-                sYZ = TOps.MultiplyAdd(my, mz, sYZ);
-                bX = TOps.Add(bX, mx);
-                bY = TOps.Add(bY, my);
-                bZ = TOps.Add(bZ, mz);
-                bXX = TOps.Add(bXX, TOps.Multiply(mx, mx));
-                bYY = TOps.Add(bYY, TOps.Multiply(my, my));
-                bZZ = TOps.Add(bZZ, TOps.Multiply(mz, mz));
-                var de = TOps.Subtract(energy, energyReference); // the same batches of V − V_min (what reweighting needs)
-                bE = TOps.Add(bE, de);
-                bEE = TOps.Add(bEE, TOps.Multiply(de, de));
-                if (++filled == batchSize)
-                {
-                    int at = 8 * closed * TOps.Count;
-                    TOps.Store(bX, ref batchSums[at]);
-                    TOps.Store(bXX, ref batchSums[at + TOps.Count]);
-                    TOps.Store(bY, ref batchSums[at + 2 * TOps.Count]);
-                    TOps.Store(bYY, ref batchSums[at + 3 * TOps.Count]);
-                    TOps.Store(bZ, ref batchSums[at + 4 * TOps.Count]);
-                    TOps.Store(bZZ, ref batchSums[at + 5 * TOps.Count]);
-                    TOps.Store(bE, ref batchSums[at + 6 * TOps.Count]);
-                    TOps.Store(bEE, ref batchSums[at + 7 * TOps.Count]);
-                    bX = bY = bZ = bXX = bYY = bZZ = bE = bEE = zero;
-                    closed++;
-                    filled = 0;
-                }
-
-                // The near-wall fraction (within the band of the wall) and the radial histogram about the minimum.
-                Inside(TOps.Subtract(x, TOps.Broadcast(centre.X)), TOps.Subtract(y, TOps.Broadcast(centre.Y)), TOps.Subtract(z, TOps.Broadcast(centre.Z)), out var near);
-                nearWall = TOps.Add(nearWall, TOps.Select(near, one, zero));
-                var t = TOps.Multiply(Distance(mx, my, mz), binScale);
-                t = TOps.Select(TOps.LessThan(t, binCount), t, lastBin);
-                TOps.StoreBits(TOps.AddBits(TOps.Truncate(t), laneOffsets), ref index[0]);
+            // Basin membership by the nearest point of the basin grid, only when the confinement reaches outside the basin
+            // (a loop-invariant branch): i = round((x − x0)/h) by adding and removing 2^52 (exact for 0 ≤ t < 2^51), the
+            // flat index (k·N + j)·N + i formed in the vector, one byte looked up per lane.
+            if (_countOutside)
+            {
+                var roundShift = TOps.Broadcast(4503599627370496.0); // 2^52
+                var gi = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(point.X, _gridX0), _gridScale, roundShift), roundShift);
+                var gj = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(point.Y, _gridY0), _gridScale, roundShift), roundShift);
+                var gk = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(point.Z, _gridZ0), _gridScale, roundShift), roundShift);
+                var flat = TOps.MultiplyAdd(TOps.MultiplyAdd(gk, _gridN, gj), _gridN, gi);
+                TOps.StoreBits(TOps.Truncate(flat), ref index[0]);
+                var outsideMask = _outsideMask;
+                var outsideBasin = _outsideBasin;
                 for (int lane = 0; lane < lanes; lane++)
                 {
-                    counts[index[lane]]++;
-                }
-
-                // Basin membership by the nearest point of the basin grid, only when the confinement reaches outside the basin
-                // (a loop-invariant branch): i = round((x − x0)/h) by adding and removing 2^52 (exact for 0 ≤ t < 2^51), the
-                // flat index (k·N + j)·N + i formed in the vector, one byte looked up per lane.
-                if (countOutside)
-                {
-                    var gi = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(x, gridX0), gridScale, roundShift), roundShift);
-                    var gj = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(y, gridY0), gridScale, roundShift), roundShift);
-                    var gk = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(z, gridZ0), gridScale, roundShift), roundShift);
-                    var flat = TOps.MultiplyAdd(TOps.MultiplyAdd(gk, gridN, gj), gridN, gi);
-                    TOps.StoreBits(TOps.Truncate(flat), ref index[0]);
-                    for (int lane = 0; lane < lanes; lane++)
-                    {
-                        outsideBasin[lane] += outsideMask[index[lane]];
-                    }
-                }
-                if (j < retain)
-                {
-                    long at = done + j;
-                    TOps.Store(x, ref scratch[0]);
-                    TOps.Store(y, ref scratch[TOps.Count]);
-                    TOps.Store(z, ref scratch[2 * TOps.Count]);
-                    for (int lane = 0; lane < lanes; lane++)
-                    {
-                        long row = 3 * (lane * keptStride + at);
-                        kept[row] = scratch[lane];
-                        kept[row + 1] = scratch[TOps.Count + lane];
-                        kept[row + 2] = scratch[2 * TOps.Count + lane];
-                    }
+                    outsideBasin[lane] += outsideMask[index[lane]];
                 }
             }
-            (w.X, w.Y, w.Z, w.Energy) = (x, y, z, energy);
-            (w.R0, w.R1, w.R2, w.R3) = (r0, r1, r2, r3);
-            w.Faults = faults;
-            w.Sums = new LaneSums3<TD> { X = sX, Y = sY, Z = sZ, XX = sXX, YY = sYY, ZZ = sZZ, XY = sXY, XZ = sXZ, YZ = sYZ };
-            // The batch sums use the cross-product slots of LaneSums3 for the energy (batches need no cross products).
-            w.Batch = new LaneSums3<TD> { X = bX, Y = bY, Z = bZ, XX = bXX, YY = bYY, ZZ = bZZ, XY = bE, XZ = bEE, YZ = zero };
-            w.Accepted = accepted;
-            w.NearWall = nearWall;
-            inBatch = filled;
-            return closed;
+            if (j < _retain)
+            {
+                long at = _done + j;
+                var scratch = _scratch;
+                var kept = _kept;
+                TOps.Store(point.X, ref scratch[0]);
+                TOps.Store(point.Y, ref scratch[TOps.Count]);
+                TOps.Store(point.Z, ref scratch[2 * TOps.Count]);
+                for (int lane = 0; lane < lanes; lane++)
+                {
+                    long row = 3 * (lane * _keptStride + at);
+                    kept[row] = scratch[lane];
+                    kept[row + 1] = scratch[TOps.Count + lane];
+                    kept[row + 2] = scratch[2 * TOps.Count + lane];
+                }
+            }
+        }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void CloseBatch(ref SiteSums<TD> s, int closed)
+        {
+            var batchSums = _batchSums;
+            int at = 8 * closed * TOps.Count;
+            TOps.Store(s.BX, ref batchSums[at]);
+            TOps.Store(s.BXX, ref batchSums[at + TOps.Count]);
+            TOps.Store(s.BY, ref batchSums[at + 2 * TOps.Count]);
+            TOps.Store(s.BYY, ref batchSums[at + 3 * TOps.Count]);
+            TOps.Store(s.BZ, ref batchSums[at + 4 * TOps.Count]);
+            TOps.Store(s.BZZ, ref batchSums[at + 5 * TOps.Count]);
+            TOps.Store(s.BE, ref batchSums[at + 6 * TOps.Count]);
+            TOps.Store(s.BEE, ref batchSums[at + 7 * TOps.Count]);
+            var zero = TOps.Broadcast(0.0);
+            s.BX = s.BY = s.BZ = s.BXX = s.BYY = s.BZZ = s.BE = s.BEE = zero;
         }
     }
 
     /// <summary>Histogram counts, batch sums and retained draws of a lane group, in flat arrays the inner loop reaches without calls.</summary>
-    private sealed class SiteTally(BinCounter radial, int retained, int width, int lanes, BasinGrid basin, double energyReference)
-        : LaneTally(radial, retained, width, lanes, 3, batchValues: 8)
+    internal sealed class SiteTally : LaneTally
     {
+        internal SiteTally(BinCounter radial, int retained, int width, int lanes, BasinGrid basin, Position minimum, Confinement confinement, Position centre,
+            double wallBand, double energyReference)
+            : base(radial, retained, width, lanes, 3, batchValues: 8)
+        {
+            EnergyReference = energyReference;
+            Basin = basin;
+            Minimum = minimum;
+            OutsideBasin = new long[lanes];
+            Confinement = (confinement, centre, wallBand);
+        }
+
         /// <summary>The reference the energy batch sums are taken about (the harmonic minimum's energy).</summary>
-        internal double EnergyReference { get; } = energyReference;
+        internal double EnergyReference { get; }
+
+        /// <summary>The harmonic minimum the deviations are taken from.</summary>
+        internal Position Minimum { get; }
 
         /// <summary>The site's basin map, for the membership test of every draw.</summary>
-        internal BasinGrid Basin { get; } = basin;
+        internal BasinGrid Basin { get; }
 
         /// <summary>Recorded draws outside the site's basin, per live lane.</summary>
-        internal long[] OutsideBasin { get; } = new long[lanes];
+        internal long[] OutsideBasin { get; }
+
+        /// <summary>The confinement and wall band, for the near-wall count.</summary>
+        internal (Confinement Confinement, Position Centre, double WallBand) Confinement { get; }
 
         internal void CopyTo((BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] records, long samples)
         {
@@ -547,25 +560,27 @@ internal static class SiteLaneChains
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
-/// <summary>Nine running sums of a 3D walk: Σd, Σd² and the cross products, per lane.</summary>
-/// <typeparam name="TD">The lane type.</typeparam>
-[StructLayout(LayoutKind.Sequential)]
-internal struct LaneSums3<TD> where TD : struct
-{
-    internal TD X, Y, Z, XX, YY, ZZ, XY, XZ, YZ;
-}
-
-// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
-/// <summary>The running state of every lane of a site group.</summary>
+/// <summary>The site walk's state in every lane: position, energy, −β, random stream and fault notes (saved word for word in this order).</summary>
 /// <typeparam name="TD">The lane type.</typeparam>
 /// <typeparam name="TB">The lane word type.</typeparam>
 [StructLayout(LayoutKind.Sequential)]
-internal struct SiteWalk<TD, TB>
+internal struct SiteWalkState<TD, TB>
     where TD : struct
     where TB : struct
 {
-    internal TD X, Y, Z, Energy, Accepted, NearWall, NegativeBeta;
+    internal TD X, Y, Z, Energy, NegativeBeta;
     internal TB R0, R1, R2, R3;
-    internal LaneSums3<TD> Sums, Batch;
     internal LaneFaults<TD> Faults;
+}
+
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
+/// <summary>
+/// The site recorder's running sums in every lane: accepted proposals, draws near the wall, the open moment block's sums
+/// of deviations and their products, and the open batch's sums per axis and of the energy (saved word for word in this order).
+/// </summary>
+/// <typeparam name="TD">The lane type.</typeparam>
+[StructLayout(LayoutKind.Sequential)]
+internal struct SiteSums<TD> where TD : struct
+{
+    internal TD Accepted, NearWall, X, Y, Z, XX, YY, ZZ, XY, XZ, YZ, BX, BY, BZ, BXX, BYY, BZZ, BE, BEE;
 }
