@@ -67,9 +67,11 @@ internal static class SiteSummary
         double[] meanComponents = { mean.X, mean.Y, mean.Z };
         double[] variances = { covariance.XX, covariance.YY, covariance.ZZ };
         int batch = results[0].Stores[0].BatchSize;
-        var summaries = Enumerable.Range(0, 3)
-            .Select(i => ChainDiagnostics.Summarise(results.Select(r => r.Stores[i].Means()).ToList(), batch, settings.SamplesPerChain, variances[i]))
-            .ToArray();
+        // The three axes' diagnostics (each a pooled rank sort for R-hat) are independent: run them side by side on the
+        // run's threads; each lands in its own slot, so the report is the same for any thread count.
+        var summaries = new ChainDiagnostics.Summary[3];
+        System.Threading.Tasks.Parallel.For(0, 3, new System.Threading.Tasks.ParallelOptions { MaxDegreeOfParallelism = settings.MaxThreads ?? Environment.ProcessorCount },
+            i => summaries[i] = ChainDiagnostics.Summarise(results.Select(r => r.Stores[i].Means()).ToList(), batch, settings.SamplesPerChain, variances[i]));
         var seMean = new Position(Math.Sqrt(variances[0] / summaries[0].Ess), Math.Sqrt(variances[1] / summaries[1].Ess), Math.Sqrt(variances[2] / summaries[2].Ess));
         var msdSeries = results.Select(r =>
         {

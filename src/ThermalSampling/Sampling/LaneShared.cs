@@ -128,8 +128,9 @@ internal class LaneTally
     /// <param name="width">Lanes per vector.</param>
     /// <param name="lanes">Live lanes (chains) of the group.</param>
     /// <param name="coordinates">Values per draw (1 for a pair, 3 for a site).</param>
-    /// <param name="batchValues">Sums kept per closed batch (2 per coordinate, and 2 for the energy where it is recorded).</param>
-    internal LaneTally(BinCounter bins, int retained, int width, int lanes, int coordinates, int batchValues = 0)
+    /// <param name="batchValues">Sums kept per closed batch (2 per coordinate, and 2 for the energy).</param>
+    /// <param name="batchSize">Draws per batch: a chunk of up to 4096 steps closes at most 4096/batchSize + 1 batches.</param>
+    internal LaneTally(BinCounter bins, int retained, int width, int lanes, int coordinates, int batchValues, int batchSize)
     {
         BinScale = bins.Scale;
         Bins = bins.Counts.Length;
@@ -139,7 +140,7 @@ internal class LaneTally
         Index = new ulong[width];
         Scratch = new double[coordinates * width];
         Kept = new double[(long)coordinates * lanes * retained];
-        BatchSums = new double[(batchValues > 0 ? batchValues : 2 * coordinates) * width * LaneAdaptation.ChunkSteps];
+        BatchSums = new double[batchValues * width * (LaneAdaptation.ChunkSteps / batchSize + 1)];
         Coordinates = coordinates;
     }
 

@@ -321,7 +321,7 @@ internal static class PairLaneChains
     }
 
     /// <summary>The histogram counts and retained draws of a lane group, in flat arrays the inner loop can reach without calls.</summary>
-    internal sealed class Tally(PairChainRecord first, int width, int lanes) : LaneTally(first.Bins, first.Draws.Capacity, width, lanes, 1, batchValues: 4)
+    internal sealed class Tally(PairChainRecord first, int width, int lanes) : LaneTally(first.Bins, first.Draws.Capacity, width, lanes, 1, batchValues: 4, first.Store.BatchSize)
     {
         internal double BatchReference { get; } = first.Store.Reference;
 

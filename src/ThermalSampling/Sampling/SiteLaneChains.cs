@@ -88,8 +88,8 @@ internal static class SiteLaneChains
                 _records[lane] = makeRecord(firstChain + lane);
             }
             _moments = new CovarianceAccumulator[Live];
-            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live, plan.Basin, plan.Minimum, plan.Confinement, plan.Centre,
-                plan.WallBand, _records[0].Stores[SiteChains.EnergyStore].Reference);
+            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live, _records[0].Stores[0].BatchSize, plan.Basin, plan.Minimum,
+                plan.Confinement, plan.Centre, plan.WallBand, _records[0].Stores[SiteChains.EnergyStore].Reference);
         }
 
         internal ChainOutcome[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
@@ -517,9 +517,9 @@ internal static class SiteLaneChains
     /// <summary>Histogram counts, batch sums and retained draws of a lane group, in flat arrays the inner loop reaches without calls.</summary>
     internal sealed class SiteTally : LaneTally
     {
-        internal SiteTally(BinCounter radial, int retained, int width, int lanes, BasinGrid basin, Position minimum, Confinement confinement, Position centre,
-            double wallBand, double energyReference)
-            : base(radial, retained, width, lanes, 3, batchValues: 8)
+        internal SiteTally(BinCounter radial, int retained, int width, int lanes, int batchSize, BasinGrid basin, Position minimum, Confinement confinement,
+            Position centre, double wallBand, double energyReference)
+            : base(radial, retained, width, lanes, 3, batchValues: 8, batchSize)
         {
             EnergyReference = energyReference;
             Basin = basin;

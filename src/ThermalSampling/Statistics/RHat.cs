@@ -39,17 +39,68 @@ public static class RHat
             split.Add(c[(n - half)..]);
         }
         var scores = new ScoreTable(2 * chains.Count * half);
-        double bulk = Classic(NormalScores(split, scores));
-        double median = Median(split.SelectMany(c => c).ToArray());
-        double tail = Classic(NormalScores(split.Select(c => c.Select(x => Math.Abs(x - median)).ToArray()).ToList(), scores));
+        // One sort serves all three: the bulk ranks, the median, and (by folding the sorted draws about the median, a
+        // linear merge) the ranks of |x − median|; the same ranks as sorting each anew, so the same bits.
+        var (keys, where) = Pooled(split);
+        Array.Sort(keys, where);
+        double bulk = Classic(NormalScores(keys, where, split, scores));
+        int m = keys.Length / 2;
+        double median = keys.Length % 2 == 1 ? keys[m] : 0.5 * (keys[m - 1] + keys[m]);
+        var (folded, foldedWhere) = FoldedAbout(keys, where, median);
+        double tail = Classic(NormalScores(folded, foldedWhere, split, scores));
         return Math.Max(bulk, tail);
     }
 
-    private static double Median(double[] values)
+    /// <summary>Every draw of every chain in one array, with its flat index (chain · length + position).</summary>
+    private static (double[] Keys, int[] Where) Pooled(List<double[]> chains)
     {
-        Array.Sort(values);
-        int m = values.Length / 2;
-        return values.Length % 2 == 1 ? values[m] : 0.5 * (values[m - 1] + values[m]);
+        int total = chains.Sum(c => c.Length);
+        var keys = new double[total];
+        var where = new int[total];
+        int k = 0;
+        foreach (var chain in chains)
+        {
+            foreach (double x in chain)
+            {
+                Internal.Preconditions.CheckFinite(x, "chains");
+                where[k] = k;
+                keys[k++] = x;
+            }
+        }
+        return (keys, where);
+    }
+
+    /// <summary>
+    /// |x − median| in ascending order from the sorted draws: the draws below the median read downwards and those from it
+    /// upwards are each sorted by distance, so one merge orders them (median − x is the exact negation of x − median).
+    /// </summary>
+    private static (double[] Keys, int[] Where) FoldedAbout(double[] sorted, int[] where, double median)
+    {
+        int n = sorted.Length;
+        int split = 0;
+        while (split < n && sorted[split] < median)
+        {
+            split++; // the first draw not below the median
+        }
+        var keys = new double[n];
+        var at = new int[n];
+        int down = split - 1, up = split;
+        for (int k = 0; k < n; k++)
+        {
+            double below = down >= 0 ? median - sorted[down] : double.PositiveInfinity;
+            double above = up < n ? sorted[up] - median : double.PositiveInfinity;
+            if (below < above)
+            {
+                keys[k] = below;
+                at[k] = where[down--];
+            }
+            else
+            {
+                keys[k] = above;
+                at[k] = where[up++];
+            }
+        }
+        return (keys, at);
     }
 
     /// <summary>Φ⁻¹((rank − 3/8)/(S + 1/4)) for whole ranks, computed once and shared by the bulk and tail scores.</summary>
@@ -83,24 +134,11 @@ public static class RHat
         private double Score(double rank) => Normal.InvCDF(0, 1, (rank - 0.375) / (total + 0.25));
     }
 
-    /// <summary>Replaces each draw by its normal score with average ranks for ties (keys sorted with flat indices: no comparison delegate).</summary>
-    private static List<double[]> NormalScores(List<double[]> chains, ScoreTable scores)
+    /// <summary>Replaces each draw by its normal score with average ranks for ties, from the pooled draws sorted with their flat indices.</summary>
+    private static List<double[]> NormalScores(double[] keys, int[] where, List<double[]> chains, ScoreTable scores)
     {
-        int total = scores.Total;
+        int total = keys.Length;
         int length = chains[0].Length;
-        var keys = new double[total];
-        var where = new int[total];
-        int k = 0;
-        foreach (var chain in chains)
-        {
-            foreach (double x in chain)
-            {
-                Internal.Preconditions.CheckFinite(x, "chains");
-                where[k] = k;
-                keys[k++] = x;
-            }
-        }
-        Array.Sort(keys, where);
         var result = chains.Select(c => new double[c.Length]).ToList();
         int start = 0;
         while (start < total)
