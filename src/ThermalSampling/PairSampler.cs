@@ -57,18 +57,71 @@ public static class PairSampler
         return PairSummary.Check(landscape, mass, temperature);
     }
 
+    /// <summary>
+    /// Samples without summarising: the records of every chain at <paramref name="temperature"/>, which
+    /// <see cref="Summarise{TPotential}"/> turns into the report <see cref="Run{TPotential}"/> would give (the same bits).
+    /// A part of the run's chains (<paramref name="chains"/>) can be sampled on its own, in another process or on another
+    /// machine, and the parts merged.
+    /// Records can be written to a file, read back and merged (<see cref="TemperatureRecord"/>).
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape.</param>
+    /// <param name="temperature">The temperature.</param>
+    /// <param name="settings">The sampling settings.</param>
+    /// <param name="chains">The part of the run to sample (default: every chain); parts sampled apart merge with <see cref="TemperatureRecord.Merge"/>.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="cancellationToken">Optional cancellation.</param>
+    public static TemperatureRecord Sample<TPotential>(PairLandscape<TPotential> landscape, Temperature temperature, SamplingSettings settings,
+        ChainRange? chains = null, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        RunArguments.Check(landscape, settings, NominalMass, temperature);
+        var range = chains ?? ChainRange.All(settings.Chains);
+        range.Check(settings.Chains, nameof(chains));
+        // The plan uses only the mass-free parts of the analyses (the exact distribution, the well, the classical spread).
+        return SampleOne(landscape, PairSummary.Analyse(landscape, NominalMass, temperature), temperature, settings, progress, cancellationToken, null, 0, range);
+    }
+
+    /// <summary>The report of a complete record from <see cref="Sample{TPotential}"/> (or merged parts of one), with the analyses at <paramref name="mass"/>.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape the record was sampled in.</param>
+    /// <param name="mass">The particle's mass (for the harmonic and validity analyses).</param>
+    /// <param name="record">Every chain's record of one temperature.</param>
+    /// <exception cref="ArgumentException">When the record comes from another landscape or lacks chains.</exception>
+    public static PairVibrationReport Summarise<TPotential>(PairLandscape<TPotential> landscape, Mass mass, TemperatureRecord record)
+        where TPotential : struct, IPairPotential
+    {
+        Internal.Preconditions.CheckNotNull(landscape, nameof(landscape));
+        Internal.Preconditions.CheckNotNull(record, nameof(record));
+        record.CheckSummarisable("pair", PairChains.Fingerprint(landscape), nameof(record));
+        PairAnalysis.CheckArguments(mass, record.Temperature);
+        return PairSummary.Summarise(landscape, mass, record.Temperature, record.Settings, PairSummary.Analyse(landscape, mass, record.Temperature), record);
+    }
+
+    /// <summary>The mass argument checks take where sampling needs none (classical sampling does not depend on the mass).</summary>
+    private static readonly Mass NominalMass = Mass.FromAtomicMassUnits(1);
+
     /// <summary>Analyse, sample, summarise: the three steps of one temperature.</summary>
     private static PairVibrationReport RunOne<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
         IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex)
         where TPotential : struct, IPairPotential
     {
         var references = PairSummary.Analyse(landscape, mass, temperature);
+        var run = SampleOne(landscape, references, temperature, settings, progress, cancellationToken, session, temperatureIndex, ChainRange.All(settings.Chains));
+        return PairSummary.Summarise(landscape, mass, temperature, settings, references, run);
+    }
+
+    /// <summary>The sampling step: the plan (target acceptance, first width, batch reference) from the exact distribution, then the chains.</summary>
+    private static TemperatureRecord SampleOne<TPotential>(PairLandscape<TPotential> landscape, PairSummary.References references, Temperature temperature,
+        SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex,
+        ChainRange range)
+        where TPotential : struct, IPairPotential
+    {
         double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
         double width0 = settings.InitialStepWidthInAngstroms ?? references.Harmonic?.ClassicalRmsInAngstroms ?? landscape.WindowWidthInAngstroms / 10;
         width0 = Math.Min(width0, landscape.WindowWidthInAngstroms);
-        var run = PairChains.Sample(landscape, references.Exact, references.Well?.EquilibriumDistanceInAngstroms ?? references.Exact.MeanInAngstroms, width0, target,
-            temperature, settings, progress, cancellationToken, session, temperatureIndex);
-        return PairSummary.Summarise(landscape, mass, temperature, settings, references, run);
+        return PairChains.Sample(landscape, references.Exact, references.Well?.EquilibriumDistanceInAngstroms ?? references.Exact.MeanInAngstroms, width0, target,
+            temperature, settings, progress, cancellationToken, session, temperatureIndex, range);
     }
 
     /// <summary>Runs the sampler at several temperatures with the same settings (the seed is shared; each temperature is an independent run).</summary>

@@ -57,6 +57,40 @@ public static class SiteSampler
         return SiteSummary.Check(landscape, mass, temperature);
     }
 
+    /// <inheritdoc cref="PairSampler.Sample{TPotential}(PairLandscape{TPotential}, Temperature, SamplingSettings, ChainRange?, IProgress{SamplingProgress}?, CancellationToken)"/>
+    /// <exception cref="LandscapeException">When there is no bound minimum in the confinement.</exception>
+    public static TemperatureRecord Sample<TPotential>(SiteLandscape<TPotential> landscape, Temperature temperature, SamplingSettings settings,
+        ChainRange? chains = null, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
+        where TPotential : struct, IPairPotential
+    {
+        RunArguments.Check(landscape, settings, NominalMass, temperature);
+        var range = chains ?? ChainRange.All(settings.Chains);
+        range.Check(settings.Chains, nameof(chains));
+        // The plan uses only the classical (mass-free) parts of the harmonic analysis: the minimum and the covariance.
+        var harmonic = SiteAnalysis.Harmonic(landscape, NominalMass, temperature);
+        return SiteChains.Sample(landscape, harmonic, settings.TargetAcceptance ?? DefaultTargetAcceptance, temperature, settings, progress, cancellationToken, null, 0,
+            range);
+    }
+
+    /// <summary>The report of a complete record from <see cref="Sample{TPotential}"/> (or merged parts of one), with the analyses at <paramref name="mass"/>.</summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="landscape">The landscape the record was sampled in.</param>
+    /// <param name="mass">The particle's mass (for the harmonic and validity analyses).</param>
+    /// <param name="record">Every chain's record of one temperature.</param>
+    /// <exception cref="ArgumentException">When the record comes from another landscape or lacks chains.</exception>
+    public static SiteVibrationReport Summarise<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, TemperatureRecord record)
+        where TPotential : struct, IPairPotential
+    {
+        Internal.Preconditions.CheckNotNull(landscape, nameof(landscape));
+        Internal.Preconditions.CheckNotNull(record, nameof(record));
+        record.CheckSummarisable("sites", SiteChains.Fingerprint(landscape), nameof(record));
+        PairAnalysis.CheckArguments(mass, record.Temperature);
+        return SiteSummary.Summarise(landscape, mass, record.Temperature, record.Settings, SiteAnalysis.Harmonic(landscape, mass, record.Temperature), record);
+    }
+
+    /// <summary>The mass argument checks take where sampling needs none (classical sampling does not depend on the mass).</summary>
+    private static readonly Mass NominalMass = Mass.FromAtomicMassUnits(1);
+
     /// <summary>Analyse, sample, summarise: the three steps of one temperature.</summary>
     private static SiteVibrationReport RunOne<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
         IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex)
@@ -64,7 +98,7 @@ public static class SiteSampler
     {
         var harmonic = SiteAnalysis.Harmonic(landscape, mass, temperature);
         var run = SiteChains.Sample(landscape, harmonic, settings.TargetAcceptance ?? DefaultTargetAcceptance, temperature, settings, progress, cancellationToken,
-            session, temperatureIndex);
+            session, temperatureIndex, ChainRange.All(settings.Chains));
         return SiteSummary.Summarise(landscape, mass, temperature, settings, harmonic, run);
     }
 

@@ -278,9 +278,9 @@ public sealed class LaneKernelTests
         double[] DrawsOf(PairLaneChains.Plan<HarmonicBond> plan, int chain)
         {
             var outcomes = PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.45 + 0.01 * c,
-                c => new PairChainRecord(new BinCounter(1.0, 2.0, 20), new BatchMeansStore(samples, 1024, 1.5), new DrawRecorder<double>(samples, (int)samples), new BatchMeansStore(samples, 1024, 0)),
+                c => new ChainRecord(new RecordLayout(1, samples, 1024, (int)samples, [1.5], 0, 1.0, 2.0, 20), c, 1.0 / 1024),
                 c => new ProgressReporter(null, c, 1000 + samples, 300), GroupCheckpoints.None, 0, default);
-            return outcomes[chain].Record.Draws.ToImmutable().ToArray();
+            return outcomes[chain].KeptSeparations.ToImmutable().ToArray();
         }
         var ladder = Enumerable.Range(0, lanes).Select(c => c % 2 == 0 ? cold : hot).ToArray();
         var mixed = Plan(cold, ladder);
@@ -303,7 +303,7 @@ public sealed class LaneKernelTests
     {
         var plan = new PairLaneChains.Plan<FaultyBand>(new FaultyBand(bad), 1.0, 2.0, 40.0, false, 0.3, 0.44, 1.0, 1000, 100_000, 5);
         var ex = Assert.Throws<NonFiniteEnergyException>(() => PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.2 + 0.05 * c,
-            c => new PairChainRecord(new BinCounter(1.0, 2.0, 20), new BatchMeansStore(100_000, 1024, 1.5), new DrawRecorder<double>(100_000, 0), new BatchMeansStore(100_000, 1024, 0)),
+            c => new ChainRecord(new RecordLayout(1, 100_000, 1024, 0, [1.5], 0, 1.0, 2.0, 20), c, 1.0 / 1024),
             c => new ProgressReporter(null, c, 101_000, 300), GroupCheckpoints.None, 0, default));
         Assert.InRange(ex.Separation, 1.55, 1.56);
         Assert.Contains("invented faulty band", ex.Message, StringComparison.Ordinal);
@@ -319,10 +319,9 @@ public sealed class LaneKernelTests
             burnIn, 100_000, 5, "invented faulty band",
             new BasinGrid(FaultyCentre.X - 0.25, FaultyCentre.Y - 0.25, FaultyCentre.Z - 0.25, 0.5, 2, new byte[8], AnyOutside: false)); // one basin: every point inside
 
-    private static SiteLaneChains.ChainOutcome[] RunFaultySites(SiteLaneChains.Plan<FaultyBand> plan, int lanes, Func<int, Position> start)
+    private static ChainRecord[] RunFaultySites(SiteLaneChains.Plan<FaultyBand> plan, int lanes, Func<int, Position> start)
         => SiteLaneChains.Run(lanes, plan, 0, lanes, c => (RandomStream.ForChain(plan.Seed, c), start(c)),
-            c => ([new BatchMeansStore(plan.Samples, 1024, FaultyCentre.X), new BatchMeansStore(plan.Samples, 1024, FaultyCentre.Y), new BatchMeansStore(plan.Samples, 1024, FaultyCentre.Z), new BatchMeansStore(plan.Samples, 1024, 0)],
-                new BinCounter(0, 0.25, 20), new DrawRecorder<Position>(plan.Samples, 0)),
+            c => new ChainRecord(new RecordLayout(3, plan.Samples, 1024, 0, [FaultyCentre.X, FaultyCentre.Y, FaultyCentre.Z], 0, 0, 0.25, 20), c, 1.0 / 1024),
             c => new ProgressReporter(null, c, plan.BurnIn + plan.Samples, 300), GroupCheckpoints.None, 0, default);
 
     /// <summary>

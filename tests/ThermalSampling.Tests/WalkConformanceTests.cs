@@ -25,8 +25,24 @@ public class WalkConformanceTests
     private static readonly ImmutableArray<Temperature> TwoTemperatures = [Temperature.FromKelvin(40), Temperature.FromKelvin(90)];
 
     /// <summary>One walk under test: a sweep, a checkpointed sweep and a resume, each returning the reports' bits.</summary>
+    /// <remarks>Parts: the reports' bits when each temperature's chains are sampled in two parts (chains 0–1 and 2 on), each
+    /// written to a record file and read back, merged and summarised.</remarks>
     internal sealed record Walk(string Name, Func<SamplingSettings, string> Sweep, Func<SamplingSettings, CheckpointTests.Keeper, string> SweepWithCheckpoints,
-        Func<SamplingSettings, SamplingCheckpoint, string> Resume);
+        Func<SamplingSettings, SamplingCheckpoint, string> Resume, Func<SamplingSettings, string> Parts);
+
+    /// <summary>A record written to a record file and read back.</summary>
+    internal static TemperatureRecord ThroughFile(TemperatureRecord record)
+    {
+        var bytes = new MemoryStream();
+        record.WriteTo(bytes);
+        return TemperatureRecord.ReadFrom(new MemoryStream(bytes.ToArray()));
+    }
+
+    /// <summary>Each temperature sampled as two parts that travel through record files, merged (given in reverse order) and summarised.</summary>
+    private static string InParts<TReport>(SamplingSettings s, Func<Temperature, ChainRange, TemperatureRecord> sample, Func<TemperatureRecord, TReport> summarise,
+        Func<TReport, string> bits)
+        => string.Join("\n", TwoTemperatures.Select(t => bits(summarise(TemperatureRecord.Merge(
+            [ThroughFile(sample(t, new ChainRange(2, s.Chains - 2))), ThroughFile(sample(t, new ChainRange(0, 2)))])))));
 
     // Invented landscapes: a Lennard-Jones pair (well 10 meV at 3.5 Å) on a line and radially, and a particle in the cage of
     // twelve such neighbours 3.5 Å away (the fcc nearest-neighbour shell).
@@ -41,15 +57,18 @@ public class WalkConformanceTests
         ["pair-line"] = new("pair-line",
             s => string.Join("\n", PairSampler.Sweep(Line, Mass12, TwoTemperatures, s).Select(CheckpointTests.Bits)),
             (s, k) => string.Join("\n", PairSampler.SweepWithCheckpoints(Line, Mass12, TwoTemperatures, s, k.Options(TimeSpan.Zero)).Select(CheckpointTests.Bits)),
-            (s, c) => string.Join("\n", PairSampler.Resume(Line, Mass12, TwoTemperatures, s, c).Select(CheckpointTests.Bits))),
+            (s, c) => string.Join("\n", PairSampler.Resume(Line, Mass12, TwoTemperatures, s, c).Select(CheckpointTests.Bits)),
+            s => InParts(s, (t, r) => PairSampler.Sample(Line, t, s, r), rec => PairSampler.Summarise(Line, Mass12, rec), CheckpointTests.Bits)),
         ["pair-radial"] = new("pair-radial",
             s => string.Join("\n", PairSampler.Sweep(Radial, Mass12, TwoTemperatures, s).Select(CheckpointTests.Bits)),
             (s, k) => string.Join("\n", PairSampler.SweepWithCheckpoints(Radial, Mass12, TwoTemperatures, s, k.Options(TimeSpan.Zero)).Select(CheckpointTests.Bits)),
-            (s, c) => string.Join("\n", PairSampler.Resume(Radial, Mass12, TwoTemperatures, s, c).Select(CheckpointTests.Bits))),
+            (s, c) => string.Join("\n", PairSampler.Resume(Radial, Mass12, TwoTemperatures, s, c).Select(CheckpointTests.Bits)),
+            s => InParts(s, (t, r) => PairSampler.Sample(Radial, t, s, r), rec => PairSampler.Summarise(Radial, Mass12, rec), CheckpointTests.Bits)),
         ["site"] = new("site",
             s => string.Join("\n", SiteSampler.Sweep(Cage, Mass12, TwoTemperatures, s).Select(CheckpointTests.Bits)),
             (s, k) => string.Join("\n", SiteSampler.SweepWithCheckpoints(Cage, Mass12, TwoTemperatures, s, k.Options(TimeSpan.Zero)).Select(CheckpointTests.Bits)),
-            (s, c) => string.Join("\n", SiteSampler.Resume(Cage, Mass12, TwoTemperatures, s, c).Select(CheckpointTests.Bits))),
+            (s, c) => string.Join("\n", SiteSampler.Resume(Cage, Mass12, TwoTemperatures, s, c).Select(CheckpointTests.Bits)),
+            s => InParts(s, (t, r) => SiteSampler.Sample(Cage, t, s, r), rec => SiteSampler.Summarise(Cage, Mass12, rec), CheckpointTests.Bits)),
     };
 
     public static TheoryData<string> WalkNames => new(Walks.Keys);
@@ -70,6 +89,16 @@ public class WalkConformanceTests
         {
             Assert.True(reference == w.Sweep(Settings(lanes, threads)), $"{walk}: {lanes} lanes on {threads} threads differ from 1 lane on 1 thread");
         }
+    }
+
+    /// <summary>Records: parts of a run sampled apart (here each at its own lane width), saved and read back, merge to the one-process bits.</summary>
+    [Theory]
+    [MemberData(nameof(WalkNames))]
+    public void PartsSampledApartMergeToTheSameBits(string walk)
+    {
+        var w = Walks[walk];
+        Assert.Equal(w.Sweep(Settings(null, 2)), w.Parts(Settings(null, 1)));
+        Assert.Equal(w.Sweep(Settings(null, 2) with { Method = SamplingMethod.Direct }), w.Parts(Settings(null, 2) with { Method = SamplingMethod.Direct }));
     }
 
     [Theory]

@@ -54,25 +54,25 @@ internal static class PairSummary
 
     /// <summary>The report of one temperature from its run record.</summary>
     internal static PairVibrationReport Summarise<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
-        References references, PairRunRecord run)
+        References references, TemperatureRecord run)
         where TPotential : struct, IPairPotential
     {
         var (exact, well, harmonic, firstOrder, _) = references;
         var warnings = references.Warnings.ToBuilder();
         var results = run.Chains;
-        bool metropolis = run.Metropolis;
+        bool metropolis = run.Settings.Method == SamplingMethod.Metropolis;
         double target = run.TargetAcceptance;
         int chains = results.Length;
-        var moments = results[0].Record.Moments;
+        var moments = results[0].Separation;
         for (int c = 1; c < chains; c++)
         {
-            moments = MomentAccumulator.Merge(moments, results[c].Record.Moments);
+            moments = MomentAccumulator.Merge(moments, results[c].Separation);
         }
         double mean = moments.Mean, variance = moments.Variance;
-        int batch = results[0].Record.Store.BatchSize;
-        var summary = ChainDiagnostics.Summarise(results.Select(r => r.Record.Store.Means()).ToList(), batch, settings.SamplesPerChain, variance);
+        int batch = results[0].Stores[0].BatchSize;
+        var summary = ChainDiagnostics.Summarise(results.Select(r => r.Stores[0].Means()).ToList(), batch, settings.SamplesPerChain, variance);
         double varianceOfSquares = Math.Max(moments.CentralMoment4 - moments.CentralMoment2 * moments.CentralMoment2, 0);
-        var summarySquared = ChainDiagnostics.Summarise(results.Select(r => r.Record.Store.SquaredDeviationMeans(mean)).ToList(), batch, settings.SamplesPerChain, varianceOfSquares, withRHat: false);
+        var summarySquared = ChainDiagnostics.Summarise(results.Select(r => r.Stores[0].SquaredDeviationMeans(mean)).ToList(), batch, settings.SamplesPerChain, varianceOfSquares, withRHat: false);
         double meanSe = Math.Sqrt(variance / summary.Ess);
         double varianceSe = Math.Sqrt(varianceOfSquares / summarySquared.Ess);
         double rms = Math.Sqrt(variance);
@@ -91,12 +91,12 @@ internal static class PairSummary
                 $"The sampled mean or variance differs from the exact quadrature value by more than 4 standard errors (z = {comparison.ZScoreMean:G3}, {comparison.ZScoreVariance:G3}): the chains are not converged or the error bars are too small. Trust the exact value.")));
         }
 
-        var (potentialEnergy, energyVariance) = ReportParts.PotentialEnergy(results.Select(r => r.Record.Energies).ToList(), batch, settings.SamplesPerChain,
+        var (potentialEnergy, energyVariance) = ReportParts.PotentialEnergy(results.Select(r => r.Energies).ToList(), batch, settings.SamplesPerChain,
             well?.MinimumEnergyInElectronVolts);
 
         var diagnostics = new SamplingDiagnostics(acceptance, summary.Tau, summary.Ess, summary.RHat, moments.Count, summary.BlockingStandardError,
-            metropolis ? results.Average(r => r.Width) : null);
-        var histogram = ReportParts.Histogram(results.Select(r => r.Record.Bins).ToList(), summary.Ess);
+            metropolis ? results.Average(r => r.ProposalScale) : null);
+        var histogram = ReportParts.Histogram(results.Select(r => r.Bins).ToList(), summary.Ess);
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         return new PairVibrationReport
         {
@@ -118,7 +118,7 @@ internal static class PairSummary
             Histogram = histogram,
             Warnings = warnings.ToImmutable(),
             Provenance = provenance,
-            Draws = ReportParts.Draws(results.Select(r => r.Record.Draws)),
+            Draws = ReportParts.Draws(results.Select(r => r.KeptSeparations)),
         };
     }
 }

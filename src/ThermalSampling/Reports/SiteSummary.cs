@@ -48,19 +48,19 @@ internal static class SiteSummary
 
     /// <summary>The report of one temperature from its run record.</summary>
     internal static SiteVibrationReport Summarise<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
-        SiteHarmonicEstimate harmonic, SiteRunRecord run)
+        SiteHarmonicEstimate harmonic, TemperatureRecord run)
         where TPotential : struct, IPairPotential
     {
         var results = run.Chains;
         var min = harmonic.Minimum;
         int chains = results.Length;
-        bool metropolis = run.Metropolis;
+        bool metropolis = run.Settings.Method == SamplingMethod.Metropolis;
         double target = run.TargetAcceptance;
-        double sigmaMin = run.SmallestModeRms;
-        var moments = results[0].Moments;
+        double sigmaMin = run.ProposalUnitInAngstroms;
+        var moments = results[0].PositionMoments;
         for (int c = 1; c < chains; c++)
         {
-            moments = CovarianceAccumulator.Merge(moments, results[c].Moments);
+            moments = CovarianceAccumulator.Merge(moments, results[c].PositionMoments);
         }
         var covariance = moments.Covariance();
         var mean = new Position(moments.MeanX, moments.MeanY, moments.MeanZ);
@@ -84,7 +84,7 @@ internal static class SiteSummary
         double msdSe = ChainDiagnostics.PooledMeanStandardError(msdSeries);
         long draws = moments.Count;
         double acceptance = results.Sum(r => (double)r.Accepted) / results.Sum(r => (double)r.Proposals);
-        double nearWalls = results.Sum(r => (double)r.NearWall) / draws; // share of draws within one harmonic RMS spread of the confinement
+        double nearWalls = results.Sum(r => (double)r.DrawsNearWall) / draws; // share of draws within one harmonic RMS spread of the confinement
 
         var worst = summaries.OrderByDescending(s => s.Tau).First();
         var combined = new ChainDiagnostics.Summary(worst.Tau, summaries.Min(s => s.Ess), summaries[0].BlockingStandardError,
@@ -92,7 +92,7 @@ internal static class SiteSummary
             summaries.All(s => s.RHat is null) ? null : summaries.Max(s => s.RHat ?? 0));
         var warnings = ImmutableArray.CreateBuilder<Warning>();
         var basin = SiteBasins.AtTemperature(SiteBasins.Map(landscape, min), landscape, temperature);
-        double outside = results.Sum(r => (double)r.OutsideBasin) / draws;
+        double outside = results.Sum(r => (double)r.DrawsOutsideBasin) / draws;
         bool staysAtSite = outside <= SiteBasins.LeftSiteThreshold;
         if (!staysAtSite)
         {
@@ -105,11 +105,11 @@ internal static class SiteSummary
         }
         ReportParts.AddConvergenceWarnings(warnings, combined, metropolis ? acceptance : null, metropolis ? target : null);
 
-        var (potentialEnergy, energyVariance) = ReportParts.PotentialEnergy(results.Select(r => r.Stores[SiteChains.EnergyStore]).ToList(), batch,
+        var (potentialEnergy, energyVariance) = ReportParts.PotentialEnergy(results.Select(r => r.Energies).ToList(), batch,
             settings.SamplesPerChain, harmonic.MinimumEnergyInElectronVolts);
         var diagnostics = new SamplingDiagnostics(acceptance, combined.Tau, combined.Ess, combined.RHat, draws, combined.BlockingStandardError,
-            metropolis ? results.Average(r => r.Scale) * sigmaMin : null);
-        var radialHistogram = ReportParts.Histogram(results.Select(r => r.Radial).ToList(), combined.Ess);
+            metropolis ? results.Average(r => r.ProposalScale) * sigmaMin : null);
+        var radialHistogram = ReportParts.Histogram(results.Select(r => r.Bins).ToList(), combined.Ess);
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         double b = DebyeWaller.FromIsotropicDisplacement(msd / 3);
         return new SiteVibrationReport
@@ -131,7 +131,7 @@ internal static class SiteSummary
             RadialHistogram = radialHistogram,
             Warnings = warnings.ToImmutable(),
             Provenance = provenance,
-            Draws = ReportParts.Draws(results.Select(r => r.Draws)),
+            Draws = ReportParts.Draws(results.Select(r => r.KeptPositions)),
         };
     }
 }

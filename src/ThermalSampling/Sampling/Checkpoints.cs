@@ -74,8 +74,6 @@ public sealed class SamplingCheckpoint
     /// <summary>The version of the file layout this library writes and reads.</summary>
     public const int FormatVersion = 4;
 
-    private const int MaximumMetadataBytes = 32 * 1024 * 1024;
-    private const int ChecksumBytes = 32;
 
     private readonly byte[]?[]?[] _states;
     private readonly long[]?[] _steps;
@@ -147,15 +145,7 @@ public sealed class SamplingCheckpoint
     public void WriteTo(Stream stream)
     {
         ArgumentNullException.ThrowIfNull(stream);
-        var body = Body();
-        var metadata = Metadata(body.Length);
-        using var hash = IncrementalHash.CreateHash(HashAlgorithmName.SHA256);
-        hash.AppendData(metadata);
-        hash.AppendData(body);
-        stream.Write(metadata);
-        stream.Write(body);
-        stream.Write(hash.GetHashAndReset());
-        stream.Flush();
+        SignedFile.Write(stream, FormatName, FormatVersion, WriteMetadata, Body());
     }
 
     /// <summary>
@@ -195,100 +185,11 @@ public sealed class SamplingCheckpoint
     public static SamplingCheckpoint ReadFrom(Stream stream)
     {
         ArgumentNullException.ThrowIfNull(stream);
-        using var hash = IncrementalHash.CreateHash(HashAlgorithmName.SHA256);
-        var line = ReadMetadataLine(stream);
-        hash.AppendData(line);
-        JsonElement meta;
-        try
-        {
-            using var document = JsonDocument.Parse(line);
-            meta = document.RootElement.Clone();
-        }
-        catch (JsonException ex)
-        {
-            throw new CheckpointException("The checkpoint's metadata line is not valid JSON (the file is damaged).", ex);
-        }
-        if (meta.ValueKind != JsonValueKind.Object || !meta.TryGetProperty("format", out var format) || format.ValueKind != JsonValueKind.String || format.GetString() != FormatName)
-        {
-            throw new CheckpointException($"This is not a checkpoint: its metadata does not start with \"format\": \"{FormatName}\".");
-        }
-        int version = Get(meta, "formatVersion", JsonValueKind.Number).GetInt32();
-        if (version != FormatVersion)
-        {
-            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint has format version {version}; this library reads version {FormatVersion}."));
-        }
-        long bodyBytes = Get(meta, "bodyBytes", JsonValueKind.Number).GetInt64();
-        if (bodyBytes < 0 || bodyBytes > Array.MaxLength)
-        {
-            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint announces a body of {bodyBytes} bytes; valid: 0 to {Array.MaxLength}."));
-        }
-        if (stream.CanSeek && stream.Length - stream.Position < bodyBytes + ChecksumBytes)
-        {
-            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture,
-                $"The checkpoint is cut short: {stream.Length - stream.Position} bytes follow the metadata, which announces {bodyBytes} + {ChecksumBytes} (body and checksum). The write was interrupted; use an earlier checkpoint."));
-        }
-        var body = ReadExactly(stream, (int)bodyBytes, "body");
-        hash.AppendData(body);
-        var checksum = ReadExactly(stream, ChecksumBytes, "checksum");
-        if (!CryptographicOperations.FixedTimeEquals(checksum, hash.GetHashAndReset()))
-        {
-            throw new CheckpointException("The checkpoint fails its SHA-256 checksum: the file is damaged. Nothing was loaded; use an earlier checkpoint.");
-        }
-        if (stream.ReadByte() >= 0)
-        {
-            throw new CheckpointException("The checkpoint has bytes after its checksum: the file is damaged or two files were joined.");
-        }
+        var (meta, body) = SignedFile.Read(stream, "checkpoint", FormatName, FormatVersion);
         return Parse(meta, body);
     }
 
-    private static byte[] ReadMetadataLine(Stream stream)
-    {
-        var line = new MemoryStream();
-        while (true)
-        {
-            int b = stream.ReadByte();
-            if (b < 0)
-            {
-                throw new CheckpointException(line.Length == 0 ? "The checkpoint is empty." : "The checkpoint is cut short inside its metadata line.");
-            }
-            line.WriteByte((byte)b);
-            if (b == '\n')
-            {
-                return line.ToArray();
-            }
-            if (line.Length > MaximumMetadataBytes)
-            {
-                throw new CheckpointException($"The checkpoint's metadata line is longer than {MaximumMetadataBytes} bytes: this is not a checkpoint.");
-            }
-        }
-    }
-
-    private static byte[] ReadExactly(Stream stream, int count, string what)
-    {
-        // Grows with the data actually read, so a damaged length never allocates more than the stream holds.
-        var result = new MemoryStream();
-        var buffer = new byte[Math.Min(count, 1 << 20)];
-        while (result.Length < count)
-        {
-            int n = stream.Read(buffer, 0, (int)Math.Min(buffer.Length, count - result.Length));
-            if (n == 0)
-            {
-                throw new CheckpointException(string.Create(CultureInfo.InvariantCulture,
-                    $"The checkpoint is cut short in its {what}: {result.Length} of {count} bytes. The write was interrupted; use an earlier checkpoint."));
-            }
-            result.Write(buffer, 0, n);
-        }
-        return result.ToArray();
-    }
-
-    private static JsonElement Get(JsonElement meta, string name, JsonValueKind kind)
-    {
-        if (!meta.TryGetProperty(name, out var value) || value.ValueKind != kind)
-        {
-            throw new CheckpointException($"The checkpoint's metadata lacks \"{name}\" (or it has the wrong type).");
-        }
-        return value;
-    }
+    private static JsonElement Get(JsonElement meta, string name, JsonValueKind kind) => SignedFile.Get(meta, name, kind, "checkpoint");
 
     private byte[] Body()
     {
@@ -318,46 +219,34 @@ public sealed class SamplingCheckpoint
         return body.ToArray();
     }
 
-    private byte[] Metadata(long bodyBytes)
+    private void WriteMetadata(Utf8JsonWriter w)
     {
-        var buffer = new MemoryStream();
-        // Relaxed escaping keeps the line readable (a version's '+' stays '+'); control characters are still escaped.
-        using (var w = new Utf8JsonWriter(buffer, new JsonWriterOptions { Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping }))
+        w.WriteString("libraryVersion", Identity.LibraryVersion);
+        w.WriteString("landscapeKind", Identity.Kind);
+        w.WriteString("landscape", Identity.Landscape);
+        w.WriteString("landscapeFingerprint", Identity.Fingerprint);
+        w.WriteNumber("massInAtomicMassUnits", Identity.MassInAtomicMassUnits);
+        w.WriteStartArray("temperaturesInKelvin");
+        foreach (double t in Identity.Temperatures)
         {
-            w.WriteStartObject();
-            w.WriteString("format", FormatName);
-            w.WriteNumber("formatVersion", FormatVersion);
-            w.WriteString("libraryVersion", Identity.LibraryVersion);
-            w.WriteString("landscapeKind", Identity.Kind);
-            w.WriteString("landscape", Identity.Landscape);
-            w.WriteString("landscapeFingerprint", Identity.Fingerprint);
-            w.WriteNumber("massInAtomicMassUnits", Identity.MassInAtomicMassUnits);
-            w.WriteStartArray("temperaturesInKelvin");
-            foreach (double t in Identity.Temperatures)
-            {
-                w.WriteNumberValue(t);
-            }
-            w.WriteEndArray();
-            w.WritePropertyName("settings");
-            SweepIdentity.WriteSettings(w, Identity.Settings);
-            w.WriteNumber("chainsPerVector", ChainsPerVector);
-            w.WriteNumber("temperaturesFinished", FinishedTemperatures);
-            w.WriteNumber("chainStepsDone", ChainStepsDone);
-            w.WriteNumber("chainStepsTotal", ChainStepsTotal);
-            w.WriteString("writtenUtc", DateTimeOffset.UtcNow.ToString("yyyy-MM-ddTHH:mm:ss.fffZ", CultureInfo.InvariantCulture));
-            if (ApplicationData is null)
-            {
-                w.WriteNull("applicationData");
-            }
-            else
-            {
-                w.WriteString("applicationData", ApplicationData);
-            }
-            w.WriteNumber("bodyBytes", bodyBytes);
-            w.WriteEndObject();
+            w.WriteNumberValue(t);
         }
-        buffer.WriteByte((byte)'\n'); // the JSON writer escapes control characters, so this is the only newline
-        return buffer.ToArray();
+        w.WriteEndArray();
+        w.WritePropertyName("settings");
+        SweepIdentity.WriteSettings(w, Identity.Settings);
+        w.WriteNumber("chainsPerVector", ChainsPerVector);
+        w.WriteNumber("temperaturesFinished", FinishedTemperatures);
+        w.WriteNumber("chainStepsDone", ChainStepsDone);
+        w.WriteNumber("chainStepsTotal", ChainStepsTotal);
+        w.WriteString("writtenUtc", DateTimeOffset.UtcNow.ToString("yyyy-MM-ddTHH:mm:ss.fffZ", CultureInfo.InvariantCulture));
+        if (ApplicationData is null)
+        {
+            w.WriteNull("applicationData");
+        }
+        else
+        {
+            w.WriteString("applicationData", ApplicationData);
+        }
     }
 
     private static SamplingCheckpoint Parse(JsonElement meta, byte[] body)
@@ -477,21 +366,6 @@ internal sealed record SweepIdentity(string Kind, string Landscape, string Finge
         return Convert.ToHexString(hash.GetHashAndReset()).ToLowerInvariant();
     }
 
-    private static IEnumerable<(string Name, string Value)> Compared(SamplingSettings s)
-    {
-        string R(double? v) => v is double d ? d.ToString("R", CultureInfo.InvariantCulture) : "null";
-        yield return (nameof(s.Seed), s.Seed.ToString(CultureInfo.InvariantCulture));
-        yield return (nameof(s.Method), s.Method.ToString());
-        yield return (nameof(s.Chains), s.Chains.ToString(CultureInfo.InvariantCulture));
-        yield return (nameof(s.SamplesPerChain), s.SamplesPerChain.ToString(CultureInfo.InvariantCulture));
-        yield return (nameof(s.BurnIn), s.BurnIn.ToString(CultureInfo.InvariantCulture));
-        yield return (nameof(s.TargetAcceptance), R(s.TargetAcceptance));
-        yield return (nameof(s.InitialStepWidthInAngstroms), R(s.InitialStepWidthInAngstroms));
-        yield return (nameof(s.HistogramBins), s.HistogramBins.ToString(CultureInfo.InvariantCulture));
-        yield return (nameof(s.MaxDiagnosticValuesPerChain), s.MaxDiagnosticValuesPerChain.ToString(CultureInfo.InvariantCulture));
-        yield return (nameof(s.RetainedDrawsPerChain), s.RetainedDrawsPerChain.ToString(CultureInfo.InvariantCulture));
-    }
-
     /// <summary>Each difference between this (the checkpoint) and <paramref name="run"/>, as a sentence.</summary>
     internal List<string> Differences(SweepIdentity run)
     {
@@ -518,77 +392,11 @@ internal sealed record SweepIdentity(string Kind, string Landscape, string Finge
             list.Add(string.Format(c, "its temperatures are [{0}] K, and this run's are [{1}] K.",
                 string.Join(", ", Temperatures.Select(t => t.ToString("R", c))), string.Join(", ", run.Temperatures.Select(t => t.ToString("R", c)))));
         }
-        foreach (var (a, b) in Compared(Settings).Zip(Compared(run.Settings)))
-        {
-            if (a.Value != b.Value)
-            {
-                list.Add($"its {a.Name} is {a.Value}, and this run's is {b.Value}.");
-            }
-        }
+        list.AddRange(SettingsFields.Differences(Settings, run.Settings));
         return list;
     }
 
-    internal static void WriteSettings(Utf8JsonWriter w, SamplingSettings s)
-    {
-        w.WriteStartObject();
-        w.WriteNumber("seed", s.Seed);
-        w.WriteString("method", s.Method.ToString());
-        w.WriteNumber("chains", s.Chains);
-        w.WriteNumber("samplesPerChain", s.SamplesPerChain);
-        w.WriteNumber("burnIn", s.BurnIn);
-        WriteOptional(w, "targetAcceptance", s.TargetAcceptance);
-        WriteOptional(w, "initialStepWidthInAngstroms", s.InitialStepWidthInAngstroms);
-        w.WriteNumber("histogramBins", s.HistogramBins);
-        w.WriteNumber("maxDiagnosticValuesPerChain", s.MaxDiagnosticValuesPerChain);
-        w.WriteNumber("retainedDrawsPerChain", s.RetainedDrawsPerChain);
-        WriteOptional(w, "maxThreads", s.MaxThreads);
-        WriteOptional(w, "chainsPerVector", s.ChainsPerVector);
-        w.WriteEndObject();
-    }
+    internal static void WriteSettings(Utf8JsonWriter w, SamplingSettings s) => SettingsFields.Write(w, s);
 
-    private static void WriteOptional(Utf8JsonWriter w, string name, double? value)
-    {
-        if (value is double v)
-        {
-            w.WriteNumber(name, v);
-        }
-        else
-        {
-            w.WriteNull(name);
-        }
-    }
-
-    internal static SamplingSettings ReadSettings(JsonElement e)
-    {
-        double? Optional(string name) => e.TryGetProperty(name, out var v) && v.ValueKind == JsonValueKind.Number ? v.GetDouble() : null;
-        JsonElement Required(string name) => e.TryGetProperty(name, out var v) ? v : throw new CheckpointException($"The checkpoint's settings lack \"{name}\".");
-        if (!Enum.TryParse<SamplingMethod>(Required("method").GetString(), ignoreCase: false, out var method))
-        {
-            throw new CheckpointException("The checkpoint's settings name an unknown method.");
-        }
-        var settings = new SamplingSettings
-        {
-            Seed = Required("seed").GetUInt64(),
-            Method = method,
-            Chains = Required("chains").GetInt32(),
-            SamplesPerChain = Required("samplesPerChain").GetInt64(),
-            BurnIn = Required("burnIn").GetInt64(),
-            TargetAcceptance = Optional("targetAcceptance"),
-            InitialStepWidthInAngstroms = Optional("initialStepWidthInAngstroms"),
-            HistogramBins = Required("histogramBins").GetInt32(),
-            MaxDiagnosticValuesPerChain = Required("maxDiagnosticValuesPerChain").GetInt32(),
-            RetainedDrawsPerChain = Required("retainedDrawsPerChain").GetInt32(),
-            MaxThreads = Optional("maxThreads") is double t ? (int)t : null,
-            ChainsPerVector = Optional("chainsPerVector") is double l ? (int)l : null,
-        };
-        try
-        {
-            settings.Validate();
-        }
-        catch (ArgumentException ex)
-        {
-            throw new CheckpointException("The checkpoint's settings are invalid: " + ex.Message, ex);
-        }
-        return settings;
-    }
+    internal static SamplingSettings ReadSettings(JsonElement e, string what = "checkpoint") => SettingsFields.Read(e, what);
 }

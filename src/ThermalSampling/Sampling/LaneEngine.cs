@@ -31,6 +31,9 @@ internal interface ILaneWalk<TD, TState>
     /// <summary>Clears the fault notes before a chunk.</summary>
     void ClearFaults(ref TState state);
 
+    /// <summary>Lane <paramref name="lane"/>'s four generator words (where its chain's stream stands).</summary>
+    void StreamState(in TState state, int lane, Span<ulong> words);
+
     /// <summary>
     /// Whether <see cref="ThrowIfFaulted"/> replays a faulted chunk from the state before it (to name the failing pair);
     /// only then does the engine copy the state before every chunk.
@@ -61,6 +64,32 @@ internal interface ILaneRecorder<TD, TSums>
 
     /// <summary>The batch just filled is the <paramref name="closed"/>-th closed in this chunk: stores its sums for the records and clears them.</summary>
     void CloseBatch(ref TSums sums, int closed);
+}
+
+/// <summary>Power sums of V − V_ref over the open moment block, per lane (what every recorder keeps of the energy's moments).</summary>
+/// <typeparam name="TD">Doubles, one per lane.</typeparam>
+[System.Runtime.InteropServices.StructLayout(System.Runtime.InteropServices.LayoutKind.Sequential)]
+internal struct LaneEnergySums<TD> where TD : struct
+{
+    internal TD S1, S2, S3, S4;
+}
+
+/// <summary>Adds to <see cref="LaneEnergySums{TD}"/>.</summary>
+internal static class LaneEnergySums
+{
+    /// <summary>Adds de = V − V_ref in every lane.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static void Add<TOps, TD, TB>(ref LaneEnergySums<TD> sums, TD de)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var de2 = TOps.Multiply(de, de);
+        sums.S1 = TOps.Add(sums.S1, de);
+        sums.S2 = TOps.Add(sums.S2, de2);
+        sums.S3 = TOps.Add(sums.S3, TOps.Multiply(de2, de));
+        sums.S4 = TOps.Add(sums.S4, TOps.Multiply(de2, de2));
+    }
 }
 
 /// <summary>A draw as the records see it: up to three coordinates (unused ones stay zero) and the potential energy, per lane.</summary>
@@ -171,6 +200,19 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
 
     /// <summary>The run is over: moves the tally's counts and kept draws into the records.</summary>
     private protected abstract void Complete();
+
+    /// <summary>Fills lane <paramref name="lane"/>'s record with what the engine knows at the end: counts, the frozen scale and the stream's position.</summary>
+    private protected void FinishRecord(ChainRecord record, int lane, long proposals, long accepted, double scale, long nearWall, long outsideBasin)
+    {
+        (record.Proposals, record.Accepted, record.ProposalScale, record.DrawsNearWall, record.DrawsOutsideBasin) = (proposals, accepted, scale, nearWall, outsideBasin);
+        Span<ulong> words = stackalloc ulong[4];
+        _walk.StreamState(State, lane, words);
+        record.SetStreamState(words);
+    }
+
+    /// <summary>Merges lane <paramref name="lane"/>'s block of energy power sums into <paramref name="record"/>.</summary>
+    private protected static void AddEnergyBlock(ChainRecord record, int lane, int count, in LaneEnergySums<TD> sums)
+        => record.AddEnergyBlock(count, TOps.Get(sums.S1, lane), TOps.Get(sums.S2, lane), TOps.Get(sums.S3, lane), TOps.Get(sums.S4, lane));
 
     /// <summary>Loads <paramref name="stream"/> into lane <paramref name="lane"/> of the four generator words.</summary>
     private protected static void SeedLane(ref TB r0, ref TB r1, ref TB r2, ref TB r3, int lane, in RandomStream stream)

@@ -130,8 +130,15 @@ internal class LaneTally
     /// <param name="coordinates">Values per draw (1 for a pair, 3 for a site).</param>
     /// <param name="batchValues">Sums kept per closed batch (2 per coordinate, and 2 for the energy).</param>
     /// <param name="batchSize">Draws per batch: a chunk of up to 4096 steps closes at most 4096/batchSize + 1 batches.</param>
-    internal LaneTally(BinCounter bins, int retained, int width, int lanes, int coordinates, int batchValues, int batchSize)
+    /// <param name="energyBins">Each live lane's energy histogram (its reference and bin width; the lanes' temperatures may differ).</param>
+    internal LaneTally(BinCounter bins, int retained, int width, int lanes, int coordinates, int batchValues, int batchSize, EnergyHistogram[] energyBins)
     {
+        EnergyCounts = new long[lanes * EnergyHistogram.Slots];
+        EnergyScales = new double[width];
+        for (int lane = 0; lane < width; lane++)
+        {
+            EnergyScales[lane] = 1 / energyBins[Math.Min(lane, lanes - 1)].BinWidthInElectronVolts;
+        }
         BinScale = bins.Scale;
         Bins = bins.Counts.Length;
         Lanes = lanes;
@@ -150,6 +157,7 @@ internal class LaneTally
     internal void Save(StateWriter w, long recorded)
     {
         w.Longs("LCNT", Counts);
+        w.Longs("LECN", EnergyCounts);
         long kept = Coordinates * Math.Min(recorded, Retained);
         for (int lane = 0; lane < Lanes; lane++)
         {
@@ -161,6 +169,7 @@ internal class LaneTally
     internal void Load(StateReader r, long recorded)
     {
         r.Longs("LCNT", Counts.Length).CopyTo(Counts, 0);
+        r.Longs("LECN", EnergyCounts.Length).CopyTo(EnergyCounts, 0);
         long kept = Coordinates * Math.Min(recorded, Retained);
         for (int lane = 0; lane < Lanes; lane++)
         {
@@ -179,6 +188,16 @@ internal class LaneTally
     /// <summary>Lane-major bin counts.</summary>
     internal long[] Counts { get; }
 
+    /// <summary>Lane-major energy histogram counts (<see cref="EnergyHistogram.Slots"/> per lane).</summary>
+    internal long[] EnergyCounts { get; }
+
+    /// <summary>1 / bin width of each lane's energy histogram, 1/eV.</summary>
+    internal double[] EnergyScales { get; }
+
+    /// <summary>Moves lane <paramref name="lane"/>'s energy counts into <paramref name="histogram"/>.</summary>
+    internal void CopyEnergyCounts(int lane, EnergyHistogram histogram)
+        => histogram.AddCounts(EnergyCounts.AsSpan(lane * EnergyHistogram.Slots, EnergyHistogram.Slots));
+
     /// <summary>Scratch for one vector's flat histogram indices.</summary>
     internal ulong[] Index { get; }
 
@@ -190,6 +209,58 @@ internal class LaneTally
 
     /// <summary>Sums of deviation and squared deviation per coordinate of the batches closed in a chunk: batch k, value v at (2·coordinates·k + v)·width.</summary>
     internal double[] BatchSums { get; }
+}
+
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
+/// <summary>Histogram counting inside the chunk loops, shared by every recorder.</summary>
+internal static class LaneCounting
+{
+    /// <summary>Lane offsets lane·slots into lane-major counts (padding lanes repeat the last live lane and are never counted).</summary>
+    internal static TB Offsets<TOps, TD, TB>(int slots, int lanes)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var offsets = TOps.BroadcastBits(0);
+        for (int lane = 0; lane < TOps.Count; lane++)
+        {
+            offsets = TOps.SetBits(offsets, lane, (ulong)(Math.Min(lane, lanes - 1) * slots));
+        }
+        return offsets;
+    }
+
+    /// <summary>
+    /// Counts slot ⌊t⌋ of each live lane, t already within [0, slots): the flat index lane·slots + ⌊t⌋ is formed in the
+    /// vector; only the increments are per lane.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static void Count<TOps, TD, TB>(TD t, TB offsets, ulong[] index, long[] counts, int lanes)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        TOps.StoreBits(TOps.AddBits(TOps.Truncate(t), offsets), ref index[0]);
+        for (int lane = 0; lane < lanes; lane++)
+        {
+            counts[index[lane]]++;
+        }
+    }
+
+    /// <summary>
+    /// The energy histogram's slot of V − V_ref in every lane: 0 below the reference, 1 + ⌊(V − V_ref)/w⌋ for the
+    /// <see cref="EnergyHistogram.Bins"/> bins, and the last slot at or beyond their end.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD EnergySlot<TOps, TD, TB>(TD de, TD scale)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        var t = TOps.MultiplyAdd(de, scale, TOps.Broadcast(1.0));
+        t = TOps.Select(TOps.LessThan(t, TOps.Broadcast(1.0)), TOps.Broadcast(0.0), t);
+        var last = TOps.Broadcast(EnergyHistogram.Slots - 1);
+        return TOps.Select(TOps.LessThan(t, last), t, last);
+    }
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit

@@ -15,15 +15,6 @@ using ThermalSampling.Units;
 
 namespace ThermalSampling.Sampling;
 
-/// <summary>What one pair chain hands back: its record, its accepted proposals and its frozen step width (0 for direct draws).</summary>
-internal sealed record PairChainOutcome(PairChainRecord Record, long Accepted, double Width);
-
-/// <summary>The records of every chain of a pair run at one temperature, in chain order, and how they were drawn.</summary>
-/// <param name="Chains">One outcome per chain.</param>
-/// <param name="Metropolis">Whether the chains are Metropolis walks (else direct draws).</param>
-/// <param name="TargetAcceptance">The Metropolis target acceptance.</param>
-internal sealed record PairRunRecord(PairChainOutcome[] Chains, bool Metropolis, double TargetAcceptance);
-
 /// <summary>
 /// The pair sampling step: runs the chains of one temperature (Metropolis walks on the lane engine, or direct
 /// inverse-CDF draws) and returns their records. It builds no report: <c>Reports.PairSummary</c> does that.
@@ -42,44 +33,31 @@ internal static class PairChains
     /// <param name="cancellationToken">Cancellation.</param>
     /// <param name="session">The checkpoint session, or null.</param>
     /// <param name="temperatureIndex">The temperature's index in the session.</param>
-    internal static PairRunRecord Sample<TPotential>(PairLandscape<TPotential> landscape, ExactPairDistribution exact, double reference, double initialWidth,
+    /// <param name="range">The chains to run.</param>
+    internal static TemperatureRecord Sample<TPotential>(PairLandscape<TPotential> landscape, ExactPairDistribution exact, double reference, double initialWidth,
         double targetAcceptance, Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken,
-        CheckpointSession? session, int temperatureIndex)
+        CheckpointSession? session, int temperatureIndex, ChainRange range)
         where TPotential : struct, IPairPotential
     {
         bool metropolis = settings.Method == SamplingMethod.Metropolis;
         var table = metropolis ? null : InverseCdfTable.Build(exact);
         int chains = settings.Chains;
         var quantile = metropolis ? StartQuantiles(exact) : null;
-        PairChainRecord NewRecord(int c) => new(
-            new BinCounter(landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins),
-            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, reference),
-            new DrawRecorder<double>(settings.SamplesPerChain, settings.RetainedDrawsPerChain),
-            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, exact.ReferenceEnergyInElectronVolts));
+        var layout = new RecordLayout(1, settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, settings.RetainedDrawsPerChain, [reference],
+            exact.ReferenceEnergyInElectronVolts, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins);
+        double binWidth = EnergyHistogram.BinWidthFor(temperature.ThermalEnergyInElectronVolts);
+        ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
 
-        PairChainOutcome[] results;
-        if (metropolis)
-        {
-            var plan = new PairLaneChains.Plan<TPotential>(landscape.Potential, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms,
-                1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial, initialWidth, targetAcceptance,
-                landscape.WindowWidthInAngstroms, settings.BurnIn, settings.SamplesPerChain, settings.Seed);
-            int lanes = session?.Lanes ?? LaneGroups.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
-            int groupCount = (chains + lanes - 1) / lanes;
-            var checkpoints = session?.Begin(temperatureIndex, groupCount) ?? GroupCheckpoints.None;
-            var groups = ChainScheduler.RunAll(groupCount, settings.MaxThreads, cancellationToken,
-                g => PairLaneChains.Run(lanes, plan, g * lanes, chains, c => quantile!(chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1)),
-                    NewRecord, NewReporter, checkpoints, g, cancellationToken));
-            results = groups.SelectMany(g => g).ToArray();
-        }
-        else
-        {
-            var checkpoints = session?.Begin(temperatureIndex, chains) ?? GroupCheckpoints.None;
-            results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken,
-                c => new DirectChain<TPotential>(table!, landscape.Potential, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
-        }
-        session?.End(temperatureIndex);
-        return new PairRunRecord(results, metropolis, targetAcceptance);
+        PairLaneChains.Plan<TPotential>? plan = metropolis ? new(landscape.Potential, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms,
+            1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial, initialWidth, targetAcceptance,
+            landscape.WindowWidthInAngstroms, settings.BurnIn, settings.SamplesPerChain, settings.Seed) : null;
+        var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
+            (lanes, first, end, checkpoints, g) => PairLaneChains.Run(lanes, plan!, first, end, c => quantile!(chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1)),
+                NewRecord, NewReporter, checkpoints, g, cancellationToken),
+            (c, checkpoints) => new DirectChain<TPotential>(table!, landscape.Potential, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
+        return new TemperatureRecord("pair", landscape.Description, Fingerprint(landscape), temperature, settings, targetAcceptance, 1, layout, [.. results],
+            Internal.LibraryVersion.Current);
     }
 
     /// <summary>The geometry, the exact window and the energies at 257 evenly spaced separations in it.</summary>
@@ -136,7 +114,7 @@ internal static class PairChains
     }
 
     /// <summary>One chain of direct draws from the inverse-CDF table, resumable at every 4096th draw.</summary>
-    private sealed class DirectChain<TPotential>(InverseCdfTable table, TPotential potential, SamplingSettings settings, int chain, PairChainRecord record, ProgressReporter progress)
+    private sealed class DirectChain<TPotential>(InverseCdfTable table, TPotential potential, SamplingSettings settings, int chain, ChainRecord record, ProgressReporter progress)
         : IResumableGroup
         where TPotential : struct, IPairPotential
     {
@@ -145,7 +123,7 @@ internal static class PairChains
 
         public long ChainStepsDone => _done;
 
-        internal PairChainOutcome Run(GroupCheckpoints checkpoints, CancellationToken ct)
+        internal ChainRecord Run(GroupCheckpoints checkpoints, CancellationToken ct)
         {
             if (checkpoints.SavedState(chain) is byte[] saved)
             {
@@ -164,11 +142,15 @@ internal static class PairChains
                     boundary.Reached(_done);
                 }
                 double r = table.Draw(ref _random);
-                record.Add(r, potential.Energy(r)); // a struct call the JIT inlines; the draw lies where the table's density is finite
+                record.AddSeparation(r, potential.Energy(r)); // a struct call the JIT inlines; the draw lies where the table's density is finite
             }
             checkpoints.Finished(chain, this);
             progress.Finish();
-            return new PairChainOutcome(record, n, 0);
+            (record.Proposals, record.Accepted) = (n, n);
+            Span<ulong> words = stackalloc ulong[4];
+            _random.GetState(words);
+            record.SetStreamState(words);
+            return record;
         }
 
         public void Save(StateWriter w)
@@ -179,68 +161,6 @@ internal static class PairChains
             w.Longs("DONE", [_done]);
             record.Save(w);
         }
-    }
-}
-
-/// <summary>Everything a pair chain records per draw: blocked moments, histogram, batch means and retained draws of the
-/// separation, and batch means of the potential energy (what reweighting across temperatures needs).</summary>
-internal sealed class PairChainRecord
-{
-    private BlockedMomentAccumulator _moments;
-    private MomentAccumulator? _completed;
-
-    internal PairChainRecord(BinCounter bins, BatchMeansStore store, DrawRecorder<double> draws, BatchMeansStore energies)
-    {
-        Bins = bins;
-        Store = store;
-        Draws = draws;
-        Energies = energies;
-    }
-
-    /// <summary>Batch means of V − V_ref and (V − V_ref)², with the same batches as <see cref="Store"/>.</summary>
-    internal BatchMeansStore Energies { get; }
-
-    internal BinCounter Bins { get; }
-
-    internal BatchMeansStore Store { get; }
-
-    internal DrawRecorder<double> Draws { get; }
-
-    /// <summary>Merges a block of raw power sums about <paramref name="reference"/> (the lane kernels' moment path).</summary>
-    internal void AddMomentBlock(int count, double reference, double s1, double s2, double s3, double s4)
-        => _moments.AddBlock(count, reference, s1, s2, s3, s4);
-
-    /// <summary>Writes the moments, batch means, histogram and retained draws.</summary>
-    internal void Save(StateWriter w)
-    {
-        _moments.Save(w);
-        Store.Save(w);
-        Energies.Save(w);
-        Bins.Save(w);
-        Draws.Save(w, 1);
-    }
-
-    /// <summary>Restores what <see cref="Save"/> wrote.</summary>
-    internal void Load(StateReader r)
-    {
-        _moments.Load(r);
-        Store.Load(r);
-        Energies.Load(r);
-        Bins.Load(r);
-        Draws.Load(r, 1);
-    }
-
-    /// <summary>The merged moments; read once the chain has finished.</summary>
-    internal MomentAccumulator Moments => _completed ??= _moments.Complete();
-
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal void Add(double r, double energy)
-    {
-        _moments.Add(r);
-        Bins.Add(r);
-        Store.Add(r);
-        Energies.Add(energy);
-        Draws.Add(r);
     }
 }
 

@@ -33,18 +33,18 @@ internal static class PairLaneChains
 
     /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond the chain count are computed and dropped),
     /// from the start or from the group's checkpointed state.</summary>
-    internal static PairChainOutcome[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start,
-        Func<int, PairChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
+    internal static ChainRecord[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start,
+        Func<int, ChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => LaneWidths.Dispatch<GroupJob<TPotential>, PairChainOutcome[]>(lanes, new(plan, firstChain, chains, start, record, progress, checkpoints, group, ct));
+        => LaneWidths.Dispatch<GroupJob<TPotential>, ChainRecord[]>(lanes, new(plan, firstChain, chains, start, record, progress, checkpoints, group, ct));
 
     /// <summary>A pair lane group at the width the dispatcher picks.</summary>
     private readonly record struct GroupJob<TPotential>(Plan<TPotential> Plan, int FirstChain, int Chains, Func<int, double> Start,
-        Func<int, PairChainRecord> Record, Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints, int Group, CancellationToken Ct)
-        : ILaneWidthJob<PairChainOutcome[]>
+        Func<int, ChainRecord> Record, Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints, int Group, CancellationToken Ct)
+        : ILaneWidthJob<ChainRecord[]>
         where TPotential : struct, IPairPotential
     {
-        public PairChainOutcome[] Run<TOps, TD, TB>()
+        public ChainRecord[] Run<TOps, TD, TB>()
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
@@ -59,35 +59,34 @@ internal static class PairLaneChains
         where TB : struct
         where TPotential : struct, IPairPotential
     {
-        private readonly PairChainRecord[] _records;
+        private readonly ChainRecord[] _records;
         private readonly Plan<TPotential> _plan;
         private readonly Tally _tally;
         private readonly Func<int, double> _start;
 
-        internal Group(Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start, Func<int, PairChainRecord> makeRecord,
+        internal Group(Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start, Func<int, ChainRecord> makeRecord,
             Func<int, ProgressReporter> makeProgress)
             : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, plan.TargetAcceptance, BlockedMomentAccumulator.BlockSize,
                 "PLGH", "LOGW", "pair chain group"), new PairWalk<TOps, TD, TB, TPotential>(plan), firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
         {
             _plan = plan;
             _start = start;
-            _records = new PairChainRecord[Live];
+            _records = new ChainRecord[Live];
             for (int lane = 0; lane < Live; lane++)
             {
                 _records[lane] = makeRecord(firstChain + lane);
             }
-            _tally = new Tally(_records[0], TOps.Count, Live);
+            _tally = new Tally(_records, TOps.Count);
         }
 
-        internal PairChainOutcome[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
+        internal ChainRecord[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
         {
             var stepWidth = RunLanes(checkpoints, group, ct);
-            var outcomes = new PairChainOutcome[Live];
             for (int lane = 0; lane < Live; lane++)
             {
-                outcomes[lane] = new PairChainOutcome(_records[lane], (long)TOps.Get(Sums.Accepted, lane), TOps.Get(stepWidth, lane));
+                FinishRecord(_records[lane], lane, _plan.Samples, (long)TOps.Get(Sums.Accepted, lane), TOps.Get(stepWidth, lane), 0, 0);
             }
-            return outcomes;
+            return _records;
         }
 
         private protected override void PlaceLane(int lane, int chain)
@@ -101,7 +100,7 @@ internal static class PairLaneChains
 
         private protected override void StartRecords() => Sums.BlockReference = State.Position;
 
-        private protected override int BatchSize => _records[0].Store.BatchSize;
+        private protected override int BatchSize => _records[0].Stores[0].BatchSize;
 
         private protected override void AddClosedBatches(int closed)
         {
@@ -109,7 +108,7 @@ internal static class PairLaneChains
             {
                 for (int lane = 0; lane < _records.Length; lane++)
                 {
-                    _records[lane].Store.AddBatchSums(_tally.BatchSums[4 * k * TOps.Count + lane], _tally.BatchSums[(4 * k + 1) * TOps.Count + lane]);
+                    _records[lane].Stores[0].AddBatchSums(_tally.BatchSums[4 * k * TOps.Count + lane], _tally.BatchSums[(4 * k + 1) * TOps.Count + lane]);
                     _records[lane].Energies.AddBatchSums(_tally.BatchSums[(4 * k + 2) * TOps.Count + lane], _tally.BatchSums[(4 * k + 3) * TOps.Count + lane]);
                 }
             }
@@ -119,11 +118,13 @@ internal static class PairLaneChains
         {
             for (int lane = 0; lane < _records.Length; lane++)
             {
-                _records[lane].AddMomentBlock(count, TOps.Get(Sums.BlockReference, lane), TOps.Get(Sums.S1, lane), TOps.Get(Sums.S2, lane),
+                _records[lane].AddSeparationBlock(count, TOps.Get(Sums.BlockReference, lane), TOps.Get(Sums.S1, lane), TOps.Get(Sums.S2, lane),
                     TOps.Get(Sums.S3, lane), TOps.Get(Sums.S4, lane));
+                AddEnergyBlock(_records[lane], lane, count, Sums.Energy);
             }
             var zero = TOps.Broadcast(0.0);
             Sums.S1 = Sums.S2 = Sums.S3 = Sums.S4 = zero;
+            Sums.Energy = default;
             Sums.BlockReference = State.Position;
         }
 
@@ -185,6 +186,9 @@ internal static class PairLaneChains
 
         public bool ReplaysFaults => false;
 
+        public void StreamState(in PairWalkState<TD, TB> state, int lane, Span<ulong> words)
+            => (words[0], words[1], words[2], words[3]) = (TOps.GetBits(state.R0, lane), TOps.GetBits(state.R1, lane), TOps.GetBits(state.R2, lane), TOps.GetBits(state.R3, lane));
+
         public void ThrowIfFaulted(in PairWalkState<TD, TB> state, in PairWalkState<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
             => LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(state.Faults, _potential.Description);
 
@@ -231,9 +235,9 @@ internal static class PairLaneChains
         where TD : struct
         where TB : struct
     {
-        private readonly TD _batchReference, _energyReference, _binLower, _binScale, _binCount, _lastBin;
-        private readonly TB _laneOffsets;
-        private readonly long[] _counts;
+        private readonly TD _batchReference, _energyReference, _binLower, _binScale, _binCount, _lastBin, _energyScale;
+        private readonly TB _laneOffsets, _energyOffsets;
+        private readonly long[] _counts, _energyCounts;
         private readonly ulong[] _index;
         private readonly double[] _scratch, _kept, _batchSums;
         private readonly long _keptStride, _done, _retain;
@@ -248,11 +252,14 @@ internal static class PairLaneChains
             _binCount = TOps.Broadcast(tally.Bins);
             _lastBin = TOps.Broadcast(tally.Bins - 1);
             _lanes = tally.Lanes;
-            _laneOffsets = TOps.BroadcastBits(0);
+            _laneOffsets = LaneCounting.Offsets<TOps, TD, TB>(tally.Bins, _lanes);
+            _energyOffsets = LaneCounting.Offsets<TOps, TD, TB>(EnergyHistogram.Slots, _lanes);
+            _energyScale = TOps.Broadcast(0.0);
             for (int lane = 0; lane < TOps.Count; lane++)
             {
-                _laneOffsets = TOps.SetBits(_laneOffsets, lane, (ulong)(Math.Min(lane, _lanes - 1) * tally.Bins)); // padding lanes are never counted
+                _energyScale = TOps.Set(_energyScale, lane, tally.EnergyScales[lane]);
             }
+            _energyCounts = tally.EnergyCounts;
             _counts = tally.Counts;
             _index = tally.Index;
             _scratch = tally.Scratch;
@@ -284,18 +291,14 @@ internal static class PairLaneChains
             var de = TOps.Subtract(point.Energy, _energyReference);
             sums.E1 = TOps.Add(sums.E1, de);
             sums.E2 = TOps.Add(sums.E2, TOps.Multiply(de, de));
+            LaneEnergySums.Add<TOps, TD, TB>(ref sums.Energy, de);
 
-            // Histogram: x is inside the window, so t = (x − lower)·scale is in [0, bins]; t = bins (the upper wall) goes to
-            // the last bin. The flat index lane·bins + ⌊t⌋ is formed in the vector; only the increments are per lane.
+            // Histograms: x is inside the window, so t = (x − lower)·scale is in [0, bins]; t = bins (the upper wall) goes to
+            // the last bin. Then the energy's slot.
             var t = TOps.Multiply(TOps.Subtract(x, _binLower), _binScale);
             t = TOps.Select(TOps.LessThan(t, _binCount), t, _lastBin);
-            var index = _index;
-            var counts = _counts;
-            TOps.StoreBits(TOps.AddBits(TOps.Truncate(t), _laneOffsets), ref index[0]);
-            for (int lane = 0; lane < _lanes; lane++)
-            {
-                counts[index[lane]]++;
-            }
+            LaneCounting.Count<TOps, TD, TB>(t, _laneOffsets, _index, _counts, _lanes);
+            LaneCounting.Count<TOps, TD, TB>(LaneCounting.EnergySlot<TOps, TD, TB>(de, _energyScale), _energyOffsets, _index, _energyCounts, _lanes);
             if (j < _retain)
             {
                 var scaled = _scratch;
@@ -321,23 +324,26 @@ internal static class PairLaneChains
     }
 
     /// <summary>The histogram counts and retained draws of a lane group, in flat arrays the inner loop can reach without calls.</summary>
-    internal sealed class Tally(PairChainRecord first, int width, int lanes) : LaneTally(first.Bins, first.Draws.Capacity, width, lanes, 1, batchValues: 4, first.Store.BatchSize)
+    internal sealed class Tally(ChainRecord[] records, int width)
+        : LaneTally(records[0].Bins, records[0].KeptSeparations.Capacity, width, records.Length, 1, batchValues: 4, records[0].Stores[0].BatchSize,
+            Array.ConvertAll(records, r => r.EnergyHistogram))
     {
-        internal double BatchReference { get; } = first.Store.Reference;
+        internal double BatchReference { get; } = records[0].Stores[0].Reference;
 
-        internal double EnergyReference { get; } = first.Energies.Reference;
+        internal double EnergyReference { get; } = records[0].EnergyReferenceInElectronVolts;
 
-        internal double BinLower { get; } = first.Bins.Lower;
+        internal double BinLower { get; } = records[0].Bins.Lower;
 
-        internal void CopyTo(PairChainRecord[] records, long samples)
+        internal void CopyTo(ChainRecord[] records, long samples)
         {
             long kept = Math.Min(samples, Retained);
             for (int lane = 0; lane < Lanes; lane++)
             {
                 records[lane].Bins.AddCounts(Counts.AsSpan(lane * Bins, Bins));
+                CopyEnergyCounts(lane, records[lane].EnergyHistogram);
                 for (long k = 0; k < kept; k++)
                 {
-                    records[lane].Draws.Add(Kept[lane * Retained + k]);
+                    records[lane].KeptSeparations.Add(Kept[lane * Retained + k]);
                 }
             }
         }
@@ -356,10 +362,11 @@ internal static class PairLaneChains
     }
 
     /// <summary>The line recorder's running sums in every lane: accepted proposals, the open moment block's power sums, the
-    /// open batch's sums of x and V, and the moment block's reference (saved word for word in this order).</summary>
+    /// open batch's sums of x and V, the moment block's reference, and the block's power sums of V − V_ref (saved word for word in this order).</summary>
     [StructLayout(LayoutKind.Sequential)]
     internal struct LineSums<TD> where TD : struct
     {
         internal TD Accepted, S1, S2, S3, S4, B1, B2, E1, E2, BlockReference;
+        internal LaneEnergySums<TD> Energy;
     }
 }

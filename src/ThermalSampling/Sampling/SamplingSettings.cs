@@ -1,6 +1,7 @@
 using System;
 using System.Collections.Generic;
 using System.Globalization;
+using System.Linq;
 
 namespace ThermalSampling.Sampling;
 
@@ -68,27 +69,7 @@ public sealed record SamplingSettings
     /// <summary>Throws one <see cref="ArgumentException"/> listing every invalid setting.</summary>
     public void Validate()
     {
-        var errors = new List<string>();
-        var c = CultureInfo.InvariantCulture;
-        void Check(bool ok, string name, object value, string range)
-        {
-            if (!ok)
-            {
-                errors.Add(string.Format(c, "{0} = {1} is out of range; valid: {2}.", name, value, range));
-            }
-        }
-        Check(Enum.IsDefined(Method), nameof(Method), Method, "Metropolis or Direct");
-        Check(Chains is >= 1 and <= 1024, nameof(Chains), Chains, "1 to 1024");
-        Check(SamplesPerChain is >= 10 and <= 1_000_000_000_000, nameof(SamplesPerChain), SamplesPerChain, "10 to 10^12");
-        Check(BurnIn is >= 0 and <= 1_000_000_000_000, nameof(BurnIn), BurnIn, "0 to 10^12");
-        Check(TargetAcceptance is null || (TargetAcceptance > 0 && TargetAcceptance < 1), nameof(TargetAcceptance), TargetAcceptance ?? 0, "null or strictly between 0 and 1");
-        Check(InitialStepWidthInAngstroms is null || (double.IsFinite(InitialStepWidthInAngstroms.Value) && InitialStepWidthInAngstroms > 0),
-            nameof(InitialStepWidthInAngstroms), InitialStepWidthInAngstroms ?? 0, "null or finite and greater than 0");
-        Check(HistogramBins is >= 4 and <= 10_000, nameof(HistogramBins), HistogramBins, "4 to 10000");
-        Check(MaxDiagnosticValuesPerChain is >= 64 and <= 10_000_000, nameof(MaxDiagnosticValuesPerChain), MaxDiagnosticValuesPerChain, "64 to 10^7");
-        Check(RetainedDrawsPerChain is >= 0 and <= 10_000_000, nameof(RetainedDrawsPerChain), RetainedDrawsPerChain, "0 to 10^7");
-        Check(MaxThreads is null or (>= 1 and <= 1024), nameof(MaxThreads), MaxThreads ?? 0, "null or 1 to 1024");
-        Check(ChainsPerVector is null or 1 or 2 or 4 or 8, nameof(ChainsPerVector), ChainsPerVector ?? 0, "null, 1, 2, 4 or 8");
+        var errors = SettingsFields.Problems(this).ToList(); // every field's range is declared once, in SettingsFields
         if (errors.Count > 0)
         {
             throw new ArgumentException("Invalid sampling settings: " + string.Join(" ", errors), "settings");

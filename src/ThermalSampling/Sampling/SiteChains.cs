@@ -14,18 +14,6 @@ using ThermalSampling.Units;
 
 namespace ThermalSampling.Sampling;
 
-/// <summary>What one site chain hands back: its moments, batch means per axis, radial bins, kept draws and counts.</summary>
-/// <remarks>Stores: the batch means of x, y, z and the potential energy (<see cref="SiteChains.EnergyStore"/>).</remarks>
-internal sealed record SiteChainOutcome(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws,
-    long Accepted, long Proposals, long NearWall, long OutsideBasin, double Scale);
-
-/// <summary>The records of every chain of a site run at one temperature, in chain order, and how they were drawn.</summary>
-/// <param name="Chains">One outcome per chain.</param>
-/// <param name="Metropolis">Whether the chains are Metropolis walks (else envelope-rejection draws).</param>
-/// <param name="TargetAcceptance">The Metropolis target acceptance.</param>
-/// <param name="SmallestModeRms">The smallest harmonic mode's RMS spread, Å (the unit of the walks' scale).</param>
-internal sealed record SiteRunRecord(SiteChainOutcome[] Chains, bool Metropolis, double TargetAcceptance, double SmallestModeRms);
-
 /// <summary>
 /// The site sampling step: runs the chains of one temperature (Metropolis walks on the lane engine with a proposal shaped
 /// like the harmonic covariance, or direct draws from a Gaussian envelope) and returns their records. Builds no report.
@@ -35,9 +23,9 @@ internal static class SiteChains
     private const double EnvelopeInflation = 1.3;
 
     /// <summary>Runs every chain of <paramref name="settings"/> at one temperature about the harmonic estimate <paramref name="harmonic"/>.</summary>
-    internal static SiteRunRecord Sample<TPotential>(SiteLandscape<TPotential> landscape, SiteHarmonicEstimate harmonic, double targetAcceptance,
+    internal static TemperatureRecord Sample<TPotential>(SiteLandscape<TPotential> landscape, SiteHarmonicEstimate harmonic, double targetAcceptance,
         Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken,
-        CheckpointSession? session, int temperatureIndex)
+        CheckpointSession? session, int temperatureIndex, ChainRange range)
         where TPotential : struct, IPairPotential
     {
         double target = targetAcceptance;
@@ -57,42 +45,21 @@ internal static class SiteChains
 
         var basin = SiteBasins.MapWithGrid(landscape, min).Grid;
         Envelope? envelope = metropolis ? null : Envelope.Build(kernel, min, cholesky, logWeightMin, landscape, settings.Seed);
-        int chains = settings.Chains;
-        BatchMeansStore[] NewStores() => new[]
-        {
-            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.X),
-            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Y),
-            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, min.Z),
-            new BatchMeansStore(settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, harmonic.MinimumEnergyInElectronVolts), // the potential energy
-        };
-        BinCounter NewRadial() => new(0, radialMax, settings.HistogramBins);
-        DrawRecorder<Position> NewDraws() => new(settings.SamplesPerChain, settings.RetainedDrawsPerChain);
+        var layout = new RecordLayout(3, settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, settings.RetainedDrawsPerChain, [min.X, min.Y, min.Z],
+            harmonic.MinimumEnergyInElectronVolts, 0, radialMax, settings.HistogramBins);
+        double binWidth = EnergyHistogram.BinWidthFor(temperature.ThermalEnergyInElectronVolts);
+        ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
 
-        SiteChainOutcome[] results;
-        if (metropolis)
-        {
-            var plan = new SiteLaneChains.Plan<TPotential>(landscape.Potential, landscape.PackedCoordinates.ToArray(), landscape.Centre, landscape.Confinement,
-                min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, WallBand(cholesky),
-                settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description, basin);
-            int lanes = session?.Lanes ?? LaneGroups.ChooseLanes(chains, settings.MaxThreads ?? Environment.ProcessorCount, settings.ChainsPerVector);
-            int groupCount = (chains + lanes - 1) / lanes;
-            var checkpoints = session?.Begin(temperatureIndex, groupCount) ?? GroupCheckpoints.None;
-            var groups = ChainScheduler.RunAll(groupCount, settings.MaxThreads, cancellationToken,
-                g => SiteLaneChains.Run(lanes, plan, g * lanes, chains, c => StartOfChain(landscape, min, cholesky, settings.Seed, c),
-                    c => (NewStores(), NewRadial(), NewDraws()), NewReporter, checkpoints, g, cancellationToken));
-            results = groups.SelectMany(g => g)
-                .Select(o => new SiteChainOutcome(o.Moments, o.Stores, o.Radial, o.Draws, o.Accepted, settings.SamplesPerChain, o.NearWall, o.OutsideBasin, o.Scale)).ToArray();
-        }
-        else
-        {
-            var checkpoints = session?.Begin(temperatureIndex, chains) ?? GroupCheckpoints.None;
-            results = ChainScheduler.RunAll(chains, settings.MaxThreads, cancellationToken,
-                c => new DirectChain<TPotential>(kernel, landscape, min, envelope!, basin, settings, c, NewStores(), NewRadial(), NewDraws(), NewReporter(c)).Run(checkpoints, cancellationToken));
-        }
-        session?.End(temperatureIndex);
-
-        return new SiteRunRecord(results, metropolis, target, sigmaMin);
+        SiteLaneChains.Plan<TPotential>? plan = metropolis ? new(landscape.Potential, landscape.PackedCoordinates.ToArray(), landscape.Centre, landscape.Confinement,
+            min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, WallBand(cholesky),
+            settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description, basin) : null;
+        var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
+            (lanes, first, end, checkpoints, g) => SiteLaneChains.Run(lanes, plan!, first, end, c => StartOfChain(landscape, min, cholesky, settings.Seed, c),
+                NewRecord, NewReporter, checkpoints, g, cancellationToken),
+            (c, checkpoints) => new DirectChain<TPotential>(kernel, landscape, min, envelope!, basin, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
+        return new TemperatureRecord("sites", landscape.Description, Fingerprint(landscape), temperature, settings, target, sigmaMin, layout, [.. results],
+            Internal.LibraryVersion.Current);
     }
 
     /// <summary>The exact sites, centre and confinement, and the energies on a 9×9×9 grid across the confinement, as one fingerprint.</summary>
@@ -154,30 +121,18 @@ internal static class SiteChains
     private static double WallBand(Matrix<double> cholesky) => Math.Sqrt(cholesky.Multiply(cholesky.Transpose()).Trace() / 3);
 
     /// <summary>The index of the potential energy's batch-means store among a site chain's stores (after x, y and z).</summary>
-    internal const int EnergyStore = 3;
-
-    private static void Record(double x, double y, double z, Position min, ref CovarianceAccumulator moments, BatchMeansStore[] stores, BinCounter radial)
-    {
-        moments.Add(x, y, z);
-        stores[0].Add(x);
-        stores[1].Add(y);
-        stores[2].Add(z);
-        double dx = x - min.X, dy = y - min.Y, dz = z - min.Z;
-        radial.Add(Math.Sqrt(dx * dx + dy * dy + dz * dz));
-    }
 
     /// <summary>One chain of envelope-rejection draws, resumable at every 4096th accepted draw.</summary>
     private sealed class DirectChain<TPotential>(SiteWeight<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min, Envelope envelope,
-        BasinGrid basin, SamplingSettings settings, int chain, BatchMeansStore[] stores, BinCounter radial, DrawRecorder<Position> draws, ProgressReporter progress) : IResumableGroup
+        BasinGrid basin, SamplingSettings settings, int chain, ChainRecord record, ProgressReporter progress) : IResumableGroup
         where TPotential : struct, IPairPotential
     {
         private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
-        private CovarianceAccumulator _moments;
         private long _done, _proposals, _nearWall, _outsideBasin;
 
         public long ChainStepsDone => _done;
 
-        internal SiteChainOutcome Run(GroupCheckpoints checkpoints, CancellationToken ct)
+        internal ChainRecord Run(GroupCheckpoints checkpoints, CancellationToken ct)
         {
             if (checkpoints.SavedState(chain) is byte[] saved)
             {
@@ -208,9 +163,7 @@ internal static class SiteChains
                     }
                     if (Math.Log(_random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
                     {
-                        Record(x, y, z, min, ref _moments, stores, radial);
-                        stores[EnergyStore].Add(landscape.Energy(new Position(x, y, z)));
-                        draws.Add(new Position(x, y, z));
+                        record.AddPosition(x, y, z, landscape.Energy(new Position(x, y, z)), min);
                         if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, band))
                         {
                             _nearWall++;
@@ -225,7 +178,11 @@ internal static class SiteChains
             }
             checkpoints.Finished(chain, this);
             progress.Finish();
-            return new SiteChainOutcome(_moments, stores, radial, draws, settings.SamplesPerChain, _proposals, _nearWall, _outsideBasin, 0);
+            (record.Proposals, record.Accepted, record.DrawsNearWall, record.DrawsOutsideBasin) = (_proposals, settings.SamplesPerChain, _nearWall, _outsideBasin);
+            Span<ulong> words = stackalloc ulong[4];
+            _random.GetState(words);
+            record.SetStreamState(words);
+            return record;
         }
 
         public void Save(StateWriter w)
@@ -234,13 +191,7 @@ internal static class SiteChains
             _random.GetState(state);
             w.Words("RAND", state);
             w.Longs("DONE", [_done, _proposals, _nearWall, _outsideBasin]);
-            _moments.Save(w);
-            foreach (var store in stores)
-            {
-                store.Save(w);
-            }
-            radial.Save(w);
-            draws.Save(w, 3);
+            record.Save(w);
         }
 
         private void Load(StateReader r)
@@ -251,13 +202,7 @@ internal static class SiteChains
             _proposals = r.InRange(counts[1], _done, long.MaxValue, "the proposals");
             _nearWall = r.InRange(counts[2], 0, _done, "the draws near the wall");
             _outsideBasin = r.InRange(counts[3], 0, _done, "the draws outside the basin");
-            _moments = CovarianceAccumulator.Load(r);
-            foreach (var store in stores)
-            {
-                store.Load(r);
-            }
-            radial.Load(r);
-            draws.Load(r, 3);
+            record.Load(r);
             r.End();
         }
     }

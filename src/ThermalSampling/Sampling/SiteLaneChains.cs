@@ -25,10 +25,6 @@ internal static class SiteLaneChains
 {
     private const int BlockSize = 4096;
 
-    /// <summary>What one chain hands back.</summary>
-    internal sealed record ChainOutcome(CovarianceAccumulator Moments, BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws,
-        long Accepted, long NearWall, long OutsideBasin, double Scale);
-
     /// <summary>Everything fixed for a run.</summary>
     internal sealed record Plan<TPotential>(TPotential Potential, double[] Sites, Position Centre, Confinement Confinement, Position Minimum,
         double L00, double L10, double L11, double L20, double L21, double L22, double Beta, double InitialScale, double TargetAcceptance,
@@ -42,20 +38,17 @@ internal static class SiteLaneChains
     /// <summary>Per chain: its stream advanced past the start-point draws, and the start.</summary>
     internal delegate (RandomStream Stream, Position Start) ChainStart(int chain);
 
-    /// <summary>Per chain: its three batch-mean stores, radial histogram and retained draws.</summary>
-    internal delegate (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws) ChainRecord(int chain);
-
-    internal static ChainOutcome[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, ChainStart start, ChainRecord record,
+    internal static ChainRecord[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, ChainStart start, Func<int, ChainRecord> record,
         Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => LaneWidths.Dispatch<GroupJob<TPotential>, ChainOutcome[]>(lanes, new(plan, firstChain, chains, start, record, progress, checkpoints, group, ct));
+        => LaneWidths.Dispatch<GroupJob<TPotential>, ChainRecord[]>(lanes, new(plan, firstChain, chains, start, record, progress, checkpoints, group, ct));
 
     /// <summary>A site lane group at the width the dispatcher picks.</summary>
-    private readonly record struct GroupJob<TPotential>(Plan<TPotential> Plan, int FirstChain, int Chains, ChainStart Start, ChainRecord Record,
-        Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints, int Group, CancellationToken Ct) : ILaneWidthJob<ChainOutcome[]>
+    private readonly record struct GroupJob<TPotential>(Plan<TPotential> Plan, int FirstChain, int Chains, ChainStart Start, Func<int, ChainRecord> Record,
+        Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints, int Group, CancellationToken Ct) : ILaneWidthJob<ChainRecord[]>
         where TPotential : struct, IPairPotential
     {
-        public ChainOutcome[] Run<TOps, TD, TB>()
+        public ChainRecord[] Run<TOps, TD, TB>()
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
@@ -71,37 +64,33 @@ internal static class SiteLaneChains
         where TPotential : struct, IPairPotential
     {
         private readonly Plan<TPotential> _plan;
-        private readonly (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] _records;
-        private readonly CovarianceAccumulator[] _moments;
+        private readonly ChainRecord[] _records;
         private readonly SiteTally _tally;
         private readonly ChainStart _start;
 
-        internal Group(Plan<TPotential> plan, int firstChain, int chains, ChainStart start, ChainRecord makeRecord, Func<int, ProgressReporter> makeProgress)
+        internal Group(Plan<TPotential> plan, int firstChain, int chains, ChainStart start, Func<int, ChainRecord> makeRecord, Func<int, ProgressReporter> makeProgress)
             : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialScale, plan.MaxScale, plan.TargetAcceptance, BlockSize, "SLGH", "LOGS", "site chain group"),
                 new SiteWalk<TOps, TD, TB, TPotential>(plan), firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
         {
             _plan = plan;
             _start = start;
-            _records = new (BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[Live];
+            _records = new ChainRecord[Live];
             for (int lane = 0; lane < Live; lane++)
             {
                 _records[lane] = makeRecord(firstChain + lane);
             }
-            _moments = new CovarianceAccumulator[Live];
-            _tally = new SiteTally(_records[0].Radial, _records[0].Draws.Capacity, TOps.Count, Live, _records[0].Stores[0].BatchSize, plan.Basin, plan.Minimum,
-                plan.Confinement, plan.Centre, plan.WallBand, _records[0].Stores[SiteChains.EnergyStore].Reference);
+            _tally = new SiteTally(_records, TOps.Count, plan.Basin, plan.Minimum, plan.Confinement, plan.Centre, plan.WallBand);
         }
 
-        internal ChainOutcome[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
+        internal ChainRecord[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
         {
             var scale = RunLanes(checkpoints, group, ct);
-            var outcomes = new ChainOutcome[Live];
             for (int lane = 0; lane < Live; lane++)
             {
-                outcomes[lane] = new ChainOutcome(_moments[lane], _records[lane].Stores, _records[lane].Radial, _records[lane].Draws,
-                    (long)TOps.Get(Sums.Accepted, lane), (long)TOps.Get(Sums.NearWall, lane), _tally.OutsideBasin[lane], TOps.Get(scale, lane));
+                FinishRecord(_records[lane], lane, _plan.Samples, (long)TOps.Get(Sums.Accepted, lane), TOps.Get(scale, lane), (long)TOps.Get(Sums.NearWall, lane),
+                    _tally.OutsideBasin[lane]);
             }
-            return outcomes;
+            return _records;
         }
 
         private protected override void PlaceLane(int lane, int chain)
@@ -140,26 +129,21 @@ internal static class SiteLaneChains
             ref var s = ref Sums;
             for (int lane = 0; lane < _records.Length; lane++)
             {
-                var block = CovarianceAccumulator.FromRawSums(count, minimum.X, minimum.Y, minimum.Z,
+                _records[lane].AddPositionBlock(CovarianceAccumulator.FromRawSums(count, minimum.X, minimum.Y, minimum.Z,
                     TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane), TOps.Get(s.XX, lane), TOps.Get(s.YY, lane), TOps.Get(s.ZZ, lane),
-                    TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane));
-                _moments[lane] = CovarianceAccumulator.Merge(_moments[lane], block);
+                    TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane)));
+                AddEnergyBlock(_records[lane], lane, count, s.Energy);
             }
             var zero = TOps.Broadcast(0.0);
             s.X = s.Y = s.Z = s.XX = s.YY = s.ZZ = s.XY = s.XZ = s.YZ = zero;
+            s.Energy = default;
         }
 
         private protected override void SaveRecords(StateWriter w)
         {
-            for (int lane = 0; lane < Live; lane++)
+            foreach (var record in _records)
             {
-                _moments[lane].Save(w);
-                foreach (var store in _records[lane].Stores)
-                {
-                    store.Save(w);
-                }
-                _records[lane].Radial.Save(w);
-                _records[lane].Draws.Save(w, 3);
+                record.Save(w);
             }
             _tally.Save(w, RecordedSteps);
             w.Longs("OUTB", _tally.OutsideBasin);
@@ -167,15 +151,9 @@ internal static class SiteLaneChains
 
         private protected override void LoadRecords(StateReader r)
         {
-            for (int lane = 0; lane < Live; lane++)
+            foreach (var record in _records)
             {
-                _moments[lane] = CovarianceAccumulator.Load(r);
-                foreach (var store in _records[lane].Stores)
-                {
-                    store.Load(r);
-                }
-                _records[lane].Radial.Load(r);
-                _records[lane].Draws.Load(r, 3);
+                record.Load(r);
             }
             _tally.Load(r, RecordedSteps);
             r.Longs("OUTB", _tally.OutsideBasin.Length).CopyTo(_tally.OutsideBasin, 0);
@@ -280,6 +258,9 @@ internal static class SiteLaneChains
 
         public bool ReplaysFaults => true;
 
+        public void StreamState(in SiteWalkState<TD, TB> state, int lane, Span<ulong> words)
+            => (words[0], words[1], words[2], words[3]) = (TOps.GetBits(state.R0, lane), TOps.GetBits(state.R1, lane), TOps.GetBits(state.R2, lane), TOps.GetBits(state.R3, lane));
+
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         public LanePoint<TD> Point(in SiteWalkState<TD, TB> state) => new(state.X, state.Y, state.Z, state.Energy);
 
@@ -373,9 +354,9 @@ internal static class SiteLaneChains
         where TB : struct
     {
         private readonly LaneConfinement<TOps, TD, TB> _confinement;
-        private readonly TD _minX, _minY, _minZ, _energyReference, _binScale, _binCount, _lastBin, _gridX0, _gridY0, _gridZ0, _gridScale, _gridN;
-        private readonly TB _laneOffsets;
-        private readonly long[] _counts, _outsideBasin;
+        private readonly TD _minX, _minY, _minZ, _energyReference, _binScale, _binCount, _lastBin, _gridX0, _gridY0, _gridZ0, _gridScale, _gridN, _energyScale;
+        private readonly TB _laneOffsets, _energyOffsets;
+        private readonly long[] _counts, _outsideBasin, _energyCounts;
         private readonly ulong[] _index;
         private readonly byte[] _outsideMask;
         private readonly double[] _scratch, _kept, _batchSums;
@@ -393,11 +374,14 @@ internal static class SiteLaneChains
             _binCount = TOps.Broadcast(tally.Bins);
             _lastBin = TOps.Broadcast(tally.Bins - 1);
             _lanes = tally.Lanes;
-            _laneOffsets = TOps.BroadcastBits(0);
+            _laneOffsets = LaneCounting.Offsets<TOps, TD, TB>(tally.Bins, _lanes);
+            _energyOffsets = LaneCounting.Offsets<TOps, TD, TB>(EnergyHistogram.Slots, _lanes);
+            _energyScale = TOps.Broadcast(0.0);
             for (int lane = 0; lane < TOps.Count; lane++)
             {
-                _laneOffsets = TOps.SetBits(_laneOffsets, lane, (ulong)(Math.Min(lane, _lanes - 1) * tally.Bins)); // padding lanes are never counted
+                _energyScale = TOps.Set(_energyScale, lane, tally.EnergyScales[lane]);
             }
+            _energyCounts = tally.EnergyCounts;
             _counts = tally.Counts;
             _index = tally.Index;
             var grid = tally.Basin;
@@ -445,6 +429,7 @@ internal static class SiteLaneChains
             var de = TOps.Subtract(point.Energy, _energyReference); // the same batches of V − V_min (what reweighting needs)
             s.BE = TOps.Add(s.BE, de);
             s.BEE = TOps.Add(s.BEE, TOps.Multiply(de, de));
+            LaneEnergySums.Add<TOps, TD, TB>(ref s.Energy, de);
 
             // The near-wall fraction (within the band of the wall) and the radial histogram about the minimum.
             _confinement.Inside(point.X, point.Y, point.Z, out var near);
@@ -452,13 +437,9 @@ internal static class SiteLaneChains
             var t = TOps.Multiply(TOps.Sqrt(TOps.Add(TOps.Add(TOps.Multiply(mx, mx), TOps.Multiply(my, my)), TOps.Multiply(mz, mz))), _binScale);
             t = TOps.Select(TOps.LessThan(t, _binCount), t, _lastBin);
             var index = _index;
-            var counts = _counts;
             int lanes = _lanes;
-            TOps.StoreBits(TOps.AddBits(TOps.Truncate(t), _laneOffsets), ref index[0]);
-            for (int lane = 0; lane < lanes; lane++)
-            {
-                counts[index[lane]]++;
-            }
+            LaneCounting.Count<TOps, TD, TB>(t, _laneOffsets, index, _counts, lanes);
+            LaneCounting.Count<TOps, TD, TB>(LaneCounting.EnergySlot<TOps, TD, TB>(de, _energyScale), _energyOffsets, index, _energyCounts, lanes);
 
             // Basin membership by the nearest point of the basin grid, only when the confinement reaches outside the basin
             // (a loop-invariant branch): i = round((x − x0)/h) by adding and removing 2^52 (exact for 0 ≤ t < 2^51), the
@@ -517,14 +498,14 @@ internal static class SiteLaneChains
     /// <summary>Histogram counts, batch sums and retained draws of a lane group, in flat arrays the inner loop reaches without calls.</summary>
     internal sealed class SiteTally : LaneTally
     {
-        internal SiteTally(BinCounter radial, int retained, int width, int lanes, int batchSize, BasinGrid basin, Position minimum, Confinement confinement,
-            Position centre, double wallBand, double energyReference)
-            : base(radial, retained, width, lanes, 3, batchValues: 8, batchSize)
+        internal SiteTally(ChainRecord[] records, int width, BasinGrid basin, Position minimum, Confinement confinement, Position centre, double wallBand)
+            : base(records[0].Bins, records[0].KeptPositions.Capacity, width, records.Length, 3, batchValues: 8, records[0].Stores[0].BatchSize,
+                Array.ConvertAll(records, r => r.EnergyHistogram))
         {
-            EnergyReference = energyReference;
+            EnergyReference = records[0].EnergyReferenceInElectronVolts;
             Basin = basin;
             Minimum = minimum;
-            OutsideBasin = new long[lanes];
+            OutsideBasin = new long[records.Length];
             Confinement = (confinement, centre, wallBand);
         }
 
@@ -543,16 +524,17 @@ internal static class SiteLaneChains
         /// <summary>The confinement and wall band, for the near-wall count.</summary>
         internal (Confinement Confinement, Position Centre, double WallBand) Confinement { get; }
 
-        internal void CopyTo((BatchMeansStore[] Stores, BinCounter Radial, DrawRecorder<Position> Draws)[] records, long samples)
+        internal void CopyTo(ChainRecord[] records, long samples)
         {
             long kept = Math.Min(samples, Retained);
             for (int lane = 0; lane < Lanes; lane++)
             {
-                records[lane].Radial.AddCounts(Counts.AsSpan(lane * Bins, Bins));
+                records[lane].Bins.AddCounts(Counts.AsSpan(lane * Bins, Bins));
+                CopyEnergyCounts(lane, records[lane].EnergyHistogram);
                 for (long k = 0; k < kept; k++)
                 {
                     long row = 3 * (lane * (long)Retained + k);
-                    records[lane].Draws.Add(new Position(Kept[row], Kept[row + 1], Kept[row + 2]));
+                    records[lane].KeptPositions.Add(new Position(Kept[row], Kept[row + 1], Kept[row + 2]));
                 }
             }
         }
@@ -583,4 +565,5 @@ internal struct SiteWalkState<TD, TB>
 internal struct SiteSums<TD> where TD : struct
 {
     internal TD Accepted, NearWall, X, Y, Z, XX, YY, ZZ, XY, XZ, YZ, BX, BY, BZ, BXX, BYY, BZZ, BE, BEE;
+    internal LaneEnergySums<TD> Energy;
 }
