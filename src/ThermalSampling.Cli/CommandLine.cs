@@ -77,7 +77,7 @@ internal static class CommandLine
             Description = $"How many temperatures, evenly spaced from --from to --to (1 to {ScenarioReader.MaximumTemperatures}).",
             HelpName = "N",
             Required = true,
-            CustomParser = r => int.TryParse(r.Tokens.Single().Value, NumberStyles.None, CultureInfo.InvariantCulture, out int n) && n is >= 1 and <= ScenarioReader.MaximumTemperatures
+            CustomParser = r => int.TryParse(r.Tokens.Single().Value, NumberStyles.None, CultureInfo.InvariantCulture, out int n) && n >= 1 && n <= ScenarioReader.MaximumTemperatures
                 ? n : Fail<int?>(r, $"--count needs a whole number from 1 to {ScenarioReader.MaximumTemperatures}."),
         };
 

@@ -60,13 +60,15 @@ internal sealed record LandscapeSpec(string Kind, double WindowLower, double Win
 internal static class ScenarioReader
 {
     internal const int MaximumBytes = 16 * 1024 * 1024;
-    internal const int MaximumTemperatures = 10_000;
+    internal static readonly int MaximumTemperatures = ScenarioSchema.At("properties/temperatures").MaxItems;
 
     /// <summary>The lightest mass a scenario may give, u.</summary>
-    internal const double MinimumMass = 0.5;
+    internal static readonly double MinimumMass = ScenarioSchema.At("properties/mass").Minimum;
 
     /// <summary>The heaviest mass a scenario may give, u.</summary>
-    internal const double MaximumMass = 1000;
+    internal static readonly double MaximumMass = ScenarioSchema.At("properties/mass").Maximum;
+
+    private const string Potential = "properties/potential/oneOf", Landscape = "properties/landscape/oneOf", Sampling = "properties/sampling/properties/";
 
     private sealed class Context
     {
@@ -127,7 +129,19 @@ internal static class ScenarioReader
             return s;
         }
 
-        internal double? Number(JsonElement parent, string key, string path, bool required, double min, double max, bool exclusiveMin = false)
+        /// <summary>A number within the schema's <paramref name="bounds"/>.</summary>
+        internal double? Number(JsonElement parent, string key, string path, bool required, Bounds bounds)
+            => Number(parent, key, path, required, bounds.Minimum, bounds.Maximum, bounds.ExclusiveMinimum);
+
+        /// <summary>An array of numbers within the schema's <paramref name="bounds"/> (its length and its items' range).</summary>
+        internal double[]? Numbers(JsonElement parent, string key, string path, bool required, Bounds bounds)
+            => Numbers(parent, key, path, required, bounds.MinItems, bounds.MaxItems, bounds.Minimum, bounds.Maximum, bounds.ExclusiveMinimum);
+
+        /// <summary>A whole number within the schema's <paramref name="bounds"/>.</summary>
+        internal long? Integer(JsonElement parent, string key, string path, bool required, Bounds bounds)
+            => Integer(parent, key, path, required, (long)bounds.Minimum, (long)bounds.Maximum);
+
+        private double? Number(JsonElement parent, string key, string path, bool required, double min, double max, bool exclusiveMin = false)
         {
             if (!parent.TryGetProperty(key, out var e))
             {
@@ -172,7 +186,7 @@ internal static class ScenarioReader
             return v;
         }
 
-        internal long? Integer(JsonElement parent, string key, string path, bool required, long min, long max)
+        private long? Integer(JsonElement parent, string key, string path, bool required, long min, long max)
         {
             if (!parent.TryGetProperty(key, out var e))
             {
@@ -195,7 +209,7 @@ internal static class ScenarioReader
             return v;
         }
 
-        internal double[]? Numbers(JsonElement parent, string key, string path, bool required, int minCount, int maxCount, double min, double max, bool exclusiveMin = false)
+        private double[]? Numbers(JsonElement parent, string key, string path, bool required, int minCount, int maxCount, double min, double max, bool exclusiveMin = false)
         {
             if (!parent.TryGetProperty(key, out var e))
             {
@@ -317,15 +331,15 @@ internal static class ScenarioReader
         double e = ScenarioUnits.Energy[energyUnit], l = ScenarioUnits.Length[lengthUnit];
         // Atoms weigh from about 1 u (hydrogen) to about 300 u; 0.5 to 1000 u leaves room for reduced masses and clusters.
         // A number far outside is almost certainly a mass in kg or g typed where u is expected.
-        double mass = c.Number(root, "mass", "$", true, 0, 1e6, exclusiveMin: true) ?? 1;
-        if (mass is > 0 and (< MinimumMass or > MaximumMass))
+        double mass = c.Number(root, "mass", "$", true, new Bounds(0, double.MaxValue, true, 0, 0)) ?? 1;
+        if (mass > 0 && (mass < MinimumMass || mass > MaximumMass)) // the schema's range, with words for the likely mistake
         {
             c.Add("$.mass", string.Create(CultureInfo.InvariantCulture,
                 $"{mass:G4} is outside {MinimumMass}–{MaximumMass} u: the mass is in atomic mass units (u), not kg or g (an atom of 40 u weighs 6.6e-26 kg)."));
         }
         var potential = ReadPotential(c, root, e, l);
         var landscape = ReadLandscape(c, root, l);
-        var temperatures = c.Numbers(root, "temperatures", "$", true, 1, MaximumTemperatures, 0, 1e7, exclusiveMin: true) ?? Array.Empty<double>();
+        var temperatures = c.Numbers(root, "temperatures", "$", true, ScenarioSchema.At("properties/temperatures")) ?? Array.Empty<double>();
         var duplicate = temperatures.GroupBy(t => t).FirstOrDefault(g => g.Count() > 1);
         if (duplicate is not null)
         {
@@ -370,37 +384,37 @@ internal static class ScenarioReader
                 if (sigmaForm)
                 {
                     c.CheckKeys(p, path, "form", "sigma", "epsilon");
-                    Put("sigma", c.Number(p, "sigma", path, true, 0, 1e4, true), l);
-                    Put("epsilon", c.Number(p, "epsilon", path, true, 0, 1e9, true), e);
+                    Put("sigma", c.Number(p, "sigma", path, true, ScenarioSchema.At(Potential + "[sigma]/properties/sigma")), l);
+                    Put("epsilon", c.Number(p, "epsilon", path, true, ScenarioSchema.At(Potential + "[sigma]/properties/epsilon")), e);
                 }
                 else
                 {
                     c.CheckKeys(p, path, "form", "equilibriumDistance", "wellDepth");
-                    Put("equilibriumDistance", c.Number(p, "equilibriumDistance", path, true, 0, 1e4, true), l);
-                    Put("wellDepth", c.Number(p, "wellDepth", path, true, 0, 1e9, true), e);
+                    Put("equilibriumDistance", c.Number(p, "equilibriumDistance", path, true, ScenarioSchema.At(Potential + "[form=lennard-jones,wellDepth]/properties/equilibriumDistance")), l);
+                    Put("wellDepth", c.Number(p, "wellDepth", path, true, ScenarioSchema.At(Potential + "[form=lennard-jones,wellDepth]/properties/wellDepth")), e);
                 }
                 break;
             case "morse":
                 c.CheckKeys(p, path, "form", "wellDepth", "width", "equilibriumDistance");
-                Put("wellDepth", c.Number(p, "wellDepth", path, true, 0, 1e9, true), e);
-                Put("width", c.Number(p, "width", path, true, 0, 1e4, true), 1 / l);
-                Put("equilibriumDistance", c.Number(p, "equilibriumDistance", path, true, 0, 1e4, true), l);
+                Put("wellDepth", c.Number(p, "wellDepth", path, true, ScenarioSchema.At(Potential + "[form=morse]/properties/wellDepth")), e);
+                Put("width", c.Number(p, "width", path, true, ScenarioSchema.At(Potential + "[form=morse]/properties/width")), 1 / l);
+                Put("equilibriumDistance", c.Number(p, "equilibriumDistance", path, true, ScenarioSchema.At(Potential + "[form=morse]/properties/equilibriumDistance")), l);
                 break;
             case "buckingham":
                 c.CheckKeys(p, path, "form", "A", "rho", "C");
-                Put("A", c.Number(p, "A", path, true, 0, 1e12, true), e);
-                Put("rho", c.Number(p, "rho", path, true, 0, 1e4, true), l);
-                Put("C", c.Number(p, "C", path, true, 0, 1e12), e * Math.Pow(l, 6));
+                Put("A", c.Number(p, "A", path, true, ScenarioSchema.At(Potential + "[form=buckingham]/properties/A")), e);
+                Put("rho", c.Number(p, "rho", path, true, ScenarioSchema.At(Potential + "[form=buckingham]/properties/rho")), l);
+                Put("C", c.Number(p, "C", path, true, ScenarioSchema.At(Potential + "[form=buckingham]/properties/C")), e * Math.Pow(l, 6));
                 break;
             case "harmonic":
                 c.CheckKeys(p, path, "form", "stiffness", "equilibriumDistance");
-                Put("stiffness", c.Number(p, "stiffness", path, true, 0, 1e12, true), e / (l * l));
-                Put("equilibriumDistance", c.Number(p, "equilibriumDistance", path, true, 0, 1e4, true), l);
+                Put("stiffness", c.Number(p, "stiffness", path, true, ScenarioSchema.At(Potential + "[form=harmonic]/properties/stiffness")), e / (l * l));
+                Put("equilibriumDistance", c.Number(p, "equilibriumDistance", path, true, ScenarioSchema.At(Potential + "[form=harmonic]/properties/equilibriumDistance")), l);
                 break;
             case "table":
                 c.CheckKeys(p, path, "form", "r", "energy");
-                var r = c.Numbers(p, "r", path, true, Potentials.TabulatedPotential.MinimumPointCount, 1_000_000, 0, 1e4);
-                var v = c.Numbers(p, "energy", path, true, Potentials.TabulatedPotential.MinimumPointCount, 1_000_000, -1e12, 1e12);
+                var r = c.Numbers(p, "r", path, true, ScenarioSchema.At(Potential + "[form=table]/properties/r"));
+                var v = c.Numbers(p, "energy", path, true, ScenarioSchema.At(Potential + "[form=table]/properties/energy"));
                 if (r is not null && v is not null && r.Length != v.Length)
                 {
                     c.Add($"{path}.energy", $"has {v.Length} values but $.potential.r has {r.Length}; they must have the same length.");
@@ -433,7 +447,7 @@ internal static class ScenarioReader
         if (kind is "line" or "radial")
         {
             c.CheckKeys(p, path, "kind", "window");
-            var w = c.Numbers(p, "window", path, true, 2, 2, 0, 1e4);
+            var w = c.Numbers(p, "window", path, true, ScenarioSchema.At(Landscape + "[kind=line]/properties/window"));
             if (w is not null && !(w[0] < w[1]))
             {
                 c.Add($"{path}.window", string.Create(CultureInfo.InvariantCulture, $"[{w[0]:R}, {w[1]:R}] is empty or reversed; the lower bound must be smaller than the upper bound."));
@@ -468,9 +482,12 @@ internal static class ScenarioReader
         int layers = 3;
         if (explicitSites)
         {
-            if (siteArray.ValueKind != JsonValueKind.Array || siteArray.GetArrayLength() == 0 || siteArray.GetArrayLength() > 100_000)
+            var siteBounds = ScenarioSchema.At(Landscape + "[sites]/properties/sites");
+            var coordinate = ScenarioSchema.At(Landscape + "[sites]/properties/sites/items");
+            if (siteArray.ValueKind != JsonValueKind.Array || siteArray.GetArrayLength() < siteBounds.MinItems || siteArray.GetArrayLength() > siteBounds.MaxItems)
             {
-                c.Add($"{path}.sites", "must be a non-empty array (at most 100000) of [x, y, z] positions.");
+                c.Add($"{path}.sites", string.Create(CultureInfo.InvariantCulture,
+                    $"must be a non-empty array (at most {siteBounds.MaxItems}) of [x, y, z] positions."));
             }
             else
             {
@@ -479,7 +496,7 @@ internal static class ScenarioReader
                 foreach (var s in siteArray.EnumerateArray())
                 {
                     var xyz = s.ValueKind == JsonValueKind.Array && s.GetArrayLength() == 3
-                        ? s.EnumerateArray().Select((v, k) => c.Value(v, $"{path}.sites[{i}][{k}]", -1e4, 1e4)).ToArray()
+                        ? s.EnumerateArray().Select((v, k) => c.Value(v, $"{path}.sites[{i}][{k}]", coordinate.Minimum, coordinate.Maximum)).ToArray()
                         : null;
                     if (xyz is null)
                     {
@@ -497,7 +514,7 @@ internal static class ScenarioReader
         else if (surfaceSites)
         {
             lattice = c.String(p, "lattice", path, true, "fcc", "bcc", "sc");
-            var hkl = c.Numbers(p, "facet", path, true, 3, 3, -6, 6);
+            var hkl = c.Numbers(p, "facet", path, true, ScenarioSchema.At(Landscape + "[facet]/properties/facet"));
             if (hkl is not null)
             {
                 if (hkl.Any(x => x != Math.Round(x)))
@@ -514,19 +531,19 @@ internal static class ScenarioReader
                 }
             }
             adsorption = c.String(p, "adsorptionSite", path, true, "top", "bridge", "hollow", "fcc-hollow", "hcp-hollow");
-            nn = (c.Number(p, "nearestNeighbourDistance", path, true, 0, 1e4, true) ?? 1) * l;
-            layers = (int)(c.Integer(p, "layers", path, false, 1, 10) ?? 3);
+            nn = (c.Number(p, "nearestNeighbourDistance", path, true, ScenarioSchema.At(Landscape + "[facet]/properties/nearestNeighbourDistance")) ?? 1) * l;
+            layers = (int)(c.Integer(p, "layers", path, false, ScenarioSchema.At(Landscape + "[facet]/properties/layers")) ?? 3);
         }
         else if (!explicitSites && p.TryGetProperty("lattice", out _))
         {
             lattice = c.String(p, "lattice", path, true, "fcc", "bcc", "sc", "hcp");
-            nn = (c.Number(p, "nearestNeighbourDistance", path, true, 0, 1e4, true) ?? 1) * l;
-            shells = (int)(c.Integer(p, "shells", path, false, 1, 10) ?? 1);
+            nn = (c.Number(p, "nearestNeighbourDistance", path, true, ScenarioSchema.At(Landscape + "[shells]/properties/nearestNeighbourDistance")) ?? 1) * l;
+            shells = (int)(c.Integer(p, "shells", path, false, ScenarioSchema.At(Landscape + "[shells]/properties/shells")) ?? 1);
         }
         var centre = Position.Origin;
         if (p.TryGetProperty("centre", out _))
         {
-            var cc = c.Numbers(p, "centre", path, false, 3, 3, -1e4, 1e4);
+            var cc = c.Numbers(p, "centre", path, false, ScenarioSchema.At(Landscape + "[shells]/properties/centre"));
             if (cc is not null)
             {
                 centre = new Position(cc[0] * l, cc[1] * l, cc[2] * l);
@@ -540,13 +557,13 @@ internal static class ScenarioReader
             if (shape == "sphere")
             {
                 c.CheckKeys(conf, cp, "shape", "radius");
-                double? r = c.Number(conf, "radius", cp, true, 0, 1e4, true);
+                double? r = c.Number(conf, "radius", cp, true, ScenarioSchema.At("$defs/confinement/oneOf[shape=sphere]/properties/radius"));
                 confinement = r is double rr ? new Confinement(ConfinementShape.Sphere, rr * l) : null;
             }
             else if (shape == "box")
             {
                 c.CheckKeys(conf, cp, "shape", "halfWidth");
-                double? h = c.Number(conf, "halfWidth", cp, true, 0, 1e4, true);
+                double? h = c.Number(conf, "halfWidth", cp, true, ScenarioSchema.At("$defs/confinement/oneOf[shape=box]/properties/halfWidth"));
                 confinement = h is double hh ? new Confinement(ConfinementShape.Box, hh * l) : null;
             }
         }
@@ -562,9 +579,9 @@ internal static class ScenarioReader
         const string path = "$.sampling";
         c.CheckKeys(p, path, "method", "chains", "samplesPerChain", "burnIn", "seed");
         string method = c.String(p, "method", path, false, "metropolis", "direct") ?? "metropolis";
-        long chains = c.Integer(p, "chains", path, false, 1, 1024) ?? 4;
-        long samples = c.Integer(p, "samplesPerChain", path, false, 10, 1_000_000_000_000) ?? 100_000;
-        long burnIn = c.Integer(p, "burnIn", path, false, 0, 1_000_000_000_000) ?? 10_000;
+        long chains = c.Integer(p, "chains", path, false, ScenarioSchema.At(Sampling + "chains")) ?? 4;
+        long samples = c.Integer(p, "samplesPerChain", path, false, ScenarioSchema.At(Sampling + "samplesPerChain")) ?? 100_000;
+        long burnIn = c.Integer(p, "burnIn", path, false, ScenarioSchema.At(Sampling + "burnIn")) ?? 10_000;
         ulong seed = c.Seed(p, "seed", path) ?? 0;
         return new SamplingSettings
         {

@@ -6,6 +6,7 @@ using System.Text;
 using System.Text.Json;
 using Json.Schema;
 using ThermalSampling.Cli;
+using ThermalSampling.Sampling;
 using Xunit;
 
 namespace ThermalSampling.Tests;
@@ -154,5 +155,30 @@ public class SchemaTests
         Assert.NotEqual(HostileInputTests.Base, json);
         Assert.False(ReaderAccepts(json), "reader accepts " + replace);
         Assert.False(SchemaAccepts(json), "schema accepts " + replace);
+    }
+
+    /// <summary>
+    /// The library's own settings check (SamplingSettings.Validate) accepts exactly the schema's range of every sampling
+    /// key a scenario can set: the bounds are valid, one step beyond them is not.
+    /// </summary>
+    [Theory]
+    [InlineData("chains")]
+    [InlineData("samplesPerChain")]
+    [InlineData("burnIn")]
+    public void The_library_and_the_schema_agree_on_every_sampling_range(string key)
+    {
+        var b = ScenarioSchema.At("properties/sampling/properties/" + key);
+        SamplingSettings With(long v) => key switch
+        {
+            "chains" => new SamplingSettings { Seed = 1, Chains = (int)v },
+            "samplesPerChain" => new SamplingSettings { Seed = 1, SamplesPerChain = v },
+            _ => new SamplingSettings { Seed = 1, BurnIn = v },
+        };
+        With((long)b.Minimum).Validate();
+        With((long)b.Maximum).Validate();
+        Assert.Throws<ArgumentException>(() => With((long)b.Minimum - 1).Validate());
+        Assert.Throws<ArgumentException>(() => With((long)b.Maximum + 1).Validate());
+        var seed = ScenarioSchema.At("properties/sampling/properties/seed");
+        Assert.Equal((0.0, (double)ulong.MaxValue), (seed.Minimum, seed.Maximum)); // SamplingSettings.Seed is a ulong: every value is valid
     }
 }
