@@ -75,11 +75,9 @@ public static class PairSampler
         ChainRange? chains = null, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
     {
-        RunArguments.Check(landscape, settings, NominalMass, temperature);
-        var range = chains ?? ChainRange.All(settings.Chains);
-        range.Check(settings.Chains, nameof(chains));
+        var range = RunArguments.CheckPart(landscape, settings, temperature, chains);
         // The plan uses only the mass-free parts of the analyses (the exact distribution, the well, the classical spread).
-        return SampleOne(landscape, PairSummary.Analyse(landscape, NominalMass, temperature), temperature, settings, progress, cancellationToken, null, 0, range);
+        return SampleOne(landscape, PairSummary.Analyse(landscape, RunArguments.NominalMass, temperature), temperature, settings, progress, cancellationToken, null, 0, range);
     }
 
     /// <summary>The report of a complete record from <see cref="Sample{TPotential}"/> (or merged parts of one), with the analyses at <paramref name="mass"/>.</summary>
@@ -91,15 +89,9 @@ public static class PairSampler
     public static PairVibrationReport Summarise<TPotential>(PairLandscape<TPotential> landscape, Mass mass, TemperatureRecord record)
         where TPotential : struct, IPairPotential
     {
-        Internal.Preconditions.CheckNotNull(landscape, nameof(landscape));
-        Internal.Preconditions.CheckNotNull(record, nameof(record));
-        record.CheckSummarisable("pair", PairChains.Fingerprint(landscape), nameof(record));
-        PairAnalysis.CheckArguments(mass, record.Temperature);
+        RunArguments.CheckRecord(landscape, record, "pair", () => PairChains.Fingerprint(landscape), mass);
         return PairSummary.Summarise(landscape, mass, record.Temperature, record.Settings, PairSummary.Analyse(landscape, mass, record.Temperature), record);
     }
-
-    /// <summary>The mass argument checks take where sampling needs none (classical sampling does not depend on the mass).</summary>
-    private static readonly Mass NominalMass = Mass.FromAtomicMassUnits(1);
 
     /// <summary>Analyse, sample, summarise: the three steps of one temperature.</summary>
     private static PairVibrationReport RunOne<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,

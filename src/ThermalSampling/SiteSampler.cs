@@ -63,11 +63,9 @@ public static class SiteSampler
         ChainRange? chains = null, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
     {
-        RunArguments.Check(landscape, settings, NominalMass, temperature);
-        var range = chains ?? ChainRange.All(settings.Chains);
-        range.Check(settings.Chains, nameof(chains));
+        var range = RunArguments.CheckPart(landscape, settings, temperature, chains);
         // The plan uses only the classical (mass-free) parts of the harmonic analysis: the minimum and the covariance.
-        var harmonic = SiteAnalysis.Harmonic(landscape, NominalMass, temperature);
+        var harmonic = SiteAnalysis.Harmonic(landscape, RunArguments.NominalMass, temperature);
         return SiteChains.Sample(landscape, harmonic, settings.TargetAcceptance ?? DefaultTargetAcceptance, temperature, settings, progress, cancellationToken, null, 0,
             range);
     }
@@ -81,15 +79,9 @@ public static class SiteSampler
     public static SiteVibrationReport Summarise<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, TemperatureRecord record)
         where TPotential : struct, IPairPotential
     {
-        Internal.Preconditions.CheckNotNull(landscape, nameof(landscape));
-        Internal.Preconditions.CheckNotNull(record, nameof(record));
-        record.CheckSummarisable("sites", SiteChains.Fingerprint(landscape), nameof(record));
-        PairAnalysis.CheckArguments(mass, record.Temperature);
+        RunArguments.CheckRecord(landscape, record, "sites", () => SiteChains.Fingerprint(landscape), mass);
         return SiteSummary.Summarise(landscape, mass, record.Temperature, record.Settings, SiteAnalysis.Harmonic(landscape, mass, record.Temperature), record);
     }
-
-    /// <summary>The mass argument checks take where sampling needs none (classical sampling does not depend on the mass).</summary>
-    private static readonly Mass NominalMass = Mass.FromAtomicMassUnits(1);
 
     /// <summary>Analyse, sample, summarise: the three steps of one temperature.</summary>
     private static SiteVibrationReport RunOne<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,

@@ -572,14 +572,15 @@ public class SiteSamplerEdgeTests
     }
 
     [Theory]
-    [InlineData(0, 1, "the draws done = {0} is outside 0 to 12288.")]
-    [InlineData(1, -1, "the proposals = {0} is outside {1} to 9223372036854775807.")]
-    [InlineData(2, 1, "the draws near the wall = {0} is outside 0 to {1}.")]
-    public void A_signed_checkpoint_whose_direct_chain_counts_are_impossible_is_refused_naming_the_count(int index, long offset, string message)
+    [InlineData("DONE", 0, "the draws done = {0} is outside 0 to 12288.")]
+    [InlineData("CREC", 1, "the accepted proposals = {1} is outside 0 to {0}.")]
+    [InlineData("CREC", 3, "the draws near the wall = {0} is outside 0 to {1}.")]
+    public void A_signed_checkpoint_whose_direct_chain_counts_are_impossible_is_refused_naming_the_count(string section, int index, string message)
     {
-        // A correctly signed file (as another writer would make it) whose first direct chain's DONE section (draws done,
-        // proposals, draws near the wall; after the 4-word RAND section) holds a count outside its range: more draws than
-        // the run asks for, fewer proposals than draws, more draws near the wall than draws.
+        // A correctly signed file (as another writer would make it) whose first direct chain holds a count outside its range:
+        // more draws done (DONE, after the 4-word RAND section) than the run asks for; in its record (CREC: chain, proposals,
+        // accepted, draws near the wall, draws outside the basin) fewer proposals than accepted draws, or more draws near
+        // the wall than draws.
         var saved = new List<SamplingCheckpoint>();
         SiteSampler.SweepWithCheckpoints(PlainCage, ArgonMass, ThirtyOnly, ShortDirect, new CheckpointOptions(TimeSpan.Zero, saved.Add));
         var stream = new System.IO.MemoryStream();
@@ -587,10 +588,11 @@ public class SiteSamplerEdgeTests
         var (metadata, body) = CheckpointFormatTests.Split(stream.ToArray());
         int rand = body.AsSpan().IndexOf("RAND"u8);
         int done = rand + 12 + 32;
-        Assert.True(rand > 0 && body.AsSpan(done, 4).SequenceEqual("DONE"u8), "no RAND section followed by DONE");
+        int record = done + 12 + 8;
+        Assert.True(rand > 0 && body.AsSpan(done, 4).SequenceEqual("DONE"u8) && body.AsSpan(record, 4).SequenceEqual("CREC"u8), "no RAND section followed by DONE and CREC");
         long draws = BitConverter.ToInt64(body, done + 12);
-        long value = (index == 0 ? ShortDirect.SamplesPerChain : draws) + offset;
-        CheckpointFormatTests.Long(value).CopyTo(body, done + 12 + 8 * index);
+        long value = section == "DONE" ? ShortDirect.SamplesPerChain + 1 : index == 1 ? draws - 1 : draws + 1;
+        CheckpointFormatTests.Long(value).CopyTo(body, (section == "DONE" ? done : record) + 12 + 8 * index);
         var forged = SamplingCheckpoint.ReadFrom(new System.IO.MemoryStream(CheckpointFormatTests.Forge(metadata, body)));
         var ex = Assert.Throws<CheckpointException>(() => SiteSampler.Resume(PlainCage, ArgonMass, ThirtyOnly, ShortDirect, forged));
         Assert.Contains("state of direct site chain ", ex.Message, StringComparison.Ordinal);

@@ -24,6 +24,27 @@ internal static class RunArguments
         settings.Validate();
         PairAnalysis.CheckArguments(mass, temperature);
     }
+
+    /// <summary>The mass the argument checks take where sampling needs none (classical sampling does not depend on the mass).</summary>
+    internal static readonly Units.Mass NominalMass = Units.Mass.FromAtomicMassUnits(1);
+
+    /// <summary>The checks of a <c>Sample</c> call; returns the chains to sample (every chain when <paramref name="chains"/> is null).</summary>
+    internal static ChainRange CheckPart(object landscape, SamplingSettings settings, Units.Temperature temperature, ChainRange? chains)
+    {
+        Check(landscape, settings, NominalMass, temperature);
+        var range = chains ?? ChainRange.All(settings.Chains);
+        range.Check(settings.Chains, nameof(chains));
+        return range;
+    }
+
+    /// <summary>The checks of a <c>Summarise</c> call: the record is complete and comes from a <paramref name="kind"/> landscape with <paramref name="fingerprint"/>.</summary>
+    internal static void CheckRecord(object landscape, TemperatureRecord record, string kind, Func<string> fingerprint, Units.Mass mass)
+    {
+        Internal.Preconditions.CheckNotNull(landscape, nameof(landscape));
+        Internal.Preconditions.CheckNotNull(record, nameof(record));
+        record.CheckSummarisable(kind, fingerprint(), nameof(record));
+        PairAnalysis.CheckArguments(mass, record.Temperature);
+    }
 }
 
 /// <summary>Runs chains in parallel; results land in chain order, so they never depend on the thread count.</summary>
@@ -108,23 +129,66 @@ internal static class ChainRuns
     }
 }
 
-/// <summary>How chains are packed into lane groups.</summary>
-internal static class LaneGroups
+/// <summary>What a direct sampler draws: one independent draw into the record, with its proposals and acceptances counted there.</summary>
+internal interface IDirectSource
 {
-    /// <summary>The widest lane count worth using: a power of two no larger than the hardware's vector and no larger than the chains each thread gets.</summary>
-    internal static int ChooseLanes(int chains, int threads, int? requested)
+    /// <summary>Draws once from <paramref name="random"/> and adds the draw to <paramref name="record"/>.</summary>
+    void Draw(ref RandomStream random, ChainRecord record);
+}
+
+/// <summary>
+/// One chain of independent draws from <typeparamref name="TSource"/> (a struct, so the draw inlines into the loop),
+/// resumable at every 4096th draw: the one driver of the direct samplers. Its checkpoint is the stream (RAND), the
+/// draws done (DONE) and the record.
+/// </summary>
+/// <param name="source">What the draws come from.</param>
+/// <param name="settings">The run's settings (seed, draws per chain).</param>
+/// <param name="chain">The chain's index.</param>
+/// <param name="record">The chain's record.</param>
+/// <param name="progress">The chain's progress.</param>
+/// <param name="what">The chain's kind in messages ("direct chain", "direct site chain"), followed by its index.</param>
+internal sealed class DirectChain<TSource>(TSource source, SamplingSettings settings, int chain, ChainRecord record, ProgressReporter progress, string what) : IResumableGroup
+    where TSource : struct, IDirectSource
+{
+    private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
+    private long _done;
+
+    public long ChainStepsDone => _done;
+
+    internal ChainRecord Run(GroupCheckpoints checkpoints, CancellationToken ct)
     {
-        if (requested is int r)
+        if (checkpoints.SavedState(chain) is byte[] saved)
         {
-            return r;
+            var r = new StateReader(saved, what + " " + chain.ToString(CultureInfo.InvariantCulture));
+            _random = RandomStream.FromState(r.Words("RAND", 4));
+            _done = r.InRange(r.Longs("DONE", 1)[0], 0, settings.SamplesPerChain, "the draws done");
+            record.Load(r);
+            r.InRange(record.Draws, _done, _done, "the record's draws");
+            r.End();
         }
-        int hardware = Vector512.IsHardwareAccelerated ? 8 : Vector256.IsHardwareAccelerated ? 4 : Vector128.IsHardwareAccelerated ? 2 : 1;
-        int perThread = Math.Max(1, chains / Math.Max(1, threads));
-        int lanes = 1;
-        while (lanes * 2 <= Math.Min(hardware, perThread))
+        var boundary = new ChunkBoundary([progress], checkpoints, chain, this, ct);
+        for (long n = settings.SamplesPerChain; _done < n; _done++)
         {
-            lanes *= 2;
+            if ((_done & 4095) == 0)
+            {
+                boundary.Reached(_done);
+            }
+            source.Draw(ref _random, record);
         }
-        return lanes;
+        checkpoints.Finished(chain, this);
+        progress.Finish();
+        Span<ulong> words = stackalloc ulong[4];
+        _random.GetState(words);
+        record.SetStreamState(words);
+        return record;
+    }
+
+    public void Save(StateWriter w)
+    {
+        Span<ulong> state = stackalloc ulong[4];
+        _random.GetState(state);
+        w.Words("RAND", state);
+        w.Longs("DONE", [_done]);
+        record.Save(w);
     }
 }

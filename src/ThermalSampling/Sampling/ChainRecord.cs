@@ -23,7 +23,6 @@ public sealed class ChainRecord
     private BlockedMomentAccumulator _separation;
     private CovarianceAccumulator _position;
     private BlockedMomentAccumulator _energy;
-    private MomentAccumulator? _separationDone, _energyDone;
     private ulong[] _stream = new ulong[4];
 
     internal ChainRecord(RecordLayout layout, int chain, double energyBinWidth)
@@ -57,7 +56,7 @@ public sealed class ChainRecord
     public int Coordinates => Layout.Coordinates;
 
     /// <summary>Recorded draws (burn-in excluded).</summary>
-    public long Draws => Coordinates == 1 ? Separation.Count : _position.Count;
+    public long Draws => Coordinates == 1 ? _separation.Count : _position.Count;
 
     /// <summary>Proposals made while recording: one per step for a Metropolis walk; for direct site draws, the envelope draws tried.</summary>
     public long Proposals { get; internal set; }
@@ -80,7 +79,7 @@ public sealed class ChainRecord
     /// <summary>Streaming moments of the separation, Å (pairs only).</summary>
     /// <exception cref="InvalidOperationException">For a site record.</exception>
     public MomentAccumulator Separation
-        => Coordinates == 1 ? _separationDone ??= _separation.Complete() : throw new InvalidOperationException("A site record has no separation; read MeanPosition and Covariance.");
+        => Coordinates == 1 ? _separation.Complete() : throw new InvalidOperationException("A site record has no separation; read MeanPosition and Covariance.");
 
     /// <summary>The mean position, Å (sites only).</summary>
     /// <exception cref="InvalidOperationException">For a pair record.</exception>
@@ -103,7 +102,7 @@ public sealed class ChainRecord
     }
 
     /// <summary>Streaming moments of V − V_ref, eV, with V_ref = <see cref="EnergyReferenceInElectronVolts"/>.</summary>
-    public MomentAccumulator PotentialEnergy => _energyDone ??= _energy.Complete();
+    public MomentAccumulator PotentialEnergy => _energy.Complete();
 
     /// <summary>V_ref: the energy at the site's minimum, or the pair's reference energy, eV.</summary>
     public double EnergyReferenceInElectronVolts => Layout.EnergyReference;
@@ -241,8 +240,6 @@ public sealed class ChainRecord
     {
         Proposals = r.InRange(head[1], 0, long.MaxValue, "the proposals");
         Accepted = r.InRange(head[2], 0, Proposals, "the accepted proposals");
-        DrawsNearWall = r.InRange(head[3], 0, long.MaxValue, "the draws near the wall");
-        DrawsOutsideBasin = r.InRange(head[4], 0, long.MaxValue, "the draws outside the basin");
         ProposalScale = scales[0];
         r.Words("CRST", 4).CopyTo(_stream, 0);
         if (Coordinates == 1)
@@ -254,7 +251,6 @@ public sealed class ChainRecord
             _position = CovarianceAccumulator.Load(r);
         }
         _energy.Load(r);
-        (_separationDone, _energyDone) = (null, null);
         foreach (var store in _stores)
         {
             store.Load(r);
@@ -269,6 +265,9 @@ public sealed class ChainRecord
         {
             _keptPositions!.Load(r, 3);
         }
+        long draws = Draws;
+        DrawsNearWall = r.InRange(head[3], 0, draws, "the draws near the wall");
+        DrawsOutsideBasin = r.InRange(head[4], 0, draws, "the draws outside the basin");
     }
 }
 

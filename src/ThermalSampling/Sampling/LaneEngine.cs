@@ -1,6 +1,7 @@
 using System;
 using System.Globalization;
 using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
 using System.Threading;
 using ThermalSampling.Numerics;
 using ThermalSampling.Persistence;
@@ -105,6 +106,56 @@ internal readonly struct LanePoint<TD>(TD x, TD y, TD z, TD energy) where TD : s
     internal TD Energy { get; } = energy;
 }
 
+/// <summary>What a lane group is asked to do: its chains (from <see cref="FirstChain"/>; padding lanes at or beyond <see cref="End"/>
+/// are dropped), how to make each chain's record and progress reporter, its checkpoints and cancellation.</summary>
+internal sealed record GroupWork(int FirstChain, int End, Func<int, ChainRecord> Record, Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints,
+    int Group, CancellationToken Ct);
+
+/// <summary>A kind of chain's fixed plan, which builds and runs its lane group at whatever width the dispatcher picks.</summary>
+internal interface ILanePlan
+{
+    /// <summary>Runs <paramref name="work"/> on a group of lane width <typeparamref name="TOps"/>.</summary>
+    ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct;
+}
+
+/// <summary>How chains are packed into lane groups, and any kind of chain's group run at a lane count chosen at run time.</summary>
+internal static class LaneGroups
+{
+    /// <summary>The widest lane count worth using: a power of two no larger than the hardware's vector and no larger than the chains each thread gets.</summary>
+    internal static int ChooseLanes(int chains, int threads, int? requested)
+    {
+        if (requested is int r)
+        {
+            return r;
+        }
+        int hardware = Vector512.IsHardwareAccelerated ? 8 : Vector256.IsHardwareAccelerated ? 4 : Vector128.IsHardwareAccelerated ? 2 : 1;
+        int perThread = Math.Max(1, chains / Math.Max(1, threads));
+        int lanes = 1;
+        while (lanes * 2 <= Math.Min(hardware, perThread))
+        {
+            lanes *= 2;
+        }
+        return lanes;
+    }
+
+
+    /// <summary>Runs <paramref name="work"/> for <paramref name="plan"/> at <paramref name="lanes"/> lanes per register.</summary>
+    internal static ChainRecord[] Run<TPlan>(int lanes, TPlan plan, GroupWork work) where TPlan : ILanePlan
+        => LaneWidths.Dispatch<Job<TPlan>, ChainRecord[]>(lanes, new(plan, work));
+
+    private readonly record struct Job<TPlan>(TPlan Plan, GroupWork Work) : ILaneWidthJob<ChainRecord[]> where TPlan : ILanePlan
+    {
+        public ChainRecord[] Run<TOps, TD, TB>()
+            where TOps : struct, ILaneOps<TD, TB>
+            where TD : struct
+            where TB : struct
+            => Plan.RunGroup<TOps, TD, TB>(Work);
+    }
+}
+
 /// <summary>
 /// The one lane engine: runs a group of chains, one per vector lane, through seeding, adaptive burn-in, the recorded
 /// phase and the chunk boundaries between (checkpoints, progress, cancellation), and writes and reads its whole state.
@@ -147,30 +198,58 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
 
     /// <param name="settings">What the subclass's plan fixes: steps, widths, the moment block and the checkpoint tags.</param>
     /// <param name="walk">The walk (its fixed parameters).</param>
-    /// <param name="firstChain">The chain in lane 0.</param>
-    /// <param name="chains">The run's chain count (lanes at or beyond it repeat the last chain and are dropped).</param>
-    /// <param name="reporters">Progress per live lane.</param>
-    private protected LaneEngine(EngineSettings settings, TWalk walk, int firstChain, int chains, ProgressReporter[] reporters)
-        : base(settings.BurnIn, settings.Samples, TOps.Count, Math.Min(TOps.Count, chains - firstChain))
+    /// <param name="work">The chains (lane 0 holds the first; lanes at or beyond the end repeat the last chain and are dropped), their records and progress.</param>
+    private protected LaneEngine(EngineSettings settings, TWalk walk, GroupWork work)
+        : base(settings.BurnIn, settings.Samples, TOps.Count, Math.Min(TOps.Count, work.End - work.FirstChain))
     {
+        _work = work;
+        Records = new ChainRecord[Live];
+        Reporters = new ProgressReporter[Live];
+        for (int lane = 0; lane < Live; lane++)
+        {
+            Records[lane] = work.Record(work.FirstChain + lane);
+            Reporters[lane] = work.Progress(work.FirstChain + lane);
+        }
         (_burnIn, _samples, _initialWidth, _maxWidth, _blockSize) = (settings.BurnIn, settings.Samples, settings.InitialWidth, settings.MaxWidth, settings.BlockSize);
         _targetAcceptance = settings.TargetAcceptance;
         (_headerTag, _widthTag, _what) = (settings.HeaderTag, settings.WidthTag, settings.What);
         _walk = walk;
-        FirstChain = firstChain;
-        Chains = chains;
-        Reporters = reporters;
     }
 
     /// <summary>What a lane group's plan fixes for the engine.</summary>
     internal readonly record struct EngineSettings(long BurnIn, long Samples, double InitialWidth, double MaxWidth, double TargetAcceptance, int BlockSize,
         string HeaderTag, string WidthTag, string What);
 
-    private protected int FirstChain { get; }
+    private readonly GroupWork _work;
 
-    private protected int Chains { get; }
+    /// <summary>The live lanes' chain records.</summary>
+    private protected ChainRecord[] Records { get; }
 
     private protected ProgressReporter[] Reporters { get; }
+
+    /// <summary>Lane <paramref name="lane"/>'s accepted proposals while recording (from the recorder's sums).</summary>
+    private protected abstract long Accepted(int lane);
+
+    /// <summary>What else lane <paramref name="lane"/>'s record takes from the sums at the end (counts beyond acceptance).</summary>
+    private protected virtual void CompleteRecord(ChainRecord record, int lane)
+    {
+    }
+
+    /// <summary>Runs the group from its start or from its checkpointed state to the end and returns its chains' finished records.</summary>
+    internal ChainRecord[] Run()
+    {
+        var width = RunLanes(_work.Checkpoints, _work.Group, _work.Ct);
+        Span<ulong> words = stackalloc ulong[4];
+        for (int lane = 0; lane < Live; lane++)
+        {
+            var record = Records[lane];
+            (record.Proposals, record.Accepted, record.ProposalScale) = (_samples, Accepted(lane), TOps.Get(width, lane));
+            CompleteRecord(record, lane);
+            _walk.StreamState(State, lane, words);
+            record.SetStreamState(words);
+        }
+        return Records;
+    }
 
     /// <summary>Puts chain <paramref name="chain"/>'s stream, −β and start into lane <paramref name="lane"/> of <see cref="State"/>.</summary>
     private protected abstract void PlaceLane(int lane, int chain);
@@ -183,31 +262,41 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
     {
     }
 
-    /// <summary>Draws per batch of the records.</summary>
-    private protected abstract int BatchSize { get; }
+    /// <summary>The group's flat arrays (histogram and energy counts, kept draws, closed batches' sums).</summary>
+    private protected abstract LaneTally Tally { get; }
 
-    /// <summary>Hands the sums of the <paramref name="closed"/> batches of the last chunk to the records.</summary>
-    private protected abstract void AddClosedBatches(int closed);
+    /// <summary>Draws per batch of the records.</summary>
+    private int BatchSize => Records[0].Stores[0].BatchSize;
+
+    /// <summary>Hands the sums of the <paramref name="closed"/> batches of the last chunk to the records: batch k's sums of value v (each coordinate, then the energy) at (2·V·k + 2v)·width.</summary>
+    private void AddClosedBatches(int closed)
+    {
+        var sums = Tally.BatchSums;
+        for (int k = 0; k < closed; k++)
+        {
+            for (int lane = 0; lane < Records.Length; lane++)
+            {
+                var stores = Records[lane].Stores;
+                for (int v = 0; v < stores.Length; v++)
+                {
+                    int at = (2 * stores.Length * k + 2 * v) * TOps.Count + lane;
+                    stores[v].AddBatchSums(sums[at], sums[at + TOps.Count]);
+                }
+            }
+        }
+    }
 
     /// <summary>Closes the open moment block of <paramref name="count"/> steps into the records and clears its sums.</summary>
     private protected abstract void CloseBlock(int count);
 
-    /// <summary>Writes the records and the tally (after the walk, the sums and the widths).</summary>
-    private protected abstract void SaveRecords(StateWriter w);
-
-    /// <summary>Reads what <see cref="SaveRecords"/> wrote.</summary>
-    private protected abstract void LoadRecords(StateReader r);
-
-    /// <summary>The run is over: moves the tally's counts and kept draws into the records.</summary>
-    private protected abstract void Complete();
-
-    /// <summary>Fills lane <paramref name="lane"/>'s record with what the engine knows at the end: counts, the frozen scale and the stream's position.</summary>
-    private protected void FinishRecord(ChainRecord record, int lane, long proposals, long accepted, double scale, long nearWall, long outsideBasin)
+    /// <summary>Writes anything the group keeps beyond the records and the tally.</summary>
+    private protected virtual void SaveExtra(StateWriter w)
     {
-        (record.Proposals, record.Accepted, record.ProposalScale, record.DrawsNearWall, record.DrawsOutsideBasin) = (proposals, accepted, scale, nearWall, outsideBasin);
-        Span<ulong> words = stackalloc ulong[4];
-        _walk.StreamState(State, lane, words);
-        record.SetStreamState(words);
+    }
+
+    /// <summary>Reads what <see cref="SaveExtra"/> wrote.</summary>
+    private protected virtual void LoadExtra(StateReader r)
+    {
     }
 
     /// <summary>Merges lane <paramref name="lane"/>'s block of energy power sums into <paramref name="record"/>.</summary>
@@ -217,17 +306,6 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
     /// <summary>Loads <paramref name="stream"/> into lane <paramref name="lane"/> of the four generator words.</summary>
     private protected static void SeedLane(ref TB r0, ref TB r1, ref TB r2, ref TB r3, int lane, in RandomStream stream)
         => LaneSeeding.Load<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, lane, stream);
-
-    /// <summary>Progress reporters for the live lanes of the group whose lane 0 is <paramref name="firstChain"/>.</summary>
-    private protected static ProgressReporter[] MakeReporters(int firstChain, int chains, Func<int, ProgressReporter> make)
-    {
-        var reporters = new ProgressReporter[Math.Min(TOps.Count, chains - firstChain)];
-        for (int lane = 0; lane < reporters.Length; lane++)
-        {
-            reporters[lane] = make(firstChain + lane);
-        }
-        return reporters;
-    }
 
     /// <summary>
     /// One chunk of burn-in: step, then the Robbins–Monro width update, in every lane. A separate method with no calls
@@ -276,14 +354,14 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
     }
 
     /// <summary>Runs the group from its start or from its checkpointed state to the end; returns the frozen widths.</summary>
-    private protected TD RunLanes(GroupCheckpoints checkpoints, int group, CancellationToken ct)
+    private TD RunLanes(GroupCheckpoints checkpoints, int group, CancellationToken ct)
     {
         var saved = checkpoints.SavedState(group);
         if (saved is null)
         {
             for (int lane = 0; lane < TOps.Count; lane++)
             {
-                PlaceLane(lane, Math.Min(FirstChain + lane, Chains - 1)); // padding lanes repeat the last chain and are dropped
+                PlaceLane(lane, Math.Min(_work.FirstChain + lane, _work.End - 1)); // padding lanes repeat the last chain and are dropped
             }
             _walk.Start(ref State);
             _logWidth = TOps.Broadcast(Math.Log(_initialWidth));
@@ -307,7 +385,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
             Phase = GroupPhase.Finished;
         }
         checkpoints.Finished(group, this);
-        Complete();
+        Tally.CopyTo(Records, _samples);
         foreach (var reporter in Reporters)
         {
             reporter.Finish();
@@ -366,7 +444,12 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         LaneWalkWords.Save(w, "WALK", ref State);
         LaneWalkWords.Save(w, "SUMS", ref Sums);
         w.Words(_widthTag, LaneWalkWords.Lanes<TOps, TD, TB>(_logWidth));
-        SaveRecords(w);
+        foreach (var record in Records)
+        {
+            record.Save(w);
+        }
+        Tally.Save(w, RecordedSteps);
+        SaveExtra(w);
     }
 
     private void Load(StateReader r)
@@ -375,7 +458,12 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         LaneWalkWords.Load(r, "WALK", ref State);
         LaneWalkWords.Load(r, "SUMS", ref Sums);
         _logWidth = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words(_widthTag, TOps.Count));
-        LoadRecords(r);
+        foreach (var record in Records)
+        {
+            record.Load(r);
+        }
+        Tally.Load(r, RecordedSteps);
+        LoadExtra(r);
         r.End();
     }
 }

@@ -4,6 +4,7 @@ using ThermalSampling.Statistics;
 using ThermalSampling.Persistence;
 using ThermalSampling.Numerics;
 using ThermalSampling.Potentials;
+using ThermalSampling.Landscapes;
 
 namespace ThermalSampling.Sampling;
 
@@ -123,32 +124,58 @@ internal static class LaneAdaptation
 /// </summary>
 internal class LaneTally
 {
-    /// <param name="bins">The histogram every chain of the group fills (its bins and scale).</param>
-    /// <param name="retained">Raw draws kept per chain.</param>
+    /// <param name="records">The live lanes' chain records (their histogram's bins and scale, retained-draw cap, batch size and energy histograms).</param>
     /// <param name="width">Lanes per vector.</param>
-    /// <param name="lanes">Live lanes (chains) of the group.</param>
-    /// <param name="coordinates">Values per draw (1 for a pair, 3 for a site).</param>
     /// <param name="batchValues">Sums kept per closed batch (2 per coordinate, and 2 for the energy).</param>
-    /// <param name="batchSize">Draws per batch: a chunk of up to 4096 steps closes at most 4096/batchSize + 1 batches.</param>
-    /// <param name="energyBins">Each live lane's energy histogram (its reference and bin width; the lanes' temperatures may differ).</param>
-    internal LaneTally(BinCounter bins, int retained, int width, int lanes, int coordinates, int batchValues, int batchSize, EnergyHistogram[] energyBins)
+    internal LaneTally(ChainRecord[] records, int width, int batchValues)
     {
+        var first = records[0];
+        var layout = first.Layout;
+        int lanes = records.Length, coordinates = layout.Coordinates, retained = (int)Math.Min(layout.Samples, layout.Retained);
+        EnergyReference = first.EnergyReferenceInElectronVolts;
         EnergyCounts = new long[lanes * EnergyHistogram.Slots];
         EnergyScales = new double[width];
         for (int lane = 0; lane < width; lane++)
         {
-            EnergyScales[lane] = 1 / energyBins[Math.Min(lane, lanes - 1)].BinWidthInElectronVolts;
+            EnergyScales[lane] = 1 / records[Math.Min(lane, lanes - 1)].EnergyHistogram.BinWidthInElectronVolts;
         }
-        BinScale = bins.Scale;
-        Bins = bins.Counts.Length;
+        BinScale = first.Bins.Scale;
+        Bins = first.Bins.Counts.Length;
         Lanes = lanes;
         Retained = retained;
         Counts = new long[lanes * Bins];
         Index = new ulong[width];
         Scratch = new double[coordinates * width];
         Kept = new double[(long)coordinates * lanes * retained];
-        BatchSums = new double[batchValues * width * (LaneAdaptation.ChunkSteps / batchSize + 1)];
+        // A chunk of up to 4096 steps closes at most 4096/batchSize + 1 batches.
+        BatchSums = new double[batchValues * width * (LaneAdaptation.ChunkSteps / first.Stores[0].BatchSize + 1)];
         Coordinates = coordinates;
+    }
+
+    /// <summary>The reference the energy's sums and histogram are taken about (V_ref of the records).</summary>
+    internal double EnergyReference { get; }
+
+    /// <summary>Moves every lane's histogram and energy counts into the records, and the draws kept in the first <paramref name="samples"/> recorded steps.</summary>
+    internal void CopyTo(ChainRecord[] records, long samples)
+    {
+        long kept = Math.Min(samples, Retained);
+        for (int lane = 0; lane < Lanes; lane++)
+        {
+            records[lane].Bins.AddCounts(Counts.AsSpan(lane * Bins, Bins));
+            records[lane].EnergyHistogram.AddCounts(EnergyCounts.AsSpan(lane * EnergyHistogram.Slots, EnergyHistogram.Slots));
+            for (long k = 0; k < kept; k++)
+            {
+                long row = Coordinates * (lane * (long)Retained + k);
+                if (Coordinates == 1)
+                {
+                    records[lane].KeptSeparations.Add(Kept[row]);
+                }
+                else
+                {
+                    records[lane].KeptPositions.Add(new Position(Kept[row], Kept[row + 1], Kept[row + 2]));
+                }
+            }
+        }
     }
 
     internal int Coordinates { get; }
@@ -194,10 +221,6 @@ internal class LaneTally
     /// <summary>1 / bin width of each lane's energy histogram, 1/eV.</summary>
     internal double[] EnergyScales { get; }
 
-    /// <summary>Moves lane <paramref name="lane"/>'s energy counts into <paramref name="histogram"/>.</summary>
-    internal void CopyEnergyCounts(int lane, EnergyHistogram histogram)
-        => histogram.AddCounts(EnergyCounts.AsSpan(lane * EnergyHistogram.Slots, EnergyHistogram.Slots));
-
     /// <summary>Scratch for one vector's flat histogram indices.</summary>
     internal ulong[] Index { get; }
 
@@ -209,6 +232,108 @@ internal class LaneTally
 
     /// <summary>Sums of deviation and squared deviation per coordinate of the batches closed in a chunk: batch k, value v at (2·coordinates·k + v)·width.</summary>
     internal double[] BatchSums { get; }
+}
+
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
+/// <summary>
+/// What every recorder writes besides its sums, for one chunk: the histogram and energy-histogram counts and the kept
+/// draws, with the loop invariants broadcast once. A field of each recorder; its methods inline into the chunk loop.
+/// </summary>
+/// <typeparam name="TOps">The lane width.</typeparam>
+/// <typeparam name="TD">Doubles, one per lane.</typeparam>
+/// <typeparam name="TB">Raw words, one per lane.</typeparam>
+internal readonly struct LaneTallyView<TOps, TD, TB>
+    where TOps : struct, ILaneOps<TD, TB>
+    where TD : struct
+    where TB : struct
+{
+    private readonly TD _binScale, _binCount, _lastBin, _energyScale;
+    private readonly TB _binOffsets, _energyOffsets;
+    private readonly long[] _counts, _energyCounts;
+    private readonly ulong[] _index;
+    private readonly double[] _scratch, _kept;
+    private readonly long _keptStride, _done, _retain;
+
+    /// <param name="tally">The group's tally.</param>
+    /// <param name="done">Recorded steps before the chunk.</param>
+    /// <param name="chunk">The chunk's steps.</param>
+    internal LaneTallyView(LaneTally tally, long done, int chunk)
+    {
+        EnergyReference = TOps.Broadcast(tally.EnergyReference);
+        _binScale = TOps.Broadcast(tally.BinScale);
+        _binCount = TOps.Broadcast(tally.Bins);
+        _lastBin = TOps.Broadcast(tally.Bins - 1);
+        Lanes = tally.Lanes;
+        _binOffsets = LaneCounting.Offsets<TOps, TD, TB>(tally.Bins, Lanes);
+        _energyOffsets = LaneCounting.Offsets<TOps, TD, TB>(EnergyHistogram.Slots, Lanes);
+        _energyScale = TOps.Broadcast(0.0);
+        for (int lane = 0; lane < TOps.Count; lane++)
+        {
+            _energyScale = TOps.Set(_energyScale, lane, tally.EnergyScales[lane]);
+        }
+        (_counts, _energyCounts, _index, _scratch, _kept) = (tally.Counts, tally.EnergyCounts, tally.Index, tally.Scratch, tally.Kept);
+        BatchSums = tally.BatchSums;
+        _keptStride = tally.Retained;
+        _done = done;
+        _retain = Math.Max(0, Math.Min(chunk, tally.Retained - done)); // the first steps of each chain are kept raw
+    }
+
+    /// <summary>V_ref in every lane.</summary>
+    internal TD EnergyReference { get; }
+
+    /// <summary>Live lanes.</summary>
+    internal int Lanes { get; }
+
+    /// <summary>Where closed batches leave their sums.</summary>
+    internal double[] BatchSums { get; }
+
+    /// <summary>Scratch for one vector's flat indices (free between the counting calls).</summary>
+    internal ulong[] Index => _index;
+
+    /// <summary>Counts bin ⌊t·scale⌋ of the histogram, t ≥ 0 the value above the histogram's lower edge (at or past the upper edge: the last bin).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal void CountBin(TD aboveLower)
+    {
+        var t = TOps.Multiply(aboveLower, _binScale);
+        t = TOps.Select(TOps.LessThan(t, _binCount), t, _lastBin);
+        LaneCounting.Count<TOps, TD, TB>(t, _binOffsets, _index, _counts, Lanes);
+    }
+
+    /// <summary>Counts the energy histogram's slot of <paramref name="de"/> = V − V_ref.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal void CountEnergy(TD de)
+        => LaneCounting.Count<TOps, TD, TB>(LaneCounting.EnergySlot<TOps, TD, TB>(de, _energyScale), _energyOffsets, _index, _energyCounts, Lanes);
+
+    /// <summary>Keeps draw <paramref name="j"/> of the chunk (x, and y and z for three coordinates) if it is among each chain's first kept draws.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal void Keep(int j, int coordinates, TD x, TD y, TD z)
+    {
+        if (j >= _retain)
+        {
+            return;
+        }
+        var scratch = _scratch;
+        var kept = _kept;
+        long at = _done + j;
+        TOps.Store(x, ref scratch[0]);
+        if (coordinates == 1)
+        {
+            for (int lane = 0; lane < Lanes; lane++)
+            {
+                kept[lane * _keptStride + at] = scratch[lane];
+            }
+            return;
+        }
+        TOps.Store(y, ref scratch[TOps.Count]);
+        TOps.Store(z, ref scratch[2 * TOps.Count]);
+        for (int lane = 0; lane < Lanes; lane++)
+        {
+            long row = 3 * (lane * _keptStride + at);
+            kept[row] = scratch[lane];
+            kept[row + 1] = scratch[TOps.Count + lane];
+            kept[row + 2] = scratch[2 * TOps.Count + lane];
+        }
+    }
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit

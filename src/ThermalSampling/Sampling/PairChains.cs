@@ -55,7 +55,7 @@ internal static class PairChains
         var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
             (lanes, first, end, checkpoints, g) => PairLaneChains.Run(lanes, plan!, first, end, c => quantile!(chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1)),
                 NewRecord, NewReporter, checkpoints, g, cancellationToken),
-            (c, checkpoints) => new DirectChain<TPotential>(table!, landscape.Potential, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
+            (c, checkpoints) => new DirectChain<TableDraws<TPotential>>(new(table!, landscape.Potential), settings, c, NewRecord(c), NewReporter(c), "direct chain").Run(checkpoints, cancellationToken));
         return new TemperatureRecord("pair", landscape.Description, Fingerprint(landscape), temperature, settings, targetAcceptance, 1, layout, [.. results],
             Internal.LibraryVersion.Current);
     }
@@ -113,53 +113,16 @@ internal static class PairChains
         };
     }
 
-    /// <summary>One chain of direct draws from the inverse-CDF table, resumable at every 4096th draw.</summary>
-    private sealed class DirectChain<TPotential>(InverseCdfTable table, TPotential potential, SamplingSettings settings, int chain, ChainRecord record, ProgressReporter progress)
-        : IResumableGroup
+    /// <summary>Direct draws of a pair's separation from the inverse-CDF table, each with its energy.</summary>
+    private readonly struct TableDraws<TPotential>(InverseCdfTable table, TPotential potential) : IDirectSource
         where TPotential : struct, IPairPotential
     {
-        private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
-        private long _done;
-
-        public long ChainStepsDone => _done;
-
-        internal ChainRecord Run(GroupCheckpoints checkpoints, CancellationToken ct)
+        public void Draw(ref RandomStream random, ChainRecord record)
         {
-            if (checkpoints.SavedState(chain) is byte[] saved)
-            {
-                var r = new StateReader(saved, "direct chain " + chain.ToString(CultureInfo.InvariantCulture));
-                _random = RandomStream.FromState(r.Words("RAND", 4));
-                _done = r.InRange(r.Longs("DONE", 1)[0], 0, settings.SamplesPerChain, "the draws done");
-                record.Load(r);
-                r.End();
-            }
-            var boundary = new ChunkBoundary([progress], checkpoints, chain, this, ct);
-            long n = settings.SamplesPerChain;
-            for (; _done < n; _done++)
-            {
-                if ((_done & 4095) == 0)
-                {
-                    boundary.Reached(_done);
-                }
-                double r = table.Draw(ref _random);
-                record.AddSeparation(r, potential.Energy(r)); // a struct call the JIT inlines; the draw lies where the table's density is finite
-            }
-            checkpoints.Finished(chain, this);
-            progress.Finish();
-            (record.Proposals, record.Accepted) = (n, n);
-            Span<ulong> words = stackalloc ulong[4];
-            _random.GetState(words);
-            record.SetStreamState(words);
-            return record;
-        }
-
-        public void Save(StateWriter w)
-        {
-            Span<ulong> state = stackalloc ulong[4];
-            _random.GetState(state);
-            w.Words("RAND", state);
-            w.Longs("DONE", [_done]);
-            record.Save(w);
+            double r = table.Draw(ref random);
+            record.AddSeparation(r, potential.Energy(r)); // a struct call the JIT inlines; the draw lies where the table's density is finite
+            record.Proposals++;
+            record.Accepted++;
         }
     }
 }

@@ -31,24 +31,21 @@ internal static class PairLaneChains
         internal double BetaOf(int chain) => ChainBetas?[chain] ?? Beta;
     }
 
-    /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond the chain count are computed and dropped),
-    /// from the start or from the group's checkpointed state.</summary>
-    internal static ChainRecord[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start,
+    /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond <paramref name="end"/> are computed and dropped),
+    /// from the start or from the group's checkpointed state, each starting at <paramref name="start"/>(chain).</summary>
+    internal static ChainRecord[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int end, Func<int, double> start,
         Func<int, ChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => LaneWidths.Dispatch<GroupJob<TPotential>, ChainRecord[]>(lanes, new(plan, firstChain, chains, start, record, progress, checkpoints, group, ct));
+        => LaneGroups.Run(lanes, new Starts<TPotential>(plan, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
 
-    /// <summary>A pair lane group at the width the dispatcher picks.</summary>
-    private readonly record struct GroupJob<TPotential>(Plan<TPotential> Plan, int FirstChain, int Chains, Func<int, double> Start,
-        Func<int, ChainRecord> Record, Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints, int Group, CancellationToken Ct)
-        : ILaneWidthJob<ChainRecord[]>
-        where TPotential : struct, IPairPotential
+    /// <summary>The plan and the chains' starts: what builds a pair group at any width.</summary>
+    private readonly record struct Starts<TPotential>(Plan<TPotential> Plan, Func<int, double> Start) : ILanePlan where TPotential : struct, IPairPotential
     {
-        public ChainRecord[] Run<TOps, TD, TB>()
+        public ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
-            => new Group<TOps, TD, TB, TPotential>(Plan, FirstChain, Chains, Start, Record, Progress).Run(Checkpoints, Group, Ct);
+            => new Group<TOps, TD, TB, TPotential>(Plan, Start, work).Run();
     }
 
     /// <summary>One lane group of pair chains on the lane engine: the pair walk, the line recorder and the chains' records.</summary>
@@ -64,30 +61,17 @@ internal static class PairLaneChains
         private readonly Tally _tally;
         private readonly Func<int, double> _start;
 
-        internal Group(Plan<TPotential> plan, int firstChain, int chains, Func<int, double> start, Func<int, ChainRecord> makeRecord,
-            Func<int, ProgressReporter> makeProgress)
+        internal Group(Plan<TPotential> plan, Func<int, double> start, GroupWork work)
             : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, plan.TargetAcceptance, BlockedMomentAccumulator.BlockSize,
-                "PLGH", "LOGW", "pair chain group"), new PairWalk<TOps, TD, TB, TPotential>(plan), firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
+                "PLGH", "LOGW", "pair chain group"), new PairWalk<TOps, TD, TB, TPotential>(plan), work)
         {
             _plan = plan;
             _start = start;
-            _records = new ChainRecord[Live];
-            for (int lane = 0; lane < Live; lane++)
-            {
-                _records[lane] = makeRecord(firstChain + lane);
-            }
+            _records = Records;
             _tally = new Tally(_records, TOps.Count);
         }
 
-        internal ChainRecord[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
-        {
-            var stepWidth = RunLanes(checkpoints, group, ct);
-            for (int lane = 0; lane < Live; lane++)
-            {
-                FinishRecord(_records[lane], lane, _plan.Samples, (long)TOps.Get(Sums.Accepted, lane), TOps.Get(stepWidth, lane), 0, 0);
-            }
-            return _records;
-        }
+        private protected override long Accepted(int lane) => (long)TOps.Get(Sums.Accepted, lane);
 
         private protected override void PlaceLane(int lane, int chain)
         {
@@ -100,19 +84,7 @@ internal static class PairLaneChains
 
         private protected override void StartRecords() => Sums.BlockReference = State.Position;
 
-        private protected override int BatchSize => _records[0].Stores[0].BatchSize;
-
-        private protected override void AddClosedBatches(int closed)
-        {
-            for (int k = 0; k < closed; k++)
-            {
-                for (int lane = 0; lane < _records.Length; lane++)
-                {
-                    _records[lane].Stores[0].AddBatchSums(_tally.BatchSums[4 * k * TOps.Count + lane], _tally.BatchSums[(4 * k + 1) * TOps.Count + lane]);
-                    _records[lane].Energies.AddBatchSums(_tally.BatchSums[(4 * k + 2) * TOps.Count + lane], _tally.BatchSums[(4 * k + 3) * TOps.Count + lane]);
-                }
-            }
-        }
+        private protected override LaneTally Tally => _tally;
 
         private protected override void CloseBlock(int count)
         {
@@ -128,25 +100,6 @@ internal static class PairLaneChains
             Sums.BlockReference = State.Position;
         }
 
-        private protected override void SaveRecords(StateWriter w)
-        {
-            foreach (var record in _records)
-            {
-                record.Save(w);
-            }
-            _tally.Save(w, RecordedSteps);
-        }
-
-        private protected override void LoadRecords(StateReader r)
-        {
-            foreach (var record in _records)
-            {
-                record.Load(r);
-            }
-            _tally.Load(r, RecordedSteps);
-        }
-
-        private protected override void Complete() => _tally.CopyTo(_records, _plan.Samples);
     }
 
     /// <summary>
@@ -235,39 +188,14 @@ internal static class PairLaneChains
         where TD : struct
         where TB : struct
     {
-        private readonly TD _batchReference, _energyReference, _binLower, _binScale, _binCount, _lastBin, _energyScale;
-        private readonly TB _laneOffsets, _energyOffsets;
-        private readonly long[] _counts, _energyCounts;
-        private readonly ulong[] _index;
-        private readonly double[] _scratch, _kept, _batchSums;
-        private readonly long _keptStride, _done, _retain;
-        private readonly int _lanes;
+        private readonly LaneTallyView<TOps, TD, TB> _tally;
+        private readonly TD _batchReference, _binLower;
 
         internal LineRecorder(Tally tally, long done, int chunk)
         {
+            _tally = new LaneTallyView<TOps, TD, TB>(tally, done, chunk);
             _batchReference = TOps.Broadcast(tally.BatchReference);
-            _energyReference = TOps.Broadcast(tally.EnergyReference);
             _binLower = TOps.Broadcast(tally.BinLower);
-            _binScale = TOps.Broadcast(tally.BinScale);
-            _binCount = TOps.Broadcast(tally.Bins);
-            _lastBin = TOps.Broadcast(tally.Bins - 1);
-            _lanes = tally.Lanes;
-            _laneOffsets = LaneCounting.Offsets<TOps, TD, TB>(tally.Bins, _lanes);
-            _energyOffsets = LaneCounting.Offsets<TOps, TD, TB>(EnergyHistogram.Slots, _lanes);
-            _energyScale = TOps.Broadcast(0.0);
-            for (int lane = 0; lane < TOps.Count; lane++)
-            {
-                _energyScale = TOps.Set(_energyScale, lane, tally.EnergyScales[lane]);
-            }
-            _energyCounts = tally.EnergyCounts;
-            _counts = tally.Counts;
-            _index = tally.Index;
-            _scratch = tally.Scratch;
-            _kept = tally.Kept;
-            _batchSums = tally.BatchSums;
-            _keptStride = tally.Retained;
-            _done = done;
-            _retain = Math.Max(0, Math.Min(chunk, tally.Retained - done)); // the first steps of the chain may be kept raw
         }
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -288,32 +216,21 @@ internal static class PairLaneChains
             var b = TOps.Subtract(x, _batchReference);
             sums.B1 = TOps.Add(sums.B1, b);
             sums.B2 = TOps.Add(sums.B2, TOps.Multiply(b, b));
-            var de = TOps.Subtract(point.Energy, _energyReference);
+            var de = TOps.Subtract(point.Energy, _tally.EnergyReference);
             sums.E1 = TOps.Add(sums.E1, de);
             sums.E2 = TOps.Add(sums.E2, TOps.Multiply(de, de));
             LaneEnergySums.Add<TOps, TD, TB>(ref sums.Energy, de);
 
-            // Histograms: x is inside the window, so t = (x − lower)·scale is in [0, bins]; t = bins (the upper wall) goes to
-            // the last bin. Then the energy's slot.
-            var t = TOps.Multiply(TOps.Subtract(x, _binLower), _binScale);
-            t = TOps.Select(TOps.LessThan(t, _binCount), t, _lastBin);
-            LaneCounting.Count<TOps, TD, TB>(t, _laneOffsets, _index, _counts, _lanes);
-            LaneCounting.Count<TOps, TD, TB>(LaneCounting.EnergySlot<TOps, TD, TB>(de, _energyScale), _energyOffsets, _index, _energyCounts, _lanes);
-            if (j < _retain)
-            {
-                var scaled = _scratch;
-                TOps.Store(x, ref scaled[0]);
-                for (int lane = 0; lane < _lanes; lane++)
-                {
-                    _kept[lane * _keptStride + _done + j] = scaled[lane];
-                }
-            }
+            // Histograms (x is inside the window, so x − lower is in [0, width]), then the draw itself if kept.
+            _tally.CountBin(TOps.Subtract(x, _binLower));
+            _tally.CountEnergy(de);
+            _tally.Keep(j, 1, x, x, x);
         }
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         public void CloseBatch(ref LineSums<TD> sums, int closed)
         {
-            var batchSums = _batchSums;
+            var batchSums = _tally.BatchSums;
             TOps.Store(sums.B1, ref batchSums[4 * closed * TOps.Count]);
             TOps.Store(sums.B2, ref batchSums[(4 * closed + 1) * TOps.Count]);
             TOps.Store(sums.E1, ref batchSums[(4 * closed + 2) * TOps.Count]);
@@ -323,30 +240,12 @@ internal static class PairLaneChains
         }
     }
 
-    /// <summary>The histogram counts and retained draws of a lane group, in flat arrays the inner loop can reach without calls.</summary>
-    internal sealed class Tally(ChainRecord[] records, int width)
-        : LaneTally(records[0].Bins, records[0].KeptSeparations.Capacity, width, records.Length, 1, batchValues: 4, records[0].Stores[0].BatchSize,
-            Array.ConvertAll(records, r => r.EnergyHistogram))
+    /// <summary>The line recorder's tally: the flat arrays of <see cref="LaneTally"/> and the line's references.</summary>
+    internal sealed class Tally(ChainRecord[] records, int width) : LaneTally(records, width, batchValues: 4)
     {
         internal double BatchReference { get; } = records[0].Stores[0].Reference;
 
-        internal double EnergyReference { get; } = records[0].EnergyReferenceInElectronVolts;
-
         internal double BinLower { get; } = records[0].Bins.Lower;
-
-        internal void CopyTo(ChainRecord[] records, long samples)
-        {
-            long kept = Math.Min(samples, Retained);
-            for (int lane = 0; lane < Lanes; lane++)
-            {
-                records[lane].Bins.AddCounts(Counts.AsSpan(lane * Bins, Bins));
-                CopyEnergyCounts(lane, records[lane].EnergyHistogram);
-                for (long k = 0; k < kept; k++)
-                {
-                    records[lane].KeptSeparations.Add(Kept[lane * Retained + k]);
-                }
-            }
-        }
     }
 
     /// <summary>The pair walk's state in every lane: position, energy, Jacobian, −β, random stream and fault notes (saved

@@ -57,7 +57,8 @@ internal static class SiteChains
         var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
             (lanes, first, end, checkpoints, g) => SiteLaneChains.Run(lanes, plan!, first, end, c => StartOfChain(landscape, min, cholesky, settings.Seed, c),
                 NewRecord, NewReporter, checkpoints, g, cancellationToken),
-            (c, checkpoints) => new DirectChain<TPotential>(kernel, landscape, min, envelope!, basin, settings, c, NewRecord(c), NewReporter(c)).Run(checkpoints, cancellationToken));
+            (c, checkpoints) => new DirectChain<EnvelopeDraws<TPotential>>(new(kernel, landscape, min, envelope!, basin), settings, c, NewRecord(c), NewReporter(c), "direct site chain")
+                .Run(checkpoints, cancellationToken));
         return new TemperatureRecord("sites", landscape.Description, Fingerprint(landscape), temperature, settings, target, sigmaMin, layout, [.. results],
             Internal.LibraryVersion.Current);
     }
@@ -122,88 +123,43 @@ internal static class SiteChains
 
     /// <summary>The index of the potential energy's batch-means store among a site chain's stores (after x, y and z).</summary>
 
-    /// <summary>One chain of envelope-rejection draws, resumable at every 4096th accepted draw.</summary>
-    private sealed class DirectChain<TPotential>(SiteWeight<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min, Envelope envelope,
-        BasinGrid basin, SamplingSettings settings, int chain, ChainRecord record, ProgressReporter progress) : IResumableGroup
+    /// <summary>Direct draws of a site's position by rejection from the Gaussian envelope, counting the envelope draws tried.</summary>
+    private readonly struct EnvelopeDraws<TPotential>(SiteWeight<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min, Envelope envelope,
+        BasinGrid basin) : IDirectSource
         where TPotential : struct, IPairPotential
     {
-        private RandomStream _random = RandomStream.ForChain(settings.Seed, chain);
-        private long _done, _proposals, _nearWall, _outsideBasin;
-
-        public long ChainStepsDone => _done;
-
-        internal ChainRecord Run(GroupCheckpoints checkpoints, CancellationToken ct)
+        public void Draw(ref RandomStream random, ChainRecord record)
         {
-            if (checkpoints.SavedState(chain) is byte[] saved)
+            while (true)
             {
-                Load(new StateReader(saved, "direct site chain " + chain.ToString(CultureInfo.InvariantCulture)));
-            }
-            var boundary = new ChunkBoundary([progress], checkpoints, chain, this, ct);
-            double band = envelope.WallBand;
-            for (; _done < settings.SamplesPerChain; _done++)
-            {
-                if ((_done & 4095) == 0)
+                record.Proposals++;
+                var (x, y, z, logQ) = envelope.Draw(ref random);
+                double logP = kernel.LogWeight(x, y, z) - envelope.LogWeightAtMinimum;
+                if (double.IsNegativeInfinity(logP))
                 {
-                    boundary.Reached(_done);
+                    continue;
                 }
-                while (true)
+                double logRatio = logP - logQ;
+                if (logRatio > envelope.LogBound)
                 {
-                    _proposals++;
-                    var (x, y, z, logQ) = envelope.Draw(ref _random);
-                    double logP = kernel.LogWeight(x, y, z) - envelope.LogWeightAtMinimum;
-                    if (double.IsNegativeInfinity(logP))
+                    throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture,
+                        $"Direct sampling found a position where the Boltzmann weight exceeds its Gaussian envelope bound (log ratio {logRatio:G4} > {envelope.LogBound:G4}); the draws would be biased. Use Metropolis for this landscape."));
+                }
+                if (Math.Log(random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
+                {
+                    record.AddPosition(x, y, z, landscape.Energy(new Position(x, y, z)), min);
+                    record.Accepted++;
+                    if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, envelope.WallBand))
                     {
-                        continue;
+                        record.DrawsNearWall++;
                     }
-                    double logRatio = logP - logQ;
-                    if (logRatio > envelope.LogBound)
+                    if (basin.AnyOutside && basin.IsOutside(x, y, z))
                     {
-                        throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture,
-                            $"Direct sampling found a position where the Boltzmann weight exceeds its Gaussian envelope bound (log ratio {logRatio:G4} > {envelope.LogBound:G4}); the draws would be biased. Use Metropolis for this landscape."));
+                        record.DrawsOutsideBasin++;
                     }
-                    if (Math.Log(_random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
-                    {
-                        record.AddPosition(x, y, z, landscape.Energy(new Position(x, y, z)), min);
-                        if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, band))
-                        {
-                            _nearWall++;
-                        }
-                        if (basin.AnyOutside && basin.IsOutside(x, y, z))
-                        {
-                            _outsideBasin++;
-                        }
-                        break;
-                    }
+                    return;
                 }
             }
-            checkpoints.Finished(chain, this);
-            progress.Finish();
-            (record.Proposals, record.Accepted, record.DrawsNearWall, record.DrawsOutsideBasin) = (_proposals, settings.SamplesPerChain, _nearWall, _outsideBasin);
-            Span<ulong> words = stackalloc ulong[4];
-            _random.GetState(words);
-            record.SetStreamState(words);
-            return record;
-        }
-
-        public void Save(StateWriter w)
-        {
-            Span<ulong> state = stackalloc ulong[4];
-            _random.GetState(state);
-            w.Words("RAND", state);
-            w.Longs("DONE", [_done, _proposals, _nearWall, _outsideBasin]);
-            record.Save(w);
-        }
-
-        private void Load(StateReader r)
-        {
-            _random = RandomStream.FromState(r.Words("RAND", 4));
-            var counts = r.Longs("DONE", 4);
-            _done = r.InRange(counts[0], 0, settings.SamplesPerChain, "the draws done");
-            _proposals = r.InRange(counts[1], _done, long.MaxValue, "the proposals");
-            _nearWall = r.InRange(counts[2], 0, _done, "the draws near the wall");
-            _outsideBasin = r.InRange(counts[3], 0, _done, "the draws outside the basin");
-            record.Load(r);
-            r.End();
         }
     }
 

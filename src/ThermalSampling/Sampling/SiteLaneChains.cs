@@ -38,21 +38,21 @@ internal static class SiteLaneChains
     /// <summary>Per chain: its stream advanced past the start-point draws, and the start.</summary>
     internal delegate (RandomStream Stream, Position Start) ChainStart(int chain);
 
-    internal static ChainRecord[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int chains, ChainStart start, Func<int, ChainRecord> record,
+    /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond <paramref name="end"/> are computed and dropped),
+    /// from the start or from the group's checkpointed state.</summary>
+    internal static ChainRecord[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int end, ChainStart start, Func<int, ChainRecord> record,
         Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => LaneWidths.Dispatch<GroupJob<TPotential>, ChainRecord[]>(lanes, new(plan, firstChain, chains, start, record, progress, checkpoints, group, ct));
+        => LaneGroups.Run(lanes, new Starts<TPotential>(plan, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
 
-    /// <summary>A site lane group at the width the dispatcher picks.</summary>
-    private readonly record struct GroupJob<TPotential>(Plan<TPotential> Plan, int FirstChain, int Chains, ChainStart Start, Func<int, ChainRecord> Record,
-        Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints, int Group, CancellationToken Ct) : ILaneWidthJob<ChainRecord[]>
-        where TPotential : struct, IPairPotential
+    /// <summary>The plan and the chains' starts: what builds a site group at any width.</summary>
+    private readonly record struct Starts<TPotential>(Plan<TPotential> Plan, ChainStart Start) : ILanePlan where TPotential : struct, IPairPotential
     {
-        public ChainRecord[] Run<TOps, TD, TB>()
+        public ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
-            => new Group<TOps, TD, TB, TPotential>(Plan, FirstChain, Chains, Start, Record, Progress).Run(Checkpoints, Group, Ct);
+            => new Group<TOps, TD, TB, TPotential>(Plan, Start, work).Run();
     }
 
     /// <summary>One lane group of site chains on the lane engine: the site walk, the site recorder and the chains' records.</summary>
@@ -68,30 +68,20 @@ internal static class SiteLaneChains
         private readonly SiteTally _tally;
         private readonly ChainStart _start;
 
-        internal Group(Plan<TPotential> plan, int firstChain, int chains, ChainStart start, Func<int, ChainRecord> makeRecord, Func<int, ProgressReporter> makeProgress)
+        internal Group(Plan<TPotential> plan, ChainStart start, GroupWork work)
             : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialScale, plan.MaxScale, plan.TargetAcceptance, BlockSize, "SLGH", "LOGS", "site chain group"),
-                new SiteWalk<TOps, TD, TB, TPotential>(plan), firstChain, chains, MakeReporters(firstChain, chains, makeProgress))
+                new SiteWalk<TOps, TD, TB, TPotential>(plan), work)
         {
             _plan = plan;
             _start = start;
-            _records = new ChainRecord[Live];
-            for (int lane = 0; lane < Live; lane++)
-            {
-                _records[lane] = makeRecord(firstChain + lane);
-            }
+            _records = Records;
             _tally = new SiteTally(_records, TOps.Count, plan.Basin, plan.Minimum, plan.Confinement, plan.Centre, plan.WallBand);
         }
 
-        internal ChainRecord[] Run(GroupCheckpoints checkpoints, int group, CancellationToken ct)
-        {
-            var scale = RunLanes(checkpoints, group, ct);
-            for (int lane = 0; lane < Live; lane++)
-            {
-                FinishRecord(_records[lane], lane, _plan.Samples, (long)TOps.Get(Sums.Accepted, lane), TOps.Get(scale, lane), (long)TOps.Get(Sums.NearWall, lane),
-                    _tally.OutsideBasin[lane]);
-            }
-            return _records;
-        }
+        private protected override long Accepted(int lane) => (long)TOps.Get(Sums.Accepted, lane);
+
+        private protected override void CompleteRecord(ChainRecord record, int lane)
+            => (record.DrawsNearWall, record.DrawsOutsideBasin) = ((long)TOps.Get(Sums.NearWall, lane), _tally.OutsideBasin[lane]);
 
         private protected override void PlaceLane(int lane, int chain)
         {
@@ -107,21 +97,7 @@ internal static class SiteLaneChains
 
         private protected override void StartRecords() => Array.Clear(_tally.OutsideBasin);
 
-        private protected override int BatchSize => _records[0].Stores[0].BatchSize;
-
-        private protected override void AddClosedBatches(int closed)
-        {
-            for (int k = 0; k < closed; k++)
-            {
-                for (int lane = 0; lane < _records.Length; lane++)
-                {
-                    for (int value = 0; value < 4; value++) // x, y, z, then the potential energy
-                    {
-                        _records[lane].Stores[value].AddBatchSums(_tally.BatchSums[(8 * k + 2 * value) * TOps.Count + lane], _tally.BatchSums[(8 * k + 2 * value + 1) * TOps.Count + lane]);
-                    }
-                }
-            }
-        }
+        private protected override LaneTally Tally => _tally;
 
         private protected override void CloseBlock(int count)
         {
@@ -139,27 +115,9 @@ internal static class SiteLaneChains
             s.Energy = default;
         }
 
-        private protected override void SaveRecords(StateWriter w)
-        {
-            foreach (var record in _records)
-            {
-                record.Save(w);
-            }
-            _tally.Save(w, RecordedSteps);
-            w.Longs("OUTB", _tally.OutsideBasin);
-        }
+        private protected override void SaveExtra(StateWriter w) => w.Longs("OUTB", _tally.OutsideBasin);
 
-        private protected override void LoadRecords(StateReader r)
-        {
-            foreach (var record in _records)
-            {
-                record.Load(r);
-            }
-            _tally.Load(r, RecordedSteps);
-            r.Longs("OUTB", _tally.OutsideBasin.Length).CopyTo(_tally.OutsideBasin, 0);
-        }
-
-        private protected override void Complete() => _tally.CopyTo(_records, _plan.Samples);
+        private protected override void LoadExtra(StateReader r) => r.Longs("OUTB", _tally.OutsideBasin.Length).CopyTo(_tally.OutsideBasin, 0);
     }
 
     /// <summary>The confinement test (<see cref="Confinement.Contains"/>'s arithmetic) and the wall band, in every lane, without a square root.</summary>
@@ -353,37 +311,19 @@ internal static class SiteLaneChains
         where TD : struct
         where TB : struct
     {
+        private readonly LaneTallyView<TOps, TD, TB> _tally;
         private readonly LaneConfinement<TOps, TD, TB> _confinement;
-        private readonly TD _minX, _minY, _minZ, _energyReference, _binScale, _binCount, _lastBin, _gridX0, _gridY0, _gridZ0, _gridScale, _gridN, _energyScale;
-        private readonly TB _laneOffsets, _energyOffsets;
-        private readonly long[] _counts, _outsideBasin, _energyCounts;
-        private readonly ulong[] _index;
+        private readonly TD _minX, _minY, _minZ, _gridX0, _gridY0, _gridZ0, _gridScale, _gridN;
+        private readonly long[] _outsideBasin;
         private readonly byte[] _outsideMask;
-        private readonly double[] _scratch, _kept, _batchSums;
-        private readonly long _keptStride, _done, _retain;
-        private readonly int _lanes;
         private readonly bool _countOutside;
 
         internal SiteRecorder(SiteTally tally, long done, int chunk)
         {
+            _tally = new LaneTallyView<TOps, TD, TB>(tally, done, chunk);
             _confinement = new LaneConfinement<TOps, TD, TB>(tally.Confinement.Confinement, tally.Confinement.Centre, tally.Confinement.WallBand);
             var minimum = tally.Minimum;
             (_minX, _minY, _minZ) = (TOps.Broadcast(minimum.X), TOps.Broadcast(minimum.Y), TOps.Broadcast(minimum.Z));
-            _energyReference = TOps.Broadcast(tally.EnergyReference);
-            _binScale = TOps.Broadcast(tally.BinScale);
-            _binCount = TOps.Broadcast(tally.Bins);
-            _lastBin = TOps.Broadcast(tally.Bins - 1);
-            _lanes = tally.Lanes;
-            _laneOffsets = LaneCounting.Offsets<TOps, TD, TB>(tally.Bins, _lanes);
-            _energyOffsets = LaneCounting.Offsets<TOps, TD, TB>(EnergyHistogram.Slots, _lanes);
-            _energyScale = TOps.Broadcast(0.0);
-            for (int lane = 0; lane < TOps.Count; lane++)
-            {
-                _energyScale = TOps.Set(_energyScale, lane, tally.EnergyScales[lane]);
-            }
-            _energyCounts = tally.EnergyCounts;
-            _counts = tally.Counts;
-            _index = tally.Index;
             var grid = tally.Basin;
             _outsideMask = grid.Outside;
             _outsideBasin = tally.OutsideBasin;
@@ -391,12 +331,6 @@ internal static class SiteLaneChains
             (_gridX0, _gridY0, _gridZ0) = (TOps.Broadcast(grid.X0), TOps.Broadcast(grid.Y0), TOps.Broadcast(grid.Z0));
             _gridScale = TOps.Broadcast(1 / grid.Spacing);
             _gridN = TOps.Broadcast(grid.N);
-            _scratch = tally.Scratch;
-            _kept = tally.Kept;
-            _batchSums = tally.BatchSums;
-            _keptStride = tally.Retained;
-            _done = done;
-            _retain = Math.Max(0, Math.Min(chunk, tally.Retained - done));
         }
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -426,20 +360,16 @@ internal static class SiteLaneChains
             s.BXX = TOps.Add(s.BXX, TOps.Multiply(mx, mx));
             s.BYY = TOps.Add(s.BYY, TOps.Multiply(my, my));
             s.BZZ = TOps.Add(s.BZZ, TOps.Multiply(mz, mz));
-            var de = TOps.Subtract(point.Energy, _energyReference); // the same batches of V − V_min (what reweighting needs)
+            var de = TOps.Subtract(point.Energy, _tally.EnergyReference); // the same batches of V − V_min (what reweighting needs)
             s.BE = TOps.Add(s.BE, de);
             s.BEE = TOps.Add(s.BEE, TOps.Multiply(de, de));
             LaneEnergySums.Add<TOps, TD, TB>(ref s.Energy, de);
 
-            // The near-wall fraction (within the band of the wall) and the radial histogram about the minimum.
+            // The near-wall fraction (within the band of the wall), the radial histogram about the minimum, the energy's.
             _confinement.Inside(point.X, point.Y, point.Z, out var near);
             s.NearWall = TOps.Add(s.NearWall, TOps.Select(near, one, zero));
-            var t = TOps.Multiply(TOps.Sqrt(TOps.Add(TOps.Add(TOps.Multiply(mx, mx), TOps.Multiply(my, my)), TOps.Multiply(mz, mz))), _binScale);
-            t = TOps.Select(TOps.LessThan(t, _binCount), t, _lastBin);
-            var index = _index;
-            int lanes = _lanes;
-            LaneCounting.Count<TOps, TD, TB>(t, _laneOffsets, index, _counts, lanes);
-            LaneCounting.Count<TOps, TD, TB>(LaneCounting.EnergySlot<TOps, TD, TB>(de, _energyScale), _energyOffsets, index, _energyCounts, lanes);
+            _tally.CountBin(TOps.Sqrt(TOps.Add(TOps.Add(TOps.Multiply(mx, mx), TOps.Multiply(my, my)), TOps.Multiply(mz, mz))));
+            _tally.CountEnergy(de);
 
             // Basin membership by the nearest point of the basin grid, only when the confinement reaches outside the basin
             // (a loop-invariant branch): i = round((x − x0)/h) by adding and removing 2^52 (exact for 0 ≤ t < 2^51), the
@@ -451,36 +381,22 @@ internal static class SiteLaneChains
                 var gj = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(point.Y, _gridY0), _gridScale, roundShift), roundShift);
                 var gk = TOps.Subtract(TOps.MultiplyAdd(TOps.Subtract(point.Z, _gridZ0), _gridScale, roundShift), roundShift);
                 var flat = TOps.MultiplyAdd(TOps.MultiplyAdd(gk, _gridN, gj), _gridN, gi);
+                var index = _tally.Index;
                 TOps.StoreBits(TOps.Truncate(flat), ref index[0]);
                 var outsideMask = _outsideMask;
                 var outsideBasin = _outsideBasin;
-                for (int lane = 0; lane < lanes; lane++)
+                for (int lane = 0; lane < _tally.Lanes; lane++)
                 {
                     outsideBasin[lane] += outsideMask[index[lane]];
                 }
             }
-            if (j < _retain)
-            {
-                long at = _done + j;
-                var scratch = _scratch;
-                var kept = _kept;
-                TOps.Store(point.X, ref scratch[0]);
-                TOps.Store(point.Y, ref scratch[TOps.Count]);
-                TOps.Store(point.Z, ref scratch[2 * TOps.Count]);
-                for (int lane = 0; lane < lanes; lane++)
-                {
-                    long row = 3 * (lane * _keptStride + at);
-                    kept[row] = scratch[lane];
-                    kept[row + 1] = scratch[TOps.Count + lane];
-                    kept[row + 2] = scratch[2 * TOps.Count + lane];
-                }
-            }
+            _tally.Keep(j, 3, point.X, point.Y, point.Z);
         }
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         public void CloseBatch(ref SiteSums<TD> s, int closed)
         {
-            var batchSums = _batchSums;
+            var batchSums = _tally.BatchSums;
             int at = 8 * closed * TOps.Count;
             TOps.Store(s.BX, ref batchSums[at]);
             TOps.Store(s.BXX, ref batchSums[at + TOps.Count]);
@@ -496,48 +412,20 @@ internal static class SiteLaneChains
     }
 
     /// <summary>Histogram counts, batch sums and retained draws of a lane group, in flat arrays the inner loop reaches without calls.</summary>
-    internal sealed class SiteTally : LaneTally
+    internal sealed class SiteTally(ChainRecord[] records, int width, BasinGrid basin, Position minimum, Confinement confinement, Position centre, double wallBand)
+        : LaneTally(records, width, batchValues: 8)
     {
-        internal SiteTally(ChainRecord[] records, int width, BasinGrid basin, Position minimum, Confinement confinement, Position centre, double wallBand)
-            : base(records[0].Bins, records[0].KeptPositions.Capacity, width, records.Length, 3, batchValues: 8, records[0].Stores[0].BatchSize,
-                Array.ConvertAll(records, r => r.EnergyHistogram))
-        {
-            EnergyReference = records[0].EnergyReferenceInElectronVolts;
-            Basin = basin;
-            Minimum = minimum;
-            OutsideBasin = new long[records.Length];
-            Confinement = (confinement, centre, wallBand);
-        }
-
-        /// <summary>The reference the energy batch sums are taken about (the harmonic minimum's energy).</summary>
-        internal double EnergyReference { get; }
-
         /// <summary>The harmonic minimum the deviations are taken from.</summary>
-        internal Position Minimum { get; }
+        internal Position Minimum { get; } = minimum;
 
         /// <summary>The site's basin map, for the membership test of every draw.</summary>
-        internal BasinGrid Basin { get; }
+        internal BasinGrid Basin { get; } = basin;
 
         /// <summary>Recorded draws outside the site's basin, per live lane.</summary>
-        internal long[] OutsideBasin { get; }
+        internal long[] OutsideBasin { get; } = new long[records.Length];
 
         /// <summary>The confinement and wall band, for the near-wall count.</summary>
-        internal (Confinement Confinement, Position Centre, double WallBand) Confinement { get; }
-
-        internal void CopyTo(ChainRecord[] records, long samples)
-        {
-            long kept = Math.Min(samples, Retained);
-            for (int lane = 0; lane < Lanes; lane++)
-            {
-                records[lane].Bins.AddCounts(Counts.AsSpan(lane * Bins, Bins));
-                CopyEnergyCounts(lane, records[lane].EnergyHistogram);
-                for (long k = 0; k < kept; k++)
-                {
-                    long row = 3 * (lane * (long)Retained + k);
-                    records[lane].KeptPositions.Add(new Position(Kept[row], Kept[row + 1], Kept[row + 2]));
-                }
-            }
-        }
+        internal (Confinement Confinement, Position Centre, double WallBand) Confinement { get; } = (confinement, centre, wallBand);
     }
 }
 

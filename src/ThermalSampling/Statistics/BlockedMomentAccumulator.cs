@@ -53,12 +53,16 @@ internal struct BlockedMomentAccumulator
         (_reference, _s1, _s2, _s3, _s4) = (v[4], v[5], v[6], v[7], v[8]);
     }
 
-    /// <summary>Everything added so far, merged.</summary>
-    internal MomentAccumulator Complete()
+    /// <summary>Everything added so far, merged (the open block included; the accumulator itself is left as it is).</summary>
+    internal readonly MomentAccumulator Complete()
     {
-        Flush();
-        return _total;
+        var copy = this;
+        copy.Flush();
+        return copy._total;
     }
+
+    /// <summary>Values added so far.</summary>
+    internal readonly long Count => _total.Count + _count;
 
     private void Flush()
     {
