@@ -70,12 +70,7 @@ public static class SiteSampler
             range);
     }
 
-    /// <summary>The report of a complete record from <see cref="Sample{TPotential}"/> (or merged parts of one), with the analyses at <paramref name="mass"/>.</summary>
-    /// <typeparam name="TPotential">The potential type.</typeparam>
-    /// <param name="landscape">The landscape the record was sampled in.</param>
-    /// <param name="mass">The particle's mass (for the harmonic and validity analyses).</param>
-    /// <param name="record">Every chain's record of one temperature.</param>
-    /// <exception cref="ArgumentException">When the record comes from another landscape or lacks chains.</exception>
+    /// <inheritdoc cref="PairSampler.Summarise{TPotential}(PairLandscape{TPotential}, Mass, TemperatureRecord)"/>
     public static SiteVibrationReport Summarise<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, TemperatureRecord record)
         where TPotential : struct, IPairPotential
     {
@@ -100,41 +95,14 @@ public static class SiteSampler
         where TPotential : struct, IPairPotential
         => Sweeps.Plain(temperatures, t => Run(landscape, mass, t, settings, progress, cancellationToken));
 
-    /// <summary>
-    /// Runs the sweep and writes checkpoints as <paramref name="checkpoints"/> says, so that an interrupted sweep can be finished
-    /// with <see cref="Resume"/>. When cancelled it writes a last checkpoint, then throws <see cref="OperationCanceledException"/>.
-    /// The reports are the same bits as those of <see cref="Sweep{TPotential}(SiteLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, IProgress{SamplingProgress}?, CancellationToken)"/>.
-    /// </summary>
-    /// <typeparam name="TPotential">The potential type.</typeparam>
-    /// <param name="landscape">The landscape.</param>
-    /// <param name="mass">The particle's mass.</param>
-    /// <param name="temperatures">The temperatures, at least one, no duplicates.</param>
-    /// <param name="settings">The sampling settings.</param>
-    /// <param name="checkpoints">Where and how often to write checkpoints.</param>
-    /// <param name="progress">Optional progress sink.</param>
-    /// <param name="cancellationToken">Optional cancellation; honoured within one chunk of 4096 steps per group.</param>
+    /// <inheritdoc cref="PairSampler.SweepWithCheckpoints{TPotential}(PairLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, CheckpointOptions, IProgress{SamplingProgress}?, CancellationToken)"/>
     public static ImmutableArray<SiteVibrationReport> SweepWithCheckpoints<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
         SamplingSettings settings, CheckpointOptions checkpoints, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
         => Sweeps.WithCheckpoints(landscape, mass, temperatures, settings, checkpoints, Identity,
             (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
 
-    /// <summary>
-    /// Finishes the sweep that wrote <paramref name="checkpoint"/>: each chain continues from its saved state to the
-    /// original <see cref="SamplingSettings.SamplesPerChain"/> (a resume adds no draws beyond the original run's), and the
-    /// reports are bit for bit those of the uninterrupted sweep. The landscape, mass, temperatures and settings must be
-    /// the original ones (worker threads may differ).
-    /// </summary>
-    /// <typeparam name="TPotential">The potential type.</typeparam>
-    /// <param name="landscape">The original landscape.</param>
-    /// <param name="mass">The original mass.</param>
-    /// <param name="temperatures">The original temperatures.</param>
-    /// <param name="settings">The original settings.</param>
-    /// <param name="checkpoint">The checkpoint to continue from.</param>
-    /// <param name="checkpoints">Where to keep writing checkpoints, or null for none.</param>
-    /// <param name="progress">Optional progress sink.</param>
-    /// <param name="cancellationToken">Optional cancellation.</param>
-    /// <exception cref="CheckpointException">When the checkpoint comes from another library version or a different run (the message names each difference).</exception>
+    /// <inheritdoc cref="PairSampler.Resume{TPotential}(PairLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, SamplingCheckpoint, CheckpointOptions?, IProgress{SamplingProgress}?, CancellationToken)"/>
     public static ImmutableArray<SiteVibrationReport> Resume<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
         SamplingSettings settings, SamplingCheckpoint checkpoint, CheckpointOptions? checkpoints = null, IProgress<SamplingProgress>? progress = null,
         CancellationToken cancellationToken = default)
