@@ -41,27 +41,27 @@ public class RecordTests
 
     /// <summary>
     /// A harmonic bond in 1D has ⟨V − V_min⟩ = kT/2 and Var(V) = (kT)²/2 (equipartition; the window's walls cut less than
-    /// 1e-40 of the Gaussian at 300 K): the energy moments every chain records must agree within their sampling error, and
-    /// the energy histogram must count every draw in bins of width 2^⌊log₂(kT/8)⌋.
+    /// 1e-40 of the Gaussian at 300 K): the energy's mean and variance every chain records must agree within their
+    /// sampling error, and the energy histogram must count every draw in bins of width 2^⌊log₂(kT/8)⌋. Also for direct draws.
     /// </summary>
     [Fact]
     public void EveryChainRecordsItsPotentialEnergy()
     {
         double kT = T.ThermalEnergyInElectronVolts;
-        var record = PairSampler.Sample(Bond, T, Settings);
-        foreach (var chain in record.Chains)
+        var chains = PairSampler.Sample(Bond, T, Settings).Chains.AddRange(PairSampler.Sample(Bond, T, Settings with { Method = SamplingMethod.Direct }).Chains);
+        foreach (var chain in chains)
         {
             Assert.Equal(0, chain.EnergyReferenceInElectronVolts, 12); // the bond's minimum energy
-            Assert.Equal(Settings.SamplesPerChain, chain.PotentialEnergy.Count);
-            Assert.InRange(chain.PotentialEnergy.Mean / (kT / 2), 0.9, 1.1);
-            Assert.InRange(chain.PotentialEnergy.Variance / (kT * kT / 2), 0.8, 1.2);
+            Assert.Equal(Settings.SamplesPerChain, chain.Draws);
+            Assert.InRange(chain.PotentialEnergyMeanInElectronVolts / (kT / 2), 0.9, 1.1);
+            Assert.InRange(chain.PotentialEnergyVarianceInElectronVoltsSquared / (kT * kT / 2), 0.8, 1.2);
             var h = chain.EnergyHistogram;
             Assert.Equal(chain.Draws, h.Total);
             Assert.Equal(0, h.Below);
             Assert.True(h.BinWidthInElectronVolts <= kT / 8 && h.BinWidthInElectronVolts > kT / 16);
             Assert.Equal(Math.ScaleB(1.0, Math.ILogB(h.BinWidthInElectronVolts)), h.BinWidthInElectronVolts);
             double histogramMean = h.Counts.Select((n, i) => n * (i + 0.5) * h.BinWidthInElectronVolts).Sum() / h.Total;
-            Assert.InRange(histogramMean - chain.PotentialEnergy.Mean, -h.BinWidthInElectronVolts, h.BinWidthInElectronVolts);
+            Assert.InRange(histogramMean - chain.PotentialEnergyMeanInElectronVolts, -h.BinWidthInElectronVolts, h.BinWidthInElectronVolts);
         }
     }
 

@@ -10,7 +10,7 @@ namespace ThermalSampling.Sampling;
 /// <summary>
 /// What one chain leaves behind, in constant memory however long it ran: streaming moments of what it samples (the
 /// separation of a pair, or the position of a particle among sites), batch means of each coordinate and of the potential
-/// energy, histogram counts, streaming moments and a histogram of the potential energy, proposal and acceptance counts,
+/// energy (and from them the energy's mean and variance over every draw), histogram counts, a histogram of the potential energy, proposal and acceptance counts,
 /// and the state of its random stream after its last draw. The records of a temperature's chains, in chain order, are
 /// what its report is built from (<see cref="TemperatureRecord"/>); they serialise exactly and merge exactly.
 /// </summary>
@@ -22,7 +22,6 @@ public sealed class ChainRecord
     private readonly DrawRecorder<Position>? _keptPositions;
     private BlockedMomentAccumulator _separation;
     private CovarianceAccumulator _position;
-    private BlockedMomentAccumulator _energy;
     private ulong[] _stream = new ulong[4];
 
     internal ChainRecord(RecordLayout layout, int chain, double energyBinWidth)
@@ -101,8 +100,11 @@ public sealed class ChainRecord
         }
     }
 
-    /// <summary>Streaming moments of V − V_ref, eV, with V_ref = <see cref="EnergyReferenceInElectronVolts"/>.</summary>
-    public MomentAccumulator PotentialEnergy => _energy.Complete();
+    /// <summary>The mean of V − V_ref over every recorded draw, eV, with V_ref = <see cref="EnergyReferenceInElectronVolts"/>.</summary>
+    public double PotentialEnergyMeanInElectronVolts => Energies.Totals().Mean - Layout.EnergyReference;
+
+    /// <summary>The variance of V over every recorded draw (divisor n), eV².</summary>
+    public double PotentialEnergyVarianceInElectronVoltsSquared => Energies.Totals().Variance;
 
     /// <summary>V_ref: the energy at the site's minimum, or the pair's reference energy, eV.</summary>
     public double EnergyReferenceInElectronVolts => Layout.EnergyReference;
@@ -159,7 +161,6 @@ public sealed class ChainRecord
     private void AddEnergy(double energy)
     {
         _stores[Layout.Coordinates].Add(energy);
-        _energy.Add(energy - Layout.EnergyReference);
         EnergyHistogram.Add(energy);
     }
 
@@ -168,9 +169,6 @@ public sealed class ChainRecord
 
     /// <summary>Merges a block of position moments (the lane kernels' path).</summary>
     internal void AddPositionBlock(in CovarianceAccumulator block) => _position = CovarianceAccumulator.Merge(_position, block);
-
-    /// <summary>Merges a block of raw power sums of V − V_ref (the lane kernels' path).</summary>
-    internal void AddEnergyBlock(int count, double s1, double s2, double s3, double s4) => _energy.AddBlock(count, 0, s1, s2, s3, s4);
 
     /// <summary>Writes everything the record holds (a checkpoint's or a record file's body for this chain).</summary>
     internal void Save(StateWriter w)
@@ -186,7 +184,6 @@ public sealed class ChainRecord
         {
             _position.Save(w);
         }
-        _energy.Save(w);
         foreach (var store in _stores)
         {
             store.Save(w);
@@ -250,7 +247,6 @@ public sealed class ChainRecord
         {
             _position = CovarianceAccumulator.Load(r);
         }
-        _energy.Load(r);
         foreach (var store in _stores)
         {
             store.Load(r);

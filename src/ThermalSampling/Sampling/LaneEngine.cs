@@ -65,32 +65,9 @@ internal interface ILaneRecorder<TD, TSums>
 
     /// <summary>The batch just filled is the <paramref name="closed"/>-th closed in this chunk: stores its sums for the records and clears them.</summary>
     void CloseBatch(ref TSums sums, int closed);
-}
 
-/// <summary>Power sums of V − V_ref over the open moment block, per lane (what every recorder keeps of the energy's moments).</summary>
-/// <typeparam name="TD">Doubles, one per lane.</typeparam>
-[System.Runtime.InteropServices.StructLayout(System.Runtime.InteropServices.LayoutKind.Sequential)]
-internal struct LaneEnergySums<TD> where TD : struct
-{
-    internal TD S1, S2, S3, S4;
-}
-
-/// <summary>Adds to <see cref="LaneEnergySums{TD}"/>.</summary>
-internal static class LaneEnergySums
-{
-    /// <summary>Adds de = V − V_ref in every lane.</summary>
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal static void Add<TOps, TD, TB>(ref LaneEnergySums<TD> sums, TD de)
-        where TOps : struct, ILaneOps<TD, TB>
-        where TD : struct
-        where TB : struct
-    {
-        var de2 = TOps.Multiply(de, de);
-        sums.S1 = TOps.Add(sums.S1, de);
-        sums.S2 = TOps.Add(sums.S2, de2);
-        sums.S3 = TOps.Add(sums.S3, TOps.Multiply(de2, de));
-        sums.S4 = TOps.Add(sums.S4, TOps.Multiply(de2, de2));
-    }
+    /// <summary>Lane <paramref name="lane"/>'s open batch: its sums of each value and its square (each coordinate, then the energy) into <paramref name="values"/>.</summary>
+    void OpenBatch(in TSums sums, int lane, Span<double> values);
 }
 
 /// <summary>A draw as the records see it: up to three coordinates (unused ones stay zero) and the potential energy, per lane.</summary>
@@ -299,10 +276,6 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
     {
     }
 
-    /// <summary>Merges lane <paramref name="lane"/>'s block of energy power sums into <paramref name="record"/>.</summary>
-    private protected static void AddEnergyBlock(ChainRecord record, int lane, int count, in LaneEnergySums<TD> sums)
-        => record.AddEnergyBlock(count, TOps.Get(sums.S1, lane), TOps.Get(sums.S2, lane), TOps.Get(sums.S3, lane), TOps.Get(sums.S4, lane));
-
     /// <summary>Loads <paramref name="stream"/> into lane <paramref name="lane"/> of the four generator words.</summary>
     private protected static void SeedLane(ref TB r0, ref TB r1, ref TB r2, ref TB r3, int lane, in RandomStream stream)
         => LaneSeeding.Load<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, lane, stream);
@@ -386,6 +359,16 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         }
         checkpoints.Finished(group, this);
         Tally.CopyTo(Records, _samples);
+        var recorder = Recorder(_samples, 0);
+        Span<double> open = stackalloc double[2 * Records[0].Stores.Length];
+        for (int lane = 0; lane < Live; lane++)
+        {
+            recorder.OpenBatch(Sums, lane, open);
+            for (int v = 0; v < Records[lane].Stores.Length; v++)
+            {
+                Records[lane].Stores[v].SetOpenBatch(InBatch, open[2 * v], open[2 * v + 1]);
+            }
+        }
         foreach (var reporter in Reporters)
         {
             reporter.Finish();

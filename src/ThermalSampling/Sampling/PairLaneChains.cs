@@ -92,11 +92,9 @@ internal static class PairLaneChains
             {
                 _records[lane].AddSeparationBlock(count, TOps.Get(Sums.BlockReference, lane), TOps.Get(Sums.S1, lane), TOps.Get(Sums.S2, lane),
                     TOps.Get(Sums.S3, lane), TOps.Get(Sums.S4, lane));
-                AddEnergyBlock(_records[lane], lane, count, Sums.Energy);
             }
             var zero = TOps.Broadcast(0.0);
             Sums.S1 = Sums.S2 = Sums.S3 = Sums.S4 = zero;
-            Sums.Energy = default;
             Sums.BlockReference = State.Position;
         }
 
@@ -219,13 +217,15 @@ internal static class PairLaneChains
             var de = TOps.Subtract(point.Energy, _tally.EnergyReference);
             sums.E1 = TOps.Add(sums.E1, de);
             sums.E2 = TOps.Add(sums.E2, TOps.Multiply(de, de));
-            LaneEnergySums.Add<TOps, TD, TB>(ref sums.Energy, de);
 
             // Histograms (x is inside the window, so x − lower is in [0, width]), then the draw itself if kept.
             _tally.CountBin(TOps.Subtract(x, _binLower));
             _tally.CountEnergy(de);
             _tally.Keep(j, 1, x, x, x);
         }
+
+        public void OpenBatch(in LineSums<TD> sums, int lane, Span<double> values)
+            => (values[0], values[1], values[2], values[3]) = (TOps.Get(sums.B1, lane), TOps.Get(sums.B2, lane), TOps.Get(sums.E1, lane), TOps.Get(sums.E2, lane));
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         public void CloseBatch(ref LineSums<TD> sums, int closed)
@@ -261,11 +261,10 @@ internal static class PairLaneChains
     }
 
     /// <summary>The line recorder's running sums in every lane: accepted proposals, the open moment block's power sums, the
-    /// open batch's sums of x and V, the moment block's reference, and the block's power sums of V − V_ref (saved word for word in this order).</summary>
+    /// open batch's sums of x and V, and the moment block's reference (saved word for word in this order).</summary>
     [StructLayout(LayoutKind.Sequential)]
     internal struct LineSums<TD> where TD : struct
     {
         internal TD Accepted, S1, S2, S3, S4, B1, B2, E1, E2, BlockReference;
-        internal LaneEnergySums<TD> Energy;
     }
 }

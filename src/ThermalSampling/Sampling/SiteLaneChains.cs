@@ -108,11 +108,9 @@ internal static class SiteLaneChains
                 _records[lane].AddPositionBlock(CovarianceAccumulator.FromRawSums(count, minimum.X, minimum.Y, minimum.Z,
                     TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane), TOps.Get(s.XX, lane), TOps.Get(s.YY, lane), TOps.Get(s.ZZ, lane),
                     TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane)));
-                AddEnergyBlock(_records[lane], lane, count, s.Energy);
             }
             var zero = TOps.Broadcast(0.0);
             s.X = s.Y = s.Z = s.XX = s.YY = s.ZZ = s.XY = s.XZ = s.YZ = zero;
-            s.Energy = default;
         }
 
         private protected override void SaveExtra(StateWriter w) => w.Longs("OUTB", _tally.OutsideBasin);
@@ -363,7 +361,6 @@ internal static class SiteLaneChains
             var de = TOps.Subtract(point.Energy, _tally.EnergyReference); // the same batches of V − V_min (what reweighting needs)
             s.BE = TOps.Add(s.BE, de);
             s.BEE = TOps.Add(s.BEE, TOps.Multiply(de, de));
-            LaneEnergySums.Add<TOps, TD, TB>(ref s.Energy, de);
 
             // The near-wall fraction (within the band of the wall), the radial histogram about the minimum, the energy's.
             _confinement.Inside(point.X, point.Y, point.Z, out var near);
@@ -391,6 +388,12 @@ internal static class SiteLaneChains
                 }
             }
             _tally.Keep(j, 3, point.X, point.Y, point.Z);
+        }
+
+        public void OpenBatch(in SiteSums<TD> s, int lane, Span<double> values)
+        {
+            (values[0], values[1], values[2], values[3]) = (TOps.Get(s.BX, lane), TOps.Get(s.BXX, lane), TOps.Get(s.BY, lane), TOps.Get(s.BYY, lane));
+            (values[4], values[5], values[6], values[7]) = (TOps.Get(s.BZ, lane), TOps.Get(s.BZZ, lane), TOps.Get(s.BE, lane), TOps.Get(s.BEE, lane));
         }
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -453,5 +456,4 @@ internal struct SiteWalkState<TD, TB>
 internal struct SiteSums<TD> where TD : struct
 {
     internal TD Accepted, NearWall, X, Y, Z, XX, YY, ZZ, XY, XZ, YZ, BX, BY, BZ, BXX, BYY, BZZ, BE, BEE;
-    internal LaneEnergySums<TD> Energy;
 }

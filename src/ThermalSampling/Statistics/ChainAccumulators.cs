@@ -70,6 +70,27 @@ internal sealed class BatchMeansStore
         }
     }
 
+    /// <summary>Sets the open batch (the draws after the last closed batch) from its count and sums (the lane kernels' path, at the end of a run).</summary>
+    internal void SetOpenBatch(int count, double sum1, double sum2) => (_filled, _sum1, _sum2) = (count, sum1, sum2);
+
+    /// <summary>Every draw's mean and (population) variance of x, from the closed batches and the open one: exact, however the draws were batched.</summary>
+    internal (long Count, double Mean, double Variance) Totals()
+    {
+        double s1 = _sum1, s2 = _sum2;
+        for (int i = 0; i < _batch; i++)
+        {
+            s1 += First[i] * BatchSize;
+            s2 += Second[i] * BatchSize;
+        }
+        long n = (long)_batch * BatchSize + _filled;
+        if (n == 0)
+        {
+            return (0, double.NaN, double.NaN);
+        }
+        double m = s1 / n;
+        return (n, _reference + m, Math.Max(s2 / n - m * m, 0));
+    }
+
     /// <summary>Writes the closed batches and the open batch's sums.</summary>
     internal void Save(StateWriter w)
     {
