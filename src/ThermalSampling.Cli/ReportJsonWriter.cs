@@ -1,5 +1,7 @@
 using System;
+using System.Collections.Generic;
 using System.IO;
+using System.Linq;
 using System.Text.Json;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
@@ -101,6 +103,46 @@ internal static class ReportJsonWriter
         }
     }
 
+    /// <summary>An array of numbers, each divided by <paramref name="unit"/>; a value that cannot be estimated (NaN) is null.</summary>
+    private static void Numbers(Utf8JsonWriter w, string name, IEnumerable<double> values, double unit)
+    {
+        w.WriteStartArray(name);
+        foreach (double v in values)
+        {
+            if (double.IsFinite(v))
+            {
+                w.WriteNumberValue(v / unit);
+            }
+            else
+            {
+                w.WriteNullValue();
+            }
+        }
+        w.WriteEndArray();
+    }
+
+    /// <summary>The <c>cumulants</c> object: third and fourth cumulants with standard errors (scalars for a pair, tensor components for a site).</summary>
+    private static void Cumulants(Utf8JsonWriter w, IReadOnlyList<Estimate> third, IReadOnlyList<Estimate> fourth, double l, bool scalar)
+    {
+        w.WriteStartObject("cumulants");
+        double l3 = l * l * l, l4 = l3 * l;
+        if (scalar)
+        {
+            Number(w, "third", third[0].Value / l3);
+            Number(w, "thirdStdErr", third[0].StandardError / l3);
+            Number(w, "fourth", fourth[0].Value / l4);
+            Number(w, "fourthStdErr", fourth[0].StandardError / l4);
+        }
+        else
+        {
+            Numbers(w, "third", third.Select(x => x.Value), l3);
+            Numbers(w, "thirdStdErr", third.Select(x => x.StandardError), l3);
+            Numbers(w, "fourth", fourth.Select(x => x.Value), l4);
+            Numbers(w, "fourthStdErr", fourth.Select(x => x.StandardError), l4);
+        }
+        w.WriteEndObject();
+    }
+
     private static void Vector(Utf8JsonWriter w, string name, Position p, double l)
     {
         w.WriteStartArray(name);
@@ -145,6 +187,7 @@ internal static class ReportJsonWriter
         Number(w, "rmsStdErr", r.Rms.StandardError / l);
         Number(w, "skewness", r.Skewness);
         Number(w, "excessKurtosis", r.ExcessKurtosis);
+        Cumulants(w, [r.ThirdCumulant], [r.FourthCumulant], l, scalar: true);
         double e = ScenarioUnits.Energy[s.EnergyUnit];
         Number(w, "potentialEnergy", r.PotentialEnergy.Value / e);
         Number(w, "potentialEnergyStdErr", r.PotentialEnergy.StandardError / e);
@@ -171,6 +214,10 @@ internal static class ReportJsonWriter
         Number(w, "probabilityNearWalls", r.Exact.ProbabilityNearWalls);
         Number(w, "zScoreMean", r.Exact.ZScoreMean);
         Number(w, "zScoreVariance", r.Exact.ZScoreVariance);
+        w.WriteStartObject("cumulants");
+        Number(w, "third", r.Exact.ThirdCumulant / (l2 * l));
+        Number(w, "fourth", r.Exact.FourthCumulant / (l2 * l2));
+        w.WriteEndObject();
         w.WriteEndObject();
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
@@ -198,6 +245,7 @@ internal static class ReportJsonWriter
         w.WriteEndArray();
         Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
         Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
+        Cumulants(w, r.ThirdCumulants, r.FourthCumulants, l, scalar: false);
         Number(w, "potentialEnergy", r.PotentialEnergy.Value / e);
         Number(w, "potentialEnergyStdErr", r.PotentialEnergy.StandardError / e);
         w.WriteStartArray("modes");

@@ -80,8 +80,11 @@ internal static class PairSummary
 
         var meanEstimate = new Estimate(mean, meanSe);
         var varianceEstimate = new Estimate(variance, varianceSe);
+        double exactSigma = Math.Sqrt(exact.VarianceInAngstromsSquared);
         var comparison = new ExactComparison(exact.MeanInAngstroms, exact.VarianceInAngstromsSquared, exact.Skewness, exact.ExcessKurtosis, exact.ProbabilityNearWalls,
-            meanEstimate.ZScore(exact.MeanInAngstroms), varianceEstimate.ZScore(exact.VarianceInAngstromsSquared));
+            meanEstimate.ZScore(exact.MeanInAngstroms), varianceEstimate.ZScore(exact.VarianceInAngstromsSquared),
+            exact.Skewness * Math.Pow(exactSigma, 3), exact.ExcessKurtosis * Math.Pow(exactSigma, 4));
+        var cumulants = CumulantEstimate.From(results.Select(r => r.Cumulants).ToList());
 
         warnings.AddRange(ValidityWarnings(mass, temperature, references, exact.RmsInAngstroms)); // the exact spread, as validate uses
         ReportParts.AddConvergenceWarnings(warnings, summary, acceptance, metropolis ? target : null);
@@ -111,6 +114,8 @@ internal static class PairSummary
             PotentialEnergy = potentialEnergy,
             PotentialEnergyVarianceInElectronVoltsSquared = energyVariance,
             ExcessKurtosis = moments.ExcessKurtosis,
+            ThirdCumulant = new Estimate(cumulants.Third[0], cumulants.ThirdStandardError[0]),
+            FourthCumulant = new Estimate(cumulants.Fourth[0], cumulants.FourthStandardError[0]),
             Harmonic = harmonic,
             FirstOrder = firstOrder,
             Exact = comparison,

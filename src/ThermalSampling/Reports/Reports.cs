@@ -111,7 +111,10 @@ public sealed record RetainedDraws<T>(ImmutableArray<ImmutableArray<T>> Chains)
 /// <param name="ProbabilityNearWalls">Exact probability within one RMS spread of either wall (the measure of the wall-mass warning).</param>
 /// <param name="ZScoreMean">(sampled − exact)/SE for the mean.</param>
 /// <param name="ZScoreVariance">(sampled − exact)/SE for the variance.</param>
-public sealed record ExactComparison(double Mean, double Variance, double Skewness, double ExcessKurtosis, double ProbabilityNearWalls, double ZScoreMean, double ZScoreVariance);
+/// <param name="ThirdCumulant">Exact third cumulant κ3 = skewness·σ³, Å³.</param>
+/// <param name="FourthCumulant">Exact fourth cumulant κ4 = excess kurtosis·σ⁴, Å⁴.</param>
+public sealed record ExactComparison(double Mean, double Variance, double Skewness, double ExcessKurtosis, double ProbabilityNearWalls, double ZScoreMean, double ZScoreVariance,
+    double ThirdCumulant, double FourthCumulant);
 
 /// <summary>The vibration report of a line or radial pair at one temperature: the sampled mean, shift, spread and shape with
 /// error bars, beside the exact, harmonic and first-order references, the diagnostics and every warning.</summary>
@@ -149,6 +152,15 @@ public sealed record PairVibrationReport
 
     /// <summary>Sampled excess kurtosis.</summary>
     public required double ExcessKurtosis { get; init; }
+
+    /// <summary>
+    /// The sampled third cumulant κ3 = ⟨(x − ⟨x⟩)³⟩ of the separation, Å³, with its standard error (the jackknife over up to
+    /// 32 groups of consecutive draws per chain; NaN with fewer than 8 groups in all).
+    /// </summary>
+    public required Estimate ThirdCumulant { get; init; }
+
+    /// <summary>The sampled fourth cumulant κ4 = ⟨(x − ⟨x⟩)⁴⟩ − 3Var², Å⁴, with its standard error (as <see cref="ThirdCumulant"/>).</summary>
+    public required Estimate FourthCumulant { get; init; }
 
     /// <summary>The harmonic estimate (absent without a minimum inside the window).</summary>
     public required PairHarmonicEstimate? Harmonic { get; init; }
@@ -203,6 +215,21 @@ public sealed record SiteVibrationReport
 
     /// <summary>tr(covariance) = ⟨|u − ⟨u⟩|²⟩, Å².</summary>
     public required Estimate MeanSquareDisplacement { get; init; }
+
+    /// <summary>
+    /// The third cumulant tensor of the displacement, κ_ijk, Å³: its 10 independent components in the order 111, 112,
+    /// 113, 122, 123, 133, 222, 223, 233, 333 (1, 2, 3 = x, y, z of the landscape's frame), each with its standard error
+    /// (the jackknife over up to 32 groups of consecutive draws per chain; NaN with fewer than 8 groups in all). Zero for
+    /// a harmonic (Gaussian) site and for a site with a centre of symmetry.
+    /// </summary>
+    public required ImmutableArray<Estimate> ThirdCumulants { get; init; }
+
+    /// <summary>
+    /// The fourth cumulant tensor κ_ijkl = μ_ijkl − μ_ij μ_kl − μ_ik μ_jl − μ_il μ_jk, Å⁴: its 15 independent components in
+    /// the order 1111, 1112, 1113, 1122, 1123, 1133, 1222, 1223, 1233, 1333, 2222, 2223, 2233, 2333, 3333, with standard
+    /// errors as for <see cref="ThirdCumulants"/>. Zero for a harmonic site.
+    /// </summary>
+    public required ImmutableArray<Estimate> FourthCumulants { get; init; }
 
     /// <summary>The mean potential energy above the site's minimum, ⟨V⟩ − V_min, eV, with its standard error; 3kT/2 in the harmonic limit.</summary>
     public required Estimate PotentialEnergy { get; init; }

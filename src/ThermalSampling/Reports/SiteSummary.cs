@@ -112,6 +112,7 @@ internal static class SiteSummary
         var radialHistogram = ReportParts.Histogram(results.Select(r => r.Bins).ToList(), combined.Ess);
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         double b = DebyeWaller.FromIsotropicDisplacement(msd / 3);
+        var cumulants = CumulantEstimate.From(results.Select(r => r.Cumulants).ToList());
         return new SiteVibrationReport
         {
             Temperature = temperature,
@@ -121,6 +122,8 @@ internal static class SiteSummary
             MeanShift = mean - min,
             Covariance = covariance,
             MeanSquareDisplacement = new Estimate(msd, msdSe),
+            ThirdCumulants = cumulants.Third.Select((v, i) => new Estimate(v, cumulants.ThirdStandardError[i])).ToImmutableArray(),
+            FourthCumulants = cumulants.Fourth.Select((v, i) => new Estimate(v, cumulants.FourthStandardError[i])).ToImmutableArray(),
             PotentialEnergy = potentialEnergy,
             PotentialEnergyVarianceInElectronVoltsSquared = energyVariance,
             DebyeWallerB = staysAtSite ? new Estimate(b, b * msdSe / msd) : null,

@@ -35,6 +35,7 @@ public sealed class ChainRecord
         }
         _stores[layout.Coordinates] = new BatchMeansStore(layout.Samples, layout.MaxDiagnosticValues, layout.EnergyReference);
         Bins = new BinCounter(layout.BinLower, layout.BinUpper, layout.Bins);
+        Cumulants = new CumulantSums(layout.Coordinates, layout.Samples);
         EnergyHistogram = new EnergyHistogram(layout.EnergyReference, energyBinWidth);
         if (layout.Coordinates == 1)
         {
@@ -126,6 +127,9 @@ public sealed class ChainRecord
 
     internal BinCounter Bins { get; }
 
+    /// <summary>Raw power sums to fourth order of the displacement from the batch references (the minimum), in groups, for the cumulants.</summary>
+    internal CumulantSums Cumulants { get; }
+
     internal DrawRecorder<double> KeptSeparations => _keptSeparations ?? throw new InvalidOperationException("A site record keeps positions.");
 
     internal DrawRecorder<Position> KeptPositions => _keptPositions ?? throw new InvalidOperationException("A pair record keeps separations.");
@@ -138,6 +142,7 @@ public sealed class ChainRecord
     /// <summary>One direct draw of a pair: separation <paramref name="r"/> at energy <paramref name="energy"/>.</summary>
     internal void AddSeparation(double r, double energy)
     {
+        Cumulants.Add(_separation.Count, [r - Layout.References[0]]);
         _separation.Add(r);
         Bins.Add(r);
         _stores[0].Add(r);
@@ -148,6 +153,7 @@ public sealed class ChainRecord
     /// <summary>One direct draw of a site: position (x, y, z) at energy <paramref name="energy"/>, <paramref name="minimum"/> the radial histogram's origin.</summary>
     internal void AddPosition(double x, double y, double z, double energy, Position minimum)
     {
+        Cumulants.Add(_position.Count, [x - Layout.References[0], y - Layout.References[1], z - Layout.References[2]]);
         _position.Add(x, y, z);
         _stores[0].Add(x);
         _stores[1].Add(y);
@@ -189,6 +195,7 @@ public sealed class ChainRecord
             store.Save(w);
         }
         Bins.Save(w);
+        Cumulants.Save(w);
         EnergyHistogram.Save(w);
         if (Coordinates == 1)
         {
@@ -252,6 +259,7 @@ public sealed class ChainRecord
             store.Load(r);
         }
         Bins.Load(r);
+        Cumulants.Load(r);
         EnergyHistogram.Load(r);
         if (Coordinates == 1)
         {

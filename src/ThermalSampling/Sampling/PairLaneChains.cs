@@ -88,10 +88,20 @@ internal static class PairLaneChains
 
         private protected override void CloseBlock(int count)
         {
+            Span<double> about = stackalloc double[CumulantSums.SizeFor(1)];
             for (int lane = 0; lane < _records.Length; lane++)
             {
-                _records[lane].AddSeparationBlock(count, TOps.Get(Sums.BlockReference, lane), TOps.Get(Sums.S1, lane), TOps.Get(Sums.S2, lane),
-                    TOps.Get(Sums.S3, lane), TOps.Get(Sums.S4, lane));
+                double reference = TOps.Get(Sums.BlockReference, lane), s1 = TOps.Get(Sums.S1, lane), s2 = TOps.Get(Sums.S2, lane);
+                double s3 = TOps.Get(Sums.S3, lane), s4 = TOps.Get(Sums.S4, lane);
+                _records[lane].AddSeparationBlock(count, reference, s1, s2, s3, s4);
+                // The same sums about the record's fixed reference (binomial shift by δ = block reference − fixed reference), for the cumulants.
+                double delta = reference - _records[lane].Layout.References[0], n = count;
+                about[0] = n;
+                about[1] = s1 + n * delta;
+                about[2] = s2 + 2 * delta * s1 + delta * delta * n;
+                about[3] = s3 + 3 * delta * s2 + 3 * delta * delta * s1 + delta * delta * delta * n;
+                about[4] = s4 + 4 * delta * s3 + 6 * delta * delta * s2 + 4 * delta * delta * delta * s1 + delta * delta * delta * delta * n;
+                _records[lane].Cumulants.AddBlock(Step - count, about);
             }
             var zero = TOps.Broadcast(0.0);
             Sums.S1 = Sums.S2 = Sums.S3 = Sums.S4 = zero;

@@ -103,12 +103,26 @@ internal static class SiteLaneChains
         {
             var minimum = _plan.Minimum;
             ref var s = ref Sums;
+            Span<double> block = stackalloc double[CumulantSums.SizeFor(3)];
             for (int lane = 0; lane < _records.Length; lane++)
             {
                 _records[lane].AddPositionBlock(CovarianceAccumulator.FromRawSums(count, minimum.X, minimum.Y, minimum.Z,
                     TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane), TOps.Get(s.XX, lane), TOps.Get(s.YY, lane), TOps.Get(s.ZZ, lane),
                     TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane), TOps.Get(s.YZ, lane)));
+                // The block's raw sums about the minimum in the cumulants' order: count, x y z, xx xy xz yy yz zz, then the
+                // ten third-order and fifteen fourth-order sums.
+                block[0] = count;
+                (block[1], block[2], block[3]) = (TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane));
+                (block[4], block[5], block[6]) = (TOps.Get(s.XX, lane), TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane));
+                (block[7], block[8], block[9]) = (TOps.Get(s.YY, lane), TOps.Get(s.YZ, lane), TOps.Get(s.ZZ, lane));
+                var higher = s.Higher;
+                for (int k = 0; k < 25; k++)
+                {
+                    block[10 + k] = TOps.Get(LaneHigherSums.At(ref higher, k), lane);
+                }
+                _records[lane].Cumulants.AddBlock(Step - count, block);
             }
+            s.Higher = default;
             var zero = TOps.Broadcast(0.0);
             s.X = s.Y = s.Z = s.XX = s.YY = s.ZZ = s.XY = s.XZ = s.YZ = zero;
         }
@@ -355,9 +369,13 @@ internal static class SiteLaneChains
             s.BX = TOps.Add(s.BX, mx);
             s.BY = TOps.Add(s.BY, my);
             s.BZ = TOps.Add(s.BZ, mz);
-            s.BXX = TOps.Add(s.BXX, TOps.Multiply(mx, mx));
-            s.BYY = TOps.Add(s.BYY, TOps.Multiply(my, my));
-            s.BZZ = TOps.Add(s.BZZ, TOps.Multiply(mz, mz));
+            var xx = TOps.Multiply(mx, mx);
+            var yy = TOps.Multiply(my, my);
+            var zz = TOps.Multiply(mz, mz);
+            s.BXX = TOps.Add(s.BXX, xx);
+            s.BYY = TOps.Add(s.BYY, yy);
+            s.BZZ = TOps.Add(s.BZZ, zz);
+            AddHigher(ref s.Higher, mx, my, mz, xx, yy, zz);
             var de = TOps.Subtract(point.Energy, _tally.EnergyReference); // the same batches of V − V_min (what reweighting needs)
             s.BE = TOps.Add(s.BE, de);
             s.BEE = TOps.Add(s.BEE, TOps.Multiply(de, de));
@@ -394,6 +412,40 @@ internal static class SiteLaneChains
         {
             (values[0], values[1], values[2], values[3]) = (TOps.Get(s.BX, lane), TOps.Get(s.BXX, lane), TOps.Get(s.BY, lane), TOps.Get(s.BYY, lane));
             (values[4], values[5], values[6], values[7]) = (TOps.Get(s.BZ, lane), TOps.Get(s.BZZ, lane), TOps.Get(s.BE, lane), TOps.Get(s.BEE, lane));
+        }
+
+        /// <summary>The third- and fourth-order products of the displacement (m) into the open block's sums.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        private static void AddHigher(ref LaneHigherSums<TD> h, TD mx, TD my, TD mz, TD xx, TD yy, TD zz)
+        {
+            var xy = TOps.Multiply(mx, my);
+            var xz = TOps.Multiply(mx, mz);
+            var yz = TOps.Multiply(my, mz);
+            h.T111 = TOps.MultiplyAdd(xx, mx, h.T111);
+            h.T112 = TOps.MultiplyAdd(xx, my, h.T112);
+            h.T113 = TOps.MultiplyAdd(xx, mz, h.T113);
+            h.T122 = TOps.MultiplyAdd(yy, mx, h.T122);
+            h.T123 = TOps.MultiplyAdd(xy, mz, h.T123);
+            h.T133 = TOps.MultiplyAdd(zz, mx, h.T133);
+            h.T222 = TOps.MultiplyAdd(yy, my, h.T222);
+            h.T223 = TOps.MultiplyAdd(yy, mz, h.T223);
+            h.T233 = TOps.MultiplyAdd(zz, my, h.T233);
+            h.T333 = TOps.MultiplyAdd(zz, mz, h.T333);
+            h.F1111 = TOps.MultiplyAdd(xx, xx, h.F1111);
+            h.F1112 = TOps.MultiplyAdd(xx, xy, h.F1112);
+            h.F1113 = TOps.MultiplyAdd(xx, xz, h.F1113);
+            h.F1122 = TOps.MultiplyAdd(xx, yy, h.F1122);
+            h.F1123 = TOps.MultiplyAdd(xx, yz, h.F1123);
+            h.F1133 = TOps.MultiplyAdd(xx, zz, h.F1133);
+            h.F1222 = TOps.MultiplyAdd(xy, yy, h.F1222);
+            h.F1223 = TOps.MultiplyAdd(xy, yz, h.F1223);
+            h.F1233 = TOps.MultiplyAdd(xy, zz, h.F1233);
+            h.F1333 = TOps.MultiplyAdd(xz, zz, h.F1333);
+            h.F2222 = TOps.MultiplyAdd(yy, yy, h.F2222);
+            h.F2223 = TOps.MultiplyAdd(yy, yz, h.F2223);
+            h.F2233 = TOps.MultiplyAdd(yy, zz, h.F2233);
+            h.F2333 = TOps.MultiplyAdd(yz, zz, h.F2333);
+            h.F3333 = TOps.MultiplyAdd(zz, zz, h.F3333);
         }
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -456,4 +508,23 @@ internal struct SiteWalkState<TD, TB>
 internal struct SiteSums<TD> where TD : struct
 {
     internal TD Accepted, NearWall, X, Y, Z, XX, YY, ZZ, XY, XZ, YZ, BX, BY, BZ, BXX, BYY, BZZ, BE, BEE;
+    internal LaneHigherSums<TD> Higher;
+}
+
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
+/// <summary>The open moment block's third- and fourth-order sums of the displacement from the minimum, per lane, in the cumulants' order.</summary>
+/// <typeparam name="TD">The lane type.</typeparam>
+[StructLayout(LayoutKind.Sequential)]
+internal struct LaneHigherSums<TD> where TD : struct
+{
+    internal TD T111, T112, T113, T122, T123, T133, T222, T223, T233, T333;
+    internal TD F1111, F1112, F1113, F1122, F1123, F1133, F1222, F1223, F1233, F1333, F2222, F2223, F2233, F2333, F3333;
+}
+
+/// <summary>Access to <see cref="LaneHigherSums{TD}"/> by index (outside the inner loop).</summary>
+internal static class LaneHigherSums
+{
+    /// <summary>The <paramref name="k"/>-th sum (0–9 third order, 10–24 fourth).</summary>
+    internal static ref TD At<TD>(ref LaneHigherSums<TD> sums, int k) where TD : struct
+        => ref Unsafe.Add(ref sums.T111, k);
 }
