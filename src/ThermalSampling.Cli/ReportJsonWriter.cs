@@ -246,6 +246,12 @@ internal static class ReportJsonWriter
         Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
         Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
         Cumulants(w, r.ThirdCumulants, r.FourthCumulants, l, scalar: false);
+        // To fourth order the Gram–Charlier quasi-moments about the Gaussian of the true mean and covariance are the
+        // cumulants themselves (docs/displacements.md), in the same frame, order and units.
+        w.WriteStartObject("gramCharlier");
+        Numbers(w, "third", r.ThirdCumulants.Select(x => x.Value), l * l * l);
+        Numbers(w, "fourth", r.FourthCumulants.Select(x => x.Value), l * l * l * l);
+        w.WriteEndObject();
         Number(w, "potentialEnergy", r.PotentialEnergy.Value / e);
         Number(w, "potentialEnergyStdErr", r.PotentialEnergy.StandardError / e);
         w.WriteStartArray("modes");

@@ -88,7 +88,11 @@ public class CliTests
                 "skewness", "excessKurtosis", "harmonic", "firstOrder", "exact", "diagnostics", "warnings");
             AssertKeys(r.GetProperty("harmonic"), "variance");
             AssertKeys(r.GetProperty("firstOrder"), "meanShift", "variance");
-            AssertKeys(r.GetProperty("exact"), "mean", "variance", "skewness", "excessKurtosis", "probabilityNearWalls", "zScoreMean", "zScoreVariance");
+            AssertKeys(r.GetProperty("exact"), "mean", "variance", "skewness", "excessKurtosis", "probabilityNearWalls", "zScoreMean", "zScoreVariance", "cumulants");
+            AssertKeys(r.GetProperty("exact").GetProperty("cumulants"), "third", "fourth");
+            // The sampled cumulants beside them (5 000 draws per chain make 2 groups of 4096 and the rest: too few for error bars, which are then absent).
+            AssertKeys(r.GetProperty("cumulants"), "third", "fourth");
+            Assert.False(r.GetProperty("cumulants").TryGetProperty("thirdStdErr", out _), "an error bar from too few groups must be absent, not invented");
             AssertKeys(r.GetProperty("diagnostics"), "acceptanceRate", "autocorrelationTime", "effectiveSampleSize", "rHat", "draws");
             Assert.False(r.TryGetProperty("covariance", out _), "site keys must be absent for a line");
             foreach (var w in r.GetProperty("warnings").EnumerateArray())
@@ -113,6 +117,11 @@ public class CliTests
         Assert.Equal(3, r.GetProperty("mean").GetArrayLength());
         Assert.Equal(3, r.GetProperty("covariance").GetArrayLength());
         Assert.False(r.TryGetProperty("exact", out _), "there is no exact reference for sites");
+        AssertKeys(r.GetProperty("cumulants"), "third", "thirdStdErr", "fourth", "fourthStdErr");
+        AssertKeys(r.GetProperty("gramCharlier"), "third", "fourth");
+        Assert.Equal(10, r.GetProperty("cumulants").GetProperty("third").GetArrayLength());
+        Assert.Equal(15, r.GetProperty("cumulants").GetProperty("fourthStdErr").GetArrayLength());
+        Assert.Equal(r.GetProperty("cumulants").GetProperty("fourth")[0].GetRawText(), r.GetProperty("gramCharlier").GetProperty("fourth")[0].GetRawText());
         // nm²: an MSD of order 1e-4 nm² (= 1e-2 Å²) for a Cu-like cage at 300 K; B = 8π² MSD/3 in the same unit.
         double msd = r.GetProperty("meanSquareDisplacement").GetDouble();
         Assert.InRange(msd, 1e-5, 1e-3);
