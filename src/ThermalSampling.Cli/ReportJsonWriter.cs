@@ -188,6 +188,17 @@ internal static class ReportJsonWriter
         Number(w, "skewness", r.Skewness);
         Number(w, "excessKurtosis", r.ExcessKurtosis);
         Cumulants(w, [r.ThirdCumulant], [r.FourthCumulant], l, scalar: true);
+        var hist = r.Histogram;
+        w.WriteStartObject("distribution");
+        Numbers(w, "edges", Enumerable.Range(0, hist.Density.Length + 1).Select(i => i == hist.Density.Length ? hist.Upper : hist.Lower + i * hist.BinWidth), l);
+        Numbers(w, "density", hist.Density, 1 / l);
+        Numbers(w, "densityStdErr", hist.DensityStandardError, 1 / l);
+        Numbers(w, "exact", r.ExactBinDensity, 1 / l);
+        if (!r.HarmonicBinDensity.IsEmpty)
+        {
+            Numbers(w, "harmonic", r.HarmonicBinDensity, 1 / l);
+        }
+        w.WriteEndObject();
         double e = ScenarioUnits.Energy[s.EnergyUnit];
         Number(w, "potentialEnergy", r.PotentialEnergy.Value / e);
         Number(w, "potentialEnergyStdErr", r.PotentialEnergy.StandardError / e);

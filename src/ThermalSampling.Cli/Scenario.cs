@@ -319,7 +319,7 @@ internal static class ScenarioReader
         {
             throw new ScenarioException(new[] { "$: the scenario must be a JSON object." });
         }
-        c.CheckKeys(root, "$", "title", "units", "mass", "potential", "landscape", "temperatures", "sampling");
+        c.CheckKeys(root, "$", "title", "units", "mass", "potential", "landscape", "temperatures", "sampling", "output");
         string title = c.String(root, "title", "$", required: false) ?? "";
         string energyUnit = "eV", lengthUnit = "angstrom";
         if (c.Object(root, "units", "$", required: false) is { } units)
@@ -346,6 +346,14 @@ internal static class ScenarioReader
             c.Add("$.temperatures", string.Create(CultureInfo.InvariantCulture, $"{duplicate.Key:R} K appears {duplicate.Count()} times; each temperature must appear once."));
         }
         var sampling = ReadSampling(c, root);
+        if (c.Object(root, "output", "$", required: false) is { } output)
+        {
+            c.CheckKeys(output, "$.output", "bins");
+            if (c.Integer(output, "bins", "$.output", false, ScenarioSchema.At("properties/output/properties/bins")) is long bins && sampling is not null)
+            {
+                sampling = sampling with { HistogramBins = (int)bins };
+            }
+        }
         if (c.Problems.Count > 0)
         {
             throw new ScenarioException(c.Problems);

@@ -223,8 +223,14 @@ public class ChainInfrastructureTests
         Assert.Equal(5 / 20.0 / w, h.Density[3], 15);
         Assert.Equal(Math.Sqrt(0.25 * 0.75 / 5) / w, h.DensityStandardError[0], 15);
         Assert.Equal(1.0, h.Density.Sum() * w, 15);
-        // An effective sample size below one is taken as one: the error bar cannot exceed a single draw's.
-        Assert.Equal(Math.Sqrt(0.25 * 0.75) / w, ReportParts.Histogram([a, b], 0.2).DensityStandardError[0], 15);
+        // An effective sample size below one is taken as one, and a bin's p in the error is at least half an effective draw
+        // (1/(2·ESS) = 0.5 here): the error bar is a single draw's at most.
+        Assert.Equal(Math.Sqrt(0.5 * 0.5) / w, ReportParts.Histogram([a, b], 0.2).DensityStandardError[0], 15);
+        // An empty bin among counted ones has the error of half an effective draw, not zero.
+        var c = new BinCounter(0, 2, 4);
+        c.AddCounts([0, 10, 5, 5]);
+        Assert.Equal(0, ReportParts.Histogram([c], 8).Density[0]);
+        Assert.Equal(Math.Sqrt(0.5 / 8 * (1 - 0.5 / 8) / 8) / w, ReportParts.Histogram([c], 8).DensityStandardError[0], 15);
         // Nothing counted: zero density, not NaN.
         var empty = ReportParts.Histogram([new BinCounter(0, 2, 4)], 10);
         Assert.All(empty.Density, d => Assert.Equal(0, d));

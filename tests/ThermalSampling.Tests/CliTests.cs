@@ -93,6 +93,20 @@ public class CliTests
             // The sampled cumulants beside them (5 000 draws per chain make 2 groups of 4096 and the rest: too few for error bars, which are then absent).
             AssertKeys(r.GetProperty("cumulants"), "third", "fourth");
             Assert.False(r.GetProperty("cumulants").TryGetProperty("thirdStdErr", out _), "an error bar from too few groups must be absent, not invented");
+            // The distribution: N + 1 edges, the sampled density with its errors, the exact and harmonic bin averages.
+            var d = r.GetProperty("distribution");
+            AssertKeys(d, "edges", "density", "densityStdErr", "exact", "harmonic");
+            double[] Values(string key) => d.GetProperty(key).EnumerateArray().Select(e => e.GetDouble()).ToArray();
+            var edges = Values("edges");
+            var density = Values("density");
+            var exactBins = Values("exact");
+            Assert.Equal(density.Length + 1, edges.Length);
+            Assert.Equal(density.Length, exactBins.Length);
+            Assert.Equal(density.Length, Values("harmonic").Length);
+            Assert.Equal(1.0, density.Select((p, i) => p * (edges[i + 1] - edges[i])).Sum(), 9); // every draw lies in the window
+            Assert.Equal(1.0, exactBins.Select((p, i) => p * (edges[i + 1] - edges[i])).Sum(), 9); // the exact probabilities over the window
+            var se = Values("densityStdErr");
+            Assert.True(density.Select((p, i) => Math.Abs(p - exactBins[i]) > 4.5 * se[i] + 1e-9).Count(x => x) <= 1, "the sampled bins agree with the exact ones");
             AssertKeys(r.GetProperty("diagnostics"), "acceptanceRate", "autocorrelationTime", "effectiveSampleSize", "rHat", "draws");
             Assert.False(r.TryGetProperty("covariance", out _), "site keys must be absent for a line");
             foreach (var w in r.GetProperty("warnings").EnumerateArray())
@@ -102,6 +116,19 @@ public class CliTests
             Assert.Equal(10000, r.GetProperty("diagnostics").GetProperty("draws").GetInt64());
             Assert.True(Math.Abs(r.GetProperty("exact").GetProperty("zScoreMean").GetDouble()) < 4);
         }
+    }
+
+    [Fact]
+    public void Output_bins_sets_the_distribution_bins()
+    {
+        string scenario = LineScenario.Replace("\"sampling\"", "\"output\": { \"bins\": 12 }, \"sampling\"", StringComparison.Ordinal);
+        Assert.NotEqual(LineScenario, scenario);
+        var (code, stdout, stderr) = Run(scenario);
+        Assert.True(code == 0, stderr);
+        using var doc = JsonDocument.Parse(stdout);
+        var r = doc.RootElement.GetProperty("results")[0];
+        Assert.Equal(12, r.GetProperty("distribution").GetProperty("density").GetArrayLength());
+        Assert.Equal(12, doc.RootElement.GetProperty("resolved").GetProperty("sampling").GetProperty("histogramBins").GetInt32());
     }
 
     [Fact]

@@ -122,6 +122,8 @@ public class SchemaTests
         { "\"mass\": 39.9", "\"mass\": 1000" },
         { "\"seed\": 7 }", "\"seed\": 7, \"method\": \"direct\" }" },
         { "\"mass\": 39.9,", "\"title\": \"edge\", \"units\": { \"energy\": \"meV\", \"length\": \"nm\" }, \"mass\": 39.9," },
+        { "\"mass\": 39.9,", "\"output\": { \"bins\": 4 }, \"mass\": 39.9," },
+        { "\"mass\": 39.9,", "\"output\": { \"bins\": 10000 }, \"mass\": 39.9," },
     };
 
     [Theory]
@@ -145,6 +147,9 @@ public class SchemaTests
         { "\"temperatures\": [10, 40]", "\"temperatures\": [10000001]" },
         { "\"seed\": 7 }", "\"seed\": 7, \"method\": \"gibbs\" }" },
         { "\"mass\": 39.9,", "\"units\": { \"energy\": \"Ry\" }, \"mass\": 39.9," },
+        { "\"mass\": 39.9,", "\"output\": { \"bins\": 3 }, \"mass\": 39.9," },
+        { "\"mass\": 39.9,", "\"output\": { \"bins\": 10001 }, \"mass\": 39.9," },
+        { "\"mass\": 39.9,", "\"output\": { \"binz\": 10 }, \"mass\": 39.9," },
     };
 
     [Theory]

@@ -100,6 +100,7 @@ internal static class PairSummary
         var diagnostics = new SamplingDiagnostics(acceptance, summary.Tau, summary.Ess, summary.RHat, moments.Count, summary.BlockingStandardError,
             metropolis ? results.Average(r => r.ProposalScale) : null);
         var histogram = ReportParts.Histogram(results.Select(r => r.Bins).ToList(), summary.Ess);
+        var (exactBins, harmonicBins) = BinDensities(histogram, exact, well, harmonic);
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         return new PairVibrationReport
         {
@@ -121,9 +122,36 @@ internal static class PairSummary
             Exact = comparison,
             Diagnostics = diagnostics,
             Histogram = histogram,
+            ExactBinDensity = exactBins,
+            HarmonicBinDensity = harmonicBins,
             Warnings = warnings.ToImmutable(),
             Provenance = provenance,
             Draws = ReportParts.Draws(results.Select(r => r.KeptSeparations)),
         };
+    }
+
+    /// <summary>
+    /// The exact density and the harmonic Gaussian averaged over each of the histogram's bins: (P(b) − P(a))/(b − a) from the
+    /// exact cumulative probability and from the normal distribution about the minimum with the classical harmonic variance.
+    /// </summary>
+    private static (ImmutableArray<double> Exact, ImmutableArray<double> Harmonic) BinDensities(Histogram histogram, ExactPairDistribution exact,
+        PotentialWell? well, PairHarmonicEstimate? harmonic)
+    {
+        int bins = histogram.Density.Length;
+        double width = histogram.BinWidth;
+        var exactBins = ImmutableArray.CreateBuilder<double>(bins);
+        var harmonicBins = ImmutableArray.CreateBuilder<double>(harmonic is null ? 0 : bins);
+        var gaussian = harmonic is null || well is null ? null
+            : new MathNet.Numerics.Distributions.Normal(well.EquilibriumDistanceInAngstroms, Math.Sqrt(harmonic.ClassicalVarianceInAngstromsSquared));
+        for (int i = 0; i < bins; i++)
+        {
+            double a = histogram.Lower + i * width, b = i == bins - 1 ? histogram.Upper : a + width;
+            exactBins.Add((exact.CumulativeProbability(b) - exact.CumulativeProbability(a)) / width);
+            if (gaussian is not null)
+            {
+                harmonicBins.Add((gaussian.CumulativeDistribution(b) - gaussian.CumulativeDistribution(a)) / width);
+            }
+        }
+        return (exactBins.MoveToImmutable(), harmonicBins.MoveToImmutable());
     }
 }

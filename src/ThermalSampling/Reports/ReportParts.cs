@@ -67,11 +67,15 @@ internal static class ReportParts
         double width = (first.Upper - first.Lower) / bins;
         var density = ImmutableArray.CreateBuilder<double>(bins);
         var error = ImmutableArray.CreateBuilder<double>(bins);
+        double ess = Math.Max(effectiveSampleSize, 1);
         for (int i = 0; i < bins; i++)
         {
             double p = total > 0 ? (double)counts[i] / total : 0;
             density.Add(p / width);
-            error.Add(Math.Sqrt(p * (1 - p) / Math.Max(effectiveSampleSize, 1)) / width);
+            // An empty (or nearly empty) bin is not known to hold nothing: its error is at least that of half an
+            // effective draw, so that a density compared with it is not held to zero.
+            double pe = total > 0 ? Math.Max(p, 0.5 / ess) : 0;
+            error.Add(Math.Sqrt(pe * (1 - pe) / ess) / width);
         }
         return new Histogram(first.Lower, first.Upper, density.MoveToImmutable(), error.MoveToImmutable(), total);
     }

@@ -40,7 +40,8 @@ public sealed record Estimate(double Value, double StandardError)
 /// <param name="Lower">Lower edge of the first bin, Å.</param>
 /// <param name="Upper">Upper edge of the last bin, Å.</param>
 /// <param name="Density">Density per bin, 1/Å.</param>
-/// <param name="DensityStandardError">√(p(1 − p)/ESS)/width per bin: the binomial error inflated by the autocorrelation time.</param>
+/// <param name="DensityStandardError">√(p(1 − p)/ESS)/width per bin: the binomial error inflated by the autocorrelation time, with p
+/// at least 1/(2 ESS) so that an empty bin's error is that of half an effective draw, not zero.</param>
 /// <param name="Count">The draws counted.</param>
 public sealed record Histogram(double Lower, double Upper, ImmutableArray<double> Density, ImmutableArray<double> DensityStandardError, long Count)
 {
@@ -161,6 +162,18 @@ public sealed record PairVibrationReport
 
     /// <summary>The sampled fourth cumulant κ4 = ⟨(x − ⟨x⟩)⁴⟩ − 3Var², Å⁴, with its standard error (as <see cref="ThirdCumulant"/>).</summary>
     public required Estimate FourthCumulant { get; init; }
+
+    /// <summary>
+    /// The exact classical density averaged over each bin of <see cref="Histogram"/> (the probability in the bin by
+    /// quadrature, over its width), 1/Å: what the sampled histogram estimates, bin for bin.
+    /// </summary>
+    public required ImmutableArray<double> ExactBinDensity { get; init; }
+
+    /// <summary>
+    /// The harmonic (classical) Gaussian about the minimum averaged over each bin of <see cref="Histogram"/>, 1/Å; empty
+    /// without a harmonic estimate.
+    /// </summary>
+    public required ImmutableArray<double> HarmonicBinDensity { get; init; }
 
     /// <summary>The harmonic estimate (absent without a minimum inside the window).</summary>
     public required PairHarmonicEstimate? Harmonic { get; init; }
