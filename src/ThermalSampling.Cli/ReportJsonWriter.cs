@@ -288,6 +288,24 @@ internal static class ReportJsonWriter
             w.WriteEndObject();
             w.WriteStartObject("firstOrder");
             Vector(w, "meanShift", r.Harmonic.FirstOrderMeanShift, l);
+            // The harmonic covariance with its first anharmonic correction, and the leading cumulants (docs/perturbation-theory.md).
+            var pert = r.Perturbative;
+            var covariance = r.Harmonic.ClassicalCovariance;
+            w.WriteStartArray("covariance");
+            for (int i = 0; i < 3; i++)
+            {
+                w.WriteStartArray();
+                for (int j = 0; j < 3; j++)
+                {
+                    w.WriteNumberValue((covariance[i, j] + pert.CovarianceCorrection[i, j]) / l2);
+                }
+                w.WriteEndArray();
+            }
+            w.WriteEndArray();
+            w.WriteStartObject("cumulants");
+            Numbers(w, "third", pert.ThirdCumulants, l2 * l);
+            Numbers(w, "fourth", pert.FourthCumulants, l2 * l2);
+            w.WriteEndObject();
             w.WriteEndObject();
         }
         var basin = r.Basin;

@@ -146,6 +146,8 @@ public class CliTests
         Assert.False(r.TryGetProperty("exact", out _), "there is no exact reference for sites");
         AssertKeys(r.GetProperty("cumulants"), "third", "thirdStdErr", "fourth", "fourthStdErr");
         AssertKeys(r.GetProperty("gramCharlier"), "third", "fourth");
+        AssertKeys(r.GetProperty("firstOrder"), "meanShift", "covariance", "cumulants");
+        Assert.Equal(15, r.GetProperty("firstOrder").GetProperty("cumulants").GetProperty("fourth").GetArrayLength());
         Assert.Equal(10, r.GetProperty("cumulants").GetProperty("third").GetArrayLength());
         Assert.Equal(15, r.GetProperty("cumulants").GetProperty("fourthStdErr").GetArrayLength());
         Assert.Equal(r.GetProperty("cumulants").GetProperty("fourth")[0].GetRawText(), r.GetProperty("gramCharlier").GetProperty("fourth")[0].GetRawText());

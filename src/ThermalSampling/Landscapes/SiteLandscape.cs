@@ -141,6 +141,46 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
         return t;
     }
 
+    /// <summary>The fourth-derivative tensor ∂⁴E/∂xᵢ∂xⱼ∂xₖ∂xₗ at <paramref name="position"/>, eV/Å⁴.</summary>
+    /// <param name="position">The position, Å.</param>
+    /// <remarks>
+    /// For one pair with unit vector n: A nᵢnⱼnₖnₗ + B (δᵢⱼnₖnₗ and its five other placements of δ) + C (δᵢⱼδₖₗ + δᵢₖδⱼₗ +
+    /// δᵢₗδⱼₖ), with A = V⁗ − 6V‴/r + 15V″/r² − 15V′/r³, B = (V‴ − 3V″/r + 3V′/r²)/r and C = (V″ − V′/r)/r² (the chain
+    /// rule for a function of r = |x|; checked against finite differences of <see cref="ThirdDerivatives"/> in the tests).
+    /// </remarks>
+    public double[,,,] FourthDerivatives(Position position)
+    {
+        var f = new double[3, 3, 3, 3];
+        Span<double> n = stackalloc double[3];
+        foreach (var s in Sites)
+        {
+            var d = position - s;
+            double r = d.Norm;
+            var pd = Potential.Derivatives(r);
+            double a = pd.Fourth - 6 * pd.Third / r + 15 * pd.Second / (r * r) - 15 * pd.First / (r * r * r);
+            double b = (pd.Third - 3 * pd.Second / r + 3 * pd.First / (r * r)) / r;
+            double c = (pd.Second - pd.First / r) / (r * r);
+            (n[0], n[1], n[2]) = (d.X / r, d.Y / r, d.Z / r);
+            for (int i = 0; i < 3; i++)
+            {
+                for (int j = 0; j < 3; j++)
+                {
+                    for (int k = 0; k < 3; k++)
+                    {
+                        for (int l = 0; l < 3; l++)
+                        {
+                            double ij = i == j ? 1 : 0, ik = i == k ? 1 : 0, il = i == l ? 1 : 0, jk = j == k ? 1 : 0, jl = j == l ? 1 : 0, kl = k == l ? 1 : 0;
+                            f[i, j, k, l] += a * n[i] * n[j] * n[k] * n[l]
+                                + b * (ij * n[k] * n[l] + ik * n[j] * n[l] + il * n[j] * n[k] + jk * n[i] * n[l] + jl * n[i] * n[k] + kl * n[i] * n[j])
+                                + c * (ij * kl + ik * jl + il * jk);
+                        }
+                    }
+                }
+            }
+        }
+        return f;
+    }
+
     /// <summary>
     /// The local minimum of the energy nearest the centre, by BFGS (MathNet.Numerics) from the centre.
     /// </summary>

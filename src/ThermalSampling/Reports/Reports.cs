@@ -238,6 +238,12 @@ public sealed record SiteVibrationReport
     public required ImmutableArray<Estimate> ThirdCumulants { get; init; }
 
     /// <summary>
+    /// The leading anharmonic terms by classical perturbation theory about the minimum (docs/perturbation-theory.md): the
+    /// covariance correction of order (kT)², the third cumulants of order (kT)² and the fourth of order (kT)³.
+    /// </summary>
+    public required SitePerturbativeEstimate Perturbative { get; init; }
+
+    /// <summary>
     /// The fourth cumulant tensor κ_ijkl = μ_ijkl − μ_ij μ_kl − μ_ik μ_jl − μ_il μ_jk, Å⁴: its 15 independent components in
     /// the order 1111, 1112, 1113, 1122, 1123, 1133, 1222, 1223, 1233, 1333, 2222, 2223, 2233, 2333, 3333, with standard
     /// errors as for <see cref="ThirdCumulants"/>. Zero for a harmonic site.

@@ -122,6 +122,7 @@ internal static class SiteSummary
             MeanShift = mean - min,
             Covariance = covariance,
             MeanSquareDisplacement = new Estimate(msd, msdSe),
+            Perturbative = Perturbation.Site(landscape, temperature),
             ThirdCumulants = cumulants.Third.Select((v, i) => new Estimate(v, cumulants.ThirdStandardError[i])).ToImmutableArray(),
             FourthCumulants = cumulants.Fourth.Select((v, i) => new Estimate(v, cumulants.FourthStandardError[i])).ToImmutableArray(),
             PotentialEnergy = potentialEnergy,

@@ -44,26 +44,7 @@ internal sealed class CumulantSums
     internal static int SizeFor(int coordinates) => coordinates == 1 ? 5 : 1 + 3 + 6 + 10 + 15;
 
     /// <summary>The index tuples of each order for three coordinates, sorted, in the contract's order.</summary>
-    internal static readonly int[][] Second = Tuples(2), Third = Tuples(3), Fourth = Tuples(4);
-
-    private static int[][] Tuples(int order)
-    {
-        var list = new List<int[]>();
-        void Build(int[] prefix, int from)
-        {
-            if (prefix.Length == order)
-            {
-                list.Add(prefix);
-                return;
-            }
-            for (int i = from; i < 3; i++)
-            {
-                Build([.. prefix, i], i);
-            }
-        }
-        Build([], 0);
-        return [.. list];
-    }
+    internal static readonly int[][] Second = Internal.TensorIndices.Second, Third = Internal.TensorIndices.Third, Fourth = Internal.TensorIndices.Fourth;
 
     /// <summary>Adds a block of draws starting at recorded draw <paramref name="firstDraw"/>: its sums in the group order.</summary>
     internal void AddBlock(long firstDraw, ReadOnlySpan<double> block)
