@@ -118,27 +118,29 @@ internal sealed record CumulantEstimate(double[] Third, double[] ThirdStandardEr
     {
         int size = chains[0].Size, d = chains[0].Coordinates;
         var total = new double[size];
-        var groups = new List<double[]>();
-        foreach (var chain in chains)
+        var groups = new List<int>(); // (chain, group) flattened as chain·MaxGroups + group, for the non-empty groups
+        for (int c = 0; c < chains.Count; c++)
         {
-            var all = chain.Groups;
+            var all = chains[c].Groups;
             for (int g = 0; g < CumulantSums.MaxGroups; g++)
             {
-                var group = all.Slice(g * size, size);
-                if (group[0] == 0)
+                if (all[g * size] == 0)
                 {
                     continue;
                 }
-                groups.Add(group.ToArray());
+                groups.Add(c * CumulantSums.MaxGroups + g);
                 for (int i = 0; i < size; i++)
                 {
-                    total[i] += group[i];
+                    total[i] += all[g * size + i];
                 }
             }
         }
-        var (third, fourth) = Cumulants(total, d);
-        var thirdSe = new double[third.Length];
-        var fourthSe = new double[fourth.Length];
+        int components3 = d == 1 ? 1 : 10, components4 = d == 1 ? 1 : 15;
+        var third = new double[components3];
+        var fourth = new double[components4];
+        Cumulants(total, d, third, fourth);
+        var thirdSe = new double[components3];
+        var fourthSe = new double[components4];
         int n = groups.Count;
         if (n < MinimumGroups)
         {
@@ -146,89 +148,108 @@ internal sealed record CumulantEstimate(double[] Third, double[] ThirdStandardEr
             Array.Fill(fourthSe, double.NaN);
             return new CumulantEstimate(third, thirdSe, fourth, fourthSe, n);
         }
-        var leaveOut = groups.Select(g => Cumulants(total.Zip(g, (t, x) => t - x).ToArray(), d)).ToList();
-        Jackknife(leaveOut.Select(l => l.Third).ToList(), thirdSe);
-        Jackknife(leaveOut.Select(l => l.Fourth).ToList(), fourthSe);
+        // Leave-one-group-out estimates, one buffer reused: the sums less the group's.
+        var left = new double[size];
+        var out3 = new double[n * components3];
+        var out4 = new double[n * components4];
+        for (int k = 0; k < n; k++)
+        {
+            var group = chains[groups[k] / CumulantSums.MaxGroups].Groups.Slice(groups[k] % CumulantSums.MaxGroups * size, size);
+            for (int i = 0; i < size; i++)
+            {
+                left[i] = total[i] - group[i];
+            }
+            Cumulants(left, d, out3.AsSpan(k * components3, components3), out4.AsSpan(k * components4, components4));
+        }
+        Jackknife(out3, n, thirdSe);
+        Jackknife(out4, n, fourthSe);
         return new CumulantEstimate(third, thirdSe, fourth, fourthSe, n);
     }
 
-    private static void Jackknife(List<double[]> estimates, double[] se)
+    private static void Jackknife(double[] estimates, int n, double[] se)
     {
-        int n = estimates.Count;
-        for (int c = 0; c < se.Length; c++)
+        int m = se.Length;
+        for (int c = 0; c < m; c++)
         {
-            double mean = estimates.Average(e => e[c]);
-            se[c] = Math.Sqrt((n - 1.0) / n * estimates.Sum(e => (e[c] - mean) * (e[c] - mean)));
+            double mean = 0;
+            for (int k = 0; k < n; k++)
+            {
+                mean += estimates[k * m + c];
+            }
+            mean /= n;
+            double ss = 0;
+            for (int k = 0; k < n; k++)
+            {
+                double e = estimates[k * m + c] - mean;
+                ss += e * e;
+            }
+            se[c] = Math.Sqrt((n - 1.0) / n * ss);
         }
     }
 
-    /// <summary>κ3 and κ4 from pooled raw sums about the reference (central moments by the binomial shift to the mean).</summary>
-    internal static (double[] Third, double[] Fourth) Cumulants(ReadOnlySpan<double> sums, int coordinates)
+    /// <summary>Where each sorted index tuple's raw sum sits in a group (three coordinates): [order][flat index of the tuple] → position.</summary>
+    private static readonly int[] Raw1 = [1, 2, 3], Raw2 = Positions(2, 4), Raw3 = Positions(3, 10), Raw4 = Positions(4, 20);
+
+    private static int[] Positions(int order, int offset)
+    {
+        var tuples = order == 2 ? CumulantSums.Second : order == 3 ? CumulantSums.Third : CumulantSums.Fourth;
+        int count = (int)Math.Pow(3, order);
+        var map = new int[count];
+        for (int flat = 0; flat < count; flat++)
+        {
+            var idx = new int[order];
+            for (int p = order - 1, f = flat; p >= 0; p--, f /= 3)
+            {
+                idx[p] = f % 3;
+            }
+            Array.Sort(idx);
+            map[flat] = offset + Array.FindIndex(tuples, t => t.AsSpan().SequenceEqual(idx));
+        }
+        return map;
+    }
+
+    /// <summary>κ3 and κ4 from pooled raw sums about the reference (central moments by the binomial shift to the mean), into <paramref name="third"/> and <paramref name="fourth"/>.</summary>
+    internal static void Cumulants(ReadOnlySpan<double> sums, int coordinates, Span<double> third, Span<double> fourth)
     {
         double n = sums[0];
         if (coordinates == 1)
         {
-            double a = sums[1] / n, m2 = sums[2] / n, m3 = sums[3] / n, m4 = sums[4] / n;
-            double c2 = m2 - a * a;
-            double c3 = m3 - 3 * a * m2 + 2 * a * a * a;
-            double c4 = m4 - 4 * a * m3 + 6 * a * a * m2 - 3 * a * a * a * a;
-            return ([c3], [c4 - 3 * c2 * c2]);
+            double x = sums[1] / n, m2 = sums[2] / n, m3 = sums[3] / n, m4 = sums[4] / n;
+            double c2 = m2 - x * x;
+            third[0] = m3 - 3 * x * m2 + 2 * x * x * x;
+            fourth[0] = m4 - 4 * x * m3 + 6 * x * x * m2 - 3 * x * x * x * x - 3 * c2 * c2;
+            return;
         }
-        var raw = new Dictionary<string, double>();
-        int k = 1;
-        for (int i = 0; i < 3; i++)
+        Span<double> m = stackalloc double[sums.Length];
+        for (int i = 0; i < m.Length; i++)
         {
-            raw[Key([i])] = sums[k++] / n;
+            m[i] = sums[i] / n; // raw moments about the reference
         }
-        foreach (var t in CumulantSums.Second)
+        for (int c = 0; c < 10; c++)
         {
-            raw[Key(t)] = sums[k++] / n;
+            var t = CumulantSums.Third[c];
+            third[c] = C3(m, t[0], t[1], t[2]);
         }
-        foreach (var t in CumulantSums.Third)
+        for (int c = 0; c < 15; c++)
         {
-            raw[Key(t)] = sums[k++] / n;
+            var t = CumulantSums.Fourth[c];
+            int i = t[0], j = t[1], k = t[2], l = t[3];
+            fourth[c] = C4(m, i, j, k, l) - C2(m, i, j) * C2(m, k, l) - C2(m, i, k) * C2(m, j, l) - C2(m, i, l) * C2(m, j, k);
         }
-        foreach (var t in CumulantSums.Fourth)
-        {
-            raw[Key(t)] = sums[k++] / n;
-        }
-        double M(params int[] idx) => idx.Length == 0 ? 1 : raw[Key(idx)];
-        double A(int i) => raw[Key([i])];
-        // Central moments: μ_S = Σ over subsets T of S of (−a)^(S∖T) m_T, T's raw moment (m_∅ = 1).
-        double Central(int[] idx)
-        {
-            double sum = 0;
-            int count = idx.Length;
-            for (int mask = 0; mask < 1 << count; mask++)
-            {
-                var kept = new List<int>();
-                double factor = 1;
-                for (int b = 0; b < count; b++)
-                {
-                    if ((mask & 1 << b) != 0)
-                    {
-                        kept.Add(idx[b]);
-                    }
-                    else
-                    {
-                        factor *= -A(idx[b]);
-                    }
-                }
-                sum += factor * M([.. kept]);
-            }
-            return sum;
-        }
-        var third = CumulantSums.Third.Select(Central).ToArray();
-        var fourth = CumulantSums.Fourth.Select(t =>
-            Central(t) - Central([t[0], t[1]]) * Central([t[2], t[3]]) - Central([t[0], t[2]]) * Central([t[1], t[3]])
-                - Central([t[0], t[3]]) * Central([t[1], t[2]])).ToArray();
-        return (third, fourth);
-    }
 
-    private static string Key(int[] idx)
-    {
-        var sorted = idx.ToArray();
-        Array.Sort(sorted);
-        return string.Concat(sorted);
+        static double A(ReadOnlySpan<double> m, int i) => m[Raw1[i]];
+        static double M2(ReadOnlySpan<double> m, int i, int j) => m[Raw2[i * 3 + j]];
+        static double M3(ReadOnlySpan<double> m, int i, int j, int k) => m[Raw3[(i * 3 + j) * 3 + k]];
+        static double M4(ReadOnlySpan<double> m, int i, int j, int k, int l) => m[Raw4[((i * 3 + j) * 3 + k) * 3 + l]];
+        static double C2(ReadOnlySpan<double> m, int i, int j) => M2(m, i, j) - A(m, i) * A(m, j);
+        static double C3(ReadOnlySpan<double> m, int i, int j, int k)
+            => M3(m, i, j, k) - A(m, i) * M2(m, j, k) - A(m, j) * M2(m, i, k) - A(m, k) * M2(m, i, j) + 2 * A(m, i) * A(m, j) * A(m, k);
+        static double C4(ReadOnlySpan<double> m, int i, int j, int k, int l)
+        {
+            double ai = A(m, i), aj = A(m, j), ak = A(m, k), al = A(m, l);
+            return M4(m, i, j, k, l) - ai * M3(m, j, k, l) - aj * M3(m, i, k, l) - ak * M3(m, i, j, l) - al * M3(m, i, j, k)
+                + ai * aj * M2(m, k, l) + ai * ak * M2(m, j, l) + ai * al * M2(m, j, k) + aj * ak * M2(m, i, l) + aj * al * M2(m, i, k) + ak * al * M2(m, i, j)
+                - 3 * ai * aj * ak * al;
+        }
     }
 }
