@@ -6,6 +6,7 @@ using System.Text.Json;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Reports;
+using ThermalSampling.Units;
 
 namespace ThermalSampling.Cli;
 
@@ -41,6 +42,45 @@ internal static class ReportJsonWriter
             WriteSite(w, r, l, e, s);
         }
         w.WriteEndArray();
+        WriteEinsteinFit(w, results, l);
+        w.WriteEndObject();
+    }
+
+    /// <summary>
+    /// With three or more temperatures: the Einstein form fitted to the sampled U(T) (a pair's variance, a site's U_iso =
+    /// MSD/3, with their standard errors; sites that leave their basin are left out), or nothing when the curve does not
+    /// have that form.
+    /// </summary>
+    private static void WriteEinsteinFit(Utf8JsonWriter w, ScenarioResults results, double l)
+    {
+        var points = results.Pairs.Where(r => r.Harmonic is not null && r.Variance.StandardError > 0)
+            .Select(r => new DisplacementPoint(r.Temperature, r.Variance.Value, r.Variance.StandardError))
+            .Concat(results.Sites.Where(r => r.StaysAtSite && r.MeanSquareDisplacement.StandardError > 0)
+                .Select(r => new DisplacementPoint(r.Temperature, r.MeanSquareDisplacement.Value / 3, r.MeanSquareDisplacement.StandardError / 3)))
+            .ToList();
+        if (points.Count < 3)
+        {
+            return;
+        }
+        EinsteinFitResult fit;
+        try
+        {
+            // The samples are classical: the classical limit of the Einstein form (no zero-point part).
+            fit = EinsteinFit.Fit(points, Mass.FromAtomicMassUnits(results.Scenario.MassInAtomicMassUnits), form: EinsteinForm.Classical);
+        }
+        catch (ArgumentException)
+        {
+            return; // not of the Einstein form: no fit is given rather than a meaningless one
+        }
+        w.WriteStartObject("einsteinFit");
+        w.WriteNumber("einsteinTemperature", fit.EinsteinTemperatureInKelvin);
+        Number(w, "einsteinTemperatureStdErr", fit.EinsteinTemperatureStandardError);
+        w.WriteNumber("chiSquared", fit.ChiSquared);
+        w.WriteNumber("degreesOfFreedom", fit.DegreesOfFreedom);
+        Numbers(w, "temperatures", points.Select(p => p.Temperature.InKelvin), 1);
+        w.WriteString("form", "classical");
+        Numbers(w, "model", points.Select(p => EinsteinFit.Model(fit.EinsteinTemperatureInKelvin, p.Temperature.InKelvin, results.Scenario.MassInAtomicMassUnits,
+            EinsteinForm.Classical)), l * l);
         w.WriteEndObject();
     }
 

@@ -118,6 +118,23 @@ public class CliTests
         }
     }
 
+    /// <summary>A sweep of three or more temperatures carries the Einstein fit of U(T); a single temperature does not.</summary>
+    [Fact]
+    public void A_sweep_carries_the_einstein_fit_of_its_curve()
+    {
+        string scenario = LineScenario.Replace("\"temperatures\": [10, 40]", "\"temperatures\": [10, 20, 40, 60]", StringComparison.Ordinal);
+        Assert.NotEqual(LineScenario, scenario);
+        var (code, stdout, stderr) = Run(scenario);
+        Assert.True(code == 0, stderr);
+        using var doc = JsonDocument.Parse(stdout);
+        var fit = doc.RootElement.GetProperty("einsteinFit");
+        AssertKeys(fit, "einsteinTemperature", "chiSquared", "degreesOfFreedom", "temperatures", "model");
+        Assert.InRange(fit.GetProperty("einsteinTemperature").GetDouble(), 1, 10_000);
+        Assert.Equal(4, fit.GetProperty("model").GetArrayLength());
+        using var two = JsonDocument.Parse(Run(LineScenario).Stdout);
+        Assert.False(two.RootElement.TryGetProperty("einsteinFit", out _), "two temperatures make no fit");
+    }
+
     [Fact]
     public void Output_bins_sets_the_distribution_bins()
     {

@@ -57,6 +57,17 @@ public class EinsteinFitTests
         Assert.Equal(EinsteinFit.Model(250, 1e6, 50) * 250 / 1e6, EinsteinFit.Model(250, 2e6, 50) * 250 / 2e6, 9);
     }
 
+    /// <summary>The classical form is the quantum one's high-temperature limit, and fits a classical line exactly.</summary>
+    [Fact]
+    public void The_classical_form_is_the_high_temperature_limit()
+    {
+        Assert.Equal(EinsteinFit.Model(150, 1e5, 50), EinsteinFit.Model(150, 1e5, 50, EinsteinForm.Classical), 9);
+        var points = Kelvins.Select(k => new DisplacementPoint(Temperature.FromKelvin(k), EinsteinFit.Model(150, k, 50, EinsteinForm.Classical), 1e-5)).ToList();
+        var fit = EinsteinFit.Fit(points, Mass50, form: EinsteinForm.Classical);
+        Assert.Equal(150, fit.EinsteinTemperatureInKelvin, 3);
+        Assert.True(fit.ChiSquared < 1e-6);
+    }
+
     [Fact]
     public void Too_few_points_or_bad_errors_are_refused_naming_them()
     {

@@ -13,6 +13,16 @@ namespace ThermalSampling.Analysis;
 /// <param name="StandardError">Its standard error, Å² (positive).</param>
 public readonly record struct DisplacementPoint(Temperature Temperature, double IsotropicDisplacementInAngstromsSquared, double StandardError);
 
+/// <summary>Which Einstein form to fit.</summary>
+public enum EinsteinForm
+{
+    /// <summary>The quantum form (ħ²/2m k_B θ_E) coth(θ_E/2T): for measured curves and quantum results.</summary>
+    Quantum,
+
+    /// <summary>Its classical limit ħ² T/(m k_B θ_E²) = k_B T/(mω_E²): for classically sampled curves, which have no zero-point part.</summary>
+    Classical,
+}
+
 /// <summary>The Einstein model fitted to a U(T) curve.</summary>
 /// <param name="EinsteinTemperatureInKelvin">θ_E = ħω_E/k_B, K.</param>
 /// <param name="EinsteinTemperatureStandardError">Its standard error, K (from the curvature of χ² at the minimum, the offset profiled out).</param>
@@ -28,8 +38,9 @@ public sealed record EinsteinFitResult(double EinsteinTemperatureInKelvin, doubl
 /// to a sampled U_iso(T) curve by weighted least squares, so that a computed curve can be set beside a measured one.
 /// </summary>
 /// <remarks>
-/// A classical sampled curve follows the classical limit U = k_B T/(mω²) + U₀; the fit to the quantum form then puts θ_E
-/// where the classical slope matches, and the quantum zero-point part it implies is the model's, not the sample's.
+/// A classically sampled curve has no zero-point part: fit it with <see cref="EinsteinForm.Classical"/>, U = k_B T/(mω_E²) + U₀,
+/// whose θ_E is the one a measured curve's quantum fit should approach at high temperature. χ² and the degrees of freedom
+/// say how well the form fits: an anharmonic well bends U(T) away from it.
 /// </remarks>
 public static class EinsteinFit
 {
@@ -37,19 +48,21 @@ public static class EinsteinFit
     /// <param name="theta">θ_E, K.</param>
     /// <param name="kelvin">T, K.</param>
     /// <param name="massAtomicMassUnits">m, u.</param>
-    public static double Model(double theta, double kelvin, double massAtomicMassUnits)
+    /// <param name="form">The quantum form or its classical limit.</param>
+    public static double Model(double theta, double kelvin, double massAtomicMassUnits, EinsteinForm form = EinsteinForm.Quantum)
     {
         // ħ²/(2 m k_B θ) in Å²: ħ²/u in eV·Å², over 2 k_B θ in eV.
         double scale = PhysicalConstants.HbarSquaredOverAtomicMassElectronVoltAngstromSquared / (2 * massAtomicMassUnits * PhysicalConstants.BoltzmannElectronVoltPerKelvin * theta);
-        return scale / Math.Tanh(theta / (2 * kelvin));
+        return form == EinsteinForm.Classical ? scale * 2 * kelvin / theta : scale / Math.Tanh(theta / (2 * kelvin));
     }
 
     /// <summary>Fits θ_E (and, when <paramref name="withOffset"/>, a static offset U₀) to <paramref name="points"/>.</summary>
     /// <param name="points">At least 2 points (3 with an offset), distinct temperatures, positive standard errors.</param>
     /// <param name="mass">The vibrating atom's mass.</param>
     /// <param name="withOffset">Whether to fit a temperature-independent offset (static disorder) as well.</param>
+    /// <param name="form">The quantum form (default) or its classical limit (for classically sampled curves).</param>
     /// <exception cref="ArgumentException">For too few points, a non-positive or non-finite error, or a curve no θ_E in 0.1 K to 10⁵ K fits.</exception>
-    public static EinsteinFitResult Fit(IReadOnlyList<DisplacementPoint> points, Mass mass, bool withOffset = false)
+    public static EinsteinFitResult Fit(IReadOnlyList<DisplacementPoint> points, Mass mass, bool withOffset = false, EinsteinForm form = EinsteinForm.Quantum)
     {
         Preconditions.CheckNotNull(points, nameof(points));
         double m = mass.InAtomicMassUnits;
@@ -79,14 +92,14 @@ public static class EinsteinFit
             {
                 for (int i = 0; i < t.Length; i++)
                 {
-                    offset += w[i] * (y[i] - Model(theta, t[i], m));
+                    offset += w[i] * (y[i] - Model(theta, t[i], m, form));
                 }
                 offset /= sumW;
             }
             double chi = 0;
             for (int i = 0; i < t.Length; i++)
             {
-                double r = y[i] - Model(theta, t[i], m) - offset;
+                double r = y[i] - Model(theta, t[i], m, form) - offset;
                 chi += w[i] * r * r;
             }
             return (chi, offset);
