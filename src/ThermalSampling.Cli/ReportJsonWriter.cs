@@ -161,6 +161,17 @@ internal static class ReportJsonWriter
         w.WriteEndArray();
     }
 
+    /// <summary>A symmetry form: per component, the index of the component it equals, or −1 when symmetry forces it to zero.</summary>
+    private static void Forms(Utf8JsonWriter w, string name, IEnumerable<int> form)
+    {
+        w.WriteStartArray(name);
+        foreach (int f in form)
+        {
+            w.WriteNumberValue(f);
+        }
+        w.WriteEndArray();
+    }
+
     /// <summary>The <c>cumulants</c> object: third and fourth cumulants with standard errors (scalars for a pair, tensor components for a site).</summary>
     private static void Cumulants(Utf8JsonWriter w, IReadOnlyList<Estimate> third, IReadOnlyList<Estimate> fourth, double l, bool scalar)
     {
@@ -297,6 +308,12 @@ internal static class ReportJsonWriter
         Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
         Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
         Cumulants(w, r.ThirdCumulants, r.FourthCumulants, l, scalar: false);
+        w.WriteStartObject("symmetry");
+        w.WriteNumber("operations", r.Symmetry.Operations.Length);
+        Forms(w, "covariance", r.Symmetry.CovarianceForm);
+        Forms(w, "third", r.Symmetry.ThirdForm);
+        Forms(w, "fourth", r.Symmetry.FourthForm);
+        w.WriteEndObject();
         // To fourth order the Gram–Charlier quasi-moments about the Gaussian of the true mean and covariance are the
         // cumulants themselves (docs/displacements.md), in the same frame, order and units.
         w.WriteStartObject("gramCharlier");

@@ -163,6 +163,7 @@ public class CliTests
         Assert.False(r.TryGetProperty("exact", out _), "there is no exact reference for sites");
         AssertKeys(r.GetProperty("cumulants"), "third", "thirdStdErr", "fourth", "fourthStdErr");
         AssertKeys(r.GetProperty("gramCharlier"), "third", "fourth");
+        AssertKeys(r.GetProperty("symmetry"), "operations", "covariance", "third", "fourth");
         AssertKeys(r.GetProperty("firstOrder"), "meanShift", "covariance", "cumulants");
         Assert.Equal(15, r.GetProperty("firstOrder").GetProperty("cumulants").GetProperty("fourth").GetArrayLength());
         Assert.Equal(10, r.GetProperty("cumulants").GetProperty("third").GetArrayLength());

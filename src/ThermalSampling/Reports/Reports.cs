@@ -238,6 +238,13 @@ public sealed record SiteVibrationReport
     public required ImmutableArray<Estimate> ThirdCumulants { get; init; }
 
     /// <summary>
+    /// The site's point symmetry found from the landscape (operations about the minimum that map the fixed atoms and the
+    /// confinement onto themselves) and the tensor components it forces to zero or to be equal; the sampled tensors agree
+    /// with it within their errors.
+    /// </summary>
+    public required SiteSymmetry Symmetry { get; init; }
+
+    /// <summary>
     /// The leading anharmonic terms by classical perturbation theory about the minimum (docs/perturbation-theory.md): the
     /// covariance correction of order (kT)², the third cumulants of order (kT)² and the fourth of order (kT)³.
     /// </summary>

@@ -123,6 +123,7 @@ internal static class SiteSummary
             Covariance = covariance,
             MeanSquareDisplacement = new Estimate(msd, msdSe),
             Perturbative = Perturbation.Site(landscape, temperature),
+            Symmetry = SiteSymmetry.Find(landscape, min),
             ThirdCumulants = cumulants.Third.Select((v, i) => new Estimate(v, cumulants.ThirdStandardError[i])).ToImmutableArray(),
             FourthCumulants = cumulants.Fourth.Select((v, i) => new Estimate(v, cumulants.FourthStandardError[i])).ToImmutableArray(),
             PotentialEnergy = potentialEnergy,
