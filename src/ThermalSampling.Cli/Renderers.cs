@@ -12,7 +12,7 @@ namespace ThermalSampling.Cli;
 /// <summary>The output formats of <c>run</c>, <c>sweep</c> and <c>demo</c>.</summary>
 internal static class Renderers
 {
-    internal static readonly string[] Formats = { "table", "json", "markdown", "csv" };
+    internal static readonly string[] Formats = { "table", "json", "markdown", "csv", "tidy-csv", "json-lines" };
 
     /// <summary>The width a table is fitted to when standard output is not a terminal (and the most it uses on a wide one).</summary>
     internal const int DefaultWidth = 120;
@@ -36,6 +36,17 @@ internal static class Renderers
         {
             ReportJsonWriter.Write(results, output);
             output.WriteByte((byte)'\n');
+            return;
+        }
+        if (format == "json-lines")
+        {
+            TidyWriter.WriteJsonLines(results, output);
+            return;
+        }
+        if (format == "tidy-csv")
+        {
+            using var tidy = new StreamWriter(output, new UTF8Encoding(false), leaveOpen: true);
+            TidyWriter.WriteCsv(results, tidy);
             return;
         }
         var table = ReportTable.From(results);

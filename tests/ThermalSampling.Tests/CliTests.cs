@@ -135,6 +135,25 @@ public class CliTests
         Assert.False(two.RootElement.TryGetProperty("einsteinFit", out _), "two temperatures make no fit");
     }
 
+    /// <summary>The tidy formats: one row per temperature and quantity, the same numbers as the JSON document.</summary>
+    [Fact]
+    public void Tidy_formats_give_one_row_per_temperature_and_quantity()
+    {
+        var (code, csv, stderr) = Run(SiteScenario, "--format", "tidy-csv");
+        Assert.True(code == 0, stderr);
+        var lines = csv.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal("temperature,quantity,component,value,stdErr,unit", lines[0]);
+        Assert.Contains(lines, l => l.Contains(",fourthCumulant,3333,", StringComparison.Ordinal));
+        var (_, jsonLines, _) = Run(SiteScenario, "--format", "json-lines");
+        var rows = jsonLines.Split('\n', StringSplitOptions.RemoveEmptyEntries).Select(l => JsonDocument.Parse(l).RootElement).ToList();
+        Assert.Equal(lines.Length - 1, rows.Count);
+        var (_, json, _) = Run(SiteScenario);
+        using var doc = JsonDocument.Parse(json);
+        double msd = doc.RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble();
+        var row = rows.First(r => r.GetProperty("quantity").GetString() == "meanSquareDisplacement");
+        Assert.Equal(msd, row.GetProperty("value").GetDouble());
+    }
+
     [Fact]
     public void Output_bins_sets_the_distribution_bins()
     {
