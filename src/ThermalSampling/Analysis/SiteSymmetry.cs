@@ -36,6 +36,27 @@ public sealed record SiteSymmetry(ImmutableArray<ImmutableArray<double>> Operati
         where TPotential : struct, IPairPotential
     {
         Preconditions.CheckNotNull(landscape, nameof(landscape));
+        // The symmetry depends on the geometry only: found once per landscape and minimum (a sweep asks at every temperature).
+        lock (Cache)
+        {
+            if (Cache.TryGetValue(landscape, out var cached) && cached.Item1 == minimum)
+            {
+                return cached.Item2;
+            }
+        }
+        var found = Compute(landscape, minimum);
+        lock (Cache)
+        {
+            Cache.AddOrUpdate(landscape, Tuple.Create(minimum, found));
+        }
+        return found;
+    }
+
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<object, Tuple<Position, SiteSymmetry>> Cache = new();
+
+    private static SiteSymmetry Compute<TPotential>(SiteLandscape<TPotential> landscape, Position minimum)
+        where TPotential : struct, IPairPotential
+    {
         var sites = landscape.Sites.Select(s => s - minimum).ToArray();
         var centre = landscape.Centre - minimum;
         bool box = landscape.Confinement.Shape == ConfinementShape.Box;
