@@ -1,6 +1,7 @@
 using System;
 using System.Linq;
 using MathNet.Numerics.Distributions;
+using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
 using ThermalSampling.Reports;
@@ -100,5 +101,38 @@ public class CumulantTests
         Assert.True(Math.Abs(k1111.Value) > 4 * k1111.StandardError, "the anharmonic cage has a fourth cumulant");
         Assert.InRange(Z(k1111, lanes.FourthCumulants[10]), -4.5, 4.5);
         Assert.InRange(Z(k1111, lanes.FourthCumulants[14]), -4.5, 4.5);
+    }
+}
+
+/// <summary>The exact generalised temperature factor of a pair.</summary>
+public class TemperatureFactorTests
+{
+    /// <summary>
+    /// A harmonic bond on a wide line window is Gaussian: T(q) = exp(−q²σ²/2) with no imaginary part (closed form), at q
+    /// from 0 to 20 1/Å. An asymmetric Morse well has Im T(q) ≈ −κ3 q³/6 at small q (the cumulant expansion), and
+    /// |T(q)| ≤ 1 everywhere.
+    /// </summary>
+    [Fact]
+    public void The_exact_temperature_factor_is_gaussian_for_a_harmonic_bond_and_skewed_for_a_morse_well()
+    {
+        var bond = new HarmonicBond(2.0, Length.FromAngstroms(1.5));
+        var t = Temperature.FromKelvin(300);
+        double sigma = Math.Sqrt(t.ThermalEnergyInElectronVolts / 2.0);
+        var exact = ExactPairDistribution.Compute(PairLandscape.Line(bond, Length.FromAngstroms(1.5 - 10 * sigma), Length.FromAngstroms(1.5 + 10 * sigma)), t);
+        foreach (double q in new[] { 0.0, 1, 5, 10, 20 })
+        {
+            var (re, im) = exact.TemperatureFactor(q);
+            Assert.Equal(Math.Exp(-q * q * sigma * sigma / 2), re, 8);
+            Assert.Equal(0, im, 8);
+        }
+        var morse = new Morse(Energy.FromElectronVolts(0.5), 1.5, Length.FromAngstroms(2.5));
+        var skewed = ExactPairDistribution.Compute(PairLandscape.Line(morse, Length.FromAngstroms(1.9), Length.FromAngstroms(4.5)), Temperature.FromKelvin(600));
+        double s = Math.Sqrt(skewed.VarianceInAngstromsSquared), k3 = skewed.Skewness * s * s * s;
+        // At q = 0.1 1/Å the next terms (the Gaussian damping σ²q²/2 and κ5 q⁵/120) change Im T by well under 1 %.
+        const double small = 0.1;
+        double leading = -k3 * small * small * small / 6;
+        Assert.Equal(leading, skewed.TemperatureFactor(small).Imaginary, 0.01 * Math.Abs(leading));
+        Assert.All(new[] { 0.5, 3.0, 15.0 }, q => Assert.True(Math.Sqrt(Math.Pow(skewed.TemperatureFactor(q).Real, 2) + Math.Pow(skewed.TemperatureFactor(q).Imaginary, 2)) <= 1 + 1e-12));
+        Assert.Throws<ArgumentOutOfRangeException>(() => skewed.TemperatureFactor(2000));
     }
 }

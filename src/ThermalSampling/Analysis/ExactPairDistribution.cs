@@ -136,6 +136,33 @@ public sealed class ExactPairDistribution
         return Math.Clamp(Integrate(_weight, WindowLowerInAngstroms, r, out _) / _normalisation, 0, 1);
     }
 
+    /// <summary>
+    /// The generalised temperature factor T(q) = ⟨exp(iq(r − ⟨r⟩))⟩ of the separation by quadrature: its real part
+    /// ⟨cos q(r − ⟨r⟩)⟩ and imaginary part ⟨sin q(r − ⟨r⟩)⟩ (nonzero only for an asymmetric distribution: −κ3 q³/6 to
+    /// leading order). Compare with the harmonic exp(−q²σ²/2) to see at which q the Gaussian model fails.
+    /// </summary>
+    /// <param name="qPerAngstrom">The scattering vector's length along the separation, 1/Å (|q| up to 1000).</param>
+    public (double Real, double Imaginary) TemperatureFactor(double qPerAngstrom)
+    {
+        Preconditions.CheckFinite(qPerAngstrom, nameof(qPerAngstrom));
+        if (Math.Abs(qPerAngstrom) > 1000)
+        {
+            throw new ArgumentOutOfRangeException(nameof(qPerAngstrom), qPerAngstrom, "q must lie between −1000 and 1000 1/Å.");
+        }
+        double mean = MeanInAngstroms;
+        // Oscillatory integrands: besides the break points, panels of at most a tenth of a period.
+        double span = WindowUpperInAngstroms - WindowLowerInAngstroms;
+        int panels = Math.Max(1, (int)Math.Ceiling(Math.Abs(qPerAngstrom) * span / (2 * Math.PI) * 10));
+        double re = 0, im = 0;
+        for (int p = 0; p < panels; p++)
+        {
+            double a = WindowLowerInAngstroms + span * p / panels, b = WindowLowerInAngstroms + span * (p + 1) / panels;
+            re += Integrate(r => Math.Cos(qPerAngstrom * (r - mean)) * _weight(r), a, b, out _);
+            im += Integrate(r => Math.Sin(qPerAngstrom * (r - mean)) * _weight(r), a, b, out _);
+        }
+        return (re / _normalisation, im / _normalisation);
+    }
+
     /// <summary>The unnormalised weight rⁿ e^(−(V − Vref)/kT).</summary>
     internal Func<double, double> Weight => _weight;
 
