@@ -5,6 +5,7 @@ using System.IO;
 using System.Linq;
 using System.Text;
 using System.Text.Json;
+using ThermalSampling.Analysis;
 using ThermalSampling.Reports;
 
 namespace ThermalSampling.Cli;
@@ -38,7 +39,6 @@ internal static class TidyWriter
             yield return new(t, "fourthCumulant", "", r.FourthCumulant.Value / Math.Pow(l, 4), r.FourthCumulant.StandardError / Math.Pow(l, 4), len + "^4");
             yield return new(t, "potentialEnergy", "", r.PotentialEnergy.Value / e, r.PotentialEnergy.StandardError / e, en);
         }
-        string[] second = ["11", "12", "13", "22", "23", "33"];
         foreach (var r in results.Sites)
         {
             double t = r.Temperature.InKelvin;
@@ -53,25 +53,21 @@ internal static class TidyWriter
             double[] covariance = [c.XX, c.XY, c.XZ, c.YY, c.YZ, c.ZZ];
             for (int k = 0; k < 6; k++)
             {
-                yield return new(t, "covariance", second[k], covariance[k] / (l * l), null, len + "^2");
+                yield return new(t, "covariance", TensorComponents.Second[k], covariance[k] / (l * l), null, len + "^2");
             }
             for (int k = 0; k < r.ThirdCumulants.Length; k++)
             {
-                yield return new(t, "thirdCumulant", Third[k], r.ThirdCumulants[k].Value / (l * l * l),
+                yield return new(t, "thirdCumulant", TensorComponents.Third[k], r.ThirdCumulants[k].Value / (l * l * l),
                     r.ThirdCumulants[k].StandardError / (l * l * l), len + "^3");
             }
             for (int k = 0; k < r.FourthCumulants.Length; k++)
             {
-                yield return new(t, "fourthCumulant", Fourth[k], r.FourthCumulants[k].Value / Math.Pow(l, 4),
+                yield return new(t, "fourthCumulant", TensorComponents.Fourth[k], r.FourthCumulants[k].Value / Math.Pow(l, 4),
                     r.FourthCumulants[k].StandardError / Math.Pow(l, 4), len + "^4");
             }
             yield return new(t, "potentialEnergy", "", r.PotentialEnergy.Value / e, r.PotentialEnergy.StandardError / e, en);
         }
     }
-
-    /// <summary>The components in the reports' order (docs/displacements.md).</summary>
-    private static readonly string[] Third = ["111", "112", "113", "122", "123", "133", "222", "223", "233", "333"],
-        Fourth = ["1111", "1112", "1113", "1122", "1123", "1133", "1222", "1223", "1233", "1333", "2222", "2223", "2233", "2333", "3333"];
 
     internal static void WriteCsv(ScenarioResults results, TextWriter w)
     {

@@ -83,9 +83,7 @@ public class CumulantTests
     [Fact]
     public void Site_cumulants_agree_between_lane_and_direct_sampling_and_vanish_at_third_order_at_a_centre_of_symmetry()
     {
-        var pair = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.010));
-        var cage = SiteLandscape.Create(pair, LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.5)), Position.Origin,
-            Confinement.Sphere(Length.FromAngstroms(1.2)));
+        var cage = InventedLandscapes.Cage;
         var settings = new SamplingSettings { Seed = 3, Chains = 8, SamplesPerChain = 150_000, BurnIn = 5000 };
         var t = Temperature.FromKelvin(60);
         var lanes = SiteSampler.Run(cage, Mass.FromAtomicMassUnits(40), t, settings);
@@ -134,5 +132,41 @@ public class TemperatureFactorTests
         Assert.Equal(leading, skewed.TemperatureFactor(small).Imaginary, 0.01 * Math.Abs(leading));
         Assert.All(new[] { 0.5, 3.0, 15.0 }, q => Assert.True(Math.Sqrt(Math.Pow(skewed.TemperatureFactor(q).Real, 2) + Math.Pow(skewed.TemperatureFactor(q).Imaginary, 2)) <= 1 + 1e-12));
         Assert.Throws<ArgumentOutOfRangeException>(() => skewed.TemperatureFactor(2000));
+    }
+}
+
+/// <summary>The densities set beside the sampled histogram, and the component labels of the reports.</summary>
+public class DistributionTests
+{
+    /// <summary>
+    /// A harmonic bond on a ±10σ line window is Gaussian (closed form: the normal distribution N(r0, kT/k), less under
+    /// 1e-20 of it beyond the walls), so on every bin the exact density (quadrature over the bin) and the harmonic Gaussian
+    /// (normal CDF differences) both equal the closed-form bin average Φ-difference/width.
+    /// </summary>
+    [Fact]
+    public void Exact_and_harmonic_bin_densities_equal_the_closed_form_for_a_harmonic_bond()
+    {
+        var bond = new HarmonicBond(2.0, Length.FromAngstroms(1.5));
+        var t = Temperature.FromKelvin(300);
+        double sigma = Math.Sqrt(t.ThermalEnergyInElectronVolts / 2.0);
+        var line = PairLandscape.Line(bond, Length.FromAngstroms(1.5 - 10 * sigma), Length.FromAngstroms(1.5 + 10 * sigma));
+        var r = PairSampler.Run(line, Mass.FromAtomicMassUnits(20), t, new SamplingSettings { Seed = 4, Chains = 2, SamplesPerChain = 1000, BurnIn = 100 });
+        var gauss = new Normal(1.5, sigma);
+        var h = r.Histogram;
+        for (int i = 0; i < h.Density.Length; i++)
+        {
+            double a = h.Lower + i * h.BinWidth, b = a + h.BinWidth;
+            double expected = (gauss.CumulativeDistribution(b) - gauss.CumulativeDistribution(a)) / h.BinWidth;
+            Assert.Equal(expected, r.ExactBinDensity[i], 1e-8 * (1 + expected));
+            Assert.Equal(expected, r.HarmonicBinDensity[i], 1e-8 * (1 + expected));
+        }
+    }
+
+    [Fact]
+    public void Component_labels_follow_the_documented_order()
+    {
+        Assert.Equal(["11", "12", "13", "22", "23", "33"], TensorComponents.Second.ToArray());
+        Assert.Equal(["111", "112", "113", "122", "123", "133", "222", "223", "233", "333"], TensorComponents.Third.ToArray());
+        Assert.Equal(["1111", "1112", "1113", "1122", "1123", "1133", "1222", "1223", "1233", "1333", "2222", "2223", "2233", "2333", "3333"], TensorComponents.Fourth.ToArray());
     }
 }

@@ -16,14 +16,13 @@ namespace ThermalSampling.Tests;
 /// </summary>
 public class PerturbationTests
 {
-    private static readonly LennardJones Pair = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.010));
+    private static readonly LennardJones Pair = InventedLandscapes.Pair;
 
     /// <summary>∂⁴E equals the central difference of the analytic third-derivative tensor (step 1e-4 Å, error O(h²)).</summary>
     [Fact]
     public void The_fourth_derivative_tensor_is_the_derivative_of_the_third()
     {
-        var landscape = SiteLandscape.Create(Pair, LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.5)), Position.Origin,
-            Confinement.Sphere(Length.FromAngstroms(1.2)));
+        var landscape = InventedLandscapes.Cage;
         var p = new Position(0.11, -0.07, 0.05); // off the symmetric point, so that every component is exercised
         var f = landscape.FourthDerivatives(p);
         const double h = 1e-4;
@@ -96,8 +95,7 @@ public class PerturbationTests
     [Fact]
     public void Three_dimensions_match_sampling_at_low_temperature()
     {
-        var cage = SiteLandscape.Create(Pair, LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.5)), Position.Origin,
-            Confinement.Sphere(Length.FromAngstroms(1.2)));
+        var cage = InventedLandscapes.Cage;
         var t = Temperature.FromKelvin(15);
         var report = SiteSampler.Run(cage, Mass.FromAtomicMassUnits(40), t,
             new SamplingSettings { Seed = 8, Chains = 8, SamplesPerChain = 300_000, BurnIn = 5000 });

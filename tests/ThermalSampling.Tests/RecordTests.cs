@@ -22,8 +22,7 @@ public class RecordTests
     // Invented: a harmonic bond k = 2 eV/Å² at 1.5 Å on a ±0.5 Å line window, and an invented Lennard-Jones cage.
     private static readonly PairLandscape<HarmonicBond> Bond = PairLandscape.Line(new HarmonicBond(2.0, Length.FromAngstroms(1.5)),
         Length.FromAngstroms(1.0), Length.FromAngstroms(2.0));
-    private static readonly SiteLandscape<LennardJones> Cage = SiteLandscape.Create(LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.010)),
-        LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.5)), Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.2)));
+    private static readonly SiteLandscape<LennardJones> Cage = InventedLandscapes.Cage;
     private static readonly Temperature T = Temperature.FromKelvin(300);
     private static readonly SamplingSettings Settings = new() { Seed = 31, Chains = 4, SamplesPerChain = 20_000, BurnIn = 2000, MaxDiagnosticValuesPerChain = 1000 };
 

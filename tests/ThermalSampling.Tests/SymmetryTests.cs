@@ -12,7 +12,7 @@ namespace ThermalSampling.Tests;
 /// <summary>A site's point symmetry found from its landscape, and what it forces on the displacement tensors.</summary>
 public class SymmetryTests
 {
-    private static readonly LennardJones Pair = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.010));
+    private static readonly LennardJones Pair = InventedLandscapes.Pair;
 
     /// <summary>
     /// The fcc cage (12 neighbours, centre of the cube's symmetry) has the full cubic group, 48 operations (a fact of
@@ -23,8 +23,7 @@ public class SymmetryTests
     [Fact]
     public void The_fcc_cage_has_the_cubic_group_and_the_sampled_tensors_obey_it()
     {
-        var cage = SiteLandscape.Create(Pair, LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.5)), Position.Origin,
-            Confinement.Sphere(Length.FromAngstroms(1.2)));
+        var cage = InventedLandscapes.Cage;
         var report = SiteSampler.Run(cage, Mass.FromAtomicMassUnits(40), Temperature.FromKelvin(60),
             new SamplingSettings { Seed = 21, Chains = 8, SamplesPerChain = 100_000, BurnIn = 5000 });
         var s = report.Symmetry;

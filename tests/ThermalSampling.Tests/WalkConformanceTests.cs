@@ -46,11 +46,10 @@ public class WalkConformanceTests
 
     // Invented landscapes: a Lennard-Jones pair (well 10 meV at 3.5 Å) on a line and radially, and a particle in the cage of
     // twelve such neighbours 3.5 Å away (the fcc nearest-neighbour shell).
-    private static readonly LennardJones Pair = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.010));
+    private static readonly LennardJones Pair = InventedLandscapes.Pair;
     private static readonly PairLandscape<LennardJones> Line = PairLandscape.Line(Pair, Length.FromAngstroms(3.0), Length.FromAngstroms(5.5));
     private static readonly PairLandscape<LennardJones> Radial = PairLandscape.Radial(Pair, Length.FromAngstroms(3.0), Length.FromAngstroms(5.5));
-    private static readonly SiteLandscape<LennardJones> Cage = SiteLandscape.Create(Pair,
-        LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.5)), Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.2)));
+    private static readonly SiteLandscape<LennardJones> Cage = InventedLandscapes.Cage;
 
     internal static readonly IReadOnlyDictionary<string, Walk> Walks = new Dictionary<string, Walk>
     {

@@ -163,6 +163,10 @@ public sealed class ExactPairDistribution
         return (re / _normalisation, im / _normalisation);
     }
 
+    /// <summary>P(a ≤ R ≤ b) by quadrature over [a, b] alone (inside the window).</summary>
+    internal double ProbabilityBetween(double a, double b)
+        => Integrate(_weight, Math.Max(a, WindowLowerInAngstroms), Math.Min(b, WindowUpperInAngstroms), out _) / _normalisation;
+
     /// <summary>The unnormalised weight rⁿ e^(−(V − Vref)/kT).</summary>
     internal Func<double, double> Weight => _weight;
 

@@ -36,10 +36,14 @@ public static class Perturbation
         Preconditions.CheckNotNull(landscape, nameof(landscape));
         Preconditions.CheckPositive(temperature.InKelvin, nameof(temperature));
         var min = landscape.FindMinimum();
-        var k = landscape.Hessian(min);
-        var third = landscape.ThirdDerivatives(min);
-        var fourth = landscape.FourthDerivatives(min);
-        var (dc, k3, k4) = Leading(k.ToArray(), Flat(third), Flat(fourth), 3, temperature.ThermalEnergyInElectronVolts);
+        return Site(landscape, min, landscape.Hessian(min).ToArray(), temperature);
+    }
+
+    /// <summary>The same at a minimum and Hessian already found (the harmonic analysis's), so a report does not search again.</summary>
+    internal static SitePerturbativeEstimate Site<TPotential>(SiteLandscape<TPotential> landscape, Position min, double[,] hessian, Temperature temperature)
+        where TPotential : struct, IPairPotential
+    {
+        var (dc, k3, k4) = Leading(hessian, Flat(landscape.ThirdDerivatives(min)), Flat(landscape.FourthDerivatives(min)), 3, temperature.ThermalEnergyInElectronVolts);
         return new SitePerturbativeEstimate(SymmetricTensor.FromMatrix(Matrix<double>.Build.DenseOfArray(dc)),
             [.. TensorIndices.Third.Select(t => k3[(t[0] * 3 + t[1]) * 3 + t[2]])],
             [.. TensorIndices.Fourth.Select(t => k4[((t[0] * 3 + t[1]) * 3 + t[2]) * 3 + t[3]])]);

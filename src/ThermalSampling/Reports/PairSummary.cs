@@ -131,8 +131,9 @@ internal static class PairSummary
     }
 
     /// <summary>
-    /// The exact density and the harmonic Gaussian averaged over each of the histogram's bins: (P(b) − P(a))/(b − a) from the
-    /// exact cumulative probability and from the normal distribution about the minimum with the classical harmonic variance.
+    /// The exact density and the harmonic Gaussian averaged over each of the histogram's bins: the probability in the bin
+    /// over its width, by quadrature over the bin alone, and from the normal distribution about the minimum with the
+    /// classical harmonic variance.
     /// </summary>
     private static (ImmutableArray<double> Exact, ImmutableArray<double> Harmonic) BinDensities(Histogram histogram, ExactPairDistribution exact,
         PotentialWell? well, PairHarmonicEstimate? harmonic)
@@ -146,7 +147,7 @@ internal static class PairSummary
         for (int i = 0; i < bins; i++)
         {
             double a = histogram.Lower + i * width, b = i == bins - 1 ? histogram.Upper : a + width;
-            exactBins.Add((exact.CumulativeProbability(b) - exact.CumulativeProbability(a)) / width);
+            exactBins.Add(exact.ProbabilityBetween(a, b) / width);
             if (gaussian is not null)
             {
                 harmonicBins.Add((gaussian.CumulativeDistribution(b) - gaussian.CumulativeDistribution(a)) / width);

@@ -87,13 +87,6 @@ internal static class ReportParts
         return list.All(c => c.IsEmpty) ? RetainedDraws<T>.None : new RetainedDraws<T>(list);
     }
 
-    /// <summary>The sample covariance (divisor n − 1; n = 1 gives the zero tensor's co-moments over 1).</summary>
-    internal static SymmetricTensor Covariance(this in CovarianceAccumulator a)
-    {
-        double d = a.Count > 1 ? a.Count - 1 : 1;
-        return new SymmetricTensor(a.Cxx / d, a.Cyy / d, a.Czz / d, a.Cxy / d, a.Cxz / d, a.Cyz / d);
-    }
-
     internal static void AddConvergenceWarnings(ImmutableArray<Warning>.Builder warnings, ChainDiagnostics.Summary s, double? acceptance, double? target)
     {
         var c = System.Globalization.CultureInfo.InvariantCulture;

@@ -122,7 +122,7 @@ internal static class SiteSummary
             MeanShift = mean - min,
             Covariance = covariance,
             MeanSquareDisplacement = new Estimate(msd, msdSe),
-            Perturbative = Perturbation.Site(landscape, temperature),
+            Perturbative = Perturbation.Site(landscape, min, harmonic.Hessian.ToMatrix().ToArray(), temperature),
             Symmetry = SiteSymmetry.Find(landscape, min),
             ThirdCumulants = cumulants.Third.Select((v, i) => new Estimate(v, cumulants.ThirdStandardError[i])).ToImmutableArray(),
             FourthCumulants = cumulants.Fourth.Select((v, i) => new Estimate(v, cumulants.FourthStandardError[i])).ToImmutableArray(),

@@ -89,17 +89,7 @@ public sealed class ChainRecord
     /// <summary>The sample covariance of the position (divisor n − 1), Å² (sites only).</summary>
     /// <exception cref="InvalidOperationException">For a pair record.</exception>
     public Analysis.SymmetricTensor Covariance
-    {
-        get
-        {
-            if (Coordinates != 3)
-            {
-                throw new InvalidOperationException("A pair record has no covariance; read Separation.");
-            }
-            double d = _position.Count > 1 ? _position.Count - 1 : 1;
-            return new Analysis.SymmetricTensor(_position.Cxx / d, _position.Cyy / d, _position.Czz / d, _position.Cxy / d, _position.Cxz / d, _position.Cyz / d);
-        }
-    }
+        => Coordinates == 3 ? _position.Covariance() : throw new InvalidOperationException("A pair record has no covariance; read Separation.");
 
     /// <summary>The mean of V − V_ref over every recorded draw, eV, with V_ref = <see cref="EnergyReferenceInElectronVolts"/>.</summary>
     public double PotentialEnergyMeanInElectronVolts => Energies.Totals().Mean - Layout.EnergyReference;
@@ -150,15 +140,15 @@ public sealed class ChainRecord
         _keptSeparations!.Add(r);
     }
 
-    /// <summary>One direct draw of a site: position (x, y, z) at energy <paramref name="energy"/>, <paramref name="minimum"/> the radial histogram's origin.</summary>
-    internal void AddPosition(double x, double y, double z, double energy, Position minimum)
+    /// <summary>One direct draw of a site: position (x, y, z) at energy <paramref name="energy"/> (the radial histogram's origin is the layout's reference, the minimum).</summary>
+    internal void AddPosition(double x, double y, double z, double energy)
     {
         Cumulants.Add(_position.Count, [x - Layout.References[0], y - Layout.References[1], z - Layout.References[2]]);
         _position.Add(x, y, z);
         _stores[0].Add(x);
         _stores[1].Add(y);
         _stores[2].Add(z);
-        double dx = x - minimum.X, dy = y - minimum.Y, dz = z - minimum.Z;
+        double dx = x - Layout.References[0], dy = y - Layout.References[1], dz = z - Layout.References[2];
         Bins.Add(Math.Sqrt(dx * dx + dy * dy + dz * dz));
         AddEnergy(energy);
         _keptPositions!.Add(new Position(x, y, z));
@@ -272,6 +262,17 @@ public sealed class ChainRecord
         long draws = Draws;
         DrawsNearWall = r.InRange(head[3], 0, draws, "the draws near the wall");
         DrawsOutsideBasin = r.InRange(head[4], 0, draws, "the draws outside the basin");
+    }
+}
+
+/// <summary>The covariance tensor of a position accumulator.</summary>
+internal static class CovarianceTensor
+{
+    /// <summary>The sample covariance (divisor n − 1; n = 1 gives the zero tensor's co-moments over 1), Å².</summary>
+    internal static Analysis.SymmetricTensor Covariance(this in CovarianceAccumulator a)
+    {
+        double d = a.Count > 1 ? a.Count - 1 : 1;
+        return new Analysis.SymmetricTensor(a.Cxx / d, a.Cyy / d, a.Czz / d, a.Cxy / d, a.Cxz / d, a.Cyz / d);
     }
 }
 

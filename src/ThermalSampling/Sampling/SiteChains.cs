@@ -44,6 +44,7 @@ internal static class SiteChains
         double radialMax = (landscape.Confinement.Shape == ConfinementShape.Sphere ? size : size * Math.Sqrt(3)) + centreOffset;
 
         var basin = SiteBasins.MapWithGrid(landscape, min).Grid;
+        double wallBand = WallBand(cholesky);
         Envelope? envelope = metropolis ? null : Envelope.Build(kernel, min, cholesky, logWeightMin, landscape, settings.Seed);
         var layout = new RecordLayout(3, settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, settings.RetainedDrawsPerChain, [min.X, min.Y, min.Z],
             harmonic.MinimumEnergyInElectronVolts, 0, radialMax, settings.HistogramBins);
@@ -52,12 +53,12 @@ internal static class SiteChains
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
 
         SiteLaneChains.Plan<TPotential>? plan = metropolis ? new(landscape.Potential, landscape.PackedCoordinates.ToArray(), landscape.Centre, landscape.Confinement,
-            min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, WallBand(cholesky),
+            min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, wallBand,
             settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description, basin) : null;
         var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
             (lanes, first, end, checkpoints, g) => SiteLaneChains.Run(lanes, plan!, first, end, c => StartOfChain(landscape, min, cholesky, settings.Seed, c),
                 NewRecord, NewReporter, checkpoints, g, cancellationToken),
-            (c, checkpoints) => new DirectChain<EnvelopeDraws<TPotential>>(new(kernel, landscape, min, envelope!, basin), settings, c, NewRecord(c), NewReporter(c), "direct site chain")
+            (c, checkpoints) => new DirectChain<EnvelopeDraws<TPotential>>(new(kernel, landscape, envelope!, basin, wallBand), settings, c, NewRecord(c), NewReporter(c), "direct site chain")
                 .Run(checkpoints, cancellationToken));
         return new TemperatureRecord("sites", landscape.Description, Fingerprint(landscape), temperature, settings, target, sigmaMin, layout, [.. results],
             Internal.LibraryVersion.Current);
@@ -121,11 +122,14 @@ internal static class SiteChains
     /// <summary>The near-wall band: one harmonic RMS spread per direction, √(tr Σ/3).</summary>
     private static double WallBand(Matrix<double> cholesky) => Math.Sqrt(cholesky.Multiply(cholesky.Transpose()).Trace() / 3);
 
-    /// <summary>The index of the potential energy's batch-means store among a site chain's stores (after x, y and z).</summary>
-
     /// <summary>Direct draws of a site's position by rejection from the Gaussian envelope, counting the envelope draws tried.</summary>
-    private readonly struct EnvelopeDraws<TPotential>(SiteWeight<TPotential> kernel, SiteLandscape<TPotential> landscape, Position min, Envelope envelope,
-        BasinGrid basin) : IDirectSource
+    /// <param name="kernel">The log Boltzmann weight.</param>
+    /// <param name="landscape">The landscape (energies, confinement).</param>
+    /// <param name="envelope">The Gaussian envelope and its bound.</param>
+    /// <param name="basin">The site's basin map.</param>
+    /// <param name="wallBand">The near-wall band (one harmonic RMS spread), Å: computed once, not per draw.</param>
+    private readonly struct EnvelopeDraws<TPotential>(SiteWeight<TPotential> kernel, SiteLandscape<TPotential> landscape, Envelope envelope, BasinGrid basin,
+        double wallBand) : IDirectSource
         where TPotential : struct, IPairPotential
     {
         public void Draw(ref RandomStream random, ChainRecord record)
@@ -147,9 +151,9 @@ internal static class SiteChains
                 }
                 if (Math.Log(random.NextOpenUnitInterval()) < logRatio - envelope.LogBound)
                 {
-                    record.AddPosition(x, y, z, landscape.Energy(new Position(x, y, z)), min);
+                    record.AddPosition(x, y, z, landscape.Energy(new Position(x, y, z)));
                     record.Accepted++;
-                    if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, envelope.WallBand))
+                    if (NearWall(landscape.Confinement, landscape.Centre, x, y, z, wallBand))
                     {
                         record.DrawsNearWall++;
                     }
@@ -178,8 +182,6 @@ internal static class SiteChains
         }
 
         internal double LogWeightAtMinimum { get; }
-
-        internal double WallBand => SiteChains.WallBand((1 / EnvelopeInflation) * _l);
 
         internal double LogBound { get; }
 

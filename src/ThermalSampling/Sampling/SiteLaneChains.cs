@@ -104,6 +104,7 @@ internal static class SiteLaneChains
             var minimum = _plan.Minimum;
             ref var s = ref Sums;
             Span<double> block = stackalloc double[CumulantSums.SizeFor(3)];
+            var higher = s.Higher;
             for (int lane = 0; lane < _records.Length; lane++)
             {
                 _records[lane].AddPositionBlock(CovarianceAccumulator.FromRawSums(count, minimum.X, minimum.Y, minimum.Z,
@@ -115,7 +116,6 @@ internal static class SiteLaneChains
                 (block[1], block[2], block[3]) = (TOps.Get(s.X, lane), TOps.Get(s.Y, lane), TOps.Get(s.Z, lane));
                 (block[4], block[5], block[6]) = (TOps.Get(s.XX, lane), TOps.Get(s.XY, lane), TOps.Get(s.XZ, lane));
                 (block[7], block[8], block[9]) = (TOps.Get(s.YY, lane), TOps.Get(s.YZ, lane), TOps.Get(s.ZZ, lane));
-                var higher = s.Higher;
                 for (int k = 0; k < 25; k++)
                 {
                     block[10 + k] = TOps.Get(LaneHigherSums.At(ref higher, k), lane);
