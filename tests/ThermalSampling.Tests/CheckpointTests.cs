@@ -49,6 +49,8 @@ public sealed class CheckpointTests
             r.Diagnostics.Draws, r.Diagnostics.BlockingStandardError, r.Diagnostics.FinalStepWidthInAngstroms ?? -1, r.Histogram.Count, r.Exact.ZScoreMean };
         v.AddRange(r.Histogram.Density);
         v.AddRange(r.Histogram.DensityStandardError);
+        v.AddRange([r.ThirdCumulant.Value, r.ThirdCumulant.StandardError, r.FourthCumulant.Value, r.FourthCumulant.StandardError]);
+        v.AddRange(FactorBits(r.TemperatureFactors));
         v.AddRange(r.Draws.Chains.SelectMany(c => c));
         return string.Join(",", v.Select(x => BitConverter.DoubleToUInt64Bits(x).ToString("x16"))) + "|" + string.Join(";", r.Warnings.Select(w => w.Code + w.Message));
     }
@@ -61,9 +63,15 @@ public sealed class CheckpointTests
             r.MeanSquareDisplacement.Value, r.MeanSquareDisplacement.StandardError, r.Diagnostics.AcceptanceRate ?? -1, r.Diagnostics.AutocorrelationTime,
             r.Diagnostics.EffectiveSampleSize, r.Diagnostics.RHat ?? -1, r.Diagnostics.Draws, r.Diagnostics.FinalStepWidthInAngstroms ?? -1, r.RadialHistogram.Count };
         v.AddRange(r.RadialHistogram.Density);
+        v.AddRange(r.ThirdCumulants.Concat(r.FourthCumulants).SelectMany(k => new[] { k.Value, k.StandardError }));
+        v.AddRange(FactorBits(r.TemperatureFactors));
         v.AddRange(r.Draws.Chains.SelectMany(ch => ch.SelectMany(p => new[] { p.X, p.Y, p.Z })));
         return string.Join(",", v.Select(x => BitConverter.DoubleToUInt64Bits(x).ToString("x16"))) + "|" + string.Join(";", r.Warnings.Select(w => w.Code + w.Message));
     }
+
+    private static IEnumerable<double> FactorBits(IEnumerable<TemperatureFactorPoint> points)
+        => points.SelectMany(p => new[] { p.Real.Value, p.Real.StandardError, p.Imaginary.Value, p.Imaginary.StandardError, p.Gaussian,
+            p.DepartureFromGaussian.Value, p.DepartureFromGaussian.StandardError });
 
     private static string Bits(IEnumerable<PairVibrationReport> reports) => string.Join("\n", reports.Select(Bits));
 
@@ -296,7 +304,7 @@ public sealed class CheckpointTests
         var other = Read(WithMetadata(bytes, "\"libraryVersion\":\"" + Provenance.CurrentLibraryVersion, "\"libraryVersion\":\"0.0.1"));
         var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(Line, Argon, TwoTemperatures, settings, other));
         Assert.Contains("library version 0.0.1", ex.Message);
-        Assert.Contains("format version 3; this library reads version 4", Assert.Throws<CheckpointException>(() => Read(WithMetadata(bytes, "\"formatVersion\":4", "\"formatVersion\":3"))).Message); // a checkpoint of the layout before the walk and its sums were saved apart
+        Assert.Contains("format version 4; this library reads version 5", Assert.Throws<CheckpointException>(() => Read(WithMetadata(bytes, "\"formatVersion\":5", "\"formatVersion\":4"))).Message); // a checkpoint of the layout before the temperature-factor sums
 
         var checkpoint = Read(bytes);
         Assert.Contains("temperatures are [30, 60] K, and this run's are [30, 61] K",

@@ -30,7 +30,7 @@ public class CumulantTests
         const int chains = 4, draws = 200_000;
         var random = new Random(5);
 #pragma warning disable CA5394 // test data, not security
-        var records = Enumerable.Range(0, chains).Select(_ => new CumulantSums(3, draws)).ToList();
+        var records = Enumerable.Range(0, chains).Select(_ => new CumulantSums(3, draws, [])).ToList();
         var exponential = new Exponential(2.0, random);
         foreach (var record in records)
         {

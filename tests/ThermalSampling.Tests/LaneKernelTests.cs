@@ -57,6 +57,49 @@ public sealed class LaneKernelTests
         Assert.Equal(1.0, Exp1(0.0));
     }
 
+    private static (double Sin, double Cos) SinCos1(double x) => (LaneMath.SinCos<Lanes1, double, ulong>(x, out var c), c);
+
+    /// <summary>Reference: Math.Sin and Math.Cos (the platform's libm), over the documented range and at the quadrant edges.</summary>
+    [Fact]
+    public void LaneSineAndCosineAreWithin1e15OfMathOverTheirRange()
+    {
+        var random = RandomStream.FromSeed(17);
+        double worst = 0;
+        for (int i = 0; i < 400_000; i++)
+        {
+            double x = i % 3 switch { 0 => -10 + 20 * random.NextUnitInterval(), 1 => -1e3 + 2e3 * random.NextUnitInterval(), _ => -1e6 + 2e6 * random.NextUnitInterval() };
+            var (s, c) = SinCos1(x);
+            worst = Math.Max(worst, Math.Max(Math.Abs(s - Math.Sin(x)), Math.Abs(c - Math.Cos(x))));
+        }
+        for (int k = -8; k <= 8; k++)
+        {
+            foreach (double x in new[] { k * Math.PI / 4, k * Math.PI / 2, Math.BitDecrement(k * Math.PI / 4), Math.BitIncrement(k * Math.PI / 4) })
+            {
+                var (s, c) = SinCos1(x);
+                worst = Math.Max(worst, Math.Max(Math.Abs(s - Math.Sin(x)), Math.Abs(c - Math.Cos(x))));
+            }
+        }
+        Assert.True(worst <= 1e-15, $"worst absolute error {worst:G3}");
+        Assert.Equal((0.0, 1.0), SinCos1(0.0));
+    }
+
+    [Fact]
+    public void LaneSineAndCosineGiveTheSameBitsAtEveryWidth()
+    {
+        var random = RandomStream.FromSeed(18);
+        for (int i = 0; i < 20_000; i++)
+        {
+            double x = -1e4 + 2e4 * random.NextUnitInterval();
+            var (s, c) = SinCos1(x);
+            double s8 = LaneMath.SinCos<Lanes8, Vector512<double>, Vector512<ulong>>(Vector512.Create(x), out var c8).GetElement(5);
+            double s4 = LaneMath.SinCos<Lanes4, Vector256<double>, Vector256<ulong>>(Vector256.Create(x), out var c4).GetElement(2);
+            double s2 = LaneMath.SinCos<Lanes2, Vector128<double>, Vector128<ulong>>(Vector128.Create(x), out var c2).GetElement(1);
+            Assert.Equal((s, c), (s8, c8.GetElement(5)));
+            Assert.Equal((s, c), (s4, c4.GetElement(2)));
+            Assert.Equal((s, c), (s2, c2.GetElement(1)));
+        }
+    }
+
     [Fact]
     public void LaneExponentialIsZeroBelowItsRangeAndSaturatesAbove()
     {
@@ -278,7 +321,7 @@ public sealed class LaneKernelTests
         double[] DrawsOf(PairLaneChains.Plan<HarmonicBond> plan, int chain)
         {
             var outcomes = PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.45 + 0.01 * c,
-                c => new ChainRecord(new RecordLayout(1, samples, 1024, (int)samples, [1.5], 0, 1.0, 2.0, 20), c, 1.0 / 1024),
+                c => new ChainRecord(new RecordLayout(1, samples, 1024, (int)samples, [1.5], 0, 1.0, 2.0, 20, []), c, 1.0 / 1024),
                 c => new ProgressReporter(null, c, 1000 + samples, 300), GroupCheckpoints.None, 0, default);
             return outcomes[chain].KeptSeparations.ToImmutable().ToArray();
         }
@@ -303,7 +346,7 @@ public sealed class LaneKernelTests
     {
         var plan = new PairLaneChains.Plan<FaultyBand>(new FaultyBand(bad), 1.0, 2.0, 40.0, false, 0.3, 0.44, 1.0, 1000, 100_000, 5);
         var ex = Assert.Throws<NonFiniteEnergyException>(() => PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.2 + 0.05 * c,
-            c => new ChainRecord(new RecordLayout(1, 100_000, 1024, 0, [1.5], 0, 1.0, 2.0, 20), c, 1.0 / 1024),
+            c => new ChainRecord(new RecordLayout(1, 100_000, 1024, 0, [1.5], 0, 1.0, 2.0, 20, []), c, 1.0 / 1024),
             c => new ProgressReporter(null, c, 101_000, 300), GroupCheckpoints.None, 0, default));
         Assert.InRange(ex.Separation, 1.55, 1.56);
         Assert.Contains("invented faulty band", ex.Message, StringComparison.Ordinal);
@@ -321,7 +364,7 @@ public sealed class LaneKernelTests
 
     private static ChainRecord[] RunFaultySites(SiteLaneChains.Plan<FaultyBand> plan, int lanes, Func<int, Position> start)
         => SiteLaneChains.Run(lanes, plan, 0, lanes, c => (RandomStream.ForChain(plan.Seed, c), start(c)),
-            c => new ChainRecord(new RecordLayout(3, plan.Samples, 1024, 0, [FaultyCentre.X, FaultyCentre.Y, FaultyCentre.Z], 0, 0, 0.25, 20), c, 1.0 / 1024),
+            c => new ChainRecord(new RecordLayout(3, plan.Samples, 1024, 0, [FaultyCentre.X, FaultyCentre.Y, FaultyCentre.Z], 0, 0, 0.25, 20, []), c, 1.0 / 1024),
             c => new ProgressReporter(null, c, plan.BurnIn + plan.Samples, 300), GroupCheckpoints.None, 0, default);
 
     /// <summary>

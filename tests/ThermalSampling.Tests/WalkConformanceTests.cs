@@ -76,6 +76,7 @@ public class WalkConformanceTests
     {
         Seed = 4242, Chains = 5, SamplesPerChain = 9000, BurnIn = 5000, ChainsPerVector = lanes, MaxThreads = threads,
         MaxDiagnosticValuesPerChain = 1000, RetainedDrawsPerChain = 100,
+        ScatteringVectorsInInverseAngstroms = [2.5, 7.0, -4.0], // three q for a pair, one vector for a site: the temperature-factor sums travel too
     };
 
     [Theory]

@@ -30,6 +30,11 @@ public readonly record struct SymmetricTensor(double XX, double YY, double ZZ, d
         _ => throw new ArgumentOutOfRangeException(nameof(i), $"indices ({i}, {j}) must each be 0, 1 or 2."),
     };
 
+    /// <summary>The quadratic form vᵀTv.</summary>
+    /// <param name="v">The vector.</param>
+    public double Quadratic(Landscapes.Position v)
+        => XX * v.X * v.X + YY * v.Y * v.Y + ZZ * v.Z * v.Z + 2 * (XY * v.X * v.Y + XZ * v.X * v.Z + YZ * v.Y * v.Z);
+
     /// <summary>The tensor as a new dense MathNet matrix.</summary>
     public Matrix<double> ToMatrix() => Matrix<double>.Build.DenseOfArray(new[,] { { XX, XY, XZ }, { XY, YY, YZ }, { XZ, YZ, ZZ } });
 

@@ -123,6 +123,8 @@ internal static class PairSummary
             Diagnostics = diagnostics,
             Histogram = histogram,
             ExactBinDensity = exactBins,
+            TemperatureFactors = ReportParts.TemperatureFactors(results.Select(r => r.Cumulants).ToList(),
+                q => harmonic is null ? null : q[0] * q[0] * harmonic.ClassicalVarianceInAngstromsSquared, q => exact.TemperatureFactor(q[0])),
             HarmonicBinDensity = harmonicBins,
             Warnings = warnings.ToImmutable(),
             Provenance = provenance,

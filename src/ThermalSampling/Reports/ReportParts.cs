@@ -49,6 +49,32 @@ internal static class ReportParts
             $"The first-order {what} ({firstOrder:G3}) differs from the {(standardError > 0 ? "sampled" : "exact")} one ({reference:G3}) by {gap / Math.Abs(reference):P0}, more than the {FirstOrderTolerance:P0} allowed: the anharmonic correction is not small at this temperature, so first-order perturbation theory is outside its range. Use the {(standardError > 0 ? "sampled" : "exact")} value."));
     }
 
+    /// <summary>
+    /// T(q) at every recorded scattering vector: sampled from the chains' groups, beside the harmonic Gaussian
+    /// exp(−½ qᵀU_h q) (<paramref name="harmonicQuadratic"/> gives qᵀU_h q, or null without a harmonic estimate) and the
+    /// exact value where <paramref name="exact"/> gives one.
+    /// </summary>
+    internal static ImmutableArray<TemperatureFactorPoint> TemperatureFactors(IReadOnlyList<CumulantSums> chains, Func<double[], double?> harmonicQuadratic,
+        Func<double[], (double Real, double Imaginary)?> exact)
+    {
+        if (TemperatureFactorEstimate.From(chains) is not { } t)
+        {
+            return [];
+        }
+        int d = chains[0].Coordinates;
+        var waves = chains[0].Waves.ToArray();
+        var points = ImmutableArray.CreateBuilder<TemperatureFactorPoint>(t.Real.Length);
+        for (int k = 0; k < t.Real.Length; k++)
+        {
+            var q = waves[(k * d)..((k + 1) * d)];
+            var e = exact(q);
+            points.Add(new TemperatureFactorPoint([.. q], new Estimate(t.Real[k], t.RealStandardError[k]), new Estimate(t.Imaginary[k], t.ImaginaryStandardError[k]),
+                harmonicQuadratic(q) is double h ? Math.Exp(-0.5 * h) : null, t.Gaussian[k], new Estimate(t.Departure[k], t.DepartureStandardError[k]),
+                e?.Real, e?.Imaginary));
+        }
+        return points.MoveToImmutable();
+    }
+
     /// <summary>The bins of every chain as one density with per-bin standard errors √(p(1 − p)/ESS)/width.</summary>
     internal static Histogram Histogram(IReadOnlyList<BinCounter> parts, double effectiveSampleSize)
     {

@@ -53,6 +53,29 @@ public sealed record Histogram(double Lower, double Upper, ImmutableArray<double
     public double BinCentre(int index) => Lower + (index + 0.5) * BinWidth;
 }
 
+/// <summary>
+/// The generalised temperature factor T(q) = ⟨exp(iq·(x − ⟨x⟩))⟩ at one scattering vector, sampled with standard errors,
+/// beside the Gaussian models: the harmonic one, exp(−½ qᵀU_h q), and the one with the sampled covariance, exp(−½ qᵀUq),
+/// whose departure from T (with its own standard error) shows where a Gaussian displacement model fails.
+/// </summary>
+/// <param name="ScatteringVector">q, Å⁻¹: one value (a pair's separation) or three (a site's q_x, q_y, q_z).</param>
+/// <param name="Real">Re T, sampled.</param>
+/// <param name="Imaginary">Im T, sampled (zero for a distribution symmetric about its mean; −κ3 q³/6 to leading order in 1D).</param>
+/// <param name="Harmonic">exp(−½ qᵀU_h q) with the harmonic covariance; absent where there is no harmonic estimate.</param>
+/// <param name="Gaussian">exp(−½ qᵀUq) with the sampled covariance U.</param>
+/// <param name="DepartureFromGaussian">Re T − <paramref name="Gaussian"/>, with the jackknife standard error of the difference.</param>
+/// <param name="ExactReal">Re T by quadrature (pairs only).</param>
+/// <param name="ExactImaginary">Im T by quadrature (pairs only).</param>
+public sealed record TemperatureFactorPoint(ImmutableArray<double> ScatteringVector, Estimate Real, Estimate Imaginary, double? Harmonic, double Gaussian,
+    Estimate DepartureFromGaussian, double? ExactReal, double? ExactImaginary)
+{
+    /// <summary>Re T over the harmonic factor (1 where the harmonic model holds), with its standard error; absent without a harmonic estimate.</summary>
+    public Estimate? RatioToHarmonic => Harmonic is double h && h > 0 ? new Estimate(Real.Value / h, Real.StandardError / h) : null;
+
+    /// <summary>Whether Re T departs from the Gaussian with the sampled covariance by more than three standard errors.</summary>
+    public bool GaussianFails => Math.Abs(DepartureFromGaussian.Value) > 3 * DepartureFromGaussian.StandardError;
+}
+
 /// <summary>Convergence and efficiency diagnostics of a run at one temperature.</summary>
 /// <param name="AcceptanceRate">Fraction of accepted Metropolis proposals after burn-in (or of accepted envelope draws for direct site sampling); absent for direct inverse-CDF sampling.</param>
 /// <param name="AutocorrelationTime">Integrated autocorrelation time τ of the position, in recorded draws, pooled over chains (N/ESS).</param>
@@ -184,6 +207,9 @@ public sealed record PairVibrationReport
     /// <summary>The exact quadrature reference and z-scores.</summary>
     public required ExactComparison Exact { get; init; }
 
+    /// <summary>T(q) at every scattering vector of the settings (<see cref="SamplingSettings.ScatteringVectorsInInverseAngstroms"/>), exact values beside; empty when none was asked for.</summary>
+    public required ImmutableArray<TemperatureFactorPoint> TemperatureFactors { get; init; }
+
     /// <summary>Convergence diagnostics.</summary>
     public required SamplingDiagnostics Diagnostics { get; init; }
 
@@ -268,6 +294,9 @@ public sealed record SiteVibrationReport
 
     /// <summary>The harmonic estimate at the minimum.</summary>
     public required SiteHarmonicEstimate Harmonic { get; init; }
+
+    /// <summary>T(q) at every scattering vector of the settings (three components each, in the landscape's frame); empty when none was asked for.</summary>
+    public required ImmutableArray<TemperatureFactorPoint> TemperatureFactors { get; init; }
 
     /// <summary>The basin of the site's minimum inside the confinement, with the other minima found and their harmonic weights at this temperature.</summary>
     public required SiteBasin Basin { get; init; }

@@ -130,6 +130,8 @@ internal static class SiteSummary
             PotentialEnergyVarianceInElectronVoltsSquared = energyVariance,
             DebyeWallerB = staysAtSite ? new Estimate(b, b * msdSe / msd) : null,
             Harmonic = harmonic,
+            TemperatureFactors = ReportParts.TemperatureFactors(results.Select(r => r.Cumulants).ToList(),
+                q => harmonic.ClassicalCovariance.Quadratic(new Position(q[0], q[1], q[2])), _ => null),
             Basin = basin,
             ShareOutsideBasin = outside,
             Diagnostics = diagnostics,

@@ -35,7 +35,7 @@ public sealed class ChainRecord
         }
         _stores[layout.Coordinates] = new BatchMeansStore(layout.Samples, layout.MaxDiagnosticValues, layout.EnergyReference);
         Bins = new BinCounter(layout.BinLower, layout.BinUpper, layout.Bins);
-        Cumulants = new CumulantSums(layout.Coordinates, layout.Samples);
+        Cumulants = new CumulantSums(layout.Coordinates, layout.Samples, layout.Waves);
         EnergyHistogram = new EnergyHistogram(layout.EnergyReference, energyBinWidth);
         if (layout.Coordinates == 1)
         {
@@ -289,14 +289,18 @@ internal static class CovarianceTensor
 /// <param name="BinLower">The histogram's lower edge, Å.</param>
 /// <param name="BinUpper">The histogram's upper edge, Å.</param>
 /// <param name="Bins">The histogram's bin count.</param>
+/// <param name="Waves">The scattering vectors whose exp(iq·u) sums are kept, Å⁻¹ (<paramref name="Coordinates"/> values per vector).</param>
 internal sealed record RecordLayout(int Coordinates, long Samples, int MaxDiagnosticValues, int Retained, double[] References, double EnergyReference,
-    double BinLower, double BinUpper, int Bins)
+    double BinLower, double BinUpper, int Bins, double[] Waves)
 {
+    /// <summary>The number of scattering vectors.</summary>
+    internal int WaveCount => Waves.Length / Coordinates;
+
     /// <summary>Whether <paramref name="other"/> describes the same records, value for value.</summary>
     internal bool SameAs(RecordLayout other)
         => Coordinates == other.Coordinates && Samples == other.Samples && MaxDiagnosticValues == other.MaxDiagnosticValues && Retained == other.Retained
             && References.AsSpan().SequenceEqual(other.References) && EnergyReference.Equals(other.EnergyReference) && BinLower.Equals(other.BinLower)
-            && BinUpper.Equals(other.BinUpper) && Bins == other.Bins;
+            && BinUpper.Equals(other.BinUpper) && Bins == other.Bins && Waves.AsSpan().SequenceEqual(other.Waves);
 
     internal void Save(StateWriter w)
     {
@@ -305,6 +309,8 @@ internal sealed record RecordLayout(int Coordinates, long Samples, int MaxDiagno
         References.CopyTo(values, 0);
         (values[^3], values[^2], values[^1]) = (EnergyReference, BinLower, BinUpper);
         w.Doubles("RLAV", values);
+        w.Longs("RLWN", [Waves.Length]);
+        w.Doubles("RLAW", Waves);
     }
 
     internal static RecordLayout Load(StateReader r)
@@ -324,6 +330,11 @@ internal sealed record RecordLayout(int Coordinates, long Samples, int MaxDiagno
         {
             throw new CheckpointException("The record's histogram range is empty.");
         }
-        return new RecordLayout(coordinates, samples, cap, retained, v[..coordinates], v[^3], v[^2], v[^1], bins);
+        int waves = (int)r.InRange(r.Longs("RLWN", 1)[0], 0, SettingsFields.MaxScatteringValues, "the scattering-vector values");
+        if (waves % coordinates != 0)
+        {
+            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The record has {waves} scattering-vector values, not a multiple of its {coordinates} coordinates."));
+        }
+        return new RecordLayout(coordinates, samples, cap, retained, v[..coordinates], v[^3], v[^2], v[^1], bins, r.Doubles("RLAW", waves));
     }
 }

@@ -191,7 +191,11 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         _targetAcceptance = settings.TargetAcceptance;
         (_headerTag, _widthTag, _what) = (settings.HeaderTag, settings.WidthTag, settings.What);
         _walk = walk;
+        Waves = new LaneWaves<TOps, TD, TB>(Records[0].Layout);
     }
+
+    /// <summary>The open moment block's temperature-factor sums (empty when no scattering vector was asked for).</summary>
+    private protected LaneWaves<TOps, TD, TB> Waves { get; }
 
     /// <summary>What a lane group's plan fixes for the engine.</summary>
     internal readonly record struct EngineSettings(long BurnIn, long Samples, double InitialWidth, double MaxWidth, double TargetAcceptance, int BlockSize,
@@ -349,6 +353,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
             BurnIn(boundary);
             StartRecording();
             Sums = default;
+            Waves.Clear();
             StartRecords();
         }
         var width = LaneAdaptation.Width<TOps, TD, TB>(_logWidth, _maxWidth);
@@ -432,6 +437,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
             record.Save(w);
         }
         Tally.Save(w, RecordedSteps);
+        Waves.Save(w);
         SaveExtra(w);
     }
 
@@ -446,6 +452,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
             record.Load(r);
         }
         Tally.Load(r, RecordedSteps);
+        Waves.Load(r);
         LoadExtra(r);
         r.End();
     }

@@ -389,6 +389,103 @@ internal static class LaneCounting
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
+/// <summary>
+/// The open moment block's Σ cos(q·u) and Σ sin(q·u) per scattering vector q in every lane (u the displacement from the
+/// record's reference), and the vectors broadcast: what the records' temperature-factor sums are built from. With no
+/// vector it holds nothing and <see cref="Add1"/>/<see cref="Add3"/> return at once.
+/// </summary>
+internal sealed class LaneWaves<TOps, TD, TB>
+    where TOps : struct, ILaneOps<TD, TB>
+    where TD : struct
+    where TB : struct
+{
+    private readonly TD[] _q;
+    private readonly TD[] _sums;
+
+    internal LaneWaves(RecordLayout layout)
+    {
+        Count = layout.WaveCount;
+        _q = new TD[layout.Waves.Length];
+        for (int i = 0; i < _q.Length; i++)
+        {
+            _q[i] = TOps.Broadcast(layout.Waves[i]);
+        }
+        _sums = new TD[2 * Count];
+    }
+
+    /// <summary>The number of scattering vectors.</summary>
+    internal int Count { get; }
+
+    /// <summary>Adds cos(q·u) and sin(q·u) of a one-coordinate displacement for every q.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal void Add1(TD u)
+    {
+        var q = _q;
+        var sums = _sums;
+        for (int k = 0; k < q.Length; k++)
+        {
+            var sin = LaneMath.SinCos<TOps, TD, TB>(TOps.Multiply(q[k], u), out var cos);
+            sums[2 * k] = TOps.Add(sums[2 * k], cos);
+            sums[2 * k + 1] = TOps.Add(sums[2 * k + 1], sin);
+        }
+    }
+
+    /// <summary>Adds cos(q·u) and sin(q·u) of a three-coordinate displacement for every q.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal void Add3(TD ux, TD uy, TD uz)
+    {
+        var q = _q;
+        var sums = _sums;
+        for (int k = 0; k < Count; k++)
+        {
+            var phase = TOps.MultiplyAdd(q[3 * k + 2], uz, TOps.MultiplyAdd(q[3 * k + 1], uy, TOps.Multiply(q[3 * k], ux)));
+            var sin = LaneMath.SinCos<TOps, TD, TB>(phase, out var cos);
+            sums[2 * k] = TOps.Add(sums[2 * k], cos);
+            sums[2 * k + 1] = TOps.Add(sums[2 * k + 1], sin);
+        }
+    }
+
+    /// <summary>Lane <paramref name="lane"/>'s sums (cos, sin per q) into <paramref name="into"/>.</summary>
+    internal void CopyLane(int lane, Span<double> into)
+    {
+        for (int i = 0; i < _sums.Length; i++)
+        {
+            into[i] = TOps.Get(_sums[i], lane);
+        }
+    }
+
+    /// <summary>Starts a new block.</summary>
+    internal void Clear() => Array.Clear(_sums);
+
+    /// <summary>Writes the open block's sums (lane by lane within each sum).</summary>
+    internal void Save(StateWriter w)
+    {
+        var values = new double[_sums.Length * TOps.Count];
+        for (int i = 0; i < _sums.Length; i++)
+        {
+            for (int lane = 0; lane < TOps.Count; lane++)
+            {
+                values[i * TOps.Count + lane] = TOps.Get(_sums[i], lane);
+            }
+        }
+        w.Doubles("WAVS", values);
+    }
+
+    /// <summary>Reads what <see cref="Save"/> wrote.</summary>
+    internal void Load(StateReader r)
+    {
+        var values = r.Doubles("WAVS", _sums.Length * TOps.Count);
+        for (int i = 0; i < _sums.Length; i++)
+        {
+            for (int lane = 0; lane < TOps.Count; lane++)
+            {
+                _sums[i] = TOps.Set(_sums[i], lane, values[i * TOps.Count + lane]);
+            }
+        }
+    }
+}
+
+// Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
 /// <summary>Loads chains' streams into the lanes of the generator state.</summary>
 internal static class LaneSeeding
 {

@@ -44,7 +44,8 @@ internal static class PairChains
         int chains = settings.Chains;
         var quantile = metropolis ? StartQuantiles(exact) : null;
         var layout = new RecordLayout(1, settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, settings.RetainedDrawsPerChain, [reference],
-            exact.ReferenceEnergyInElectronVolts, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins);
+            exact.ReferenceEnergyInElectronVolts, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins,
+            [.. SettingsFields.Waves(settings)]);
         double binWidth = EnergyHistogram.BinWidthFor(temperature.ThermalEnergyInElectronVolts);
         ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);

@@ -80,7 +80,7 @@ internal static class PairLaneChains
             State.Position = TOps.Set(State.Position, lane, _start(chain));
         }
 
-        private protected override LineRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, done, chunk);
+        private protected override LineRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, Waves, done, chunk);
 
         private protected override void StartRecords() => Sums.BlockReference = State.Position;
 
@@ -88,7 +88,7 @@ internal static class PairLaneChains
 
         private protected override void CloseBlock(int count)
         {
-            Span<double> about = stackalloc double[CumulantSums.SizeFor(1)];
+            Span<double> about = stackalloc double[_records[0].Cumulants.Size];
             for (int lane = 0; lane < _records.Length; lane++)
             {
                 double reference = TOps.Get(Sums.BlockReference, lane), s1 = TOps.Get(Sums.S1, lane), s2 = TOps.Get(Sums.S2, lane);
@@ -101,8 +101,10 @@ internal static class PairLaneChains
                 about[2] = s2 + 2 * delta * s1 + delta * delta * n;
                 about[3] = s3 + 3 * delta * s2 + 3 * delta * delta * s1 + delta * delta * delta * n;
                 about[4] = s4 + 4 * delta * s3 + 6 * delta * delta * s2 + 4 * delta * delta * delta * s1 + delta * delta * delta * delta * n;
+                Waves.CopyLane(lane, about[CumulantSums.SizeFor(1)..]);
                 _records[lane].Cumulants.AddBlock(Step - count, about);
             }
+            Waves.Clear();
             var zero = TOps.Broadcast(0.0);
             Sums.S1 = Sums.S2 = Sums.S3 = Sums.S4 = zero;
             Sums.BlockReference = State.Position;
@@ -198,9 +200,11 @@ internal static class PairLaneChains
     {
         private readonly LaneTallyView<TOps, TD, TB> _tally;
         private readonly TD _batchReference, _binLower;
+        private readonly LaneWaves<TOps, TD, TB> _waves;
 
-        internal LineRecorder(Tally tally, long done, int chunk)
+        internal LineRecorder(Tally tally, LaneWaves<TOps, TD, TB> waves, long done, int chunk)
         {
+            _waves = waves;
             _tally = new LaneTallyView<TOps, TD, TB>(tally, done, chunk);
             _batchReference = TOps.Broadcast(tally.BatchReference);
             _binLower = TOps.Broadcast(tally.BinLower);
@@ -224,6 +228,10 @@ internal static class PairLaneChains
             var b = TOps.Subtract(x, _batchReference);
             sums.B1 = TOps.Add(sums.B1, b);
             sums.B2 = TOps.Add(sums.B2, TOps.Multiply(b, b));
+            if (_waves.Count != 0)
+            {
+                _waves.Add1(b); // the temperature factor's sums about the same reference
+            }
             var de = TOps.Subtract(point.Energy, _tally.EnergyReference);
             sums.E1 = TOps.Add(sums.E1, de);
             sums.E2 = TOps.Add(sums.E2, TOps.Multiply(de, de));

@@ -56,6 +56,14 @@ public sealed record SamplingSettings
     /// read them thinned with <see cref="Reports.RetainedDraws{T}.Thinned"/>. Statistics always use every draw.</summary>
     public int RetainedDrawsPerChain { get; init; }
 
+    /// <summary>
+    /// Scattering vectors at which to record the generalised temperature factor T(q) = ⟨exp(iq·(x − ⟨x⟩))⟩ from every
+    /// draw, Å⁻¹: for a pair one value per q, for a site three values (q_x, q_y, q_z) per vector (build one from sin θ/λ
+    /// with <see cref="Analysis.ScatteringVector.FromSinThetaOverLambda"/>). At most 192 values, each finite with
+    /// |q| ≤ 1000 Å⁻¹; empty (the default) records none and costs nothing per step.
+    /// </summary>
+    public System.Collections.Immutable.ImmutableArray<double> ScatteringVectorsInInverseAngstroms { get; init; } = [];
+
     /// <summary>Worker threads, 1 to 1024; null means the processor count. Results do not depend on it.</summary>
     public int? MaxThreads { get; init; }
 
@@ -65,6 +73,22 @@ public sealed record SamplingSettings
     /// value, so this changes speed only (a width the hardware lacks still works, slowly). Direct sampling ignores it.
     /// </summary>
     public int? ChainsPerVector { get; init; }
+
+    /// <summary>Whether every setting is the same (value for value, the scattering vectors included), by the one list of fields.</summary>
+    /// <param name="other">The settings to compare with.</param>
+    public bool Equals(SamplingSettings? other)
+        => other is not null && (ReferenceEquals(this, other) || SettingsFields.All.All(f => f.Text(this) == f.Text(other)));
+
+    /// <inheritdoc/>
+    public override int GetHashCode()
+    {
+        var hash = new HashCode();
+        foreach (var f in SettingsFields.All)
+        {
+            hash.Add(f.Text(this), StringComparer.Ordinal);
+        }
+        return hash.ToHashCode();
+    }
 
     /// <summary>Throws one <see cref="ArgumentException"/> listing every invalid setting.</summary>
     public void Validate()

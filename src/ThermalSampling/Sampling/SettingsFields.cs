@@ -47,9 +47,32 @@ internal static class SettingsFields
         Integer("MaxDiagnosticValuesPerChain", "maxDiagnosticValuesPerChain", true, 64, 10_000_000, "64 to 10^7", s => s.MaxDiagnosticValuesPerChain,
             (s, v) => s with { MaxDiagnosticValuesPerChain = (int)v }),
         Integer("RetainedDrawsPerChain", "retainedDrawsPerChain", true, 0, 10_000_000, "0 to 10^7", s => s.RetainedDrawsPerChain, (s, v) => s with { RetainedDrawsPerChain = (int)v }),
+        new("ScatteringVectorsInInverseAngstroms", "scatteringVectorsInInverseAngstroms", true,
+            s => s.ScatteringVectorsInInverseAngstroms.IsDefault || (s.ScatteringVectorsInInverseAngstroms.Length <= MaxScatteringValues
+                && s.ScatteringVectorsInInverseAngstroms.All(q => double.IsFinite(q) && Math.Abs(q) <= MaxScatteringVector)),
+            "at most 192 values, each finite and between −1000 and 1000", s => string.Join(",", Waves(s).Select(q => q.ToString("R", C))),
+            (w, s) =>
+            {
+                w.WriteStartArray("scatteringVectorsInInverseAngstroms");
+                foreach (double q in Waves(s))
+                {
+                    w.WriteNumberValue(q);
+                }
+                w.WriteEndArray();
+            },
+            (s, e) => s with { ScatteringVectorsInInverseAngstroms = [.. Required(e, "scatteringVectorsInInverseAngstroms").EnumerateArray().Select(v => v.GetDouble())] }),
         OptionalInteger("MaxThreads", "maxThreads", v => v is >= 1 and <= 1024, "null or 1 to 1024", s => s.MaxThreads, (s, v) => s with { MaxThreads = v }),
         OptionalInteger("ChainsPerVector", "chainsPerVector", v => v is 1 or 2 or 4 or 8, "null, 1, 2, 4 or 8", s => s.ChainsPerVector, (s, v) => s with { ChainsPerVector = v }),
     ];
+
+    /// <summary>The most scattering-vector values a run records (64 site vectors).</summary>
+    internal const int MaxScatteringValues = 192;
+
+    /// <summary>The largest scattering-vector component, Å⁻¹.</summary>
+    internal const double MaxScatteringVector = 1000;
+
+    /// <summary>The scattering vectors (empty for a default array).</summary>
+    internal static ImmutableArray<double> Waves(SamplingSettings s) => s.ScatteringVectorsInInverseAngstroms.IsDefault ? [] : s.ScatteringVectorsInInverseAngstroms;
 
     /// <summary>"Name = value is out of range; valid: range." for every invalid field, in order.</summary>
     internal static IEnumerable<string> Problems(SamplingSettings s)

@@ -47,7 +47,7 @@ internal static class SiteChains
         double wallBand = WallBand(cholesky);
         Envelope? envelope = metropolis ? null : Envelope.Build(kernel, min, cholesky, logWeightMin, landscape, settings.Seed);
         var layout = new RecordLayout(3, settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, settings.RetainedDrawsPerChain, [min.X, min.Y, min.Z],
-            harmonic.MinimumEnergyInElectronVolts, 0, radialMax, settings.HistogramBins);
+            harmonic.MinimumEnergyInElectronVolts, 0, radialMax, settings.HistogramBins, SiteWaves(settings));
         double binWidth = EnergyHistogram.BinWidthFor(temperature.ThermalEnergyInElectronVolts);
         ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
@@ -62,6 +62,18 @@ internal static class SiteChains
                 .Run(checkpoints, cancellationToken));
         return new TemperatureRecord("sites", landscape.Description, Fingerprint(landscape), temperature, settings, target, sigmaMin, layout, [.. results],
             Internal.LibraryVersion.Current);
+    }
+
+    /// <summary>The site's scattering vectors: three components each, or an error naming the setting.</summary>
+    internal static double[] SiteWaves(SamplingSettings settings)
+    {
+        var waves = SettingsFields.Waves(settings);
+        if (waves.Length % 3 != 0)
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                $"ScatteringVectorsInInverseAngstroms has {waves.Length} values; a site needs three (q_x, q_y, q_z) per vector."), nameof(settings));
+        }
+        return [.. waves];
     }
 
     /// <summary>The exact sites, centre and confinement, and the energies on a 9×9×9 grid across the confinement, as one fingerprint.</summary>

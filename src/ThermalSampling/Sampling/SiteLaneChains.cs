@@ -93,7 +93,7 @@ internal static class SiteLaneChains
             State.Z = TOps.Set(State.Z, lane, p.Z);
         }
 
-        private protected override SiteRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, done, chunk);
+        private protected override SiteRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, Waves, done, chunk);
 
         private protected override void StartRecords() => Array.Clear(_tally.OutsideBasin);
 
@@ -103,7 +103,7 @@ internal static class SiteLaneChains
         {
             var minimum = _plan.Minimum;
             ref var s = ref Sums;
-            Span<double> block = stackalloc double[CumulantSums.SizeFor(3)];
+            Span<double> block = stackalloc double[_records[0].Cumulants.Size];
             var higher = s.Higher;
             for (int lane = 0; lane < _records.Length; lane++)
             {
@@ -120,8 +120,10 @@ internal static class SiteLaneChains
                 {
                     block[10 + k] = TOps.Get(LaneHigherSums.At(ref higher, k), lane);
                 }
+                Waves.CopyLane(lane, block[CumulantSums.SizeFor(3)..]);
                 _records[lane].Cumulants.AddBlock(Step - count, block);
             }
+            Waves.Clear();
             s.Higher = default;
             var zero = TOps.Broadcast(0.0);
             s.X = s.Y = s.Z = s.XX = s.YY = s.ZZ = s.XY = s.XZ = s.YZ = zero;
@@ -329,9 +331,11 @@ internal static class SiteLaneChains
         private readonly long[] _outsideBasin;
         private readonly byte[] _outsideMask;
         private readonly bool _countOutside;
+        private readonly LaneWaves<TOps, TD, TB> _waves;
 
-        internal SiteRecorder(SiteTally tally, long done, int chunk)
+        internal SiteRecorder(SiteTally tally, LaneWaves<TOps, TD, TB> waves, long done, int chunk)
         {
+            _waves = waves;
             _tally = new LaneTallyView<TOps, TD, TB>(tally, done, chunk);
             _confinement = new LaneConfinement<TOps, TD, TB>(tally.Confinement.Confinement, tally.Confinement.Centre, tally.Confinement.WallBand);
             var minimum = tally.Minimum;
@@ -376,6 +380,10 @@ internal static class SiteLaneChains
             s.BYY = TOps.Add(s.BYY, yy);
             s.BZZ = TOps.Add(s.BZZ, zz);
             AddHigher(ref s.Higher, mx, my, mz, xx, yy, zz);
+            if (_waves.Count != 0)
+            {
+                _waves.Add3(mx, my, mz); // the temperature factor's sums about the minimum
+            }
             var de = TOps.Subtract(point.Energy, _tally.EnergyReference); // the same batches of V − V_min (what reweighting needs)
             s.BE = TOps.Add(s.BE, de);
             s.BEE = TOps.Add(s.BEE, TOps.Multiply(de, de));

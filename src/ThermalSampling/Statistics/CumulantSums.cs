@@ -14,7 +14,8 @@ namespace ThermalSampling.Statistics;
 /// <remarks>
 /// Sum order within a group: the count, then first order (x; or x, y, z), second (xx; or xx, xy, xz, yy, yz, zz), third
 /// and fourth in the same lexicographic order of sorted indices (for three coordinates: 111, 112, 113, 122, 123, 133,
-/// 222, 223, 233, 333 and 1111, 1112, …, 3333), the order of the JSON contract.
+/// 222, 223, 233, 333 and 1111, 1112, …, 3333), the order of the JSON contract; then, per scattering vector q,
+/// Σ cos(q·u) and Σ sin(q·u) (the generalised temperature factor's sums).
 /// </remarks>
 internal sealed class CumulantSums
 {
@@ -22,14 +23,18 @@ internal sealed class CumulantSums
     internal const int MaxGroups = 32;
 
     private readonly double[] _sums;
+    private readonly double[] _waves;
     private readonly long _groupLength;
 
     /// <param name="coordinates">1 or 3.</param>
     /// <param name="samples">Draws the chain will record (sets the group length: a multiple of 4096 draws, so lane blocks never straddle two groups).</param>
-    internal CumulantSums(int coordinates, long samples)
+    /// <param name="waves">Scattering vectors, <paramref name="coordinates"/> components each, Å⁻¹.</param>
+    internal CumulantSums(int coordinates, long samples, double[] waves)
     {
         Coordinates = coordinates;
-        Size = SizeFor(coordinates);
+        _waves = waves;
+        WaveCount = waves.Length / coordinates;
+        Size = SizeFor(coordinates) + 2 * WaveCount;
         long perGroup = (samples + MaxGroups - 1) / MaxGroups;
         _groupLength = Math.Max(1, (perGroup + 4095) / 4096) * 4096;
         _sums = new double[MaxGroups * Size];
@@ -37,7 +42,13 @@ internal sealed class CumulantSums
 
     internal int Coordinates { get; }
 
-    /// <summary>Sums per group: the count and the power sums of orders 1 to 4.</summary>
+    /// <summary>Scattering vectors whose sums follow the power sums.</summary>
+    internal int WaveCount { get; }
+
+    /// <summary>The scattering vectors, Å⁻¹.</summary>
+    internal ReadOnlySpan<double> Waves => _waves;
+
+    /// <summary>Sums per group: the count, the power sums of orders 1 to 4, and two per scattering vector.</summary>
     internal int Size { get; }
 
     /// <summary>The number of sums for <paramref name="coordinates"/> coordinates (5 for one, 35 for three).</summary>
@@ -62,6 +73,16 @@ internal sealed class CumulantSums
     {
         Span<double> block = stackalloc double[Size];
         Powers(u, block);
+        int at = SizeFor(Coordinates);
+        for (int k = 0; k < WaveCount; k++)
+        {
+            double phase = 0;
+            for (int i = 0; i < u.Length; i++)
+            {
+                phase += _waves[k * u.Length + i] * u[i];
+            }
+            (block[at + 2 * k + 1], block[at + 2 * k]) = Math.SinCos(phase);
+        }
         AddBlock(draw, block);
     }
 
@@ -116,75 +137,11 @@ internal sealed record CumulantEstimate(double[] Third, double[] ThirdStandardEr
     /// <summary>Pools every chain's groups and estimates the cumulants, with the delete-one-group jackknife for their errors.</summary>
     internal static CumulantEstimate From(IReadOnlyList<CumulantSums> chains)
     {
-        int size = chains[0].Size, d = chains[0].Coordinates;
-        var total = new double[size];
-        var groups = new List<int>(); // (chain, group) flattened as chain·MaxGroups + group, for the non-empty groups
-        for (int c = 0; c < chains.Count; c++)
-        {
-            var all = chains[c].Groups;
-            for (int g = 0; g < CumulantSums.MaxGroups; g++)
-            {
-                if (all[g * size] == 0)
-                {
-                    continue;
-                }
-                groups.Add(c * CumulantSums.MaxGroups + g);
-                for (int i = 0; i < size; i++)
-                {
-                    total[i] += all[g * size + i];
-                }
-            }
-        }
+        int d = chains[0].Coordinates;
         int components3 = d == 1 ? 1 : 10, components4 = d == 1 ? 1 : 15;
-        var third = new double[components3];
-        var fourth = new double[components4];
-        Cumulants(total, d, third, fourth);
-        var thirdSe = new double[components3];
-        var fourthSe = new double[components4];
-        int n = groups.Count;
-        if (n < MinimumGroups)
-        {
-            Array.Fill(thirdSe, double.NaN);
-            Array.Fill(fourthSe, double.NaN);
-            return new CumulantEstimate(third, thirdSe, fourth, fourthSe, n);
-        }
-        // Leave-one-group-out estimates, one buffer reused: the sums less the group's.
-        var left = new double[size];
-        var out3 = new double[n * components3];
-        var out4 = new double[n * components4];
-        for (int k = 0; k < n; k++)
-        {
-            var group = chains[groups[k] / CumulantSums.MaxGroups].Groups.Slice(groups[k] % CumulantSums.MaxGroups * size, size);
-            for (int i = 0; i < size; i++)
-            {
-                left[i] = total[i] - group[i];
-            }
-            Cumulants(left, d, out3.AsSpan(k * components3, components3), out4.AsSpan(k * components4, components4));
-        }
-        Jackknife(out3, n, thirdSe);
-        Jackknife(out4, n, fourthSe);
-        return new CumulantEstimate(third, thirdSe, fourth, fourthSe, n);
-    }
-
-    private static void Jackknife(double[] estimates, int n, double[] se)
-    {
-        int m = se.Length;
-        for (int c = 0; c < m; c++)
-        {
-            double mean = 0;
-            for (int k = 0; k < n; k++)
-            {
-                mean += estimates[k * m + c];
-            }
-            mean /= n;
-            double ss = 0;
-            for (int k = 0; k < n; k++)
-            {
-                double e = estimates[k * m + c] - mean;
-                ss += e * e;
-            }
-            se[c] = Math.Sqrt((n - 1.0) / n * ss);
-        }
+        var (values, errors, groups) = GroupJackknife.Run(chains, components3 + components4,
+            (sums, into) => Cumulants(sums, d, into[..components3], into[components3..]));
+        return new CumulantEstimate(values[..components3], errors[..components3], values[components3..], errors[components3..], groups);
     }
 
     /// <summary>Where each sorted index tuple's raw sum sits in a group (three coordinates): [order][flat index of the tuple] → position.</summary>
@@ -251,5 +208,144 @@ internal sealed record CumulantEstimate(double[] Third, double[] ThirdStandardEr
                 + ai * aj * M2(m, k, l) + ai * ak * M2(m, j, l) + ai * al * M2(m, j, k) + aj * ak * M2(m, i, l) + aj * al * M2(m, i, k) + ak * al * M2(m, i, j)
                 - 3 * ai * aj * ak * al;
         }
+    }
+}
+
+/// <summary>
+/// The delete-one-group jackknife over the groups of draws of every chain (<see cref="CumulantSums"/>): an estimator of
+/// the pooled sums applied to all of them and to each leave-one-group-out total.
+/// </summary>
+internal static class GroupJackknife
+{
+    /// <summary>An estimator: the pooled sums of one group layout in, its outputs out.</summary>
+    internal delegate void Estimator(ReadOnlySpan<double> sums, Span<double> into);
+
+    /// <summary>The estimates from every chain's pooled groups and their jackknife standard errors (NaN with fewer than
+    /// <see cref="CumulantEstimate.MinimumGroups"/> non-empty groups), and the number of groups.</summary>
+    internal static (double[] Values, double[] StandardErrors, int Groups) Run(IReadOnlyList<CumulantSums> chains, int outputs, Estimator estimate)
+    {
+        int size = chains[0].Size;
+        var total = new double[size];
+        var groups = new List<int>(); // (chain, group) flattened as chain·MaxGroups + group, for the non-empty groups
+        for (int c = 0; c < chains.Count; c++)
+        {
+            var all = chains[c].Groups;
+            for (int g = 0; g < CumulantSums.MaxGroups; g++)
+            {
+                if (all[g * size] == 0)
+                {
+                    continue;
+                }
+                groups.Add(c * CumulantSums.MaxGroups + g);
+                for (int i = 0; i < size; i++)
+                {
+                    total[i] += all[g * size + i];
+                }
+            }
+        }
+        var values = new double[outputs];
+        estimate(total, values);
+        var errors = new double[outputs];
+        int n = groups.Count;
+        if (n < CumulantEstimate.MinimumGroups)
+        {
+            Array.Fill(errors, double.NaN);
+            return (values, errors, n);
+        }
+        // Leave-one-group-out estimates, one buffer reused: the sums less the group's.
+        var left = new double[size];
+        var estimates = new double[n * outputs];
+        for (int k = 0; k < n; k++)
+        {
+            var group = chains[groups[k] / CumulantSums.MaxGroups].Groups.Slice(groups[k] % CumulantSums.MaxGroups * size, size);
+            for (int i = 0; i < size; i++)
+            {
+                left[i] = total[i] - group[i];
+            }
+            estimate(left, estimates.AsSpan(k * outputs, outputs));
+        }
+        for (int c = 0; c < outputs; c++)
+        {
+            double mean = 0;
+            for (int k = 0; k < n; k++)
+            {
+                mean += estimates[k * outputs + c];
+            }
+            mean /= n;
+            double ss = 0;
+            for (int k = 0; k < n; k++)
+            {
+                double e = estimates[k * outputs + c] - mean;
+                ss += e * e;
+            }
+            errors[c] = Math.Sqrt((n - 1.0) / n * ss);
+        }
+        return (values, errors, n);
+    }
+}
+
+/// <summary>
+/// The generalised temperature factor T(q) = ⟨exp(iq·(x − ⟨x⟩))⟩ at every recorded scattering vector, from the groups'
+/// Σ exp(iq·u) about the reference turned to the mean: T = e^(−iq·ū)·⟨e^(iq·u)⟩, exact for any reference. Beside it the
+/// Gaussian with the sampled covariance, exp(−½ qᵀUq), and their difference, all with jackknife standard errors.
+/// </summary>
+/// <param name="Real">Re T per q.</param>
+/// <param name="RealStandardError">Standard errors of <paramref name="Real"/>.</param>
+/// <param name="Imaginary">Im T per q.</param>
+/// <param name="ImaginaryStandardError">Standard errors of <paramref name="Imaginary"/>.</param>
+/// <param name="Gaussian">exp(−½ qᵀUq) with U the sampled covariance, per q.</param>
+/// <param name="Departure">Re T − <paramref name="Gaussian"/> per q.</param>
+/// <param name="DepartureStandardError">Standard errors of <paramref name="Departure"/> (the jackknife of the difference, so correlations count).</param>
+internal sealed record TemperatureFactorEstimate(double[] Real, double[] RealStandardError, double[] Imaginary, double[] ImaginaryStandardError,
+    double[] Gaussian, double[] Departure, double[] DepartureStandardError)
+{
+    /// <summary>Pools every chain's groups; nothing when no scattering vector was recorded.</summary>
+    internal static TemperatureFactorEstimate? From(IReadOnlyList<CumulantSums> chains)
+    {
+        var first = chains[0];
+        int waves = first.WaveCount, d = first.Coordinates, at = CumulantSums.SizeFor(d);
+        if (waves == 0)
+        {
+            return null;
+        }
+        var q = first.Waves.ToArray();
+        var (values, errors, _) = GroupJackknife.Run(chains, 4 * waves, (sums, into) =>
+        {
+            double n = sums[0];
+            Span<double> mean = stackalloc double[d];
+            for (int i = 0; i < d; i++)
+            {
+                mean[i] = sums[1 + i] / n;
+            }
+            for (int k = 0; k < waves; k++)
+            {
+                var qk = q.AsSpan(k * d, d);
+                double phase = 0, quadratic;
+                for (int i = 0; i < d; i++)
+                {
+                    phase += qk[i] * mean[i];
+                }
+                if (d == 1)
+                {
+                    quadratic = qk[0] * qk[0] * (sums[2] / n - mean[0] * mean[0]);
+                }
+                else
+                {
+                    // Second-order sums in the order xx, xy, xz, yy, yz, zz after the count and the first order.
+                    double cxx = sums[4] / n - mean[0] * mean[0], cxy = sums[5] / n - mean[0] * mean[1], cxz = sums[6] / n - mean[0] * mean[2];
+                    double cyy = sums[7] / n - mean[1] * mean[1], cyz = sums[8] / n - mean[1] * mean[2], czz = sums[9] / n - mean[2] * mean[2];
+                    quadratic = qk[0] * qk[0] * cxx + qk[1] * qk[1] * cyy + qk[2] * qk[2] * czz + 2 * (qk[0] * qk[1] * cxy + qk[0] * qk[2] * cxz + qk[1] * qk[2] * cyz);
+                }
+                double c = sums[at + 2 * k] / n, s = sums[at + 2 * k + 1] / n;
+                var (sinPhase, cosPhase) = Math.SinCos(phase);
+                double re = c * cosPhase + s * sinPhase, gaussian = Math.Exp(-0.5 * quadratic);
+                into[4 * k] = re;
+                into[4 * k + 1] = s * cosPhase - c * sinPhase;
+                into[4 * k + 2] = gaussian;
+                into[4 * k + 3] = re - gaussian;
+            }
+        });
+        double[] Pick(double[] from, int offset) => Enumerable.Range(0, waves).Select(k => from[4 * k + offset]).ToArray();
+        return new TemperatureFactorEstimate(Pick(values, 0), Pick(errors, 0), Pick(values, 1), Pick(errors, 1), Pick(values, 2), Pick(values, 3), Pick(errors, 3));
     }
 }
