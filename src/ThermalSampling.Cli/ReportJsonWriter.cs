@@ -1,4 +1,5 @@
 using System;
+using System.Globalization;
 using System.Collections.Generic;
 using System.IO;
 using System.Linq;
@@ -194,6 +195,50 @@ internal static class ReportJsonWriter
         w.WriteEndObject();
     }
 
+    /// <summary>
+    /// The <c>temperatureFactor</c> array, one object per scattering vector (absent when none was asked for): q in inverse
+    /// scenario length units (a number for a pair, [q_x, q_y, q_z] for a site), the sampled real and imaginary parts with
+    /// standard errors, the exact parts (pairs), the harmonic factor and the ratio to it, the Gaussian of the sampled
+    /// covariance and the departure from it with its standard error, and whether that departure exceeds 3 standard errors.
+    /// </summary>
+    private static void TemperatureFactors(Utf8JsonWriter w, IReadOnlyList<TemperatureFactorPoint> points, double l)
+    {
+        if (points.Count == 0)
+        {
+            return;
+        }
+        w.WriteStartArray("temperatureFactor");
+        foreach (var p in points)
+        {
+            w.WriteStartObject();
+            // q back in the scenario's units, rounded to 15 digits so that the value typed comes back as typed.
+            static double Typed(double q, double l) => double.Parse((q * l).ToString("G15", CultureInfo.InvariantCulture), CultureInfo.InvariantCulture);
+            if (p.ScatteringVector.Length == 1)
+            {
+                w.WriteNumber("q", Typed(p.ScatteringVector[0], l));
+            }
+            else
+            {
+                Numbers(w, "q", p.ScatteringVector.Select(q => Typed(q, l)), 1);
+            }
+            Number(w, "value", p.Real.Value);
+            Number(w, "imaginary", p.Imaginary.Value);
+            Number(w, "stdErr", p.Real.StandardError);
+            Number(w, "imaginaryStdErr", p.Imaginary.StandardError);
+            Number(w, "exact", p.ExactReal);
+            Number(w, "exactImaginary", p.ExactImaginary);
+            Number(w, "harmonic", p.Harmonic);
+            Number(w, "ratio", p.RatioToHarmonic?.Value);
+            Number(w, "ratioStdErr", p.RatioToHarmonic?.StandardError);
+            Number(w, "gaussian", p.Gaussian);
+            Number(w, "departureFromGaussian", p.DepartureFromGaussian.Value);
+            Number(w, "departureFromGaussianStdErr", p.DepartureFromGaussian.StandardError);
+            w.WriteBoolean("gaussianFails", p.GaussianFails);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+    }
+
     private static void Vector(Utf8JsonWriter w, string name, Position p, double l)
     {
         w.WriteStartArray(name);
@@ -281,6 +326,7 @@ internal static class ReportJsonWriter
         Number(w, "fourth", r.Exact.FourthCumulant / (l2 * l2));
         w.WriteEndObject();
         w.WriteEndObject();
+        TemperatureFactors(w, r.TemperatureFactors, l);
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
     }
@@ -380,6 +426,7 @@ internal static class ReportJsonWriter
         Number(w, "outerRadius", basin.OuterRadiusInAngstroms / l);
         Number(w, "gridSpacing", basin.GridSpacingInAngstroms / l);
         w.WriteEndObject();
+        TemperatureFactors(w, r.TemperatureFactors, l);
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
     }

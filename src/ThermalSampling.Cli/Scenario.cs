@@ -242,7 +242,7 @@ internal static class ScenarioReader
             return ok ? result : null;
         }
 
-        private static string Describe(JsonElement e) => e.ValueKind switch
+        internal static string Describe(JsonElement e) => e.ValueKind switch
         {
             JsonValueKind.String => $"the string \"{Truncate(e.GetString()!)}\"",
             JsonValueKind.Number => $"the number {e.GetRawText()}",
@@ -348,10 +348,15 @@ internal static class ScenarioReader
         var sampling = ReadSampling(c, root);
         if (c.Object(root, "output", "$", required: false) is { } output)
         {
-            c.CheckKeys(output, "$.output", "bins");
+            c.CheckKeys(output, "$.output", "bins", "scatteringVectors");
             if (c.Integer(output, "bins", "$.output", false, ScenarioSchema.At("properties/output/properties/bins")) is long bins && sampling is not null)
             {
                 sampling = sampling with { HistogramBins = (int)bins };
+            }
+            if (output.TryGetProperty("scatteringVectors", out var waves) && landscape is not null
+                && ReadScatteringVectors(c, waves, landscape.Kind is "line" or "radial" ? 1 : 3, l) is { } q && sampling is not null)
+            {
+                sampling = sampling with { ScatteringVectorsInInverseAngstroms = [.. q] };
             }
         }
         if (c.Problems.Count > 0)
@@ -362,6 +367,62 @@ internal static class ScenarioReader
         {
             SourceJson = root.GetRawText(),
         };
+    }
+
+    /// <summary>
+    /// <c>output.scatteringVectors</c>: a number per q (<paramref name="components"/> = 1, a pair) or [q_x, q_y, q_z] per
+    /// vector (a site), in inverse scenario length units, converted to Å⁻¹ and held to the library's ±1000 Å⁻¹.
+    /// </summary>
+    private static double[]? ReadScatteringVectors(Context c, JsonElement array, int components, double angstromsPerUnit)
+    {
+        const string path = "$.output.scatteringVectors";
+        var bounds = ScenarioSchema.At("properties/output/properties/scatteringVectors");
+        var item = ScenarioSchema.At("$defs/vector");
+        if (array.ValueKind != JsonValueKind.Array)
+        {
+            c.Add(path, "must be an array of scattering vectors.");
+            return null;
+        }
+        if (array.GetArrayLength() > bounds.MaxItems)
+        {
+            c.Add(path, string.Create(CultureInfo.InvariantCulture, $"has {array.GetArrayLength()} vectors; at most {bounds.MaxItems} are allowed."));
+            return null;
+        }
+        var values = new List<double>();
+        int problems = c.Problems.Count, i = 0;
+        foreach (var q in array.EnumerateArray())
+        {
+            string at = string.Create(CultureInfo.InvariantCulture, $"{path}[{i++}]");
+            if (components == 1)
+            {
+                if (q.ValueKind == JsonValueKind.Array)
+                {
+                    c.Add(at, "a line or radial pair takes one number per scattering vector, not [qx, qy, qz].");
+                    continue;
+                }
+                values.Add(c.Value(q, at, item.Minimum, item.Maximum) is double v ? v / angstromsPerUnit : double.NaN);
+                continue;
+            }
+            if (q.ValueKind != JsonValueKind.Array || q.GetArrayLength() != 3)
+            {
+                c.Add(at, $"a site takes [qx, qy, qz] per scattering vector, not {Context.Describe(q)}.");
+                continue;
+            }
+            int k = 0;
+            foreach (var component in q.EnumerateArray())
+            {
+                values.Add(c.Value(component, string.Create(CultureInfo.InvariantCulture, $"{at}[{k++}]"), item.Minimum, item.Maximum) is double v ? v / angstromsPerUnit : double.NaN);
+            }
+        }
+        for (int n = 0; n < values.Count; n++)
+        {
+            if (Math.Abs(values[n]) > SamplingSettings.MaxScatteringVectorInInverseAngstroms)
+            {
+                c.Add(string.Create(CultureInfo.InvariantCulture, $"{path}[{n / components}]"), string.Create(CultureInfo.InvariantCulture,
+                    $"{values[n] * angstromsPerUnit:R} per {(angstromsPerUnit == 1 ? "angstrom" : "length unit")} is {Math.Abs(values[n]):G4} per angstrom; valid: at most {SamplingSettings.MaxScatteringVectorInInverseAngstroms} per angstrom in size."));
+            }
+        }
+        return c.Problems.Count == problems ? [.. values] : null;
     }
 
     private static PotentialSpec? ReadPotential(Context c, JsonElement root, double e, double l)

@@ -109,6 +109,7 @@ public class CliTests
             Assert.True(density.Select((p, i) => Math.Abs(p - exactBins[i]) > 4.5 * se[i] + 1e-9).Count(x => x) <= 1, "the sampled bins agree with the exact ones");
             AssertKeys(r.GetProperty("diagnostics"), "acceptanceRate", "autocorrelationTime", "effectiveSampleSize", "rHat", "draws");
             Assert.False(r.TryGetProperty("covariance", out _), "site keys must be absent for a line");
+            Assert.False(r.TryGetProperty("temperatureFactor", out _), "no scattering vector was asked for");
             foreach (var w in r.GetProperty("warnings").EnumerateArray())
             {
                 AssertKeys(w, "code", "message");
@@ -165,6 +166,48 @@ public class CliTests
         var r = doc.RootElement.GetProperty("results")[0];
         Assert.Equal(12, r.GetProperty("distribution").GetProperty("density").GetArrayLength());
         Assert.Equal(12, doc.RootElement.GetProperty("resolved").GetProperty("sampling").GetProperty("histogramBins").GetInt32());
+    }
+
+    /// <summary>
+    /// output.scatteringVectors: per q (in inverse scenario length units, echoed as typed) the sampled T(q) with errors, the
+    /// exact and harmonic values for a pair, the Gaussian and the departure from it; a site takes [qx, qy, qz] and its T at
+    /// a q in nm⁻¹ equals the one at the same q in Å⁻¹ scaled (the units convert, not the physics); misuse names the JSON path.
+    /// </summary>
+    [Fact]
+    public void Scattering_vectors_give_the_temperature_factor_in_the_scenario_units()
+    {
+        string line = LineScenario.Replace("\"sampling\"", "\"output\": { \"scatteringVectors\": [1.5, 6] }, \"sampling\"", StringComparison.Ordinal)
+            .Replace("\"samplesPerChain\": 5000", "\"samplesPerChain\": 20000", StringComparison.Ordinal); // 10 groups: enough for error bars
+        var (code, stdout, stderr) = Run(line);
+        Assert.True(code == 0, stderr);
+        using (var doc = JsonDocument.Parse(stdout))
+        {
+            var points = doc.RootElement.GetProperty("results")[1].GetProperty("temperatureFactor");
+            Assert.Equal(2, points.GetArrayLength());
+            Assert.Equal(1.5, points[0].GetProperty("q").GetDouble());
+            foreach (var p in points.EnumerateArray())
+            {
+                AssertKeys(p, "q", "value", "imaginary", "stdErr", "imaginaryStdErr", "exact", "exactImaginary", "harmonic", "ratio", "ratioStdErr",
+                    "gaussian", "departureFromGaussian", "departureFromGaussianStdErr", "gaussianFails");
+                Assert.InRange(p.GetProperty("value").GetDouble(), -1, 1);
+            }
+        }
+        string site = SiteScenario.Replace("\"sampling\"", "\"output\": { \"scatteringVectors\": [[30, 0, 0], [10, 20, 30]] }, \"sampling\"", StringComparison.Ordinal);
+        (code, stdout, stderr) = Run(site);
+        Assert.True(code == 0, stderr);
+        using (var doc = JsonDocument.Parse(stdout))
+        {
+            var p = doc.RootElement.GetProperty("results")[0].GetProperty("temperatureFactor")[1];
+            Assert.Equal([10.0, 20.0, 30.0], p.GetProperty("q").EnumerateArray().Select(e => e.GetDouble()).ToArray());
+            Assert.False(p.TryGetProperty("exact", out _), "a site has no exact T(q): absent, not invented");
+            // The harmonic factor exp(−½ qᵀUq) (U in nm², q in 1/nm: dimensionless).
+            Assert.InRange(p.GetProperty("harmonic").GetDouble(), 0.5, 1);
+        }
+        string bad = SiteScenario.Replace("\"sampling\"", "\"output\": { \"scatteringVectors\": [3, [1, 2, 300000]] }, \"sampling\"", StringComparison.Ordinal);
+        (code, _, stderr) = Run(bad);
+        Assert.Equal(2, code);
+        Assert.Contains("$.output.scatteringVectors[0]: a site takes [qx, qy, qz] per scattering vector, not the number 3.", stderr);
+        Assert.Contains("$.output.scatteringVectors[1][2]: 300000 is out of range", stderr);
     }
 
     [Fact]

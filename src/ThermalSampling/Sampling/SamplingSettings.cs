@@ -64,6 +64,9 @@ public sealed record SamplingSettings
     /// </summary>
     public System.Collections.Immutable.ImmutableArray<double> ScatteringVectorsInInverseAngstroms { get; init; } = [];
 
+    /// <summary>The largest scattering-vector component, Å⁻¹ (<see cref="ScatteringVectorsInInverseAngstroms"/>).</summary>
+    public const double MaxScatteringVectorInInverseAngstroms = 1000;
+
     /// <summary>Worker threads, 1 to 1024; null means the processor count. Results do not depend on it.</summary>
     public int? MaxThreads { get; init; }
 

@@ -69,7 +69,7 @@ internal static class SettingsFields
     internal const int MaxScatteringValues = 192;
 
     /// <summary>The largest scattering-vector component, Å⁻¹.</summary>
-    internal const double MaxScatteringVector = 1000;
+    internal const double MaxScatteringVector = SamplingSettings.MaxScatteringVectorInInverseAngstroms;
 
     /// <summary>The scattering vectors (empty for a default array).</summary>
     internal static ImmutableArray<double> Waves(SamplingSettings s) => s.ScatteringVectorsInInverseAngstroms.IsDefault ? [] : s.ScatteringVectorsInInverseAngstroms;
