@@ -245,3 +245,52 @@ public class SiteStepBenchmarks
     [Benchmark]
     public double PublicApiFixedCost() => RunLibrary(null, 1, 1000);
 }
+
+/// <summary>
+/// What recording the displacement's shape costs per site chain-step, in one run: the baseline records only what the
+/// recorder kept before the third- and fourth-order cumulant sums and the distribution counts existed (moments, batches,
+/// energy and radial histograms); then everything (the default); then everything plus T(q) at four scattering vectors.
+/// 12 invented Lennard-Jones neighbours (u0 = 0.0103 eV, r0 = 3.8 Å; the cheapest energy, so the largest share), 40 K,
+/// 16 chains, one thread, the widest native vector.
+/// </summary>
+[MemoryDiagnoser]
+public class SiteRecordingCostBenchmarks
+{
+    private const int Chains = 16;
+    private const int StepsPerChain = 1_000_000;
+    private SiteLandscape<LennardJones> _landscape = null!;
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        var lj = LennardJones.FromMinimum(Length.FromAngstroms(3.8), Energy.FromElectronVolts(0.0103));
+        _landscape = SiteLandscape.Create(lj, LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.8)), Position.Origin,
+            Confinement.Sphere(Length.FromAngstroms(1.5)));
+    }
+
+    private double Run(bool momentsOnly, double[] waves)
+    {
+        SiteLaneChains.SiteTally.MomentsOnlyForBenchmarks = momentsOnly;
+        try
+        {
+            var settings = new SamplingSettings { Seed = 1, Chains = Chains, SamplesPerChain = StepsPerChain, BurnIn = 2000, MaxThreads = 1, ScatteringVectorsInInverseAngstroms = [.. waves] };
+            return SiteSampler.Run(_landscape, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(40), settings).MeanSquareDisplacement.Value;
+        }
+        finally
+        {
+            SiteLaneChains.SiteTally.MomentsOnlyForBenchmarks = false;
+        }
+    }
+
+    /// <summary>Moments, batches and the radial and energy histograms only.</summary>
+    [Benchmark(Baseline = true, OperationsPerInvoke = Chains * StepsPerChain)]
+    public double MomentsOnly() => Run(true, []);
+
+    /// <summary>The default: also the 25 third- and fourth-order sums and the five distribution counts.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double CumulantsAndDistribution() => Run(false, []);
+
+    /// <summary>The default plus the temperature factor at four scattering vectors.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double WithFourScatteringVectors() => Run(false, [4, 0, 0, 0, 4, 0, 3, 3, 3, 8, 2, 1]);
+}

@@ -145,9 +145,16 @@ internal static class ReportJsonWriter
     }
 
     /// <summary>An array of numbers, each divided by <paramref name="unit"/>; a value that cannot be estimated (NaN) is null.</summary>
-    private static void Numbers(Utf8JsonWriter w, string name, IEnumerable<double> values, double unit)
+    private static void Numbers(Utf8JsonWriter w, string? name, IEnumerable<double> values, double unit)
     {
-        w.WriteStartArray(name);
+        if (name is null)
+        {
+            w.WriteStartArray(); // an array inside an array
+        }
+        else
+        {
+            w.WriteStartArray(name);
+        }
         foreach (double v in values)
         {
             if (double.IsFinite(v))
@@ -239,6 +246,64 @@ internal static class ReportJsonWriter
         w.WriteEndArray();
     }
 
+    /// <summary>A histogram's <c>edges</c>, <c>density</c> and <c>densityStdErr</c> in the scenario's length unit.</summary>
+    private static void Bins(Utf8JsonWriter w, Histogram h, double l)
+    {
+        Numbers(w, "edges", Enumerable.Range(0, h.Density.Length + 1).Select(i => i == h.Density.Length ? h.Upper : h.Lower + i * h.BinWidth), l);
+        Numbers(w, "density", h.Density, 1 / l);
+        Numbers(w, "densityStdErr", h.DensityStandardError, 1 / l);
+    }
+
+    /// <summary>
+    /// A site's <c>distribution</c>: the centre, the principal axes (rows), the marginal along each (edges from the centre),
+    /// the radial density of the distance from the centre, and the projected density on the plane of the first two axes
+    /// (<c>density</c>[i][j], i along the first axis), each with standard errors and the share of draws beyond its range.
+    /// </summary>
+    private static void SiteDistribution(Utf8JsonWriter w, SiteDistribution d, double l)
+    {
+        w.WriteStartObject("distribution");
+        Vector(w, "centre", d.Centre, l);
+        w.WriteStartArray("principalAxes");
+        foreach (var a in d.PrincipalAxes)
+        {
+            w.WriteStartArray();
+            w.WriteNumberValue(a.X);
+            w.WriteNumberValue(a.Y);
+            w.WriteNumberValue(a.Z);
+            w.WriteEndArray();
+        }
+        w.WriteEndArray();
+        w.WriteStartArray("marginals");
+        for (int k = 0; k < 3; k++)
+        {
+            w.WriteStartObject();
+            Bins(w, d.Marginals[k], l);
+            w.WriteNumber("shareOutside", d.ShareOutsideMarginals[k]);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteStartObject("radial");
+        Bins(w, d.Radial, l);
+        w.WriteNumber("shareOutside", d.ShareBeyondRadial);
+        w.WriteEndObject();
+        var p = d.Projection;
+        w.WriteStartObject("projection");
+        Numbers(w, "firstEdges", Enumerable.Range(0, p.Side + 1).Select(i => p.FirstLower + i * (p.FirstUpper - p.FirstLower) / p.Side), l);
+        Numbers(w, "secondEdges", Enumerable.Range(0, p.Side + 1).Select(i => p.SecondLower + i * (p.SecondUpper - p.SecondLower) / p.Side), l);
+        foreach (var (name, values) in new[] { ("density", p.Density), ("densityStdErr", p.DensityStandardError) })
+        {
+            w.WriteStartArray(name);
+            for (int i = 0; i < p.Side; i++)
+            {
+                Numbers(w, null, values.Skip(i * p.Side).Take(p.Side), 1 / (l * l));
+            }
+            w.WriteEndArray();
+        }
+        w.WriteNumber("shareOutside", d.ShareOutsideProjection);
+        w.WriteEndObject();
+        w.WriteEndObject();
+    }
+
     private static void Vector(Utf8JsonWriter w, string name, Position p, double l)
     {
         w.WriteStartArray(name);
@@ -286,9 +351,7 @@ internal static class ReportJsonWriter
         Cumulants(w, [r.ThirdCumulant], [r.FourthCumulant], l, scalar: true);
         var hist = r.Histogram;
         w.WriteStartObject("distribution");
-        Numbers(w, "edges", Enumerable.Range(0, hist.Density.Length + 1).Select(i => i == hist.Density.Length ? hist.Upper : hist.Lower + i * hist.BinWidth), l);
-        Numbers(w, "density", hist.Density, 1 / l);
-        Numbers(w, "densityStdErr", hist.DensityStandardError, 1 / l);
+        Bins(w, hist, l);
         Numbers(w, "exact", r.ExactBinDensity, 1 / l);
         if (!r.HarmonicBinDensity.IsEmpty)
         {
@@ -354,6 +417,7 @@ internal static class ReportJsonWriter
         Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
         Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
         Cumulants(w, r.ThirdCumulants, r.FourthCumulants, l, scalar: false);
+        SiteDistribution(w, r.Distribution, l);
         w.WriteStartObject("symmetry");
         w.WriteNumber("operations", r.Symmetry.Operations.Length);
         Forms(w, "covariance", r.Symmetry.CovarianceForm);

@@ -69,12 +69,17 @@ public class BasinTests
         var warning = Assert.Single(hot.Warnings, w => w.Code == WarningCodes.LeftSite);
         Assert.Contains("left its site", warning.Message);
         Assert.Contains("no Debye–Waller factor", warning.Message);
+        // Roaming over five hollows takes the particle far beyond ±6 harmonic σ of the first: the densities say what they miss.
+        var beyond = Assert.Single(hot.Warnings, w => w.Code == WarningCodes.BeyondDistributionRange);
+        Assert.Contains("beyond the distribution histograms' range", beyond.Message);
+        Assert.True(hot.Distribution.ShareOutsideMarginals.Max() > 0.1);
 
         // The same landscape cold: the chains stay in the hollow's basin, B is reported, no left-site warning.
         var cold = SiteSampler.Run(Wide(), Mass50, Temperature.FromKelvin(5), settings);
         Assert.True(cold.StaysAtSite, $"share outside {cold.ShareOutsideBasin}");
         Assert.NotNull(cold.DebyeWallerB);
         Assert.DoesNotContain(cold.Warnings, w => w.Code == WarningCodes.LeftSite);
+        Assert.DoesNotContain(cold.Warnings, w => w.Code == WarningCodes.BeyondDistributionRange);
     }
 
     [Theory]

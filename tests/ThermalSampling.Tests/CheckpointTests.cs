@@ -64,6 +64,12 @@ public sealed class CheckpointTests
             r.Diagnostics.EffectiveSampleSize, r.Diagnostics.RHat ?? -1, r.Diagnostics.Draws, r.Diagnostics.FinalStepWidthInAngstroms ?? -1, r.RadialHistogram.Count };
         v.AddRange(r.RadialHistogram.Density);
         v.AddRange(r.ThirdCumulants.Concat(r.FourthCumulants).SelectMany(k => new[] { k.Value, k.StandardError }));
+        var d = r.Distribution;
+        v.AddRange(d.Marginals.SelectMany(m => m.Density.Concat(m.DensityStandardError)));
+        v.AddRange(d.Radial.Density);
+        v.AddRange(d.Projection.Density);
+        v.AddRange(d.ShareOutsideMarginals);
+        v.AddRange([d.ShareBeyondRadial, d.ShareOutsideProjection]);
         v.AddRange(FactorBits(r.TemperatureFactors));
         v.AddRange(r.Draws.Chains.SelectMany(ch => ch.SelectMany(p => new[] { p.X, p.Y, p.Z })));
         return string.Join(",", v.Select(x => BitConverter.DoubleToUInt64Bits(x).ToString("x16"))) + "|" + string.Join(";", r.Warnings.Select(w => w.Code + w.Message));

@@ -43,4 +43,7 @@ public static class WarningCodes
 
     /// <summary>The sampled mean or variance differs from the exact quadrature value by more than 4 standard errors.</summary>
     public const string DisagreesWithExact = "disagrees-with-exact";
+
+    /// <summary>More than 0.1 % of a site's draws fell outside its distribution histograms' range (±6 harmonic standard deviations): the well is wider than its harmonic estimate.</summary>
+    public const string BeyondDistributionRange = "beyond-distribution-range";
 }

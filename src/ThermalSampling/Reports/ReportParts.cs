@@ -80,30 +80,43 @@ internal static class ReportParts
     {
         var first = parts[0];
         int bins = first.Counts.Length;
-        long total = 0;
         var counts = new long[bins];
         foreach (var p in parts)
         {
             for (int i = 0; i < bins; i++)
             {
                 counts[i] += p.Counts[i];
-                total += p.Counts[i];
             }
         }
-        double width = (first.Upper - first.Lower) / bins;
-        var density = ImmutableArray.CreateBuilder<double>(bins);
-        var error = ImmutableArray.CreateBuilder<double>(bins);
+        return Density(counts, counts.Sum(), first.Lower, first.Upper, effectiveSampleSize);
+    }
+
+    /// <summary>
+    /// Counts over equal bins from <paramref name="lower"/> to <paramref name="upper"/> as a density of all
+    /// <paramref name="total"/> draws (draws outside the bins count in the total), with standard errors √(p(1 − p)/ESS)/width.
+    /// </summary>
+    internal static Histogram Density(ReadOnlySpan<long> counts, long total, double lower, double upper, double effectiveSampleSize)
+    {
+        var (density, error) = Densities(counts, total, (upper - lower) / counts.Length, effectiveSampleSize);
+        return new Histogram(lower, upper, density, error, total);
+    }
+
+    /// <summary>The densities and their standard errors of counts in cells of equal size <paramref name="cell"/> (length or area).</summary>
+    internal static (ImmutableArray<double> Density, ImmutableArray<double> Error) Densities(ReadOnlySpan<long> counts, long total, double cell, double effectiveSampleSize)
+    {
+        var density = ImmutableArray.CreateBuilder<double>(counts.Length);
+        var error = ImmutableArray.CreateBuilder<double>(counts.Length);
         double ess = Math.Max(effectiveSampleSize, 1);
-        for (int i = 0; i < bins; i++)
+        for (int i = 0; i < counts.Length; i++)
         {
             double p = total > 0 ? (double)counts[i] / total : 0;
-            density.Add(p / width);
+            density.Add(p / cell);
             // An empty (or nearly empty) bin is not known to hold nothing: its error is at least that of half an
             // effective draw, so that a density compared with it is not held to zero.
             double pe = total > 0 ? Math.Max(p, 0.5 / ess) : 0;
-            error.Add(Math.Sqrt(pe * (1 - pe) / ess) / width);
+            error.Add(Math.Sqrt(pe * (1 - pe) / ess) / cell);
         }
-        return new Histogram(first.Lower, first.Upper, density.MoveToImmutable(), error.MoveToImmutable(), total);
+        return (density.MoveToImmutable(), error.MoveToImmutable());
     }
 
     /// <summary>The retained draws of every chain, in chain order; <see cref="RetainedDraws{T}.None"/> when none were kept.</summary>

@@ -76,6 +76,44 @@ public sealed record TemperatureFactorPoint(ImmutableArray<double> ScatteringVec
     public bool GaussianFails => Math.Abs(DepartureFromGaussian.Value) > 3 * DepartureFromGaussian.StandardError;
 }
 
+/// <summary>
+/// A density over a square grid of cells on a plane (the site's projection on its two largest principal axes), with
+/// per-cell standard errors as for <see cref="Histogram"/>.
+/// </summary>
+/// <param name="FirstLower">Lower edge along the first axis, Å (from the distribution's centre).</param>
+/// <param name="FirstUpper">Upper edge along the first axis, Å.</param>
+/// <param name="SecondLower">Lower edge along the second axis, Å.</param>
+/// <param name="SecondUpper">Upper edge along the second axis, Å.</param>
+/// <param name="Side">Cells along each axis.</param>
+/// <param name="Density">Density per cell, 1/Å², first-axis index major: cell (i, j) at i·Side + j.</param>
+/// <param name="DensityStandardError">Standard error per cell, 1/Å².</param>
+/// <param name="Count">The draws counted (those outside the grid included: the density integrates to the share inside).</param>
+public sealed record ProjectedDensity(double FirstLower, double FirstUpper, double SecondLower, double SecondUpper, int Side,
+    ImmutableArray<double> Density, ImmutableArray<double> DensityStandardError, long Count)
+{
+    /// <summary>The density of cell (<paramref name="i"/>, <paramref name="j"/>), 1/Å².</summary>
+    /// <param name="i">Index along the first axis.</param>
+    /// <param name="j">Index along the second axis.</param>
+    public double At(int i, int j) => Density[i * Side + j];
+}
+
+/// <summary>
+/// A site's sampled position distribution beyond its moments: the marginal densities along the three principal axes
+/// of the harmonic covariance, the density of the distance from the centre, and the projected density on the plane of
+/// the two largest axes, each with standard errors. Coordinates are displacements from <see cref="Centre"/> (the
+/// minimum plus the first-order mean shift, fixed before sampling so that chains, lane widths and shards bin alike).
+/// </summary>
+/// <param name="Centre">The point the densities are taken about, Å.</param>
+/// <param name="PrincipalAxes">Three orthonormal axes, largest harmonic variance first (within a degenerate set: the projections of x, y, z).</param>
+/// <param name="Marginals">The density along each axis, 1/Å, over ±6 harmonic standard deviations.</param>
+/// <param name="ShareOutsideMarginals">Per axis, the share of draws beyond the marginal's range (their density is not shown).</param>
+/// <param name="Radial">The density of |x − centre|, 1/Å (of the distance, not per volume).</param>
+/// <param name="ShareBeyondRadial">The share of draws beyond the radial range.</param>
+/// <param name="Projection">The density on the plane of the first two axes, 1/Å².</param>
+/// <param name="ShareOutsideProjection">The share of draws outside the projection's square.</param>
+public sealed record SiteDistribution(Position Centre, ImmutableArray<Position> PrincipalAxes, ImmutableArray<Histogram> Marginals,
+    ImmutableArray<double> ShareOutsideMarginals, Histogram Radial, double ShareBeyondRadial, ProjectedDensity Projection, double ShareOutsideProjection);
+
 /// <summary>Convergence and efficiency diagnostics of a run at one temperature.</summary>
 /// <param name="AcceptanceRate">Fraction of accepted Metropolis proposals after burn-in (or of accepted envelope draws for direct site sampling); absent for direct inverse-CDF sampling.</param>
 /// <param name="AutocorrelationTime">Integrated autocorrelation time τ of the position, in recorded draws, pooled over chains (N/ESS).</param>
@@ -312,6 +350,9 @@ public sealed record SiteVibrationReport
 
     /// <summary>Density of the distance from the minimum, 1/Å.</summary>
     public required Histogram RadialHistogram { get; init; }
+
+    /// <summary>The marginal, radial and projected densities about the predicted mean (<see cref="SiteDistribution"/>).</summary>
+    public required SiteDistribution Distribution { get; init; }
 
     /// <summary>Everything that could mislead, in plain words.</summary>
     public required ImmutableArray<Warning> Warnings { get; init; }

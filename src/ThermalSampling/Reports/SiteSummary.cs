@@ -113,6 +113,13 @@ internal static class SiteSummary
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         double b = DebyeWaller.FromIsotropicDisplacement(msd / 3);
         var cumulants = CumulantEstimate.From(results.Select(r => r.Cumulants).ToList());
+        var distribution = Distribution(results, combined.Ess);
+        double beyond = distribution.ShareOutsideMarginals.Max();
+        if (beyond > 1e-3)
+        {
+            warnings.Add(new Warning(WarningCodes.BeyondDistributionRange, string.Create(CultureInfo.InvariantCulture,
+                $"{beyond:P2} of the draws fell beyond the distribution histograms' range (±{ShapeFrame.HalfWidthInSigmas} harmonic standard deviations along an axis): the well is wider than its harmonic estimate, and the marginal and projected densities miss that share. The moments, cumulants and covariance use every draw.")));
+        }
         return new SiteVibrationReport
         {
             Temperature = temperature,
@@ -136,9 +143,42 @@ internal static class SiteSummary
             ShareOutsideBasin = outside,
             Diagnostics = diagnostics,
             RadialHistogram = radialHistogram,
+            Distribution = distribution,
             Warnings = warnings.ToImmutable(),
             Provenance = provenance,
             Draws = ReportParts.Draws(results.Select(r => r.KeptPositions)),
         };
+    }
+
+    /// <summary>The chains' distribution counts pooled into densities with standard errors from the effective sample size.</summary>
+    private static SiteDistribution Distribution(IReadOnlyList<ChainRecord> results, double ess)
+    {
+        var frame = results[0].Shape!.Frame;
+        var counts = new long[frame.Slots];
+        foreach (var r in results)
+        {
+            for (int i = 0; i < counts.Length; i++)
+            {
+                counts[i] += r.Shape!.Counts[i];
+            }
+        }
+        int n = frame.Bins;
+        long total = counts.AsSpan(frame.MarginalBase(0), n + 2).ToArray().Sum();
+        double Share(long c) => total > 0 ? (double)c / total : 0;
+        var marginals = new Histogram[3];
+        var outside = new double[3];
+        for (int k = 0; k < 3; k++)
+        {
+            int b = frame.MarginalBase(k);
+            double w = frame.HalfWidths[k];
+            marginals[k] = ReportParts.Density(counts.AsSpan(b + 1, n), total, -w, w, ess);
+            outside[k] = Share(counts[b] + counts[b + n + 1]);
+        }
+        var radial = ReportParts.Density(counts.AsSpan(frame.RadialBase, n), total, 0, frame.RadialUpper, ess);
+        int side = frame.Side;
+        double w0 = frame.HalfWidths[0], w1 = frame.HalfWidths[1];
+        var (density, error) = ReportParts.Densities(counts.AsSpan(frame.ProjectionBase, side * side), total, 2 * w0 / side * (2 * w1 / side), ess);
+        return new SiteDistribution(frame.Centre, [.. frame.Axes], [.. marginals], [.. outside], radial, Share(counts[frame.RadialBase + n]),
+            new ProjectedDensity(-w0, w0, -w1, w1, side, density, error, total), Share(counts[frame.ProjectionBase + side * side]));
     }
 }

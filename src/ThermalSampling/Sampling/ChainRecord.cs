@@ -37,6 +37,7 @@ public sealed class ChainRecord
         Bins = new BinCounter(layout.BinLower, layout.BinUpper, layout.Bins);
         Cumulants = new CumulantSums(layout.Coordinates, layout.Samples, layout.Waves);
         EnergyHistogram = new EnergyHistogram(layout.EnergyReference, energyBinWidth);
+        Shape = layout.Shape is null ? null : new ShapeCounter(layout.Shape);
         if (layout.Coordinates == 1)
         {
             _keptSeparations = new DrawRecorder<double>(layout.Samples, layout.Retained);
@@ -120,6 +121,9 @@ public sealed class ChainRecord
     /// <summary>Raw power sums to fourth order of the displacement from the batch references (the minimum), in groups, for the cumulants.</summary>
     internal CumulantSums Cumulants { get; }
 
+    /// <summary>A site chain's distribution counts (principal-axis marginals, radial distance, projection); null for a pair.</summary>
+    internal ShapeCounter? Shape { get; }
+
     internal DrawRecorder<double> KeptSeparations => _keptSeparations ?? throw new InvalidOperationException("A site record keeps positions.");
 
     internal DrawRecorder<Position> KeptPositions => _keptPositions ?? throw new InvalidOperationException("A pair record keeps separations.");
@@ -150,6 +154,7 @@ public sealed class ChainRecord
         _stores[2].Add(z);
         double dx = x - Layout.References[0], dy = y - Layout.References[1], dz = z - Layout.References[2];
         Bins.Add(Math.Sqrt(dx * dx + dy * dy + dz * dz));
+        Shape!.Add(x, y, z);
         AddEnergy(energy);
         _keptPositions!.Add(new Position(x, y, z));
     }
@@ -185,6 +190,7 @@ public sealed class ChainRecord
             store.Save(w);
         }
         Bins.Save(w);
+        Shape?.Save(w);
         Cumulants.Save(w);
         EnergyHistogram.Save(w);
         if (Coordinates == 1)
@@ -249,6 +255,7 @@ public sealed class ChainRecord
             store.Load(r);
         }
         Bins.Load(r);
+        Shape?.Load(r);
         Cumulants.Load(r);
         EnergyHistogram.Load(r);
         if (Coordinates == 1)
@@ -290,8 +297,9 @@ internal static class CovarianceTensor
 /// <param name="BinUpper">The histogram's upper edge, Å.</param>
 /// <param name="Bins">The histogram's bin count.</param>
 /// <param name="Waves">The scattering vectors whose exp(iq·u) sums are kept, Å⁻¹ (<paramref name="Coordinates"/> values per vector).</param>
+/// <param name="Shape">Where a site's distribution histograms are taken (null for a pair).</param>
 internal sealed record RecordLayout(int Coordinates, long Samples, int MaxDiagnosticValues, int Retained, double[] References, double EnergyReference,
-    double BinLower, double BinUpper, int Bins, double[] Waves)
+    double BinLower, double BinUpper, int Bins, double[] Waves, ShapeFrame? Shape)
 {
     /// <summary>The number of scattering vectors.</summary>
     internal int WaveCount => Waves.Length / Coordinates;
@@ -300,7 +308,8 @@ internal sealed record RecordLayout(int Coordinates, long Samples, int MaxDiagno
     internal bool SameAs(RecordLayout other)
         => Coordinates == other.Coordinates && Samples == other.Samples && MaxDiagnosticValues == other.MaxDiagnosticValues && Retained == other.Retained
             && References.AsSpan().SequenceEqual(other.References) && EnergyReference.Equals(other.EnergyReference) && BinLower.Equals(other.BinLower)
-            && BinUpper.Equals(other.BinUpper) && Bins == other.Bins && Waves.AsSpan().SequenceEqual(other.Waves);
+            && BinUpper.Equals(other.BinUpper) && Bins == other.Bins && Waves.AsSpan().SequenceEqual(other.Waves)
+            && (Shape is null ? other.Shape is null : other.Shape is not null && Shape.SameAs(other.Shape));
 
     internal void Save(StateWriter w)
     {
@@ -311,6 +320,7 @@ internal sealed record RecordLayout(int Coordinates, long Samples, int MaxDiagno
         w.Doubles("RLAV", values);
         w.Longs("RLWN", [Waves.Length]);
         w.Doubles("RLAW", Waves);
+        w.Doubles("RLSF", Shape?.ToValues() ?? []);
     }
 
     internal static RecordLayout Load(StateReader r)
@@ -335,6 +345,9 @@ internal sealed record RecordLayout(int Coordinates, long Samples, int MaxDiagno
         {
             throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The record has {waves} scattering-vector values, not a multiple of its {coordinates} coordinates."));
         }
-        return new RecordLayout(coordinates, samples, cap, retained, v[..coordinates], v[^3], v[^2], v[^1], bins, r.Doubles("RLAW", waves));
+        var q = r.Doubles("RLAW", waves);
+        var shape = r.Doubles("RLSF", coordinates == 3 ? ShapeFrame.ValueCount : 0);
+        return new RecordLayout(coordinates, samples, cap, retained, v[..coordinates], v[^3], v[^2], v[^1], bins, q,
+            coordinates == 3 ? ShapeFrame.FromValues(shape) : null);
     }
 }

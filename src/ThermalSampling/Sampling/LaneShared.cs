@@ -371,6 +371,20 @@ internal static class LaneCounting
         }
     }
 
+    /// <summary>Counts the flat slot index (already offset per lane) of each live lane.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static void CountSlots<TOps, TD, TB>(TB slots, ulong[] index, long[] counts, int lanes)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        TOps.StoreBits(slots, ref index[0]);
+        for (int lane = 0; lane < lanes; lane++)
+        {
+            counts[index[lane]]++;
+        }
+    }
+
     /// <summary>
     /// The energy histogram's slot of V − V_ref in every lane: 0 below the reference, 1 + ⌊(V − V_ref)/w⌋ for the
     /// <see cref="EnergyHistogram.Bins"/> bins, and the last slot at or beyond their end.

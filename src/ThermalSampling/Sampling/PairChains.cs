@@ -45,7 +45,7 @@ internal static class PairChains
         var quantile = metropolis ? StartQuantiles(exact) : null;
         var layout = new RecordLayout(1, settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, settings.RetainedDrawsPerChain, [reference],
             exact.ReferenceEnergyInElectronVolts, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms, settings.HistogramBins,
-            [.. SettingsFields.Waves(settings)]);
+            [.. SettingsFields.Waves(settings)], null);
         double binWidth = EnergyHistogram.BinWidthFor(temperature.ThermalEnergyInElectronVolts);
         ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);

@@ -47,7 +47,8 @@ internal static class SiteChains
         double wallBand = WallBand(cholesky);
         Envelope? envelope = metropolis ? null : Envelope.Build(kernel, min, cholesky, logWeightMin, landscape, settings.Seed);
         var layout = new RecordLayout(3, settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, settings.RetainedDrawsPerChain, [min.X, min.Y, min.Z],
-            harmonic.MinimumEnergyInElectronVolts, 0, radialMax, settings.HistogramBins, SiteWaves(settings));
+            harmonic.MinimumEnergyInElectronVolts, 0, radialMax, settings.HistogramBins, SiteWaves(settings),
+            ShapeFrame.For(harmonic, landscape.Confinement, landscape.Centre, settings.HistogramBins));
         double binWidth = EnergyHistogram.BinWidthFor(temperature.ThermalEnergyInElectronVolts);
         ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);

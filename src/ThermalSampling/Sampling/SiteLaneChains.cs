@@ -81,7 +81,11 @@ internal static class SiteLaneChains
         private protected override long Accepted(int lane) => (long)TOps.Get(Sums.Accepted, lane);
 
         private protected override void CompleteRecord(ChainRecord record, int lane)
-            => (record.DrawsNearWall, record.DrawsOutsideBasin) = ((long)TOps.Get(Sums.NearWall, lane), _tally.OutsideBasin[lane]);
+        {
+            (record.DrawsNearWall, record.DrawsOutsideBasin) = ((long)TOps.Get(Sums.NearWall, lane), _tally.OutsideBasin[lane]);
+            int slots = _tally.Frame.Slots;
+            record.Shape!.AddCounts(_tally.ShapeCounts.AsSpan(lane * slots, slots));
+        }
 
         private protected override void PlaceLane(int lane, int chain)
         {
@@ -95,7 +99,11 @@ internal static class SiteLaneChains
 
         private protected override SiteRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, Waves, done, chunk);
 
-        private protected override void StartRecords() => Array.Clear(_tally.OutsideBasin);
+        private protected override void StartRecords()
+        {
+            Array.Clear(_tally.OutsideBasin);
+            Array.Clear(_tally.ShapeCounts);
+        }
 
         private protected override LaneTally Tally => _tally;
 
@@ -129,9 +137,92 @@ internal static class SiteLaneChains
             s.X = s.Y = s.Z = s.XX = s.YY = s.ZZ = s.XY = s.XZ = s.YZ = zero;
         }
 
-        private protected override void SaveExtra(StateWriter w) => w.Longs("OUTB", _tally.OutsideBasin);
+        private protected override void SaveExtra(StateWriter w)
+        {
+            w.Longs("OUTB", _tally.OutsideBasin);
+            w.Longs("SHPL", _tally.ShapeCounts);
+        }
 
-        private protected override void LoadExtra(StateReader r) => r.Longs("OUTB", _tally.OutsideBasin.Length).CopyTo(_tally.OutsideBasin, 0);
+        private protected override void LoadExtra(StateReader r)
+        {
+            r.Longs("OUTB", _tally.OutsideBasin.Length).CopyTo(_tally.OutsideBasin, 0);
+            r.Longs("SHPL", _tally.ShapeCounts.Length).CopyTo(_tally.ShapeCounts, 0);
+        }
+    }
+
+    /// <summary>
+    /// A site's distribution counts in every lane, <see cref="ShapeFrame.Slots3"/>'s arithmetic: the displacement from the
+    /// frame's centre projected on its three axes, each marginal's slot (below, N bins, above) clamped in the vector, the
+    /// radial distance's slot, and the projection's cell (⌊i⌋·side + ⌊j⌋ formed in the words by a shift, side a power of
+    /// two), with one slot for outside it. Only the five increments are per lane.
+    /// </summary>
+    internal readonly struct LaneShape<TOps, TD, TB>
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+    {
+        private readonly TD _cx, _cy, _cz, _e00, _e01, _e02, _e10, _e11, _e12, _e20, _e21, _e22;
+        private readonly TD _l0, _l1, _l2, _s0, _s1, _s2, _radialScale, _p0, _p1, _last, _bins, _side;
+        private readonly TB _o0, _o1, _o2, _oRadial, _oProjection;
+        private readonly int _shift, _lanes;
+        private readonly long[] _counts;
+
+        internal LaneShape(ShapeFrame frame, long[] counts, int lanes)
+        {
+            (_counts, _lanes, _shift) = (counts, lanes, frame.SideShift);
+            (_cx, _cy, _cz) = (TOps.Broadcast(frame.Centre.X), TOps.Broadcast(frame.Centre.Y), TOps.Broadcast(frame.Centre.Z));
+            var a = frame.Axes;
+            (_e00, _e01, _e02) = (TOps.Broadcast(a[0].X), TOps.Broadcast(a[0].Y), TOps.Broadcast(a[0].Z));
+            (_e10, _e11, _e12) = (TOps.Broadcast(a[1].X), TOps.Broadcast(a[1].Y), TOps.Broadcast(a[1].Z));
+            (_e20, _e21, _e22) = (TOps.Broadcast(a[2].X), TOps.Broadcast(a[2].Y), TOps.Broadcast(a[2].Z));
+            var w = frame.HalfWidths;
+            (_l0, _l1, _l2) = (TOps.Broadcast(w[0]), TOps.Broadcast(w[1]), TOps.Broadcast(w[2]));
+            (_s0, _s1, _s2) = (TOps.Broadcast(frame.Bins / (2 * w[0])), TOps.Broadcast(frame.Bins / (2 * w[1])), TOps.Broadcast(frame.Bins / (2 * w[2])));
+            _radialScale = TOps.Broadcast(frame.Bins / frame.RadialUpper);
+            (_p0, _p1) = (TOps.Broadcast(frame.Side / (2 * w[0])), TOps.Broadcast(frame.Side / (2 * w[1])));
+            (_last, _bins, _side) = (TOps.Broadcast(frame.Bins + 1), TOps.Broadcast(frame.Bins), TOps.Broadcast(frame.Side));
+            int slots = frame.Slots;
+            _o0 = LaneCounting.Offsets<TOps, TD, TB>(slots, lanes);
+            _o1 = TOps.AddBits(_o0, TOps.BroadcastBits((ulong)frame.MarginalBase(1)));
+            _o2 = TOps.AddBits(_o0, TOps.BroadcastBits((ulong)frame.MarginalBase(2)));
+            _oRadial = TOps.AddBits(_o0, TOps.BroadcastBits((ulong)frame.RadialBase));
+            _oProjection = TOps.AddBits(_o0, TOps.BroadcastBits((ulong)frame.ProjectionBase));
+        }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        internal void Count(TD x, TD y, TD z, ulong[] index)
+        {
+            var dx = TOps.Subtract(x, _cx);
+            var dy = TOps.Subtract(y, _cy);
+            var dz = TOps.Subtract(z, _cz);
+            var a0 = TOps.MultiplyAdd(_e02, dz, TOps.MultiplyAdd(_e01, dy, TOps.Multiply(_e00, dx)));
+            var a1 = TOps.MultiplyAdd(_e12, dz, TOps.MultiplyAdd(_e11, dy, TOps.Multiply(_e10, dx)));
+            var a2 = TOps.MultiplyAdd(_e22, dz, TOps.MultiplyAdd(_e21, dy, TOps.Multiply(_e20, dx)));
+            var a0l = TOps.Add(a0, _l0);
+            var a1l = TOps.Add(a1, _l1);
+            LaneCounting.Count<TOps, TD, TB>(Marginal(a0l, _s0), _o0, index, _counts, _lanes);
+            LaneCounting.Count<TOps, TD, TB>(Marginal(a1l, _s1), _o1, index, _counts, _lanes);
+            LaneCounting.Count<TOps, TD, TB>(Marginal(TOps.Add(a2, _l2), _s2), _o2, index, _counts, _lanes);
+            var r = TOps.Sqrt(TOps.MultiplyAdd(dz, dz, TOps.MultiplyAdd(dy, dy, TOps.Multiply(dx, dx))));
+            var tr = TOps.Multiply(r, _radialScale);
+            LaneCounting.Count<TOps, TD, TB>(TOps.Select(TOps.LessThan(tr, _bins), tr, _bins), _oRadial, index, _counts, _lanes);
+            var i = TOps.Multiply(a0l, _p0);
+            var j = TOps.Multiply(a1l, _p1);
+            var zero = TOps.Broadcast(0.0);
+            var inside = TOps.And(TOps.And(TOps.LessOrEqual(zero, i), TOps.LessThan(i, _side)), TOps.And(TOps.LessOrEqual(zero, j), TOps.LessThan(j, _side)));
+            // Outside: i = side, j = 0 gives side², the slot after the cells.
+            var cell = TOps.AddBits(TOps.ShiftLeft(TOps.Truncate(TOps.Select(inside, i, _side)), _shift), TOps.Truncate(TOps.Select(inside, j, zero)));
+            LaneCounting.CountSlots<TOps, TD, TB>(TOps.AddBits(cell, _oProjection), index, _counts, _lanes);
+        }
+
+        /// <summary>The marginal slot t = (a + w)·scale + 1 clamped to [0, N + 1]: 0 below the range, N + 1 above.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        private TD Marginal(TD aPlusHalfWidth, TD scale)
+        {
+            var t = TOps.MultiplyAdd(aPlusHalfWidth, scale, TOps.Broadcast(1.0));
+            t = TOps.Select(TOps.LessThan(t, TOps.Broadcast(0.0)), TOps.Broadcast(0.0), t);
+            return TOps.Select(TOps.LessThan(t, _last), t, _last);
+        }
     }
 
     /// <summary>The confinement test (<see cref="Confinement.Contains"/>'s arithmetic) and the wall band, in every lane, without a square root.</summary>
@@ -330,12 +421,15 @@ internal static class SiteLaneChains
         private readonly TD _minX, _minY, _minZ, _gridX0, _gridY0, _gridZ0, _gridScale, _gridN;
         private readonly long[] _outsideBasin;
         private readonly byte[] _outsideMask;
-        private readonly bool _countOutside;
+        private readonly bool _countOutside, _momentsOnly;
         private readonly LaneWaves<TOps, TD, TB> _waves;
+        private readonly LaneShape<TOps, TD, TB> _shape;
 
         internal SiteRecorder(SiteTally tally, LaneWaves<TOps, TD, TB> waves, long done, int chunk)
         {
             _waves = waves;
+            _shape = new LaneShape<TOps, TD, TB>(tally.Frame, tally.ShapeCounts, tally.Lanes);
+            _momentsOnly = SiteTally.MomentsOnlyForBenchmarks;
             _tally = new LaneTallyView<TOps, TD, TB>(tally, done, chunk);
             _confinement = new LaneConfinement<TOps, TD, TB>(tally.Confinement.Confinement, tally.Confinement.Centre, tally.Confinement.WallBand);
             var minimum = tally.Minimum;
@@ -379,7 +473,11 @@ internal static class SiteLaneChains
             s.BXX = TOps.Add(s.BXX, xx);
             s.BYY = TOps.Add(s.BYY, yy);
             s.BZZ = TOps.Add(s.BZZ, zz);
-            AddHigher(ref s.Higher, mx, my, mz, xx, yy, zz);
+            if (!_momentsOnly)
+            {
+                AddHigher(ref s.Higher, mx, my, mz, xx, yy, zz);
+                _shape.Count(point.X, point.Y, point.Z, _tally.Index);
+            }
             if (_waves.Count != 0)
             {
                 _waves.Add3(mx, my, mz); // the temperature factor's sums about the minimum
@@ -489,6 +587,18 @@ internal static class SiteLaneChains
 
         /// <summary>The confinement and wall band, for the near-wall count.</summary>
         internal (Confinement Confinement, Position Centre, double WallBand) Confinement { get; } = (confinement, centre, wallBand);
+
+        /// <summary>Where the distribution counts are taken.</summary>
+        internal ShapeFrame Frame { get; } = records[0].Layout.Shape!;
+
+        /// <summary>The distribution counts, lane-major (<see cref="ShapeFrame.Slots"/> per live lane).</summary>
+        internal long[] ShapeCounts { get; } = new long[records.Length * records[0].Layout.Shape!.Slots];
+
+        /// <summary>
+        /// For the benchmarks' same-run baseline only: record the moments and nothing of higher order (no third- and
+        /// fourth-order sums, no distribution counts), the recorder as it was before those existed. Never set by the library.
+        /// </summary>
+        internal static bool MomentsOnlyForBenchmarks { get; set; }
     }
 }
 
