@@ -184,11 +184,6 @@ public static class Program
             stderr.WriteLine($"error: --samples: the run was started without --samples, so its raw draws were not kept; they cannot be written now.");
             return InvalidInput;
         }
-        if (given.Plot is not null && computed.Landscape.Kind == "sites" && computed.Sampling.RetainedDrawsPerChain == 0)
-        {
-            stderr.WriteLine($"error: --plot: the run was started without --plot or --samples, so the draws the site figures need were not kept.");
-            return InvalidInput;
-        }
         var o = original with
         {
             Command = original.Command,
@@ -216,8 +211,7 @@ public static class Program
         {
             Seed = o.Seed ?? scenario.Sampling.Seed,
             MaxThreads = o.Threads,
-            RetainedDrawsPerChain = o.Samples is not null ? (int)Math.Min(scenario.Sampling.SamplesPerChain, SamplesWriter.DrawsPerChain)
-                : o.Plot is not null && scenario.Landscape.Kind == "sites" ? (int)Math.Min(scenario.Sampling.SamplesPerChain, 20_000) : 0,
+            RetainedDrawsPerChain = o.Samples is not null ? (int)Math.Min(scenario.Sampling.SamplesPerChain, SamplesWriter.DrawsPerChain) : 0,
         };
         return scenario with { Sampling = sampling };
     }

@@ -174,167 +174,118 @@ public static class VibrationFigures
         return plot;
     }
 
-    /// <summary>The three marginal distributions of a site report (x, y, z about the mean), with the harmonic Gaussians.</summary>
-    /// <param name="report">A site report with retained draws (<see cref="Sampling.SamplingSettings.RetainedDrawsPerChain"/> above 0).</param>
+    /// <summary>
+    /// The three marginal densities of a site report along its principal axes (<see cref="SiteVibrationReport.Distribution"/>:
+    /// the same numbers as the report and the JSON document), with their standard errors and, dashed, the harmonic
+    /// Gaussian along each axis (dotted: the quantum harmonic one, where quantum effects are flagged).
+    /// </summary>
+    /// <param name="report">A site report.</param>
     /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
-    /// <exception cref="ArgumentException">When the report holds no retained draws.</exception>
     /// <param name="units">The units to draw in; Å when null.</param>
     public static Plot SiteMarginals(SiteVibrationReport report, string? context = null, FigureUnits? units = null)
     {
+        ArgumentNullException.ThrowIfNull(report);
         var unit = units ?? FigureUnits.Default;
         double L = unit.AngstromsPerUnit;
-        var draws = Draws(report);
+        var d = report.Distribution;
         var plot = new Plot();
-        var mean = report.Mean;
-        string[] names = { "x", "y", "z" };
         var colors = Axes3;
         bool quantum = HasQuantumWarning(report.Warnings);
-        // Error bars: the binomial error of each bin's share, inflated by the autocorrelation (N/ESS), as for the numbers.
-        double inflation = Math.Max(1, report.Diagnostics.Draws / Math.Max(report.Diagnostics.EffectiveSampleSize, 1));
-        double extent = 4 * Math.Sqrt(Math.Max(report.Covariance.XX, Math.Max(report.Covariance.YY, report.Covariance.ZZ)));
-        const int bins = 60;
         for (int axis = 0; axis < 3; axis++)
         {
-            var counts = new double[bins];
-            foreach (var p in draws)
-            {
-                double u = p[axis] - mean[axis];
-                int b = (int)((u + extent) / (2 * extent) * bins);
-                if (b >= 0 && b < bins)
-                {
-                    counts[b]++;
-                }
-            }
-            double width = 2 * extent / bins;
-            var xsA = Enumerable.Range(0, bins).Select(b => -extent + (b + 0.5) * width).ToArray();
+            var h = d.Marginals[axis];
+            var e = d.PrincipalAxes[axis];
+            var xsA = Enumerable.Range(0, h.Density.Length).Select(h.BinCentre).ToArray();
             var xs = xsA.Select(x => x / L).ToArray();
-            var density = counts.Select(c => L * c / (draws.Count * width)).ToArray();
-            var line = plot.Add.Scatter(xs, density, colors[axis]);
+            string name = string.Create(CultureInfo.InvariantCulture, $"axis {axis + 1} {Direction(Vector<double>.Build.Dense([e.X, e.Y, e.Z]))}");
+            var line = plot.Add.Scatter(xs, h.Density.Select(p => p * L).ToArray(), colors[axis]);
             line.MarkerSize = 4;
             line.LineWidth = 0;
-            line.LegendText = $"sampled {names[axis]} (± 1 SE)";
-            var errors = plot.Add.ErrorBar(xs, density, counts.Select(c => L * Math.Sqrt(c / draws.Count * (1 - c / draws.Count) * inflation / draws.Count) / width).ToArray());
+            line.LegendText = $"sampled, {name} (± 1 SE)";
+            var errors = plot.Add.ErrorBar(xs, h.Density.Select(p => p * L).ToArray(), h.DensityStandardError.Select(p => p * L).ToArray());
             errors.Color = colors[axis];
-            double s = Math.Sqrt(report.Harmonic.ClassicalCovariance[axis, axis]);
-            var g = plot.Add.Scatter(xs, xsA.Select(u => L * Math.Exp(-0.5 * u * u / (s * s)) / (s * Math.Sqrt(2 * Math.PI))).ToArray(), colors[axis]);
+            // The harmonic Gaussian along the axis: variance eᵀΣe, centred on the minimum's coordinate e·(x_min − centre).
+            double centre = Dot(e, report.Minimum - d.Centre);
+            double s = Math.Sqrt(report.Harmonic.ClassicalCovariance.Quadratic(e));
+            var g = plot.Add.Scatter(xs, xsA.Select(u => L * Gaussian(u - centre, s)).ToArray(), colors[axis]);
             g.MarkerSize = 0;
             g.LinePattern = LinePattern.Dashed;
-            g.LegendText = $"harmonic {names[axis]}";
+            g.LegendText = $"harmonic, axis {axis + 1}";
             if (quantum)
             {
-                double q = Math.Sqrt(report.Harmonic.QuantumCovariance[axis, axis]);
-                var qg = plot.Add.Scatter(xs, xsA.Select(u => L * Math.Exp(-0.5 * u * u / (q * q)) / (q * Math.Sqrt(2 * Math.PI))).ToArray(), colors[axis]);
+                double q = Math.Sqrt(report.Harmonic.QuantumCovariance.Quadratic(e));
+                var qg = plot.Add.Scatter(xs, xsA.Select(u => L * Gaussian(u - centre, q)).ToArray(), colors[axis]);
                 qg.MarkerSize = 0;
                 qg.LinePattern = LinePattern.Dotted;
-                qg.LegendText = $"quantum harmonic {names[axis]}";
+                qg.LegendText = $"quantum harmonic, axis {axis + 1}";
             }
         }
-        Title(plot, string.Create(CultureInfo.InvariantCulture, $"Marginal distributions about the mean, T = {report.Temperature.InKelvin:G4} K"), context, report.Warnings);
-        plot.XLabel($"displacement from the mean ({unit.LengthName})");
+        Title(plot, string.Create(CultureInfo.InvariantCulture, $"Marginal distributions along the principal axes, T = {report.Temperature.InKelvin:G4} K"), context, report.Warnings);
+        plot.XLabel($"displacement from the predicted mean ({unit.LengthName})");
         plot.YLabel($"probability density (1/{unit.LengthName})");
         plot.ShowLegend(Alignment.UpperRight);
         return plot;
     }
 
+    private static double Gaussian(double u, double sigma) => Math.Exp(-0.5 * u * u / (sigma * sigma)) / (sigma * Math.Sqrt(2 * Math.PI));
+
+    private static double Dot(Position a, Position b) => a.X * b.X + a.Y * b.Y + a.Z * b.Z;
+
     /// <summary>
-    /// The density of a site's draws projected on the two most spread principal directions of the sampled covariance,
-    /// with the ellipses that enclose 50 % and 90 % of a Gaussian of that covariance in the plane, and the principal axes.
-    /// Of two equally spread directions (a degenerate pair, as at a three-fold site) the one nearest the x axis of the
-    /// landscape's frame is drawn first, so the picture is the same every run.
+    /// The density of a site's draws projected on the plane of its two largest principal axes
+    /// (<see cref="SiteDistribution.Projection"/>: the report's own numbers), with the ellipses that enclose 50 % and 90 %
+    /// of a Gaussian of the sampled covariance in that plane, about the sampled mean.
     /// </summary>
-    /// <param name="report">A site report with retained draws.</param>
+    /// <param name="report">A site report.</param>
     /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
-    /// <exception cref="ArgumentException">When the report holds no retained draws.</exception>
     /// <param name="units">The units to draw in; Å when null.</param>
     public static Plot SiteProjection(SiteVibrationReport report, string? context = null, FigureUnits? units = null)
     {
+        ArgumentNullException.ThrowIfNull(report);
         var unit = units ?? FigureUnits.Default;
         double L = unit.AngstromsPerUnit;
-        var draws = Draws(report);
-        var evd = report.Covariance.ToMatrix().Evd(Symmetricity.Symmetric);
-        // Eigenvalues ascend: the two most spread directions are columns 2 and 1.
-        var e1 = evd.EigenVectors.Column(2);
-        var e2 = evd.EigenVectors.Column(1);
-        double s1 = Math.Sqrt(evd.EigenValues[2].Real), s2 = Math.Sqrt(evd.EigenValues[1].Real);
-        double s3 = Math.Sqrt(Math.Max(evd.EigenValues[0].Real, 0));
-        if (Math.Abs(s1 - s3) < 0.05 * s1)
-        {
-            // Isotropic within 5 %: every plane is alike, so draw the frame's x and y.
-            e1 = Vector<double>.Build.Dense([1.0, 0, 0]);
-            e2 = Vector<double>.Build.Dense([0, 1.0, 0]);
-            s1 = Math.Sqrt(report.Covariance.XX);
-            s2 = Math.Sqrt(report.Covariance.YY);
-        }
-        else if (Math.Abs(s1 - s2) < 0.05 * s1)
-        {
-            // A (nearly) degenerate pair spans a plane; any basis of it is as good, so take the frame's x projected into it.
-            var x = Vector<double>.Build.Dense([1.0, 0, 0]);
-            var px = e1 * (e1 * x) + e2 * (e2 * x);
-            if (px.L2Norm() < 1e-6)
-            {
-                x = Vector<double>.Build.Dense([0, 1.0, 0]);
-                px = e1 * (e1 * x) + e2 * (e2 * x);
-            }
-            var n3 = evd.EigenVectors.Column(0);
-            e1 = px / px.L2Norm();
-            e2 = Vector<double>.Build.Dense([n3[1] * e1[2] - n3[2] * e1[1], n3[2] * e1[0] - n3[0] * e1[2], n3[0] * e1[1] - n3[1] * e1[0]]);
-        }
-        if (e1.AbsoluteMaximum() != e1.Maximum())
-        {
-            e1 = -e1; // sign: the largest component positive
-        }
-        if (e2.AbsoluteMaximum() != e2.Maximum())
-        {
-            e2 = -e2;
-        }
-        double extent = 3.5 * s1;
-        const int n = 80;
+        var d = report.Distribution;
+        var p = d.Projection;
+        var (e1, e2) = (d.PrincipalAxes[0], d.PrincipalAxes[1]);
+        int n = p.Side;
         var grid = new double[n, n];
-        var mean = report.Mean;
-        foreach (var p in draws)
-        {
-            double dx = p.X - mean.X, dy = p.Y - mean.Y, dz = p.Z - mean.Z;
-            double a = dx * e1[0] + dy * e1[1] + dz * e1[2];
-            double b = dx * e2[0] + dy * e2[1] + dz * e2[2];
-            int i = (int)((a + extent) / (2 * extent) * n), j = (int)((b + extent) / (2 * extent) * n);
-            if (i >= 0 && i < n && j >= 0 && j < n)
-            {
-                grid[n - 1 - j, i]++;
-            }
-        }
-        double cell = 2 * extent / n;
         for (int i = 0; i < n; i++)
         {
             for (int j = 0; j < n; j++)
             {
-                grid[i, j] *= L * L / (draws.Count * cell * cell);
+                grid[n - 1 - j, i] = p.At(i, j) * L * L; // rows from the top: the second axis upwards
             }
         }
         var plot = new Plot();
         var heat = plot.Add.Heatmap(grid);
-        heat.Extent = new CoordinateRect(-extent / L, extent / L, -extent / L, extent / L);
+        heat.Extent = new CoordinateRect(p.FirstLower / L, p.FirstUpper / L, p.SecondLower / L, p.SecondUpper / L);
         heat.Colormap = new ScottPlot.Colormaps.Viridis();
         plot.Add.ColorBar(heat).Label = $"density (1/{unit.LengthName}²)";
+        // The sampled covariance in the plane, and its ellipses about the sampled mean.
+        var c = report.Covariance;
+        double s11 = c.Quadratic(e1), s22 = c.Quadratic(e2), s12 = 0.5 * (c.Quadratic(e1 + e2) - s11 - s22);
+        double half = 0.5 * (s11 + s22), gap = Math.Sqrt(0.25 * (s11 - s22) * (s11 - s22) + s12 * s12);
+        double major = Math.Sqrt(half + gap), minor = Math.Sqrt(Math.Max(half - gap, 0));
+        double angle = 0.5 * Math.Atan2(2 * s12, s11 - s22);
+        var offset = report.Mean - d.Centre;
+        double m1 = Dot(offset, e1), m2 = Dot(offset, e2);
         foreach (double share in EnclosedShares)
         {
             double k = Math.Sqrt(-2 * Math.Log(1 - share)); // a 2D Gaussian holds 1 − e^(−k²/2) inside k σ
-            var ellipse = plot.Add.Ellipse(0, 0, k * s1 / L, k * s2 / L);
+            var ellipse = plot.Add.Ellipse(m1 / L, m2 / L, k * major / L, k * minor / L, ScottPlot.Angle.FromRadians(angle));
             ellipse.LineColor = Colors.White;
             ellipse.LineWidth = 1.5f;
             ellipse.LinePattern = share < 0.75 ? LinePattern.Solid : LinePattern.Dashed;
-            var label = plot.Add.Text(string.Create(CultureInfo.InvariantCulture, $"{share:P0}"), k * s1 * 0.72 / L, k * s2 * 0.72 / L);
+            var label = plot.Add.Text(string.Create(CultureInfo.InvariantCulture, $"{share:P0}"), (m1 + k * major * 0.72 * Math.Cos(angle)) / L,
+                (m2 + k * major * 0.72 * Math.Sin(angle)) / L);
             label.LabelFontColor = Colors.White;
             label.LabelFontSize = 13;
         }
-        var axis1 = plot.Add.Line(-2 * s1 / L, 0, 2 * s1 / L, 0);
-        axis1.LineColor = Colors.White;
-        var axis2 = plot.Add.Line(0, -2 * s2 / L, 0, 2 * s2 / L);
-        axis2.LineColor = Colors.White;
-        var c = CultureInfo.InvariantCulture;
-        Title(plot, string.Format(c, "Projected density, T = {0:G4} K (ellipses hold 50 % and 90 % of a Gaussian in this plane)", report.Temperature.InKelvin), context, report.Warnings);
-        plot.XLabel(string.Format(c, "along {0}, σ = {1:G3} {2}", Direction(e1), s1 / L, unit.LengthName));
-        plot.YLabel(string.Format(c, "along {0}, σ = {1:G3} {2}", Direction(e2), s2 / L, unit.LengthName));
-        plot.Axes.SetLimits(-extent / L, extent / L, -extent / L, extent / L);
+        var ci = CultureInfo.InvariantCulture;
+        Title(plot, string.Format(ci, "Projected density, T = {0:G4} K (ellipses hold 50 % and 90 % of a Gaussian in this plane)", report.Temperature.InKelvin), context, report.Warnings);
+        plot.XLabel(string.Format(ci, "along {0}, σ = {1:G3} {2}", Direction(Vector<double>.Build.Dense([e1.X, e1.Y, e1.Z])), Math.Sqrt(s11) / L, unit.LengthName));
+        plot.YLabel(string.Format(ci, "along {0}, σ = {1:G3} {2}", Direction(Vector<double>.Build.Dense([e2.X, e2.Y, e2.Z])), Math.Sqrt(s22) / L, unit.LengthName));
+        plot.Axes.SetLimits(p.FirstLower / L, p.FirstUpper / L, p.SecondLower / L, p.SecondUpper / L);
         plot.Axes.SquareUnits();
         return plot;
     }
@@ -448,17 +399,6 @@ public static class VibrationFigures
             throw new ArgumentException($"reports has {reports.Count} entries; a sweep figure needs at least 2 temperatures.", nameof(reports));
         }
         return reports.OrderBy(r => temperature(r).InKelvin).ToArray();
-    }
-
-    private static IReadOnlyList<Position> Draws(SiteVibrationReport report)
-    {
-        ArgumentNullException.ThrowIfNull(report);
-        var draws = report.Draws.Chains.SelectMany(c => c).ToList();
-        if (draws.Count == 0)
-        {
-            throw new ArgumentException("the report holds no retained draws; sample with SamplingSettings.RetainedDrawsPerChain above 0 to draw site figures.", nameof(report));
-        }
-        return draws;
     }
 
     private static bool HasQuantumWarning(IEnumerable<Warning> warnings)

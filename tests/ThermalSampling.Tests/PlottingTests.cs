@@ -74,13 +74,15 @@ public class PlottingTests
         Assert.Contains("temperature (K)", SvgText(VibrationFigures.TemperatureSweep(pairs).GetSvgXml(600, 400)));
     }
 
+    /// <summary>Site figures are drawn from the report's own distribution (no retained draws needed); bad file types are refused.</summary>
     [Fact]
-    public void Site_figures_without_retained_draws_and_bad_file_types_are_refused()
+    public void Site_figures_need_no_retained_draws_and_bad_file_types_are_refused()
     {
         var cage = SiteLandscape.Create(LennardJones.FromMinimum(Length.FromAngstroms(3.8), Energy.FromKelvin(119.8)),
             LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.8)), Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.2)));
         var report = SiteSampler.Run(cage, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(10), Settings with { RetainedDrawsPerChain = 0 });
-        Assert.Contains("RetainedDrawsPerChain", Assert.Throws<ArgumentException>(() => VibrationFigures.SiteMarginals(report)).Message);
+        Assert.Contains("principal axes", SvgText(VibrationFigures.SiteMarginals(report).GetSvgXml(600, 400)));
+        Assert.Contains("Projected density", SvgText(VibrationFigures.SiteProjection(report).GetSvgXml(600, 400)));
         var plot = VibrationFigures.TemperatureSweep(PairSampler.Sweep(Line, Mass.FromAtomicMassUnits(55.845), new[] { 100.0, 300 }.Select(Temperature.FromKelvin), Settings));
         Assert.Equal("path", Assert.Throws<ArgumentException>(() => VibrationFigures.Save(plot, "figure.gif")).ParamName);
         Assert.Throws<ArgumentException>(() => VibrationFigures.TemperatureSweep(Array.Empty<PairVibrationReport>()));

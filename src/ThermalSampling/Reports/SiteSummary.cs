@@ -164,6 +164,7 @@ internal static class SiteSummary
         }
         int n = frame.Bins;
         long total = counts.AsSpan(frame.MarginalBase(0), n + 2).ToArray().Sum();
+        ess = Math.Min(ess, total); // Metropolis chains count every few draws: never more effective draws than counted
         double Share(long c) => total > 0 ? (double)c / total : 0;
         var marginals = new Histogram[3];
         var outside = new double[3];

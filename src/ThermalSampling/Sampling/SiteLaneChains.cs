@@ -422,6 +422,7 @@ internal static class SiteLaneChains
         private readonly long[] _outsideBasin;
         private readonly byte[] _outsideMask;
         private readonly bool _countOutside, _momentsOnly;
+        private readonly int _shapePhase;
         private readonly LaneWaves<TOps, TD, TB> _waves;
         private readonly LaneShape<TOps, TD, TB> _shape;
 
@@ -430,6 +431,7 @@ internal static class SiteLaneChains
             _waves = waves;
             _shape = new LaneShape<TOps, TD, TB>(tally.Frame, tally.ShapeCounts, tally.Lanes);
             _momentsOnly = SiteTally.MomentsOnlyForBenchmarks;
+            _shapePhase = (int)(done & (ShapeFrame.LaneStride - 1));
             _tally = new LaneTallyView<TOps, TD, TB>(tally, done, chunk);
             _confinement = new LaneConfinement<TOps, TD, TB>(tally.Confinement.Confinement, tally.Confinement.Centre, tally.Confinement.WallBand);
             var minimum = tally.Minimum;
@@ -476,7 +478,10 @@ internal static class SiteLaneChains
             if (!_momentsOnly)
             {
                 AddHigher(ref s.Higher, mx, my, mz, xx, yy, zz);
-                _shape.Count(point.X, point.Y, point.Z, _tally.Index);
+                if (((j + _shapePhase) & (ShapeFrame.LaneStride - 1)) == 0)
+                {
+                    _shape.Count(point.X, point.Y, point.Z, _tally.Index); // every LaneStride-th draw: five scatters are the step's dearest bookkeeping
+                }
             }
             if (_waves.Count != 0)
             {
