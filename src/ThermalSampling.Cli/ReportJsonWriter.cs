@@ -304,6 +304,22 @@ internal static class ReportJsonWriter
         w.WriteEndObject();
     }
 
+    /// <summary>A symmetric tensor as a 3×3 array of rows, each value divided by <paramref name="unit"/>.</summary>
+    private static void Matrix(Utf8JsonWriter w, string name, SymmetricTensor t, double unit)
+    {
+        w.WriteStartArray(name);
+        for (int i = 0; i < 3; i++)
+        {
+            w.WriteStartArray();
+            for (int j = 0; j < 3; j++)
+            {
+                w.WriteNumberValue(t[i, j] / unit);
+            }
+            w.WriteEndArray();
+        }
+        w.WriteEndArray();
+    }
+
     private static void Vector(Utf8JsonWriter w, string name, Position p, double l)
     {
         w.WriteStartArray(name);
@@ -403,27 +419,31 @@ internal static class ReportJsonWriter
         Vector(w, "mean", r.Mean, l);
         Vector(w, "meanShift", r.MeanShift, l);
         Vector(w, "meanShiftStdErr", r.MeanStandardError, l);
-        w.WriteStartArray("covariance");
-        for (int i = 0; i < 3; i++)
-        {
-            w.WriteStartArray();
-            for (int j = 0; j < 3; j++)
-            {
-                w.WriteNumberValue(r.Covariance[i, j] / l2);
-            }
-            w.WriteEndArray();
-        }
-        w.WriteEndArray();
+        Matrix(w, "covariance", r.Covariance, l2);
         Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
         Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
         Cumulants(w, r.ThirdCumulants, r.FourthCumulants, l, scalar: false);
         SiteDistribution(w, r.Distribution, l);
         w.WriteStartObject("symmetry");
+        w.WriteString("pointGroup", r.Symmetry.PointGroup);
         w.WriteNumber("operations", r.Symmetry.Operations.Length);
         Forms(w, "covariance", r.Symmetry.CovarianceForm);
         Forms(w, "third", r.Symmetry.ThirdForm);
         Forms(w, "fourth", r.Symmetry.FourthForm);
         w.WriteEndObject();
+        if (s.Symmetrise)
+        {
+            var sym = r.Symmetrised;
+            w.WriteStartObject("symmetrised");
+            w.WriteString("pointGroup", sym.PointGroup);
+            w.WriteNumber("operations", sym.Operations);
+            Matrix(w, "covariance", sym.Covariance, l * l);
+            Numbers(w, "third", sym.ThirdCumulants.Select(x => x.Value), l * l * l);
+            Numbers(w, "thirdStdErr", sym.ThirdCumulants.Select(x => x.StandardError), l * l * l);
+            Numbers(w, "fourth", sym.FourthCumulants.Select(x => x.Value), l * l * l * l);
+            Numbers(w, "fourthStdErr", sym.FourthCumulants.Select(x => x.StandardError), l * l * l * l);
+            w.WriteEndObject();
+        }
         // To fourth order the Gram–Charlier quasi-moments about the Gaussian of the true mean and covariance are the
         // cumulants themselves (docs/displacements.md), in the same frame, order and units.
         w.WriteStartObject("gramCharlier");

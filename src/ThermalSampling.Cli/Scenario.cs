@@ -46,6 +46,9 @@ internal sealed record Scenario(
     /// <summary>The scenario document exactly as given (echoed in every output document, so a result can be reproduced from its file alone).</summary>
     internal string SourceJson { get; init; } = "{}";
 
+    /// <summary><c>output.symmetrise</c>: add the tensors averaged over the site's point group to site results.</summary>
+    internal bool Symmetrise { get; init; }
+
     internal double AngstromsPerLengthUnit => ScenarioUnits.Length[LengthUnit];
 }
 
@@ -346,9 +349,25 @@ internal static class ScenarioReader
             c.Add("$.temperatures", string.Create(CultureInfo.InvariantCulture, $"{duplicate.Key:R} K appears {duplicate.Count()} times; each temperature must appear once."));
         }
         var sampling = ReadSampling(c, root);
+        bool symmetrise = false;
         if (c.Object(root, "output", "$", required: false) is { } output)
         {
-            c.CheckKeys(output, "$.output", "bins", "scatteringVectors");
+            c.CheckKeys(output, "$.output", "bins", "scatteringVectors", "symmetrise");
+            if (output.TryGetProperty("symmetrise", out var sym))
+            {
+                if (sym.ValueKind is not (JsonValueKind.True or JsonValueKind.False))
+                {
+                    c.Add("$.output.symmetrise", $"must be true or false, not {Context.Describe(sym)}.");
+                }
+                else if (sym.GetBoolean() && landscape is not null && landscape.Kind is "line" or "radial")
+                {
+                    c.Add("$.output.symmetrise", "applies to sites only: a line or radial pair has no point group to average over.");
+                }
+                else
+                {
+                    symmetrise = sym.GetBoolean();
+                }
+            }
             if (c.Integer(output, "bins", "$.output", false, ScenarioSchema.At("properties/output/properties/bins")) is long bins && sampling is not null)
             {
                 sampling = sampling with { HistogramBins = (int)bins };
@@ -366,6 +385,7 @@ internal static class ScenarioReader
         return new Scenario(title, energyUnit, lengthUnit, mass, potential!, landscape!, temperatures.ToImmutableArray(), sampling!)
         {
             SourceJson = root.GetRawText(),
+            Symmetrise = symmetrise,
         };
     }
 

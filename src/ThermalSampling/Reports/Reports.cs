@@ -114,6 +114,18 @@ public sealed record ProjectedDensity(double FirstLower, double FirstUpper, doub
 public sealed record SiteDistribution(Position Centre, ImmutableArray<Position> PrincipalAxes, ImmutableArray<Histogram> Marginals,
     ImmutableArray<double> ShareOutsideMarginals, Histogram Radial, double ShareBeyondRadial, ProjectedDensity Projection, double ShareOutsideProjection);
 
+/// <summary>
+/// A site's displacement tensors averaged over its point group (<see cref="SiteSymmetry.Symmetrise(System.Collections.Generic.IReadOnlyList{double})"/>):
+/// what a refinement constrained by the site symmetry would report. Errors are the jackknife of the averaged values.
+/// </summary>
+/// <param name="PointGroup">The point group's Schoenflies symbol.</param>
+/// <param name="Operations">The number of its operations.</param>
+/// <param name="Covariance">The sampled covariance averaged over the group, Å².</param>
+/// <param name="ThirdCumulants">The third cumulants averaged over the group (10, the cumulants' order), Å³.</param>
+/// <param name="FourthCumulants">The fourth cumulants averaged over the group (15), Å⁴.</param>
+public sealed record SymmetrisedTensors(string PointGroup, int Operations, SymmetricTensor Covariance, ImmutableArray<Estimate> ThirdCumulants,
+    ImmutableArray<Estimate> FourthCumulants);
+
 /// <summary>Convergence and efficiency diagnostics of a run at one temperature.</summary>
 /// <param name="AcceptanceRate">Fraction of accepted Metropolis proposals after burn-in (or of accepted envelope draws for direct site sampling); absent for direct inverse-CDF sampling.</param>
 /// <param name="AutocorrelationTime">Integrated autocorrelation time τ of the position, in recorded draws, pooled over chains (N/ESS).</param>
@@ -307,6 +319,9 @@ public sealed record SiteVibrationReport
     /// with it within their errors.
     /// </summary>
     public required SiteSymmetry Symmetry { get; init; }
+
+    /// <summary>The covariance and cumulant tensors averaged over the site's point group (<see cref="Symmetry"/>), beside the unconstrained ones above.</summary>
+    public required SymmetrisedTensors Symmetrised { get; init; }
 
     /// <summary>
     /// The leading anharmonic terms by classical perturbation theory about the minimum (docs/perturbation-theory.md): the

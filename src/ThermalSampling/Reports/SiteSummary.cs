@@ -113,6 +113,8 @@ internal static class SiteSummary
         var provenance = new Provenance(settings.Seed, RandomStream.GeneratorName, settings, Provenance.CurrentLibraryVersion, landscape.Description, mass);
         double b = DebyeWaller.FromIsotropicDisplacement(msd / 3);
         var cumulants = CumulantEstimate.From(results.Select(r => r.Cumulants).ToList());
+        var symmetry = SiteSymmetry.Find(landscape, min);
+        var symmetrised = CumulantEstimate.From(results.Select(r => r.Cumulants).ToList(), v => [.. symmetry.Symmetrise(v)]);
         var distribution = Distribution(results, combined.Ess);
         double beyond = distribution.ShareOutsideMarginals.Max();
         if (beyond > 1e-3)
@@ -130,9 +132,11 @@ internal static class SiteSummary
             Covariance = covariance,
             MeanSquareDisplacement = new Estimate(msd, msdSe),
             Perturbative = Perturbation.Site(landscape, min, harmonic.Hessian.ToMatrix().ToArray(), temperature),
-            Symmetry = SiteSymmetry.Find(landscape, min),
-            ThirdCumulants = cumulants.Third.Select((v, i) => new Estimate(v, cumulants.ThirdStandardError[i])).ToImmutableArray(),
-            FourthCumulants = cumulants.Fourth.Select((v, i) => new Estimate(v, cumulants.FourthStandardError[i])).ToImmutableArray(),
+            Symmetry = symmetry,
+            Symmetrised = new SymmetrisedTensors(symmetry.PointGroup, symmetry.Operations.Length, symmetry.Symmetrise(covariance),
+                Estimates(symmetrised.Third, symmetrised.ThirdStandardError), Estimates(symmetrised.Fourth, symmetrised.FourthStandardError)),
+            ThirdCumulants = Estimates(cumulants.Third, cumulants.ThirdStandardError),
+            FourthCumulants = Estimates(cumulants.Fourth, cumulants.FourthStandardError),
             PotentialEnergy = potentialEnergy,
             PotentialEnergyVarianceInElectronVoltsSquared = energyVariance,
             DebyeWallerB = staysAtSite ? new Estimate(b, b * msdSe / msd) : null,
@@ -182,4 +186,6 @@ internal static class SiteSummary
         return new SiteDistribution(frame.Centre, [.. frame.Axes], [.. marginals], [.. outside], radial, Share(counts[frame.RadialBase + n]),
             new ProjectedDensity(-w0, w0, -w1, w1, side, density, error, total), Share(counts[frame.ProjectionBase + side * side]));
     }
+
+    private static ImmutableArray<Estimate> Estimates(double[] values, double[] errors) => [.. values.Select((v, i) => new Estimate(v, errors[i]))];
 }

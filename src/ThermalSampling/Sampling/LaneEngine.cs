@@ -267,6 +267,11 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         }
     }
 
+    /// <summary>A recorded chunk of <paramref name="chunk"/> steps after <paramref name="done"/> has run: bookkeeping the recorder left for outside the loop.</summary>
+    private protected virtual void AfterChunk(long done, int chunk)
+    {
+    }
+
     /// <summary>Closes the open moment block of <paramref name="count"/> steps into the records and clears its sums.</summary>
     private protected abstract void CloseBlock(int count);
 
@@ -416,6 +421,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
             int closed = RecordLoop(_walk, Recorder(Step, chunk), ref State, ref Sums, width, chunk, ref InBatch, batchSize);
             _walk.ThrowIfFaulted(State, before, default, null, width, chunk);
             AddClosedBatches(closed);
+            AfterChunk(Step, chunk);
             Step += chunk;
             InBlock += chunk;
             if (InBlock == _blockSize || Step == _samples)

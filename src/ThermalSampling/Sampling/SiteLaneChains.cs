@@ -67,6 +67,7 @@ internal static class SiteLaneChains
         private readonly ChainRecord[] _records;
         private readonly SiteTally _tally;
         private readonly ChainStart _start;
+        private readonly TD[] _shapeDraws = new TD[3 * (LaneAdaptation.ChunkSteps / ShapeFrame.LaneStride + 1)];
 
         internal Group(Plan<TPotential> plan, ChainStart start, GroupWork work)
             : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialScale, plan.MaxScale, plan.TargetAcceptance, BlockSize, "SLGH", "LOGS", "site chain group"),
@@ -97,7 +98,23 @@ internal static class SiteLaneChains
             State.Z = TOps.Set(State.Z, lane, p.Z);
         }
 
-        private protected override SiteRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, Waves, done, chunk);
+        private protected override SiteRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, Waves, _shapeDraws, done, chunk);
+
+        /// <summary>The draws the recorder kept for the distribution counts (every LaneStride-th of a chunk), counted here.</summary>
+        private protected override void AfterChunk(long done, int chunk)
+        {
+            if (SiteTally.MomentsOnlyForBenchmarks)
+            {
+                return;
+            }
+            var shape = new LaneShape<TOps, TD, TB>(_tally.Frame, _tally.ShapeCounts, _tally.Lanes);
+            int phase = (int)(done & (ShapeFrame.LaneStride - 1));
+            for (int j = (ShapeFrame.LaneStride - phase) & (ShapeFrame.LaneStride - 1); j < chunk; j += ShapeFrame.LaneStride)
+            {
+                int at = 3 * ((j + phase) / ShapeFrame.LaneStride);
+                shape.Count(_shapeDraws[at], _shapeDraws[at + 1], _shapeDraws[at + 2], _tally.Index);
+            }
+        }
 
         private protected override void StartRecords()
         {
@@ -424,12 +441,12 @@ internal static class SiteLaneChains
         private readonly bool _countOutside, _momentsOnly;
         private readonly int _shapePhase;
         private readonly LaneWaves<TOps, TD, TB> _waves;
-        private readonly LaneShape<TOps, TD, TB> _shape;
+        private readonly TD[] _shapeDraws;
 
-        internal SiteRecorder(SiteTally tally, LaneWaves<TOps, TD, TB> waves, long done, int chunk)
+        internal SiteRecorder(SiteTally tally, LaneWaves<TOps, TD, TB> waves, TD[] shapeDraws, long done, int chunk)
         {
             _waves = waves;
-            _shape = new LaneShape<TOps, TD, TB>(tally.Frame, tally.ShapeCounts, tally.Lanes);
+            _shapeDraws = shapeDraws;
             _momentsOnly = SiteTally.MomentsOnlyForBenchmarks;
             _shapePhase = (int)(done & (ShapeFrame.LaneStride - 1));
             _tally = new LaneTallyView<TOps, TD, TB>(tally, done, chunk);
@@ -480,7 +497,12 @@ internal static class SiteLaneChains
                 AddHigher(ref s.Higher, mx, my, mz, xx, yy, zz);
                 if (((j + _shapePhase) & (ShapeFrame.LaneStride - 1)) == 0)
                 {
-                    _shape.Count(point.X, point.Y, point.Z, _tally.Index); // every LaneStride-th draw: five scatters are the step's dearest bookkeeping
+                    // Every LaneStride-th draw is kept for the distribution counts, made after the loop (SiteLaneChains.Group.AfterChunk):
+                    // five scattered increments inside it cost more than their share (register pressure on the whole step).
+                    int at = 3 * ((j + _shapePhase) / ShapeFrame.LaneStride);
+                    _shapeDraws[at] = point.X;
+                    _shapeDraws[at + 1] = point.Y;
+                    _shapeDraws[at + 2] = point.Z;
                 }
             }
             if (_waves.Count != 0)

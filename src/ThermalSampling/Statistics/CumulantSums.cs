@@ -134,13 +134,24 @@ internal sealed record CumulantEstimate(double[] Third, double[] ThirdStandardEr
     /// <summary>The fewest groups the jackknife needs for its errors to mean anything.</summary>
     internal const int MinimumGroups = 8;
 
-    /// <summary>Pools every chain's groups and estimates the cumulants, with the delete-one-group jackknife for their errors.</summary>
-    internal static CumulantEstimate From(IReadOnlyList<CumulantSums> chains)
+    /// <summary>
+    /// Pools every chain's groups and estimates the cumulants, with the delete-one-group jackknife for their errors;
+    /// <paramref name="map"/>, when given, is applied to every estimate's third and fourth components (a linear map such as
+    /// a symmetry average, so that the errors are those of the mapped values).
+    /// </summary>
+    internal static CumulantEstimate From(IReadOnlyList<CumulantSums> chains, Func<double[], double[]>? map = null)
     {
         int d = chains[0].Coordinates;
         int components3 = d == 1 ? 1 : 10, components4 = d == 1 ? 1 : 15;
-        var (values, errors, groups) = GroupJackknife.Run(chains, components3 + components4,
-            (sums, into) => Cumulants(sums, d, into[..components3], into[components3..]));
+        var (values, errors, groups) = GroupJackknife.Run(chains, components3 + components4, (sums, into) =>
+        {
+            Cumulants(sums, d, into[..components3], into[components3..]);
+            if (map is not null)
+            {
+                map(into[..components3].ToArray()).CopyTo(into);
+                map(into[components3..].ToArray()).CopyTo(into[components3..]);
+            }
+        });
         return new CumulantEstimate(values[..components3], errors[..components3], values[components3..], errors[components3..], groups);
     }
 
