@@ -210,6 +210,46 @@ public class CliTests
         Assert.Contains("$.output.scatteringVectors[1][2]: 300000 is out of range", stderr);
     }
 
+    /// <summary>output.symmetrise adds the tensors averaged over the point group, with the group named; it is refused for a pair by its JSON path.</summary>
+    [Fact]
+    public void Symmetrise_adds_the_averaged_tensors_and_names_the_group()
+    {
+        string site = SiteScenario.Replace("\"sampling\"", "\"output\": { \"symmetrise\": true }, \"sampling\"", StringComparison.Ordinal);
+        var (code, stdout, stderr) = Run(site);
+        Assert.True(code == 0, stderr);
+        using var doc = JsonDocument.Parse(stdout);
+        var sym = doc.RootElement.GetProperty("results")[0].GetProperty("symmetrised");
+        AssertKeys(sym, "pointGroup", "operations", "covariance", "third", "thirdStdErr", "fourth", "fourthStdErr");
+        Assert.Equal("Oh", sym.GetProperty("pointGroup").GetString());
+        Assert.Equal(48, sym.GetProperty("operations").GetInt32());
+        Assert.All(sym.GetProperty("third").EnumerateArray(), k => Assert.Equal(0, k.GetDouble(), 1e-20));
+        string pair = LineScenario.Replace("\"sampling\"", "\"output\": { \"symmetrise\": true }, \"sampling\"", StringComparison.Ordinal);
+        (code, _, stderr) = Run(pair);
+        Assert.Equal(2, code);
+        Assert.Contains("$.output.symmetrise: applies to sites only", stderr);
+    }
+
+    /// <summary>--format distribution-csv: one row per temperature, part and bin, the same numbers as the JSON distribution.</summary>
+    [Fact]
+    public void Distribution_csv_has_a_row_per_bin_with_the_json_numbers()
+    {
+        var (code, csv, stderr) = Run(SiteScenario, "--format", "distribution-csv");
+        Assert.True(code == 0, stderr);
+        var lines = csv.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal("temperature,part,lower,upper,secondLower,secondUpper,density,densityStdErr,exact,harmonic,unit", lines[0]);
+        var rows = lines.Skip(1).Select(l => l.Split(',')).ToList();
+        Assert.Equal(60, rows.Count(r => r[1] == "axis2"));
+        Assert.Equal(32 * 32, rows.Count(r => r[1] == "projection"));
+        Assert.All(rows.Where(r => r[1] == "projection"), r => Assert.Equal("1/nm^2", r[10]));
+        using var doc = JsonDocument.Parse(Run(SiteScenario).Stdout);
+        var radial = doc.RootElement.GetProperty("results")[0].GetProperty("distribution").GetProperty("radial").GetProperty("density");
+        Assert.Equal(radial[7].GetDouble(), double.Parse(rows.Where(r => r[1] == "radial").ElementAt(7)[6], System.Globalization.CultureInfo.InvariantCulture));
+        var (_, pairCsv, _) = Run(LineScenario, "--format", "distribution-csv");
+        var pairRow = pairCsv.Split('\n', StringSplitOptions.RemoveEmptyEntries)[1].Split(',');
+        Assert.Equal("separation", pairRow[1]);
+        Assert.NotEqual("", pairRow[8]); // the exact bin average beside
+    }
+
     [Fact]
     public void Site_run_writes_site_keys_in_the_scenario_units()
     {
@@ -225,8 +265,34 @@ public class CliTests
         Assert.False(r.TryGetProperty("exact", out _), "there is no exact reference for sites");
         AssertKeys(r.GetProperty("cumulants"), "third", "thirdStdErr", "fourth", "fourthStdErr");
         AssertKeys(r.GetProperty("gramCharlier"), "third", "fourth");
-        AssertKeys(r.GetProperty("symmetry"), "operations", "covariance", "third", "fourth");
+        AssertKeys(r.GetProperty("symmetry"), "pointGroup", "operations", "covariance", "third", "fourth");
+        Assert.Equal("Oh", r.GetProperty("symmetry").GetProperty("pointGroup").GetString());
+        Assert.False(r.TryGetProperty("symmetrised", out _), "symmetrised tensors only on request");
         AssertKeys(r.GetProperty("firstOrder"), "meanShift", "covariance", "cumulants");
+        // The distribution: axes, three marginals, the radial density and the projection, each integrating with the
+        // share beyond its range to 1 (lengths in nm, densities per nm and per nm²).
+        var d = r.GetProperty("distribution");
+        AssertKeys(d, "centre", "principalAxes", "marginals", "radial", "projection");
+        Assert.Equal(3, d.GetProperty("principalAxes").GetArrayLength());
+        Assert.Equal(3, d.GetProperty("marginals").GetArrayLength());
+        static double[] Values(JsonElement e, string key) => e.GetProperty(key).EnumerateArray().Select(x => x.GetDouble()).ToArray();
+        foreach (var part in d.GetProperty("marginals").EnumerateArray().Append(d.GetProperty("radial")))
+        {
+            AssertKeys(part, "edges", "density", "densityStdErr", "shareOutside");
+            var edges = Values(part, "edges");
+            var density = Values(part, "density");
+            Assert.Equal(density.Length + 1, edges.Length);
+            Assert.Equal(1.0, density.Select((p, i) => p * (edges[i + 1] - edges[i])).Sum() + part.GetProperty("shareOutside").GetDouble(), 9);
+        }
+        var projection = d.GetProperty("projection");
+        AssertKeys(projection, "firstEdges", "secondEdges", "density", "densityStdErr", "shareOutside");
+        var first = Values(projection, "firstEdges");
+        var second = Values(projection, "secondEdges");
+        double cell = (first[1] - first[0]) * (second[1] - second[0]);
+        double mass = projection.GetProperty("density").EnumerateArray().Sum(row => row.EnumerateArray().Sum(x => x.GetDouble())) * cell;
+        Assert.Equal(1.0, mass + projection.GetProperty("shareOutside").GetDouble(), 9);
+        Assert.Equal(first.Length - 1, projection.GetProperty("density").GetArrayLength());
+        Assert.InRange(first[^1], 0.001, 0.1); // nm: ±6 harmonic σ of a Cu-like cage
         Assert.Equal(15, r.GetProperty("firstOrder").GetProperty("cumulants").GetProperty("fourth").GetArrayLength());
         Assert.Equal(10, r.GetProperty("cumulants").GetProperty("third").GetArrayLength());
         Assert.Equal(15, r.GetProperty("cumulants").GetProperty("fourthStdErr").GetArrayLength());

@@ -114,4 +114,45 @@ public class PerturbationTests
         Assert.True(Math.Abs(excess - p.CovarianceCorrection.XX) <= 4.5 * se + 0.15 * Math.Abs(p.CovarianceCorrection.XX),
             $"ΔU_xx: sampled {excess:G4} ± {se:G2}, perturbative {p.CovarianceCorrection.XX:G4}");
     }
+
+    /// <summary>
+    /// Convergence as T → 0 in three dimensions, for the invented fcc cage (at 10, 20 and 40 K) and an invented fcc(111)
+    /// hollow (Lennard-Jones, 10 meV at 3.5 Å; far more anharmonic in the plane, so at 2.5, 5 and 10 K): the leading terms
+    /// are of order Tⁿ (the cage's κ1111, n = 3; the hollow's κ333, n = 2; the excess of the mean-square displacement over
+    /// the harmonic one against tr ΔU, n = 2), so (sampled − perturbative)/Tⁿ must vanish as T → 0, the relative gap
+    /// (sampled − perturbative)/perturbative shrinking in proportion to T: from the highest temperature to the lowest (a
+    /// quarter of it) it must fall at least by half, within three of its standard errors, and be below 25 % at the lowest.
+    /// </summary>
+    [Theory]
+    [InlineData("cage")]
+    [InlineData("hollow")]
+    public void Three_dimensions_converge_to_the_leading_terms_as_the_temperature_falls(string which)
+    {
+        var site = which == "cage"
+            ? InventedLandscapes.Cage
+            : SiteLandscape.AboveSurface(InventedLandscapes.Pair,
+                LatticeSites.Surface(LatticeKind.FaceCentredCubic, new MillerIndices(1, 1, 1), AdsorptionSiteKind.FccHollow, Length.FromAngstroms(3.5)),
+                Confinement.Sphere(Length.FromAngstroms(1.0)));
+        double lowest = which == "cage" ? 10 : 2.5;
+        var settings = new SamplingSettings { Seed = 44, Chains = 8, SamplesPerChain = 1_000_000, BurnIn = 10_000 };
+        int component = which == "cage" ? 0 : 9; // κ1111 of the cage, κ333 of the hollow
+        var gaps = new System.Collections.Generic.List<(double Gap, double Error)>[2] { new(), new() };
+        foreach (double kelvin in new[] { lowest, 2 * lowest, 4 * lowest })
+        {
+            var r = SiteSampler.Run(site, Mass.FromAtomicMassUnits(40), Temperature.FromKelvin(kelvin), settings);
+            var p = r.Perturbative;
+            var sampled = which == "cage" ? r.FourthCumulants[component] : r.ThirdCumulants[component];
+            double predicted = which == "cage" ? p.FourthCumulants[component] : p.ThirdCumulants[component];
+            gaps[0].Add((sampled.Value / predicted - 1, sampled.StandardError / Math.Abs(predicted)));
+            double excess = r.MeanSquareDisplacement.Value - r.Harmonic.ClassicalMeanSquareDisplacement, predictedExcess = p.CovarianceCorrection.Trace;
+            gaps[1].Add((excess / predictedExcess - 1, r.MeanSquareDisplacement.StandardError / Math.Abs(predictedExcess)));
+        }
+        foreach (var (series, name) in gaps.Zip(new[] { "leading cumulant", "MSD excess" }))
+        {
+            var (low, high) = (series[0], series[2]);
+            string text = string.Join(", ", series.Select(x => $"{x.Gap:P1} ± {x.Error:P1}"));
+            Assert.True(Math.Abs(low.Gap) <= 0.5 * Math.Abs(high.Gap) + 3 * (low.Error + high.Error), $"{which}, {name}: relative gaps {text} do not shrink with T");
+            Assert.True(Math.Abs(low.Gap) <= 0.25 + 3 * low.Error, $"{which}, {name}: relative gap {low.Gap:P1} ± {low.Error:P1} at {lowest} K");
+        }
+    }
 }
