@@ -115,6 +115,10 @@ internal static class ReportJsonWriter
         Number(w, "targetAcceptance", o.TargetAcceptance);
         Number(w, "initialStepWidth", o.InitialStepWidthInAngstroms / s.AngstromsPerLengthUnit);
         w.WriteNumber("histogramBins", o.HistogramBins);
+        if (s.Landscape.Kind is not ("line" or "radial"))
+        {
+            w.WriteNumber("siteRangeInSigmas", o.SiteDistributionHalfWidthInSigmas);
+        }
         w.WriteNumber("maxDiagnosticValuesPerChain", o.MaxDiagnosticValuesPerChain);
         w.WriteNumber("retainedDrawsPerChain", o.RetainedDrawsPerChain);
         w.WriteEndObject();

@@ -352,7 +352,11 @@ internal static class ScenarioReader
         bool symmetrise = false;
         if (c.Object(root, "output", "$", required: false) is { } output)
         {
-            c.CheckKeys(output, "$.output", "bins", "scatteringVectors", "symmetrise");
+            c.CheckKeys(output, "$.output", "bins", "scatteringVectors", "symmetrise", "siteRangeInSigmas");
+            if (c.Number(output, "siteRangeInSigmas", "$.output", false, ScenarioSchema.At("properties/output/properties/siteRangeInSigmas")) is double range && sampling is not null)
+            {
+                sampling = sampling with { SiteDistributionHalfWidthInSigmas = range };
+            }
             if (output.TryGetProperty("symmetrise", out var sym))
             {
                 if (sym.ValueKind is not (JsonValueKind.True or JsonValueKind.False))

@@ -85,6 +85,26 @@ public class SiteDistributionTests
     }
 
     /// <summary>
+    /// The range is a setting: at ±3 harmonic σ the harmonic site's marginals end at 3σ and hold all but 2(1 − Φ(3)) =
+    /// 0.27 % of the draws (closed form), which the report states and warns about (above 0.1 %).
+    /// </summary>
+    [Fact]
+    public void The_range_can_be_set_and_what_falls_beyond_it_is_reported()
+    {
+        var t = Temperature.FromKelvin(300);
+        double sigma = Math.Sqrt(t.ThermalEnergyInElectronVolts / 6.0);
+        var r = SiteSampler.Run(HarmonicSite(), Mass.FromAtomicMassUnits(20), t,
+            new SamplingSettings { Seed = 10, Chains = 8, SamplesPerChain = 100_000, BurnIn = 5000, Method = SamplingMethod.Direct, SiteDistributionHalfWidthInSigmas = 3 });
+        var d = r.Distribution;
+        Assert.Equal(3 * sigma, d.Marginals[0].Upper, 1e-6);
+        double expected = 2 * (1 - Phi(3));
+        Assert.All(d.ShareOutsideMarginals, share => Assert.InRange(share, expected * 0.8, expected * 1.2));
+        Assert.Contains(r.Warnings, w => w.Code == WarningCodes.BeyondDistributionRange);
+        Assert.Contains("SiteDistributionHalfWidthInSigmas = 1 is out of range; valid: 2 to 100",
+            Assert.Throws<ArgumentException>(() => new SamplingSettings { Seed = 1, SiteDistributionHalfWidthInSigmas = 1 }.Validate()).Message);
+    }
+
+    /// <summary>
     /// A three-fold hollow (an invented Lennard-Jones fcc(111) surface: 10.3 meV at 3.8 Å): its in-plane harmonic
     /// variances are equal, so the first two axes are the in-plane projections of x and y, and the third is the surface
     /// normal z; the centre lies above the minimum by the first-order shift (the softer vacuum side).

@@ -120,7 +120,7 @@ internal static class SiteSummary
         if (beyond > 1e-3)
         {
             warnings.Add(new Warning(WarningCodes.BeyondDistributionRange, string.Create(CultureInfo.InvariantCulture,
-                $"{beyond:P2} of the draws fell beyond the distribution histograms' range (±{ShapeFrame.HalfWidthInSigmas} harmonic standard deviations along an axis): the well is wider than its harmonic estimate, and the marginal and projected densities miss that share. The moments, cumulants and covariance use every draw.")));
+                $"{beyond:P2} of the draws fell beyond the distribution histograms' range (±{settings.SiteDistributionHalfWidthInSigmas:G4} harmonic standard deviations along an axis): the well is wider than its harmonic estimate, and the marginal and projected densities miss that share (widen them with SiteDistributionHalfWidthInSigmas, or output.siteRangeInSigmas in a scenario). The moments, cumulants and covariance use every draw.")));
         }
         return new SiteVibrationReport
         {

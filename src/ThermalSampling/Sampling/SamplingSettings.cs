@@ -46,6 +46,13 @@ public sealed record SamplingSettings
     /// <summary>Histogram bins, 4 to 10 000.</summary>
     public int HistogramBins { get; init; } = 60;
 
+    /// <summary>
+    /// How far a site's distribution histograms reach each side of the predicted mean, in harmonic standard deviations
+    /// along each principal axis (the radial one: of the widest axis), 2 to 100 (default 6); never past the confinement.
+    /// Draws beyond are counted as outside (their share is reported, and above 0.1 % warned about).
+    /// </summary>
+    public double SiteDistributionHalfWidthInSigmas { get; init; } = 6;
+
     /// <summary>The most values kept per chain for autocorrelation, blocking and R-hat, 64 to 10^7 (default 16 384). Longer
     /// chains keep the means of consecutive batches of draws instead (exact for error bars at any batch size), so memory per
     /// chain is constant. More values make the error bars' own uncertainty smaller (about √(2(2W + 1)/M) relative for a

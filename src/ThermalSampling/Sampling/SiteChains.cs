@@ -48,7 +48,7 @@ internal static class SiteChains
         Envelope? envelope = metropolis ? null : Envelope.Build(kernel, min, cholesky, logWeightMin, landscape, settings.Seed);
         var layout = new RecordLayout(3, settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, settings.RetainedDrawsPerChain, [min.X, min.Y, min.Z],
             harmonic.MinimumEnergyInElectronVolts, 0, radialMax, settings.HistogramBins, SiteWaves(settings),
-            ShapeFrame.For(harmonic, landscape.Confinement, landscape.Centre, settings.HistogramBins));
+            ShapeFrame.For(harmonic, landscape.Confinement, landscape.Centre, settings.HistogramBins, settings.SiteDistributionHalfWidthInSigmas));
         double binWidth = EnergyHistogram.BinWidthFor(temperature.ThermalEnergyInElectronVolts);
         ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);

@@ -12,8 +12,9 @@ namespace ThermalSampling.Sampling;
 /// Where a site's distribution histograms are taken, fixed before sampling so that every chain, lane width and shard bins
 /// alike: the centre c (the minimum plus the first-order mean shift: the predicted mean), the principal axes of the
 /// harmonic covariance (largest variance first; within a degenerate set, the projections of x, y, z in turn, made
-/// orthonormal, so that a cubic site is binned along its cube axes), the half-width of each marginal (six harmonic
-/// standard deviations, no wider than the confinement allows), the radial range, the marginal bin count and the side of
+/// orthonormal, so that a cubic site is binned along its cube axes), the half-width of each marginal (by default six
+/// harmonic standard deviations, <see cref="SamplingSettings.SiteDistributionHalfWidthInSigmas"/>; no wider than the
+/// confinement allows), the radial range, the marginal bin count and the side of
 /// the square projection on the plane of the two largest axes (a power of two).
 /// </summary>
 /// <remarks>
@@ -29,9 +30,6 @@ internal sealed record ShapeFrame(Position Centre, Position[] Axes, double[] Hal
     /// The densities' standard errors use the smaller of the effective sample size and the draws counted.
     /// </summary>
     internal const int LaneStride = 4;
-
-    /// <summary>Harmonic standard deviations each side of the centre the marginals and projection cover.</summary>
-    internal const double HalfWidthInSigmas = 6;
 
     /// <summary>Relative difference below which two harmonic variances count as one degenerate set.</summary>
     private const double Degenerate = 1e-6;
@@ -52,7 +50,7 @@ internal sealed record ShapeFrame(Position Centre, Position[] Axes, double[] Hal
     internal int Slots => ProjectionBase + Side * Side + 1;
 
     /// <summary>The frame for a site: its harmonic estimate, confinement, and <paramref name="bins"/> marginal bins.</summary>
-    internal static ShapeFrame For(SiteHarmonicEstimate harmonic, Confinement confinement, Position confinementCentre, int bins)
+    internal static ShapeFrame For(SiteHarmonicEstimate harmonic, Confinement confinement, Position confinementCentre, int bins, double halfWidthInSigmas)
     {
         var centre = harmonic.Minimum + harmonic.FirstOrderMeanShift;
         if (!(confinement.DistanceToWall(centre.X - confinementCentre.X, centre.Y - confinementCentre.Y, centre.Z - confinementCentre.Z) > 0))
@@ -99,8 +97,8 @@ internal sealed record ShapeFrame(Position Centre, Position[] Axes, double[] Hal
         }
         double size = confinement.SizeInAngstroms;
         double reach = (confinement.Shape == ConfinementShape.Sphere ? size : size * Math.Sqrt(3)) + (centre - confinementCentre).Norm;
-        var halfWidths = modes.Select(m => Math.Min(HalfWidthInSigmas * Math.Sqrt(m.ClassicalVarianceInAngstromsSquared), reach)).ToArray();
-        double radial = Math.Min(HalfWidthInSigmas * Math.Sqrt(modes[0].ClassicalVarianceInAngstromsSquared), reach);
+        var halfWidths = modes.Select(m => Math.Min(halfWidthInSigmas * Math.Sqrt(m.ClassicalVarianceInAngstromsSquared), reach)).ToArray();
+        double radial = Math.Min(halfWidthInSigmas * Math.Sqrt(modes[0].ClassicalVarianceInAngstromsSquared), reach);
         return new ShapeFrame(centre, axes, halfWidths, radial, bins, SideFor(bins));
     }
 
