@@ -409,6 +409,23 @@ internal static class ReportJsonWriter
         Number(w, "fourth", r.Exact.FourthCumulant / (l2 * l2));
         w.WriteEndObject();
         w.WriteEndObject();
+        if (r.QuantumExact is { } q)
+        {
+            // Where classical statistics fail: the exact quantum distribution on the same walls (docs/quantum.md).
+            w.WriteStartObject("quantumExact");
+            Number(w, "mean", q.MeanInAngstroms / l);
+            Number(w, "variance", q.VarianceInAngstromsSquared / l2);
+            Number(w, "rms", q.RmsInAngstroms / l);
+            Number(w, "skewness", q.Skewness);
+            Number(w, "excessKurtosis", q.ExcessKurtosis);
+            Number(w, "varianceRatioToClassical", q.VarianceInAngstromsSquared / r.Exact.Variance);
+            w.WriteNumber("boundLevels", q.BoundLevels);
+            Number(w, "shareAboveEscape", q.ShareAboveEscape);
+            w.WriteNumber("gridPoints", q.GridPoints);
+            w.WriteNumber("angularMomenta", q.AngularMomenta);
+            w.WriteBoolean("converged", q.Converged);
+            w.WriteEndObject();
+        }
         TemperatureFactors(w, r.TemperatureFactors, l);
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();

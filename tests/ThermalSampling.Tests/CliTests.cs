@@ -110,6 +110,13 @@ public class CliTests
             AssertKeys(r.GetProperty("diagnostics"), "acceptanceRate", "autocorrelationTime", "effectiveSampleSize", "rHat", "draws");
             Assert.False(r.TryGetProperty("covariance", out _), "site keys must be absent for a line");
             Assert.False(r.TryGetProperty("temperatureFactor", out _), "no scattering vector was asked for");
+            bool quantumWarning = r.GetProperty("warnings").EnumerateArray().Any(w => w.GetProperty("code").GetString() is "quantum-effects" or "de-broglie-wavelength");
+            Assert.Equal(quantumWarning, r.TryGetProperty("quantumExact", out var quantum));
+            if (quantumWarning)
+            {
+                AssertKeys(quantum, "mean", "variance", "rms", "skewness", "excessKurtosis", "varianceRatioToClassical", "boundLevels", "shareAboveEscape",
+                    "gridPoints", "angularMomenta", "converged");
+            }
             foreach (var w in r.GetProperty("warnings").EnumerateArray())
             {
                 AssertKeys(w, "code", "message");

@@ -140,4 +140,28 @@ public class QuantumGridTests
         Assert.Equal("precision", Assert.Throws<ArgumentOutOfRangeException>(() => QuantumPairDistribution.Compute(line, Mass.FromAtomicMassUnits(1), Temperature.FromKelvin(10), 0.5)).ParamName);
         Assert.Equal("gridPoints", Assert.Throws<ArgumentOutOfRangeException>(() => QuantumPairDistribution.Compute(line, Mass.FromAtomicMassUnits(1), Temperature.FromKelvin(10), gridPoints: 5)).ParamName);
     }
+
+    /// <summary>
+    /// The verdict gives the right number: an invented light pair (Lennard-Jones 15 meV at 3.5 Å, 50 u) at 10 K warns about
+    /// quantum effects, and its report carries the exact quantum distribution on the same window, whose RMS the warning
+    /// states beside the classical one (the quantum spread is larger: zero-point motion); at 80 K there is no such warning
+    /// and no quantum answer is computed.
+    /// </summary>
+    [Fact]
+    public void Reports_that_warn_about_quantum_effects_give_the_exact_quantum_spread()
+    {
+        var lj = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.015));
+        var line = PairLandscape.Line(lj, Length.FromAngstroms(3.0), Length.FromAngstroms(6.0));
+        var settings = new Sampling.SamplingSettings { Seed = 3, Chains = 2, SamplesPerChain = 20_000, BurnIn = 2000 };
+        var cold = PairSampler.Run(line, Mass.FromAtomicMassUnits(50), Temperature.FromKelvin(10), settings);
+        Assert.NotNull(cold.QuantumExact);
+        Assert.True(cold.QuantumExact!.RmsInAngstroms > 1.1 * Math.Sqrt(cold.Exact.Variance));
+        var warning = Assert.Single(cold.Warnings, w => w.Code == WarningCodes.QuantumEffects);
+        Assert.Contains("Classical statistics underestimate the spread by", warning.Message);
+        Assert.Contains(cold.QuantumExact.RmsInAngstroms.ToString("G4", System.Globalization.CultureInfo.InvariantCulture) + " Å", warning.Message);
+        Assert.DoesNotContain("Use the quantum harmonic estimate", warning.Message);
+        var hot = PairSampler.Run(line, Mass.FromAtomicMassUnits(50), Temperature.FromKelvin(80), settings);
+        Assert.Null(hot.QuantumExact);
+        Assert.DoesNotContain(hot.Warnings, w => w.Code == WarningCodes.QuantumEffects);
+    }
 }

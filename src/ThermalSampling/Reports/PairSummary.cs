@@ -49,7 +49,33 @@ internal static class PairSummary
         where TPotential : struct, IPairPotential
     {
         var references = Analyse(landscape, mass, temperature);
-        return references.Warnings.AddRange(ValidityWarnings(mass, temperature, references, references.Exact.RmsInAngstroms));
+        return references.Warnings.AddRange(Verdict(landscape, mass, temperature, ValidityWarnings(mass, temperature, references, references.Exact.RmsInAngstroms),
+            references.Exact).Warnings);
+    }
+
+    /// <summary>
+    /// Where classical statistics fail (a quantum-effects or de Broglie warning), the exact quantum distribution on the same
+    /// walls, and the quantum-effects warning reworded to give the right number beside the classical one; elsewhere the
+    /// warnings as they are and no quantum answer.
+    /// </summary>
+    internal static (ImmutableArray<Warning> Warnings, QuantumPairDistribution? Quantum) Verdict<TPotential>(PairLandscape<TPotential> landscape, Mass mass,
+        Temperature temperature, ImmutableArray<Warning> warnings, ExactPairDistribution classical)
+        where TPotential : struct, IPairPotential
+    {
+        if (!warnings.Any(w => w.Code is WarningCodes.QuantumEffects or WarningCodes.DeBroglieWavelength))
+        {
+            return (warnings, null);
+        }
+        var quantum = QuantumPairDistribution.Compute(landscape, mass, temperature);
+        double ratio = quantum.RmsInAngstroms / classical.RmsInAngstroms;
+        string verdict = string.Create(CultureInfo.InvariantCulture,
+            $"Classical statistics {(ratio >= 1 ? "underestimate" : "overestimate")} the spread by {Math.Abs(ratio - 1):P0} here: the exact quantum RMS spread on this window is {quantum.RmsInAngstroms:G4} Å (mean {quantum.MeanInAngstroms:G6} Å), against {classical.RmsInAngstroms:G4} Å classically (mean {classical.MeanInAngstroms:G6} Å); the report's QuantumExact has the quantum distribution{(quantum.Converged ? "" : ", whose grid did not converge to the requested precision")}.");
+        var reworded = warnings.Select(w => w.Code == WarningCodes.QuantumEffects ? new Warning(w.Code, w.Message.Split(" Use the quantum harmonic estimate")[0] + " " + verdict) : w).ToList();
+        if (!reworded.Any(w => w.Code == WarningCodes.QuantumEffects))
+        {
+            reworded.Insert(0, new Warning(WarningCodes.QuantumEffects, verdict));
+        }
+        return ([.. reworded], quantum);
     }
 
     /// <summary>The report of one temperature from its run record.</summary>
@@ -86,7 +112,8 @@ internal static class PairSummary
             exact.Skewness * Math.Pow(exactSigma, 3), exact.ExcessKurtosis * Math.Pow(exactSigma, 4));
         var cumulants = CumulantEstimate.From(results.Select(r => r.Cumulants).ToList());
 
-        warnings.AddRange(ValidityWarnings(mass, temperature, references, exact.RmsInAngstroms)); // the exact spread, as validate uses
+        var (validity, quantum) = Verdict(landscape, mass, temperature, ValidityWarnings(mass, temperature, references, exact.RmsInAngstroms), exact);
+        warnings.AddRange(validity); // at the exact spread, as validate uses
         ReportParts.AddConvergenceWarnings(warnings, summary, acceptance, metropolis ? target : null);
         if (Math.Abs(comparison.ZScoreMean) > 4 || Math.Abs(comparison.ZScoreVariance) > 4)
         {
@@ -123,6 +150,7 @@ internal static class PairSummary
             Diagnostics = diagnostics,
             Histogram = histogram,
             ExactBinDensity = exactBins,
+            QuantumExact = quantum,
             TemperatureFactors = ReportParts.TemperatureFactors(results.Select(r => r.Cumulants).ToList(),
                 q => harmonic is null ? null : q[0] * q[0] * harmonic.ClassicalVarianceInAngstromsSquared, q => exact.TemperatureFactor(q[0])),
             HarmonicBinDensity = harmonicBins,

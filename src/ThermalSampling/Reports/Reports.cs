@@ -257,6 +257,12 @@ public sealed record PairVibrationReport
     /// <summary>The exact quadrature reference and z-scores.</summary>
     public required ExactComparison Exact { get; init; }
 
+    /// <summary>
+    /// The exact quantum distribution on the same window (hard walls), computed where classical statistics fail (a
+    /// quantum-effects or de Broglie warning), whose message then gives the quantum spread; null elsewhere.
+    /// </summary>
+    public required QuantumPairDistribution? QuantumExact { get; init; }
+
     /// <summary>T(q) at every scattering vector of the settings (<see cref="SamplingSettings.ScatteringVectorsInInverseAngstroms"/>), exact values beside; empty when none was asked for.</summary>
     public required ImmutableArray<TemperatureFactorPoint> TemperatureFactors { get; init; }
 
