@@ -26,3 +26,28 @@ public class ExactDistributionBenchmarks
     [Benchmark]
     public double MorseRadial() => ExactPairDistribution.Compute(_radial, Temperature.FromKelvin(300)).VarianceInAngstromsSquared;
 }
+
+/// <summary>
+/// The exact quantum distribution of a pair on its grid, one temperature, everything included (grid refinement and, for
+/// radial, the l sum): an invented Morse pair (0.5 eV, 1.5/Å, 2.5 Å, 30 u) on [1.9, 4.5] Å. Baseline: the exact
+/// classical quadrature of the same landscape in the same run.
+/// </summary>
+[MemoryDiagnoser]
+public class QuantumGridBenchmarks
+{
+    private static readonly Morse Well = new(Energy.FromElectronVolts(0.5), 1.5, Length.FromAngstroms(2.5));
+    private static readonly PairLandscape<Morse> Line = PairLandscape.Line(Well, Length.FromAngstroms(1.9), Length.FromAngstroms(4.5));
+    private static readonly PairLandscape<Morse> Radial = PairLandscape.Radial(Well, Length.FromAngstroms(1.9), Length.FromAngstroms(4.5));
+
+    [Benchmark(Baseline = true)]
+    public double ClassicalQuadratureLine300K() => ExactPairDistribution.Compute(Line, Temperature.FromKelvin(300)).VarianceInAngstromsSquared;
+
+    [Benchmark]
+    public double QuantumLine30K() => QuantumPairDistribution.Compute(Line, Mass.FromAtomicMassUnits(30), Temperature.FromKelvin(30)).VarianceInAngstromsSquared;
+
+    [Benchmark]
+    public double QuantumLine300K() => QuantumPairDistribution.Compute(Line, Mass.FromAtomicMassUnits(30), Temperature.FromKelvin(300)).VarianceInAngstromsSquared;
+
+    [Benchmark]
+    public double QuantumRadial300K() => QuantumPairDistribution.Compute(Radial, Mass.FromAtomicMassUnits(30), Temperature.FromKelvin(300)).VarianceInAngstromsSquared;
+}

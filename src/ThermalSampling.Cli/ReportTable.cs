@@ -34,8 +34,8 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
             var columns = new List<ReportColumn>
             {
                 new("T", "K", false, "0.###"), new("mean", u, true), new("shift", u, true), new("shift 1st order", u, false),
-                new("RMS about mean", u, true), new("RMS harmonic", u, false), new("RMS quantum harm.", u, false), new("ħω", "meV", false, "G3"),
-                new("skewness", "", false, "F2"),
+                new("RMS about mean", u, true), new("RMS harmonic", u, false), new("RMS quantum harm.", u, false), new("RMS quantum exact", u, false),
+                new("ħω", "meV", false, "G3"), new("skewness", "", false, "F2"),
                 new("exact mean", u, false, "G6"), new("z(mean)", "", false, "F2"), new("P(near wall)", "", false, "G2"), new("ESS", "", false, "F0"), new("R-hat", "", false, "F3"),
             };
             var rows = results.Pairs.Select(r =>
@@ -50,6 +50,7 @@ internal sealed record ReportTable(string Title, IReadOnlyList<ReportColumn> Col
                     new ReportCell(r.Rms.Value / l, r.Rms.StandardError / l),
                     new ReportCell((r.Harmonic?.ClassicalRmsInAngstroms ?? double.NaN) / l),
                     new ReportCell((r.Harmonic?.QuantumRmsInAngstroms ?? double.NaN) / l),
+                    new ReportCell((r.QuantumExact?.RmsInAngstroms ?? double.NaN) / l), // only where classical statistics fail
                     new ReportCell(r.Harmonic?.Frequency.InMilliElectronVolts ?? double.NaN),
                     new ReportCell(r.Skewness),
                     new ReportCell(r.Exact.Mean / l),
