@@ -66,7 +66,6 @@ internal static class CommandLine
         {
             Description = description,
             HelpName = "K",
-            Required = true,
             CustomParser = r => double.TryParse(r.Tokens.Single().Value, NumberStyles.Float, CultureInfo.InvariantCulture, out double k) && double.IsFinite(k) && k > 0 && k <= 1e7
                 ? k : Fail<double?>(r, $"{name} needs a temperature in K, greater than 0 and at most 1e7."),
         };
@@ -76,18 +75,30 @@ internal static class CommandLine
         {
             Description = $"How many temperatures, evenly spaced from --from to --to (1 to {ScenarioReader.MaximumTemperatures}).",
             HelpName = "N",
-            Required = true,
             CustomParser = r => int.TryParse(r.Tokens.Single().Value, NumberStyles.None, CultureInfo.InvariantCulture, out int n) && n >= 1 && n <= ScenarioReader.MaximumTemperatures
                 ? n : Fail<int?>(r, $"--count needs a whole number from 1 to {ScenarioReader.MaximumTemperatures}."),
+        };
+
+        var shard = new Option<(int Index, int Count)?>("--shard")
+        {
+            Description = "Run one part of the sweep, I of N (for example 3/40: chains of every temperature split evenly over N parts), and write its records to --output FILE for 'merge'.",
+            HelpName = "I/N",
+            CustomParser = r => ParseShard(r.Tokens.Single().Value) is { } s
+                ? s : Fail<(int, int)?>(r, $"--shard '{r.Tokens.Single().Value}' is not a part of a sweep; give I/N with 1 ≤ I ≤ N ≤ 100000, such as 3/40."),
+        };
+        var parts = new Argument<string[]>("PART") { Description = "The files written by 'sweep --shard I/N --output FILE', every part once.", Arity = ArgumentArity.OneOrMore };
+        var merge = new Command("merge", "Combine the parts of a sharded sweep into the document the one-process sweep writes (the same bits); refuses parts of other scenarios or library versions, duplicates and missing parts, naming them.")
+        {
+            parts, format, output,
         };
 
         var run = new Command("run", "Sample the scenario at every temperature and write the vibration report.")
         {
             scenario, format, output, samples, plot, seed, threads, quiet, checkpoint, every,
         };
-        var sweep = new Command("sweep", "Like run, with the file's temperatures replaced by --count values evenly spaced from --from to --to.")
+        var sweep = new Command("sweep", "Like run; with --from, --to and --count the file's temperatures are replaced by --count values evenly spaced from --from to --to. With --shard I/N, run one part of it for 'merge'.")
         {
-            scenario, from, to, count, format, output, samples, plot, seed, threads, quiet, checkpoint, every,
+            scenario, from, to, count, shard, format, output, samples, plot, seed, threads, quiet, checkpoint, every,
         };
         var resume = new Command("resume", "Finish a run or sweep from its checkpoint with exactly the report the uninterrupted run would have written; keeps checkpointing to the same file.")
         {
@@ -130,6 +141,26 @@ internal static class CommandLine
         });
         sweep.Validators.Add(c =>
         {
+            int given = (c.GetResult(from) is null ? 0 : 1) + (c.GetResult(to) is null ? 0 : 1) + (c.GetResult(count) is null ? 0 : 1);
+            bool oldSteps = c.Children.Any(ch => ch is OptionResult o && o.Option.Name == "--steps"); // its own refusal says what to do
+            if (given is 1 or 2 && !oldSteps)
+            {
+                c.AddError("sweep needs --from, --to and --count together (or none of them, for the scenario's own temperatures).");
+            }
+            if (c.GetResult(shard) is not null)
+            {
+                if (c.GetResult(output) is null)
+                {
+                    c.AddError("--shard needs --output FILE: a part is written to a file for 'merge'.");
+                }
+                foreach (var (option, name) in new (Option, string)[] { (checkpoint, "--checkpoint"), (samples, "--samples"), (plot, "--plot"), (format, "--format") })
+                {
+                    if (c.GetResult(option) is not null)
+                    {
+                        c.AddError($"{name} does not go with --shard: a part holds records, not a report; give it to 'merge' instead.");
+                    }
+                }
+            }
             if (c.GetValue(from) is double f && c.GetValue(to) is double t && c.GetValue(count) is int n && n > 1 && !(f < t))
             {
                 c.AddError("sweep needs --from below --to.");
@@ -148,18 +179,21 @@ internal static class CommandLine
             command == "demo" ? r.GetValue(figures) : null,
             command is "run" or "sweep" && r.GetValue(checkpoint) is string c ? Path.GetFullPath(c) : null,
             command is "run" or "sweep" or "resume" ? r.GetValue(every) : null,
-            r.GetValue(format) is not null);
+            r.GetValue(format) is not null,
+            command == "sweep" ? r.GetValue(shard) : null,
+            command == "merge" ? r.GetValue(parts) : null);
         run.SetAction(r => accept(Options(r, "run", r.GetValue(scenario))));
         sweep.SetAction(r => accept(Options(r, "sweep", r.GetValue(scenario))));
         resume.SetAction(r => accept(Options(r, "resume", r.GetValue(checkpointFile))));
         validate.SetAction(r => accept(Options(r, "validate", r.GetValue(scenario))));
         demo.SetAction(r => accept(Options(r, "demo", null)));
+        merge.SetAction(r => accept(Options(r, "merge", null)));
 
         // A plain command named as the tool is installed (a RootCommand would take the assembly's name), with help; the
         // version printed is the library's (with its source revision) rather than the assembly's.
         var root = new Command("thermal-sampling", "Thermal position distributions of atoms in interatomic potentials: exact, harmonic, first-order and sampled.")
         {
-            demo, run, sweep, resume, validate,
+            demo, run, sweep, merge, resume, validate,
         };
         root.Options.Add(new System.CommandLine.Help.HelpOption());
         var version = new Option<bool>("--version") { Description = "Print the library version and exit." };
@@ -171,10 +205,18 @@ internal static class CommandLine
                 r.InvocationConfiguration.Output.WriteLine(Reports.Provenance.CurrentLibraryVersion);
                 return Program.Success;
             }
-            r.InvocationConfiguration.Error.WriteLine("error: give a command: demo, run, sweep, resume or validate. Run 'thermal-sampling --help' for the commands.");
+            r.InvocationConfiguration.Error.WriteLine("error: give a command: demo, run, sweep, merge, resume or validate. Run 'thermal-sampling --help' for the commands.");
             return Program.InvalidInput;
         });
         return root;
+    }
+
+    /// <summary>"I/N" with 1 ≤ I ≤ N ≤ 100 000, or null.</summary>
+    internal static (int Index, int Count)? ParseShard(string text)
+    {
+        var halves = text.Split('/');
+        return halves.Length == 2 && int.TryParse(halves[0], NumberStyles.None, CultureInfo.InvariantCulture, out int i)
+            && int.TryParse(halves[1], NumberStyles.None, CultureInfo.InvariantCulture, out int n) && i >= 1 && i <= n && n <= 100_000 ? (i, n) : null;
     }
 
     /// <summary>A hidden option on <paramref name="command"/> that is always an error naming where it belongs.</summary>

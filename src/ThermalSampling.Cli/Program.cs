@@ -23,7 +23,7 @@ public static class Program
 
     internal sealed record Options(string Command, string? File, string Format, string? Output, string? Samples, ulong? Seed, int? Threads, bool Quiet,
         double? From, double? To, int? Count, string? Plot = null, string? Figures = null, string? Checkpoint = null, TimeSpan? CheckpointEvery = null,
-        bool FormatGiven = false);
+        bool FormatGiven = false, (int Index, int Count)? Shard = null, string[]? Parts = null);
 
     /// <summary>How often a checkpoint is written when --checkpoint-every is not given.</summary>
     private static readonly TimeSpan DefaultCheckpointInterval = TimeSpan.FromSeconds(60);
@@ -102,6 +102,12 @@ public static class Program
             {
                 return Resume(o, stdout, stderr, interactiveProgress, cancellationToken);
             }
+            if (o.Command == "merge")
+            {
+                file = string.Join(", ", o.Parts!);
+                var merged = ShardFile.Merge(o.Parts!);
+                return Write(merged, o, stdout);
+            }
             var loaded = Load(o.File!, stderr);
             if (loaded is null)
             {
@@ -120,6 +126,17 @@ public static class Program
                 return Success;
             }
             loaded = WithSweepTemperatures(loaded, o);
+            if (o.Shard is { } part)
+            {
+                var configured = Configure(loaded, o);
+                var records = ScenarioRunner.RunShard(configured, part.Index, part.Count, o.Quiet ? null : new LineProgress(stderr, configured.Sampling.Chains, configured.TemperaturesInKelvin.Length), cancellationToken);
+                ShardFile.Write(o.Output!, File.ReadAllBytes(o.File!), configured, part.Index, part.Count, records);
+                if (!o.Quiet)
+                {
+                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"part {part.Index} of {part.Count}: {records.Sum(r => r.Chains.Length)} chain(s) over {records.Count} temperature(s) written to {o.Output}"));
+                }
+                return Success;
+            }
             CheckpointPlan? plan = null;
             if (o.Checkpoint is not null)
             {
@@ -155,9 +172,9 @@ public static class Program
 
     private static Scenario WithSweepTemperatures(Scenario scenario, Options o)
     {
-        if (o.Command != "sweep")
+        if (o.Command != "sweep" || o.Count is null)
         {
-            return scenario;
+            return scenario; // a sweep without --from, --to and --count runs the scenario's own temperatures
         }
         var temperatures = Enumerable.Range(0, o.Count!.Value)
             .Select(i => o.Count == 1 ? o.From!.Value : o.From!.Value + (o.To!.Value - o.From.Value) * i / (o.Count.Value - 1))
@@ -291,6 +308,17 @@ public static class Program
             stderr.WriteLine(string.Create(CultureInfo.InvariantCulture,
                 $"cancelled: {results.Finished} of {scenario.TemperaturesInKelvin.Length} temperature(s) finished; the report below holds only those."));
         }
+        Write(results, o, stdout);
+        if (o.Samples is not null)
+        {
+            SamplesWriter.Write(results, o.Samples);
+        }
+        return results.Cancelled ? Failure : Success;
+    }
+
+    /// <summary>Writes the document in the chosen format to --output (through a temporary file) or standard output.</summary>
+    private static int Write(ScenarioResults results, Options o, Stream stdout)
+    {
         if (o.Output is null)
         {
             Renderers.Write(results, o.Format, stdout, Renderers.OutputWidth());
@@ -305,11 +333,7 @@ public static class Program
             }
             File.Move(temp, o.Output, overwrite: true);
         }
-        if (o.Samples is not null)
-        {
-            SamplesWriter.Write(results, o.Samples);
-        }
-        return results.Cancelled ? Failure : Success;
+        return Success;
     }
 
     /// <summary>

@@ -25,6 +25,9 @@ internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibr
     /// <summary>For a surface: the site built and the frame its coordinates are in (every document states them).</summary>
     internal (string Site, string Frame)? Surface { get; init; }
 
+    /// <summary>For <c>sweep --shard</c>: the part's records, one per temperature it has chains of.</summary>
+    internal IReadOnlyList<TemperatureRecord>? Records { get; init; }
+
     internal int Finished => Pairs.Count + Sites.Count;
 }
 
@@ -39,21 +42,43 @@ internal static class ScenarioRunner
     /// <summary>Builds everything a run builds and returns the warnings it would give before sampling (for <c>validate</c>); throws what a run would throw.</summary>
     internal static ScenarioResults Check(Scenario scenario) => Run(scenario, null, CancellationToken.None, checkOnly: true);
 
-    internal static ScenarioResults Run(Scenario scenario, IProgress<SamplingProgress>? progress, CancellationToken ct, string? plotPath = null,
-        CheckpointPlan? checkpoint = null, bool checkOnly = false)
+    /// <summary>
+    /// Part <paramref name="index"/> of <paramref name="count"/> of the scenario's sweep: the (temperature, chain) pairs,
+    /// temperature-major, split into <paramref name="count"/> contiguous blocks; this part samples its block's chains of
+    /// each temperature it touches and returns their records.
+    /// </summary>
+    internal static IReadOnlyList<TemperatureRecord> RunShard(Scenario scenario, int index, int count, IProgress<SamplingProgress>? progress, CancellationToken ct)
+        => Run(scenario, progress, ct, shard: (index, count)).Records!;
+
+    /// <summary>The reports from merged records, one per temperature in the scenario's order.</summary>
+    internal static ScenarioResults Summarise(Scenario scenario, IReadOnlyList<TemperatureRecord> records)
+        => Run(scenario, null, CancellationToken.None, merged: records);
+
+    /// <summary>The chain range of temperature <paramref name="t"/> in part <paramref name="index"/> of <paramref name="count"/>, or null when it has none.</summary>
+    internal static ChainRange? ShardChains(int t, int temperatures, int chains, int index, int count)
     {
+        long units = (long)temperatures * chains;
+        long lo = units * (index - 1) / count, hi = units * index / count;
+        long first = Math.Max(lo, (long)t * chains) - (long)t * chains, last = Math.Min(hi, (long)(t + 1) * chains) - (long)t * chains;
+        return last > first ? new ChainRange((int)first, (int)(last - first)) : null;
+    }
+
+    internal static ScenarioResults Run(Scenario scenario, IProgress<SamplingProgress>? progress, CancellationToken ct, string? plotPath = null,
+        CheckpointPlan? checkpoint = null, bool checkOnly = false, (int Index, int Count)? shard = null, IReadOnlyList<TemperatureRecord>? merged = null)
+    {
+        var job = new Job(progress, ct, plotPath, checkpoint, checkOnly, shard, merged);
         var p = scenario.Potential;
         return p.Form switch
         {
             "lennard-jones" => Dispatch(scenario, Guard(() => p.Parameters.ContainsKey("sigma")
                 ? LennardJones.FromSigmaEpsilon(Length.FromAngstroms(p.Parameters["sigma"]), Energy.FromElectronVolts(p.Parameters["epsilon"]))
-                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
+                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])), "$.potential"), job),
             "morse" => Dispatch(scenario, Guard(() => new Morse(Energy.FromElectronVolts(p.Parameters["wellDepth"]), p.Parameters["width"],
-                Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
+                Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), job),
             "buckingham" => Dispatch(scenario, Guard(() => new Buckingham(Energy.FromElectronVolts(p.Parameters["A"]), Length.FromAngstroms(p.Parameters["rho"]),
-                p.Parameters["C"]), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
-            "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
-            "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), progress, ct, plotPath, checkpoint, checkOnly),
+                p.Parameters["C"]), "$.potential"), job),
+            "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), job),
+            "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), job),
             _ => throw new ScenarioException(new[] { $"$.potential.form: '{p.Form}' is not a known form." }),
         };
     }
@@ -93,10 +118,29 @@ internal static class ScenarioRunner
         _ => LatticeKind.HexagonalClosePacked,
     };
 
-    private static ScenarioResults Dispatch<TPotential>(Scenario scenario, TPotential potential, IProgress<SamplingProgress>? progress, CancellationToken ct,
-        string? plotPath, CheckpointPlan? checkpoint, bool checkOnly)
+    /// <summary>What a call of <see cref="Run"/> asks for: a run (with progress, figures, checkpoints), a check, one part of a sweep, or reports from merged records.</summary>
+    private sealed record Job(IProgress<SamplingProgress>? Progress, CancellationToken Ct, string? PlotPath, CheckpointPlan? Checkpoint, bool CheckOnly,
+        (int Index, int Count)? Shard, IReadOnlyList<TemperatureRecord>? Merged);
+
+    /// <summary>The records of one part: each temperature's chains that fall in it, sampled by <paramref name="sample"/>.</summary>
+    private static List<TemperatureRecord> Part(IReadOnlyList<Temperature> temperatures, int chains, (int Index, int Count) shard,
+        Func<Temperature, ChainRange, TemperatureRecord> sample)
+    {
+        var records = new List<TemperatureRecord>();
+        for (int t = 0; t < temperatures.Count; t++)
+        {
+            if (ShardChains(t, temperatures.Count, chains, shard.Index, shard.Count) is { } range)
+            {
+                records.Add(sample(temperatures[t], range));
+            }
+        }
+        return records;
+    }
+
+    private static ScenarioResults Dispatch<TPotential>(Scenario scenario, TPotential potential, Job job)
         where TPotential : struct, IPairPotential
     {
+        var (progress, ct, plotPath, checkpoint, checkOnly, shard, merged) = job;
         var l = scenario.Landscape;
         var mass = Mass.FromAtomicMassUnits(scenario.MassInAtomicMassUnits);
         var temperatures = scenario.TemperaturesInKelvin.Select(Temperature.FromKelvin).ToList();
@@ -109,6 +153,14 @@ internal static class ScenarioRunner
                 if (checkOnly)
                 {
                     return new ScenarioResults(scenario, [], [], Checks: temperatures.SelectMany(t => PairSampler.Check(landscape, mass, t).Select(w => (t.InKelvin, w))).ToList());
+                }
+                if (shard is { } part)
+                {
+                    return new ScenarioResults(scenario, [], []) { Records = Part(temperatures, scenario.Sampling.Chains, part, (t, range) => PairSampler.Sample(landscape, t, scenario.Sampling, range, progress, ct)) };
+                }
+                if (merged is not null)
+                {
+                    return new ScenarioResults(scenario, [.. merged.Select(r => PairSampler.Summarise(landscape, mass, r))], []);
                 }
                 var reports = new List<PairVibrationReport>();
                 bool cancelled = checkpoint is null
@@ -155,6 +207,14 @@ internal static class ScenarioRunner
             if (checkOnly)
             {
                 return new ScenarioResults(scenario, [], [], Checks: temperatures.SelectMany(t => SiteSampler.Check(siteLandscape, mass, t).Select(w => (t.InKelvin, w))).ToList()) { Surface = surface };
+            }
+            if (shard is { } sitePart)
+            {
+                return new ScenarioResults(scenario, [], []) { Records = Part(temperatures, scenario.Sampling.Chains, sitePart, (t, range) => SiteSampler.Sample(siteLandscape, t, scenario.Sampling, range, progress, ct)), Surface = surface };
+            }
+            if (merged is not null)
+            {
+                return new ScenarioResults(scenario, [], [.. merged.Select(r => SiteSampler.Summarise(siteLandscape, mass, r))]) { Surface = surface };
             }
             var siteReports = new List<SiteVibrationReport>();
             bool siteCancelled = checkpoint is null

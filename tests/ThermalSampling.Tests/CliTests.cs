@@ -257,6 +257,65 @@ public class CliTests
         Assert.NotEqual("", pairRow[8]); // the exact bin average beside
     }
 
+    /// <summary>
+    /// A sweep split into parts (sweep --shard I/N --output FILE) and merged gives exactly the one-process sweep document,
+    /// whatever the order the parts are given in, for a line pair and a site; a sweep without --from/--to/--count runs the
+    /// scenario's own temperatures (the run document); merge refuses a part given twice, missing parts (listing them) and
+    /// a part of another sweep, naming the files.
+    /// </summary>
+    [Theory]
+    [InlineData("line", 3)]
+    [InlineData("site", 4)]
+    public void Sharded_sweeps_merge_to_the_one_process_document(string which, int shards)
+    {
+        string scenario = which == "line" ? LineScenario : SiteScenario.Replace("\"temperatures\": [300]", "\"temperatures\": [200, 300]", StringComparison.Ordinal);
+        string file = Path.Combine(Path.GetTempPath(), $"ts-{Guid.NewGuid():N}.json");
+        File.WriteAllText(file, scenario);
+        var partFiles = Enumerable.Range(1, shards).Select(i => Path.Combine(Path.GetTempPath(), $"ts-part-{Guid.NewGuid():N}-{i}.json")).ToArray();
+        try
+        {
+            var (code, whole, stderr) = RunArgs("sweep", file, "--format", "json", "--quiet");
+            Assert.True(code == 0, stderr);
+            Assert.Equal(RunArgs("run", file, "--format", "json", "--quiet").Stdout, whole);
+            for (int i = 0; i < shards; i++)
+            {
+                (code, _, stderr) = RunArgs("sweep", file, "--shard", $"{i + 1}/{shards}", "--output", partFiles[i], "--quiet");
+                Assert.True(code == 0, stderr);
+            }
+            var (mergeCode, merged, mergeErr) = RunArgs(["merge", .. partFiles.Reverse()]);
+            Assert.True(mergeCode == 0, mergeErr);
+            Assert.Equal(whole, merged);
+
+            (code, _, stderr) = RunArgs("merge", partFiles[0], partFiles[0], partFiles[1]);
+            Assert.Equal(2, code);
+            Assert.Contains($"part 1 of {shards} is given twice", stderr);
+            (code, _, stderr) = RunArgs("merge", partFiles[0]);
+            Assert.Contains($"{shards - 1} of {shards} parts are missing: 2", stderr);
+            string other = Path.Combine(Path.GetTempPath(), $"ts-part-{Guid.NewGuid():N}.json");
+            RunArgs("sweep", file, "--shard", $"2/{shards}", "--seed", "99", "--output", other, "--quiet");
+            (code, _, stderr) = RunArgs("merge", partFiles[0], other);
+            Assert.Contains("are parts of different sweeps: seed 99 against", stderr);
+            File.Delete(other);
+        }
+        finally
+        {
+            File.Delete(file);
+            foreach (var f in partFiles)
+            {
+                File.Delete(f);
+            }
+        }
+    }
+
+    [Fact]
+    public void Shard_options_are_checked()
+    {
+        Assert.Contains("--shard needs --output FILE", RunArgs("sweep", "x.json", "--shard", "1/2").Stderr);
+        Assert.Contains("--shard '0/2' is not a part of a sweep", RunArgs("sweep", "x.json", "--shard", "0/2", "--output", "p.json").Stderr);
+        Assert.Contains("--from, --to and --count together", RunArgs("sweep", "x.json", "--from", "10").Stderr);
+        Assert.Contains("--plot does not go with --shard", RunArgs("sweep", "x.json", "--shard", "1/2", "--output", "p.json", "--plot", "f.png").Stderr);
+    }
+
     [Fact]
     public void Site_run_writes_site_keys_in_the_scenario_units()
     {
