@@ -164,4 +164,26 @@ public class QuantumGridTests
         Assert.Null(hot.QuantumExact);
         Assert.DoesNotContain(hot.Warnings, w => w.Code == WarningCodes.QuantumEffects);
     }
+
+    /// <summary>
+    /// Light against heavy (invented Lennard-Jones well, 20 meV at 3.5 Å, on [3.0, 5.0] Å, 20 K): with 4 u the report warns
+    /// that classical statistics underestimate the spread by more than 40 % (the exact quantum variance is 2.8 times the
+    /// classical one); with 200 u the correction the warning states is a few per cent (below 10 %).
+    /// </summary>
+    [Fact]
+    public void Light_and_heavy_atoms_get_different_verdicts()
+    {
+        var lj = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.020));
+        var line = PairLandscape.Line(lj, Length.FromAngstroms(3.0), Length.FromAngstroms(5.0));
+        var t = Temperature.FromKelvin(20);
+        var settings = new Sampling.SamplingSettings { Seed = 4, Chains = 2, SamplesPerChain = 20_000, BurnIn = 2000 };
+        var light = PairSampler.Run(line, Mass.FromAtomicMassUnits(4), t, settings);
+        var heavy = PairSampler.Run(line, Mass.FromAtomicMassUnits(200), t, settings);
+        Assert.Contains(light.Warnings, w => w.Code == WarningCodes.QuantumEffects);
+        Assert.True(light.QuantumExact!.VarianceInAngstromsSquared > 2 * light.Exact.Variance);
+        Assert.Matches("underestimate the spread by ([4-9][0-9]|[1-9][0-9][0-9]) %", light.Warnings.First(w => w.Code == WarningCodes.QuantumEffects).Message);
+        double heavyRatio = (heavy.QuantumExact ?? QuantumPairDistribution.Compute(line, Mass.FromAtomicMassUnits(200), t)).VarianceInAngstromsSquared / heavy.Exact.Variance;
+        Assert.InRange(heavyRatio, 0.9, 1.1);
+        Assert.All(heavy.Warnings.Where(w => w.Code == WarningCodes.QuantumEffects), w => Assert.Matches("(under|over)estimate the spread by [0-9] %", w.Message));
+    }
 }
