@@ -516,6 +516,18 @@ internal static class ReportJsonWriter
             w.WriteEndObject();
             w.WriteEndObject();
         }
+        if (r.QuantumExact is { } q)
+        {
+            // Where classical statistics fail: the exact quantum tensor from the oscillator basis (docs/quantum.md).
+            w.WriteStartObject("quantumExact");
+            Vector(w, "mean", q.Mean, l);
+            Matrix(w, "covariance", q.Covariance, l2);
+            Number(w, "meanSquareDisplacement", q.MeanSquareDisplacementInAngstromsSquared / l2);
+            w.WriteNumber("basisSize", q.BasisSize);
+            w.WriteNumber("maxQuanta", q.MaxQuanta);
+            w.WriteBoolean("converged", q.Converged);
+            w.WriteEndObject();
+        }
         var basin = r.Basin;
         w.WriteStartObject("basin");
         w.WriteNumber("shareOutside", r.ShareOutsideBasin);

@@ -287,4 +287,24 @@ public class QuantumSiteTests
         Assert.Null(QuantumSite.Compute(cage, mass, Temperature.FromKelvin(80), out var why));
         Assert.Contains("the temperature is too high for this reference", why);
     }
+
+    /// <summary>
+    /// A site report that warns about quantum effects gives the number: the invented cage with 20 u at 5 K carries the
+    /// basis result and its warning states the quantum MSD; at 60 K (still warned about, beyond the basis) the warning says
+    /// why there is no exact reference.
+    /// </summary>
+    [Fact]
+    public void Site_reports_that_warn_about_quantum_effects_give_the_number_or_the_reason()
+    {
+        var settings = new Sampling.SamplingSettings { Seed = 6, Chains = 2, SamplesPerChain = 20_000, BurnIn = 2000 };
+        var mass = Mass.FromAtomicMassUnits(20);
+        var cold = SiteSampler.Run(InventedLandscapes.Cage, mass, Temperature.FromKelvin(5), settings);
+        Assert.NotNull(cold.QuantumExact);
+        var warning = Assert.Single(cold.Warnings, w => w.Code == WarningCodes.QuantumEffects);
+        Assert.Contains("Classical statistics underestimate the mean-square displacement by", warning.Message);
+        Assert.Contains(cold.QuantumExact!.MeanSquareDisplacementInAngstromsSquared.ToString("G4", System.Globalization.CultureInfo.InvariantCulture) + " Å²", warning.Message);
+        var warm = SiteSampler.Run(InventedLandscapes.Cage, mass, Temperature.FromKelvin(60), settings);
+        Assert.Null(warm.QuantumExact);
+        Assert.Contains(warm.Warnings, w => w.Code == WarningCodes.QuantumEffects && w.Message.Contains("No exact quantum reference here", StringComparison.Ordinal));
+    }
 }

@@ -107,7 +107,7 @@ public sealed class QuantumSite
         return null;
     }
 
-    private const int MaxQuantaLimit = 20;
+    private const int MaxQuantaLimit = 14; // 680 functions: a diagonalisation of about a second; beyond, the cost grows as K⁹
 
     private static double Change(SymmetricTensor a, SymmetricTensor b)
     {

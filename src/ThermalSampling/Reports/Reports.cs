@@ -354,6 +354,13 @@ public sealed record SiteVibrationReport
     /// <summary>The harmonic estimate at the minimum.</summary>
     public required SiteHarmonicEstimate Harmonic { get; init; }
 
+    /// <summary>
+    /// The exact quantum displacement tensor (<see cref="QuantumSite"/>), computed where classical statistics fail (a
+    /// quantum-effects or de Broglie warning, whose message then gives the quantum MSD, or why the temperature is too high
+    /// for the reference); null elsewhere and where the reference refuses.
+    /// </summary>
+    public required QuantumSite? QuantumExact { get; init; }
+
     /// <summary>T(q) at every scattering vector of the settings (three components each, in the landscape's frame); empty when none was asked for.</summary>
     public required ImmutableArray<TemperatureFactorPoint> TemperatureFactors { get; init; }
 

@@ -46,6 +46,32 @@ internal static class SiteSummary
         return ValidityWarnings(mass, temperature, harmonic, basin, Math.Sqrt(harmonic.ClassicalMeanSquareDisplacement / 3), null).ToImmutableArray();
     }
 
+    /// <summary>
+    /// Where classical statistics fail (a quantum-effects or de Broglie warning), the exact quantum displacement tensor
+    /// from the oscillator basis, and the quantum-effects warning reworded with the right number (or with why the
+    /// temperature is too high for that reference); elsewhere the warnings as they are.
+    /// </summary>
+    internal static (ImmutableArray<Warning> Warnings, QuantumSite? Quantum) Verdict<TPotential>(SiteLandscape<TPotential> landscape, Mass mass,
+        Temperature temperature, ImmutableArray<Warning> warnings, double classicalMsd)
+        where TPotential : struct, IPairPotential
+    {
+        if (!warnings.Any(w => w.Code is WarningCodes.QuantumEffects or WarningCodes.DeBroglieWavelength))
+        {
+            return (warnings, null);
+        }
+        var quantum = QuantumSite.Compute(landscape, mass, temperature, out string? why);
+        string verdict = quantum is null
+            ? $"No exact quantum reference here: {why}."
+            : string.Create(CultureInfo.InvariantCulture,
+                $"Classical statistics {(quantum.MeanSquareDisplacementInAngstromsSquared >= classicalMsd ? "underestimate" : "overestimate")} the mean-square displacement by {Math.Abs(quantum.MeanSquareDisplacementInAngstromsSquared / classicalMsd - 1):P0} here: the exact quantum MSD (oscillator basis, {quantum.BasisSize} functions) is {quantum.MeanSquareDisplacementInAngstromsSquared:G4} Å², against {classicalMsd:G4} Å² sampled classically; the report's QuantumExact has the quantum tensor{(quantum.Converged ? "" : ", whose basis did not converge to the requested precision")}.");
+        var reworded = warnings.Select(w => w.Code == WarningCodes.QuantumEffects ? new Warning(w.Code, w.Message.Split(" Use the quantum harmonic estimate")[0] + " " + verdict) : w).ToList();
+        if (!reworded.Any(w => w.Code == WarningCodes.QuantumEffects))
+        {
+            reworded.Insert(0, new Warning(WarningCodes.QuantumEffects, verdict));
+        }
+        return ([.. reworded], quantum);
+    }
+
     /// <summary>The report of one temperature from its run record.</summary>
     internal static SiteVibrationReport Summarise<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
         SiteHarmonicEstimate harmonic, TemperatureRecord run)
@@ -98,7 +124,8 @@ internal static class SiteSummary
         {
             warnings.Add(SiteBasins.LeftSiteWarning(basin, outside));
         }
-        warnings.AddRange(ValidityWarnings(mass, temperature, harmonic, basin, Math.Sqrt(Math.Max(msd, 1e-300) / 3), nearWalls));
+        var (validity, quantum) = Verdict(landscape, mass, temperature, [.. ValidityWarnings(mass, temperature, harmonic, basin, Math.Sqrt(Math.Max(msd, 1e-300) / 3), nearWalls)], msd);
+        warnings.AddRange(validity);
         if (staysAtSite && ReportParts.FirstOrderCheck("mean shift (length of the vector)", harmonic.FirstOrderMeanShift.Norm, (mean - min).Norm, seMean.Norm) is { } firstOrderWarning)
         {
             warnings.Add(firstOrderWarning);
@@ -141,6 +168,7 @@ internal static class SiteSummary
             PotentialEnergyVarianceInElectronVoltsSquared = energyVariance,
             DebyeWallerB = staysAtSite ? new Estimate(b, b * msdSe / msd) : null,
             Harmonic = harmonic,
+            QuantumExact = quantum,
             TemperatureFactors = ReportParts.TemperatureFactors(results.Select(r => r.Cumulants).ToList(),
                 q => harmonic.ClassicalCovariance.Quadratic(new Position(q[0], q[1], q[2])), _ => null),
             Basin = basin,
