@@ -417,6 +417,33 @@ internal static class ScenarioReader
         foreach (var q in array.EnumerateArray())
         {
             string at = string.Create(CultureInfo.InvariantCulture, $"{path}[{i++}]");
+            if (q.ValueKind == JsonValueKind.Object)
+            {
+                // {"sinThetaOverLambda": s} (a pair) or {"sinThetaOverLambda": s, "direction": [x, y, z]} (a site): |q| = 4π s.
+                c.CheckKeys(q, at, components == 1 ? ["sinThetaOverLambda"] : ["sinThetaOverLambda", "direction"]);
+                double? stl = c.Number(q, "sinThetaOverLambda", at, true, ScenarioSchema.At("$defs/sinThetaOverLambda"));
+                if (components == 1)
+                {
+                    values.Add(stl is double one ? 4 * Math.PI * one / angstromsPerUnit : double.NaN);
+                    continue;
+                }
+                var direction = c.Numbers(q, "direction", at, true, item);
+                if (stl is double st && direction is { Length: 3 } d)
+                {
+                    double norm = Math.Sqrt(d[0] * d[0] + d[1] * d[1] + d[2] * d[2]);
+                    if (!(norm > 0))
+                    {
+                        c.Add($"{at}.direction", "must not be the zero vector.");
+                        continue;
+                    }
+                    values.AddRange(d.Select(x => 4 * Math.PI * st * x / norm / angstromsPerUnit));
+                }
+                else
+                {
+                    values.AddRange([double.NaN, double.NaN, double.NaN]);
+                }
+                continue;
+            }
             if (components == 1)
             {
                 if (q.ValueKind == JsonValueKind.Array)

@@ -210,6 +210,16 @@ public class CliTests
             // The harmonic factor exp(−½ qᵀUq) (U in nm², q in 1/nm: dimensionless).
             Assert.InRange(p.GetProperty("harmonic").GetDouble(), 0.5, 1);
         }
+        // sin θ/λ along a direction: |q| = 4π sin θ/λ (here 0.5/nm along [0, 0, 2], so q = [0, 0, 2π]).
+        string bySinTheta = SiteScenario.Replace("\"sampling\"", "\"output\": { \"scatteringVectors\": [{ \"sinThetaOverLambda\": 0.5, \"direction\": [0, 0, 2] }] }, \"sampling\"", StringComparison.Ordinal);
+        (code, stdout, stderr) = Run(bySinTheta);
+        Assert.True(code == 0, stderr);
+        using (var doc = JsonDocument.Parse(stdout))
+        {
+            var q = doc.RootElement.GetProperty("results")[0].GetProperty("temperatureFactor")[0].GetProperty("q").EnumerateArray().Select(e => e.GetDouble()).ToArray();
+            Assert.Equal(0, q[0]);
+            Assert.Equal(2 * Math.PI, q[2], 12);
+        }
         string bad = SiteScenario.Replace("\"sampling\"", "\"output\": { \"scatteringVectors\": [3, [1, 2, 300000]] }, \"sampling\"", StringComparison.Ordinal);
         (code, _, stderr) = Run(bad);
         Assert.Equal(2, code);
