@@ -563,7 +563,11 @@ internal static class ScenarioReader
             return null;
         }
         const string path = "$.landscape";
-        string? kind = c.String(p, "kind", path, true, "line", "radial", "sites");
+        string? kind = c.String(p, "kind", path, true, "line", "radial", "sites", "structure");
+        if (kind == "structure")
+        {
+            return ReadStructure(c, p, path, l);
+        }
         if (kind is "line" or "radial")
         {
             c.CheckKeys(p, path, "kind", "window");
@@ -669,6 +673,70 @@ internal static class ScenarioReader
                 centre = new Position(cc[0] * l, cc[1] * l, cc[2] * l);
             }
         }
+        var confinement = ReadConfinement(c, p, path, l);
+        return new LandscapeSpec(kind, 0, 0, sites, lattice, nn, shells, centre, confinement, facet, adsorption, layers);
+    }
+
+    /// <summary>
+    /// A site among the atoms of a structure given inline as XYZ text (Å, as XYZ files are; plain, or extended with a
+    /// Lattice cell): the moving atom by its 1-based number, its neighbours within the cutoff (periodic images included,
+    /// optionally only some species), confined about the atom's own position. One pair potential serves every neighbour,
+    /// so neighbours of several species are refused unless <c>species</c> picks them.
+    /// </summary>
+    private static LandscapeSpec? ReadStructure(Context c, JsonElement p, string path, double l)
+    {
+        c.CheckKeys(p, path, "kind", "xyz", "atom", "cutoff", "species", "confinement");
+        string? xyz = c.String(p, "xyz", path, true);
+        long? atom = c.Integer(p, "atom", path, true, ScenarioSchema.At(Landscape + "[xyz]/properties/atom"));
+        double? cutoff = c.Number(p, "cutoff", path, true, ScenarioSchema.At(Landscape + "[xyz]/properties/cutoff"));
+        string[]? species = null;
+        if (p.TryGetProperty("species", out var sp))
+        {
+            species = sp.ValueKind == JsonValueKind.Array && sp.EnumerateArray().All(e => e.ValueKind == JsonValueKind.String) && sp.GetArrayLength() > 0
+                ? [.. sp.EnumerateArray().Select(e => e.GetString()!)] : null;
+            if (species is null)
+            {
+                c.Add($"{path}.species", "must be a non-empty array of species labels, such as [\"Ar\"].");
+            }
+        }
+        var confinement = ReadConfinement(c, p, path, l);
+        if (xyz is null || atom is null || cutoff is null)
+        {
+            return null;
+        }
+        Structure structure;
+        try
+        {
+            structure = StructureFiles.ReadXyz(new System.IO.StringReader(xyz), "$.landscape.xyz");
+        }
+        catch (StructureFormatException ex)
+        {
+            c.Add($"{path}.xyz", ex.Message);
+            return null;
+        }
+        if (atom > structure.Atoms.Length)
+        {
+            c.Add($"{path}.atom", string.Create(CultureInfo.InvariantCulture, $"{atom} is beyond the structure's {structure.Atoms.Length} atoms (numbered from 1)."));
+            return null;
+        }
+        var neighbours = structure.NeighboursOf((int)atom.Value - 1, Units.Length.FromAngstroms(cutoff.Value * l))
+            .Where(n => species is null || species.Contains(n.Species)).ToList();
+        var kinds = neighbours.Select(n => n.Species).Distinct().ToList();
+        if (neighbours.Count == 0)
+        {
+            c.Add($"{path}.cutoff", string.Create(CultureInfo.InvariantCulture, $"no{(species is null ? "" : " chosen")} atom lies within {cutoff:R} of atom {atom}."));
+            return null;
+        }
+        if (kinds.Count > 1)
+        {
+            c.Add($"{path}.species", $"the neighbours are of {kinds.Count} species ({string.Join(", ", kinds)}), and one pair potential serves every neighbour: choose them with \"species\", such as [\"{kinds[0]}\"].");
+            return null;
+        }
+        return new LandscapeSpec("sites", 0, 0, [.. neighbours.Select(n => n.Position)], null, 0, 0, structure.Atoms[(int)atom.Value - 1].Position, confinement);
+    }
+
+    private static Confinement? ReadConfinement(Context c, JsonElement p, string path, double l)
+    {
         Confinement? confinement = null;
         if (c.Object(p, "confinement", path) is { } conf)
         {
@@ -687,7 +755,7 @@ internal static class ScenarioReader
                 confinement = h is double hh ? new Confinement(ConfinementShape.Box, hh * l) : null;
             }
         }
-        return new LandscapeSpec(kind, 0, 0, sites, lattice, nn, shells, centre, confinement, facet, adsorption, layers);
+        return confinement;
     }
 
     private static SamplingSettings? ReadSampling(Context c, JsonElement root)

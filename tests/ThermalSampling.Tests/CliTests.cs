@@ -326,6 +326,34 @@ public class CliTests
         Assert.Contains("--plot does not go with --shard", RunArgs("sweep", "x.json", "--shard", "1/2", "--output", "p.json", "--plot", "f.png").Stderr);
     }
 
+    /// <summary>
+    /// A site from a structure given as XYZ text: an invented fcc cell (extended XYZ with a Lattice) and atom 1 with a cutoff
+    /// of 3.6 Å is the fcc cage, so the run gives the built-in cage's numbers (same MSD, point group Oh); an atom number
+    /// beyond the file, a cutoff that holds nobody and neighbours of two species are refused by their JSON path.
+    /// </summary>
+    [Fact]
+    public void A_structure_given_as_xyz_builds_its_site()
+    {
+        double a = Math.Sqrt(2) * 3.5;
+        string cell = string.Create(System.Globalization.CultureInfo.InvariantCulture,
+            $"4\\nLattice=\\\"{a} 0 0 0 {a} 0 0 0 {a}\\\"\\nAr 0 0 0\\nAr {a / 2} {a / 2} 0\\nAr {a / 2} 0 {a / 2}\\nAr 0 {a / 2} {a / 2}\\n");
+        string Scenario(string landscape) => $$"""
+            { "mass": 40, "potential": { "form": "lennard-jones", "wellDepth": 0.010, "equilibriumDistance": 3.5 },
+              "landscape": {{landscape}}, "temperatures": [60], "sampling": { "chains": 2, "samplesPerChain": 4000, "burnIn": 1000, "seed": 3 } }
+            """;
+        string confinement = "\"confinement\": { \"shape\": \"sphere\", \"radius\": 1.2 }";
+        var (code, fromFile, stderr) = Run(Scenario($"{{ \"kind\": \"structure\", \"xyz\": \"{cell}\", \"atom\": 1, \"cutoff\": 3.6, {confinement} }}"));
+        Assert.True(code == 0, stderr);
+        var (_, builtIn, _) = Run(Scenario($"{{ \"kind\": \"sites\", \"lattice\": \"fcc\", \"nearestNeighbourDistance\": 3.5, {confinement} }}"));
+        double Msd(string json) => JsonDocument.Parse(json).RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble();
+        Assert.Equal(Msd(builtIn), Msd(fromFile), 12);
+        Assert.Contains("$.landscape.atom: 9 is beyond the structure's 4 atoms", Run(Scenario($"{{ \"kind\": \"structure\", \"xyz\": \"{cell}\", \"atom\": 9, \"cutoff\": 3.6, {confinement} }}")).Stderr);
+        Assert.Contains("$.landscape.cutoff: no atom lies within 1", Run(Scenario($"{{ \"kind\": \"structure\", \"xyz\": \"{cell}\", \"atom\": 1, \"cutoff\": 1, {confinement} }}")).Stderr);
+        string mixed = cell.Replace("\\nAr 0 0 0", "\\nKr 0 0 0", StringComparison.Ordinal);
+        Assert.Contains("$.landscape.species: the neighbours are of 2 species", Run(Scenario($"{{ \"kind\": \"structure\", \"xyz\": \"{mixed}\", \"atom\": 2, \"cutoff\": 3.6, {confinement} }}")).Stderr);
+        Assert.Contains("$.landscape.xyz: $.landscape.xyz, line 3:", Run(Scenario($"{{ \"kind\": \"structure\", \"xyz\": \"1\\ncomment\\nAr 0 0\", \"atom\": 1, \"cutoff\": 3.6, {confinement} }}")).Stderr);
+    }
+
     [Fact]
     public void Site_run_writes_site_keys_in_the_scenario_units()
     {
