@@ -685,10 +685,30 @@ internal static class ScenarioReader
     /// </summary>
     private static LandscapeSpec? ReadStructure(Context c, JsonElement p, string path, double l)
     {
-        c.CheckKeys(p, path, "kind", "xyz", "atom", "cutoff", "species", "confinement");
-        string? xyz = c.String(p, "xyz", path, true);
-        long? atom = c.Integer(p, "atom", path, true, ScenarioSchema.At(Landscape + "[xyz]/properties/atom"));
-        double? cutoff = c.Number(p, "cutoff", path, true, ScenarioSchema.At(Landscape + "[xyz]/properties/cutoff"));
+        c.CheckKeys(p, path, "kind", "xyz", "cif", "atom", "atomLabel", "cutoff", "species", "confinement");
+        bool isCif = p.TryGetProperty("cif", out _);
+        if (isCif == p.TryGetProperty("xyz", out _))
+        {
+            c.Add(path, "give exactly one of xyz (XYZ text) or cif (CIF text).");
+            return null;
+        }
+        string? text = c.String(p, isCif ? "cif" : "xyz", path, true);
+        // The moving atom: its number from 1, or the first atom of a species label (for a CIF, the type symbol).
+        long? atom = null;
+        string? atomLabel = null;
+        if (p.TryGetProperty("atom", out _) == p.TryGetProperty("atomLabel", out _))
+        {
+            c.Add(path, "give exactly one of atom (its number from 1) or atomLabel (a species label).");
+        }
+        else if (p.TryGetProperty("atomLabel", out _))
+        {
+            atomLabel = c.String(p, "atomLabel", path, true);
+        }
+        else
+        {
+            atom = c.Integer(p, "atom", path, true, ScenarioSchema.At(Landscape + "[cutoff]/properties/atom"));
+        }
+        double? cutoff = c.Number(p, "cutoff", path, true, ScenarioSchema.At(Landscape + "[cutoff]/properties/cutoff"));
         string[]? species = null;
         if (p.TryGetProperty("species", out var sp))
         {
@@ -700,26 +720,36 @@ internal static class ScenarioReader
             }
         }
         var confinement = ReadConfinement(c, p, path, l);
-        if (xyz is null || atom is null || cutoff is null)
+        if (text is null || (atom is null && atomLabel is null) || cutoff is null)
         {
             return null;
         }
         Structure structure;
         try
         {
-            structure = StructureFiles.ReadXyz(new System.IO.StringReader(xyz), "$.landscape.xyz");
+            structure = isCif ? CifReader.Read(new System.IO.StringReader(text), "$.landscape.cif") : StructureFiles.ReadXyz(new System.IO.StringReader(text), "$.landscape.xyz");
         }
         catch (StructureFormatException ex)
         {
-            c.Add($"{path}.xyz", ex.Message);
+            c.Add($"{path}.{(isCif ? "cif" : "xyz")}", ex.Message);
             return null;
+        }
+        if (atomLabel is not null)
+        {
+            int found = structure.Atoms.ToList().FindIndex(a => a.Species == atomLabel);
+            if (found < 0)
+            {
+                c.Add($"{path}.atom", $"no atom of the structure is labelled '{atomLabel}' (labels: {string.Join(", ", structure.Atoms.Select(a => a.Species).Distinct().Take(10))}).");
+                return null;
+            }
+            atom = found + 1;
         }
         if (atom > structure.Atoms.Length)
         {
             c.Add($"{path}.atom", string.Create(CultureInfo.InvariantCulture, $"{atom} is beyond the structure's {structure.Atoms.Length} atoms (numbered from 1)."));
             return null;
         }
-        var neighbours = structure.NeighboursOf((int)atom.Value - 1, Units.Length.FromAngstroms(cutoff.Value * l))
+        var neighbours = structure.NeighboursOf((int)atom!.Value - 1, Units.Length.FromAngstroms(cutoff.Value * l))
             .Where(n => species is null || species.Contains(n.Species)).ToList();
         var kinds = neighbours.Select(n => n.Species).Distinct().ToList();
         if (neighbours.Count == 0)

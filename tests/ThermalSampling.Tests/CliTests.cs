@@ -352,6 +352,14 @@ public class CliTests
         string mixed = cell.Replace("\\nAr 0 0 0", "\\nKr 0 0 0", StringComparison.Ordinal);
         Assert.Contains("$.landscape.species: the neighbours are of 2 species", Run(Scenario($"{{ \"kind\": \"structure\", \"xyz\": \"{mixed}\", \"atom\": 2, \"cutoff\": 3.6, {confinement} }}")).Stderr);
         Assert.Contains("$.landscape.xyz: $.landscape.xyz, line 3:", Run(Scenario($"{{ \"kind\": \"structure\", \"xyz\": \"1\\ncomment\\nAr 0 0\", \"atom\": 1, \"cutoff\": 3.6, {confinement} }}")).Stderr);
+        // The same crystal as CIF text (one site, the four centring operations), the atom chosen by its label.
+        string cif = "data_x\\n_cell_length_a 4.949747468305833\\n_cell_length_b 4.949747468305833\\n_cell_length_c 4.949747468305833\\n"
+            + "_cell_angle_alpha 90\\n_cell_angle_beta 90\\n_cell_angle_gamma 90\\nloop_\\n_symmetry_equiv_pos_as_xyz\\n'x,y,z'\\n'x,y+1/2,z+1/2'\\n'x+1/2,y,z+1/2'\\n'x+1/2,y+1/2,z'\\n"
+            + "loop_\\n_atom_site_label\\n_atom_site_type_symbol\\n_atom_site_fract_x\\n_atom_site_fract_y\\n_atom_site_fract_z\\nAr1 Ar 0 0 0\\n";
+        var (cifCode, fromCif, cifErr) = Run(Scenario($"{{ \"kind\": \"structure\", \"cif\": \"{cif}\", \"atomLabel\": \"Ar\", \"cutoff\": 3.6, {confinement} }}"));
+        Assert.True(cifCode == 0, cifErr);
+        Assert.Equal(Msd(builtIn), Msd(fromCif), 10);
+        Assert.Contains("give exactly one of xyz (XYZ text) or cif (CIF text)", Run(Scenario($"{{ \"kind\": \"structure\", \"atom\": 1, \"cutoff\": 3.6, {confinement} }}")).Stderr);
     }
 
     [Fact]

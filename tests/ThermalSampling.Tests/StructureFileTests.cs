@@ -68,3 +68,81 @@ public class StructureFileTests
         Assert.Contains(problem, ex.Message);
     }
 }
+
+/// <summary>CIF files: the cell, the symmetry operations and the atom sites, expanded into the whole cell.</summary>
+public class CifReaderTests
+{
+    private static string FccCif(string operations, string occupancy = "1.0") => $$"""
+        data_invented_fcc
+        # an invented argon-like fcc crystal (edge √2·3.5 Å), for the test only
+        _cell_length_a    4.94975(3)
+        _cell_length_b    4.94975(3)
+        _cell_length_c    4.94975(3)
+        _cell_angle_alpha 90
+        _cell_angle_beta  90
+        _cell_angle_gamma 90
+        _symmetry_space_group_name_H-M 'F m -3 m'
+        {{operations}}
+        loop_
+        _atom_site_label
+        _atom_site_type_symbol
+        _atom_site_fract_x
+        _atom_site_fract_y
+        _atom_site_fract_z
+        _atom_site_occupancy
+        Ar1 Ar 0.0 0.0 0.0 {{occupancy}}
+        """;
+
+    private const string Centring = """
+        loop_
+        _space_group_symop_id
+        _space_group_symop_operation_xyz
+        1 'x, y, z'
+        2 'x, y+1/2, z+1/2'
+        3 'x+1/2, y, z+1/2'
+        4 '1/2+x, 1/2+y, z'
+        """;
+
+    /// <summary>
+    /// One atom site expanded by the four centring operations of an fcc cell gives the four atoms of the cubic cell, and
+    /// each has 12 nearest neighbours at a/√2 = 3.5 Å (a fact of the trade); the standard uncertainty in "4.94975(3)" is dropped.
+    /// </summary>
+    [Fact]
+    public void Centring_operations_expand_one_site_into_the_fcc_cell()
+    {
+        var s = CifReader.Read(new StringReader(FccCif(Centring)), "test.cif");
+        Assert.Equal(4, s.Atoms.Length);
+        Assert.All(s.Atoms, atom => Assert.Equal("Ar", atom.Species));
+        var shell = s.NeighboursOf(3, Length.FromAngstroms(3.6));
+        Assert.Equal(12, shell.Length);
+        Assert.All(shell, n => Assert.Equal(3.5, (n.Position - s.Atoms[3].Position).Norm, 4));
+    }
+
+    /// <summary>A hexagonal cell (a = b = 3, c = 5 Å, γ = 120°, invented) is set with a along x and b in the xy plane: |b| = 3, a·b = −4.5, c along z.</summary>
+    [Fact]
+    public void The_cell_is_set_in_cartesian_axes()
+    {
+        string cif = "data_x\n_cell_length_a 3\n_cell_length_b 3\n_cell_length_c 5\n_cell_angle_alpha 90\n_cell_angle_beta 90\n_cell_angle_gamma 120\n"
+            + "_symmetry_equiv_pos_as_xyz 'x,y,z'\nloop_\n_atom_site_label\n_atom_site_fract_x\n_atom_site_fract_y\n_atom_site_fract_z\nC1 0 0 0\n";
+        var s = CifReader.Read(new StringReader(cif), "hex.cif");
+        var (a, b, c) = (s.Lattice[0], s.Lattice[1], s.Lattice[2]);
+        Assert.Equal(3, b.Norm, 12);
+        Assert.Equal(-4.5, a.X * b.X + a.Y * b.Y + a.Z * b.Z, 12);
+        Assert.Equal(5, c.Z, 12);
+        Assert.Equal("C1", s.Atoms[0].Species); // no type symbol: the label
+    }
+
+    /// <summary>A file without symmetry operations (a space-group name alone) and a partial occupancy are refused, naming what is missing or wrong.</summary>
+    [Fact]
+    public void Missing_operations_and_disorder_are_refused()
+    {
+        var missing = Assert.Throws<StructureFormatException>(() => CifReader.Read(new StringReader(FccCif("")), "test.cif"));
+        Assert.Contains("no symmetry operations", missing.Message);
+        Assert.Contains("a space-group name alone is not enough", missing.Message);
+        var disorder = Assert.Throws<StructureFormatException>(() => CifReader.Read(new StringReader(FccCif(Centring, "0.5")), "test.cif"));
+        Assert.Contains("atom Ar1 has occupancy 0.5", disorder.Message);
+        Assert.Contains("test.cif, line", disorder.Message);
+        var badOp = Assert.Throws<StructureFormatException>(() => CifReader.Read(new StringReader(FccCif("_symmetry_equiv_pos_as_xyz 'x,y,w'")), "test.cif"));
+        Assert.Contains("neither ±x, ±y, ±z nor a number", badOp.Message);
+    }
+}
