@@ -70,12 +70,7 @@ internal static class PairSummary
         double ratio = quantum.RmsInAngstroms / classical.RmsInAngstroms;
         string verdict = string.Create(CultureInfo.InvariantCulture,
             $"Classical statistics {(ratio >= 1 ? "underestimate" : "overestimate")} the spread by {Math.Abs(ratio - 1):P0} here: the exact quantum RMS spread on this window is {quantum.RmsInAngstroms:G4} Å (mean {quantum.MeanInAngstroms:G6} Å), against {classical.RmsInAngstroms:G4} Å classically (mean {classical.MeanInAngstroms:G6} Å); the report's QuantumExact has the quantum distribution{(quantum.Converged ? "" : ", whose grid did not converge to the requested precision")}.");
-        var reworded = warnings.Select(w => w.Code == WarningCodes.QuantumEffects ? new Warning(w.Code, w.Message.Split(" Use the quantum harmonic estimate")[0] + " " + verdict) : w).ToList();
-        if (!reworded.Any(w => w.Code == WarningCodes.QuantumEffects))
-        {
-            reworded.Insert(0, new Warning(WarningCodes.QuantumEffects, verdict));
-        }
-        return ([.. reworded], quantum);
+        return (ReportParts.WithQuantumVerdict(warnings, verdict), quantum);
     }
 
     /// <summary>The report of one temperature from its run record.</summary>

@@ -75,6 +75,21 @@ internal static class ReportParts
         return points.MoveToImmutable();
     }
 
+    /// <summary>
+    /// The warnings with the quantum-effects one giving <paramref name="verdict"/> (the exact quantum number, or why there is
+    /// none) in place of its advice to use an estimate; a quantum-effects warning with the verdict is added first when only
+    /// the de Broglie one was raised.
+    /// </summary>
+    internal static ImmutableArray<Warning> WithQuantumVerdict(ImmutableArray<Warning> warnings, string verdict)
+    {
+        var reworded = warnings.Select(w => w.Code == WarningCodes.QuantumEffects ? new Warning(w.Code, w.Message.Split(" Use the quantum harmonic estimate")[0] + " " + verdict) : w).ToList();
+        if (!reworded.Any(w => w.Code == WarningCodes.QuantumEffects))
+        {
+            reworded.Insert(0, new Warning(WarningCodes.QuantumEffects, verdict));
+        }
+        return [.. reworded];
+    }
+
     /// <summary>The bins of every chain as one density with per-bin standard errors √(p(1 − p)/ESS)/width.</summary>
     internal static Histogram Histogram(IReadOnlyList<BinCounter> parts, double effectiveSampleSize)
     {

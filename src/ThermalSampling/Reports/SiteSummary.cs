@@ -64,12 +64,7 @@ internal static class SiteSummary
             ? $"No exact quantum reference here: {why}."
             : string.Create(CultureInfo.InvariantCulture,
                 $"Classical statistics {(quantum.MeanSquareDisplacementInAngstromsSquared >= classicalMsd ? "underestimate" : "overestimate")} the mean-square displacement by {Math.Abs(quantum.MeanSquareDisplacementInAngstromsSquared / classicalMsd - 1):P0} here: the exact quantum MSD (oscillator basis, {quantum.BasisSize} functions) is {quantum.MeanSquareDisplacementInAngstromsSquared:G4} Å², against {classicalMsd:G4} Å² sampled classically; the report's QuantumExact has the quantum tensor{(quantum.Converged ? "" : ", whose basis did not converge to the requested precision")}.");
-        var reworded = warnings.Select(w => w.Code == WarningCodes.QuantumEffects ? new Warning(w.Code, w.Message.Split(" Use the quantum harmonic estimate")[0] + " " + verdict) : w).ToList();
-        if (!reworded.Any(w => w.Code == WarningCodes.QuantumEffects))
-        {
-            reworded.Insert(0, new Warning(WarningCodes.QuantumEffects, verdict));
-        }
-        return ([.. reworded], quantum);
+        return (ReportParts.WithQuantumVerdict(warnings, verdict), quantum);
     }
 
     /// <summary>The report of one temperature from its run record.</summary>
