@@ -105,6 +105,7 @@ public static class VibrationFigures
                 quantum.LegendText = "quantum harmonic Gaussian";
             }
         }
+        double quantumPeak = AddQuantumExact(plot, report, L);
         double vMin = grid.Min(landscape.CheckedEnergy);
         double kt = report.Temperature.ThermalEnergyInElectronVolts;
         double vMax = 12 * kt;
@@ -121,7 +122,7 @@ public static class VibrationFigures
         plot.YLabel($"probability density (1/{u.LengthName})");
         plot.Axes.Right.Label.Text = $"V(r) − V_min ({u.EnergyName})";
         plot.Axes.SetLimitsX(lo / L, hi / L);
-        plot.Axes.SetLimitsY(0, 1.15 * Math.Max(peak * L, exactLine.Data.GetLimits().Top), plot.Axes.Left);
+        plot.Axes.SetLimitsY(0, 1.15 * Math.Max(Math.Max(peak * L, exactLine.Data.GetLimits().Top), quantumPeak), plot.Axes.Left);
         plot.Axes.SetLimitsY(0, vMax / u.ElectronVoltsPerUnit * 1.05, plot.Axes.Right);
         plot.ShowLegend(Alignment.UpperRight);
         return plot;
@@ -167,6 +168,7 @@ public static class VibrationFigures
                 Gaussian(harm.QuantumRmsInAngstroms, Quantum, LinePattern.DenselyDashed, "quantum harmonic Gaussian");
             }
         }
+        AddQuantumExact(plot, report, L);
         Title(plot, string.Create(CultureInfo.InvariantCulture, $"Sampled distribution, T = {report.Temperature.InKelvin:G4} K"), context, report.Warnings);
         plot.XLabel($"separation r ({u.LengthName})");
         plot.YLabel($"probability density (1/{u.LengthName})");
@@ -399,6 +401,22 @@ public static class VibrationFigures
             throw new ArgumentException($"reports has {reports.Count} entries; a sweep figure needs at least 2 temperatures.", nameof(reports));
         }
         return reports.OrderBy(r => temperature(r).InKelvin).ToArray();
+    }
+
+    /// <summary>Where the report carries the exact quantum distribution (classical statistics fail), its density as a solid line; returns its peak (0 without one).</summary>
+    private static double AddQuantumExact(Plot plot, PairVibrationReport report, double lengthUnit)
+    {
+        if (report.QuantumExact is not { } q || q.Grid.Length < 2)
+        {
+            return 0;
+        }
+        double spacing = q.Grid[1] - q.Grid[0];
+        var density = q.Probabilities.Select(p => p / spacing * lengthUnit).ToArray();
+        var line = plot.Add.Scatter(q.Grid.Select(r => r / lengthUnit).ToArray(), density, Quantum);
+        line.MarkerSize = 0;
+        line.LineWidth = 2;
+        line.LegendText = "exact quantum (grid)";
+        return density.Max();
     }
 
     private static bool HasQuantumWarning(IEnumerable<Warning> warnings)

@@ -154,6 +154,9 @@ public class PlottingTests
         Assert.Contains("Invented example: a light atom", svg);
         Assert.Contains("caution:", svg);
         Assert.Contains("quantum harmonic Gaussian", svg);
+        Assert.NotNull(report.QuantumExact);
+        Assert.Contains("exact quantum (grid)", svg); // the right number, drawn: the exact quantum density beside the classical ones
+        Assert.Contains("exact quantum (grid)", SvgText(VibrationFigures.SampledDistribution(report).GetSvgXml(900, 560)));
         string nm = SvgText(VibrationFigures.PositionDistribution(report, Line, null, new FigureUnits("nm", 10, "meV", 1e-3)).GetSvgXml(900, 560));
         Assert.Contains("separation r (nm)", nm);
         Assert.Contains("probability density (1/nm)", nm);
