@@ -432,7 +432,10 @@ public static class VibrationFigures
         var notes = new List<string>();
         if (HasQuantumWarning(warnings))
         {
-            notes.Add("classical statistics unreliable (quantum-effects): see the quantum harmonic curve");
+            // The plotted exact quantum curve is named when there is one (its legend says which); else the harmonic one.
+            notes.Add(plot.PlottableList.OfType<ScottPlot.Plottables.Scatter>().Any(p => p.LegendText == "exact quantum (grid)")
+                ? "classical statistics unreliable (quantum-effects): see the exact quantum curve"
+                : "classical statistics unreliable (quantum-effects): see the quantum harmonic curve");
         }
         if (warnings.Any(w => w.Code == WarningCodes.LeftSite))
         {
