@@ -321,6 +321,7 @@ public static class VibrationFigures
             AddCurve(plot, dense, dense.Select(x => Math.Sqrt(Math.Max(KT(x) / k + c * KT(x) * KT(x), 0)) / L).ToArray(), Harmonic, LinePattern.Dotted, "RMS, first order");
             double zeroPoint = h0.ZeroPointVarianceInAngstromsSquared, hw = h0.QuantumEnergyInElectronVolts;
             AddCurve(plot, dense, dense.Select(x => Math.Sqrt(zeroPoint / Math.Tanh(0.5 * hw / KT(x))) / L).ToArray(), Quantum, LinePattern.DenselyDashed, "RMS, quantum harmonic");
+            AddPoints(plot, sorted.Where(r => r.QuantumExact is not null).Select(r => (r.Temperature.InKelvin, r.QuantumExact!.RmsInAngstroms / L)), "RMS, exact quantum (grid)");
             AddSeries(plot, t, sorted.Select(r => r.MeanShift!.Value / L).ToArray(), sorted.Select(r => r.MeanShift!.StandardError / L).ToArray(), FirstOrder, "mean shift, sampled");
             AddCurve(plot, dense, dense.Select(x => s * KT(x) / L).ToArray(), FirstOrder, LinePattern.Dotted, "mean shift, first order");
         }
@@ -358,6 +359,8 @@ public static class VibrationFigures
             double kt = x * Units.PhysicalConstants.BoltzmannElectronVoltPerKelvin;
             return zeroPoint.Select((z, i) => z / Math.Tanh(0.5 * quantumEnergies[i] / kt)).Sum() / L2;
         }).ToArray(), Quantum, LinePattern.Dotted, "MSD, quantum harmonic");
+        AddPoints(plot, sorted.Where(r => r.QuantumExact is not null).Select(r => (r.Temperature.InKelvin, r.QuantumExact!.MeanSquareDisplacementInAngstromsSquared / L2)),
+            "MSD, exact quantum (basis)");
         plot.Axes.SetLimitsX(0, 1.05 * t[^1]);
         Title(plot, "Mean-square displacement against temperature", context, sorted.SelectMany(r => r.Warnings).ToList());
         plot.XLabel("temperature (K)");
@@ -417,6 +420,21 @@ public static class VibrationFigures
         line.LineWidth = 2;
         line.LegendText = "exact quantum (grid)";
         return density.Max();
+    }
+
+    /// <summary>Points (temperature, value) as markers in the quantum colour, where a report carries an exact quantum answer; nothing when none does.</summary>
+    private static void AddPoints(Plot plot, IEnumerable<(double Kelvin, double Value)> points, string label)
+    {
+        var list = points.ToList();
+        if (list.Count == 0)
+        {
+            return;
+        }
+        var marks = plot.Add.Scatter(list.Select(p => p.Kelvin).ToArray(), list.Select(p => p.Value).ToArray(), Quantum);
+        marks.LineWidth = 0;
+        marks.MarkerSize = 9;
+        marks.MarkerShape = MarkerShape.OpenDiamond;
+        marks.LegendText = label;
     }
 
     private static bool HasQuantumWarning(IEnumerable<Warning> warnings)

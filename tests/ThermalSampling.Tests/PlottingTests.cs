@@ -157,6 +157,9 @@ public class PlottingTests
         Assert.NotNull(report.QuantumExact);
         Assert.Contains("exact quantum (grid)", svg); // the right number, drawn: the exact quantum density beside the classical ones
         Assert.Contains("exact quantum (grid)", SvgText(VibrationFigures.SampledDistribution(report).GetSvgXml(900, 560)));
+        // The sweep figure marks the exact quantum spread at the temperatures where it was computed.
+        var sweep = PairSampler.Sweep(Line, Mass.FromAtomicMassUnits(2), new[] { 20.0, 400 }.Select(Temperature.FromKelvin), Settings);
+        Assert.Contains("RMS, exact quantum (grid)", SvgText(VibrationFigures.TemperatureSweep(sweep).GetSvgXml(900, 560)));
         string nm = SvgText(VibrationFigures.PositionDistribution(report, Line, null, new FigureUnits("nm", 10, "meV", 1e-3)).GetSvgXml(900, 560));
         Assert.Contains("separation r (nm)", nm);
         Assert.Contains("probability density (1/nm)", nm);
