@@ -185,7 +185,9 @@ public class SiteSamplerEdgeTests
         string[] validityCodes = [WarningCodes.QuantumEffects, WarningCodes.DeBroglieWavelength, WarningCodes.EscapeRisk, WarningCodes.WallMass];
         // The quantum-effects warning keeps the verdict's first sentence and then gives the exact quantum number, or why
         // there is none (SiteSummary.Verdict); every other validity warning is as assessed.
-        static Warning Stem(Warning w) => w.Code == WarningCodes.QuantumEffects ? w with { Message = w.Message.Split(" Use the quantum harmonic estimate")[0].Split(" No exact quantum reference")[0].Split(" Classical statistics underestimate")[0].Split(" Classical statistics overestimate")[0] } : w;
+        static Warning Stem(Warning w) => w.Code == WarningCodes.QuantumEffects
+            ? w with { Message = w.Message.Replace(ClassicalValidity.QuantumAdvice, "").Split(" No exact quantum reference")[0].Split(" Classical statistics underestimate")[0].Split(" Classical statistics overestimate")[0] }
+            : w;
         Assert.Equal(validity.Warnings.Select(Stem), report.Warnings.Where(w => validityCodes.Contains(w.Code)).Select(Stem));
         Assert.Equal(validity.Warnings.Select(Stem), report.Warnings.Take(validity.Warnings.Length).Select(Stem));
         Assert.All(report.Warnings.Where(w => w.Code == WarningCodes.QuantumEffects),

@@ -31,6 +31,9 @@ public sealed record ValidityAssessment(double DeBroglieWavelengthInAngstroms, d
 /// </summary>
 public static class ClassicalValidity
 {
+    /// <summary>The quantum-effects warning's closing advice, which a report replaces by the exact quantum number where it computes one.</summary>
+    internal const string QuantumAdvice = " Use the quantum harmonic estimate or a path-integral method; light atoms and low temperatures are where this bites.";
+
     /// <summary>Quantum/classical variance ratio above which <see cref="WarningCodes.QuantumEffects"/> is raised.</summary>
     public const double QuantumVarianceRatioThreshold = 1.05;
 
@@ -86,7 +89,7 @@ public static class ClassicalValidity
         if (ratio > QuantumVarianceRatioThreshold)
         {
             warnings.Add(new Warning(WarningCodes.QuantumEffects, string.Format(c,
-                "Classical statistics are not reliable here: hbar*omega/kT = {0:G3}, so the quantum harmonic mean-square displacement is {1:P0} larger than the classical one (zero-point motion). Use the quantum harmonic estimate or a path-integral method; light atoms and low temperatures are where this bites.",
+                "Classical statistics are not reliable here: hbar*omega/kT = {0:G3}, so the quantum harmonic mean-square displacement is {1:P0} larger than the classical one (zero-point motion)." + QuantumAdvice,
                 x, ratio - 1)));
         }
         if (lambda > DeBroglieToRmsThreshold * rmsSpreadInAngstroms)

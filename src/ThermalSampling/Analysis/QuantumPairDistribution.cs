@@ -128,7 +128,7 @@ public sealed class QuantumPairDistribution
         double hbar2Over2m = PhysicalConstants.HbarSquaredOverAtomicMassElectronVoltAngstromSquared / (2 * mass.InAtomicMassUnits);
         if (gridPoints is int n)
         {
-            return Solve(landscape, hbar2Over2m, kT, n, precision, double.NaN, converged: true, temperature.InKelvin);
+            return Solve(landscape, hbar2Over2m, kT, n, precision, temperature.InKelvin);
         }
         // Start where the shortest wavelength that matters, that of a particle 40 kT plus 20 zero-point quanta above the
         // well's bottom, has one point; refine by 1.4× until the mean and variance hold still (on a window whose walls
@@ -149,7 +149,7 @@ public sealed class QuantumPairDistribution
         int previousPoints = 0;
         while (true)
         {
-            var current = Solve(landscape, hbar2Over2m, kT, points, precision, double.NaN, converged: true, temperature.InKelvin, lZeroOnly: radial);
+            var current = Solve(landscape, hbar2Over2m, kT, points, precision, temperature.InKelvin, lZeroOnly: radial);
             if (previous is not null)
             {
                 double change = Change(current, previous);
@@ -157,10 +157,10 @@ public sealed class QuantumPairDistribution
                 {
                     if (radial)
                     {
-                        current = Solve(landscape, hbar2Over2m, kT, points, precision, double.NaN, converged: true, temperature.InKelvin);
-                        change = Math.Max(change, Change(current, Solve(landscape, hbar2Over2m, kT, previousPoints, precision, double.NaN, converged: true, temperature.InKelvin)));
+                        current = Solve(landscape, hbar2Over2m, kT, points, precision, temperature.InKelvin);
+                        change = Math.Max(change, Change(current, Solve(landscape, hbar2Over2m, kT, previousPoints, precision, temperature.InKelvin)));
                     }
-                    return Solve(landscape, hbar2Over2m, kT, points, precision, change, converged: change <= precision && current.Converged, temperature.InKelvin, done: current);
+                    return current.WithGridCheck(change, change <= precision);
                 }
             }
             previous = current;
@@ -176,14 +176,9 @@ public sealed class QuantumPairDistribution
 
     /// <summary>One grid of <paramref name="n"/> interior points: the l = 0 problem, and for a radial landscape the l sum.</summary>
     private static QuantumPairDistribution Solve<TPotential>(PairLandscape<TPotential> landscape, double hbar2Over2m, double kT, int n, double precision,
-        double change, bool converged, double kelvin, QuantumPairDistribution? done = null, bool lZeroOnly = false)
+        double kelvin, bool lZeroOnly = false)
         where TPotential : struct, IPairPotential
     {
-        if (done is not null)
-        {
-            return new QuantumPairDistribution(done.Grid, done.Probabilities, done.LevelsInElectronVolts, done.BoundLevels, done.ShareAboveEscape,
-                done.AngularMomenta, change, converged && done.Converged, kelvin);
-        }
         double a = landscape.WindowLowerInAngstroms, length = landscape.WindowWidthInAngstroms;
         int intervals = n + 1;
         var x = new double[n];
@@ -257,8 +252,12 @@ public sealed class QuantumPairDistribution
         {
             probabilities[i] /= z;
         }
-        return new QuantumPairDistribution([.. x], [.. probabilities], levels, bound, above / z, momenta, change, converged && allConverged, kelvin);
+        return new QuantumPairDistribution([.. x], [.. probabilities], levels, bound, above / z, momenta, double.NaN, allConverged, kelvin);
     }
+
+    /// <summary>The same answer with the change between the last two grids, converged only if that change was small enough too.</summary>
+    private QuantumPairDistribution WithGridCheck(double change, bool small)
+        => new(Grid, Probabilities, LevelsInElectronVolts, BoundLevels, ShareAboveEscape, AngularMomenta, change, small && Converged, TemperatureInKelvin);
 
     /// <summary>
     /// The kinetic energy on the finite-interval grid (Colbert &amp; Miller 1992, their appendix; recalled from memory and

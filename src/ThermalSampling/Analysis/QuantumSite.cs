@@ -82,28 +82,24 @@ public sealed class QuantumSite
         }
         var harmonic = SiteAnalysis.Harmonic(landscape, mass, temperature);
         double kT = temperature.ThermalEnergyInElectronVolts;
-        QuantumSite? previous = null;
-        for (int quanta = 8; quanta <= MaxQuantaLimit; quanta += 2)
+        // Bases of 8, 10, … quanta until the covariance holds still or the largest basis is reached (then not converged,
+        // BasisChange saying by how much it still moved).
+        var previous = Solve(landscape, harmonic, mass, kT, 8, out reason, temperature.InKelvin);
+        for (int quanta = 10; previous is not null; quanta += 2)
         {
             var current = Solve(landscape, harmonic, mass, kT, quanta, out reason, temperature.InKelvin);
             if (current is null)
             {
                 return null;
             }
-            if (previous is not null)
+            double change = Change(current.Covariance, previous.Covariance);
+            if (change <= precision || quanta + 2 > MaxQuantaLimit)
             {
-                double change = Change(current.Covariance, previous.Covariance);
-                if (change <= precision || quanta + 2 > MaxQuantaLimit)
-                {
-                    reason = change <= precision ? null : string.Create(CultureInfo.InvariantCulture,
-                        $"the covariance still changed by {change:G3} (relative) between {previous.MaxQuanta} and {quanta} quanta");
-                    return new QuantumSite(current.Mean, current.Covariance, [.. current.LevelsInElectronVolts], current.BasisSize, quanta, change, change <= precision,
-                        temperature.InKelvin);
-                }
+                return new QuantumSite(current.Mean, current.Covariance, [.. current.LevelsInElectronVolts], current.BasisSize, quanta, change, change <= precision,
+                    temperature.InKelvin);
             }
             previous = current;
         }
-        reason = "unreachable";
         return null;
     }
 

@@ -82,7 +82,7 @@ internal static class ReportParts
     /// </summary>
     internal static ImmutableArray<Warning> WithQuantumVerdict(ImmutableArray<Warning> warnings, string verdict)
     {
-        var reworded = warnings.Select(w => w.Code == WarningCodes.QuantumEffects ? new Warning(w.Code, w.Message.Split(" Use the quantum harmonic estimate")[0] + " " + verdict) : w).ToList();
+        var reworded = warnings.Select(w => w.Code == WarningCodes.QuantumEffects ? new Warning(w.Code, w.Message.Replace(ClassicalValidity.QuantumAdvice, " " + verdict, StringComparison.Ordinal)) : w).ToList();
         if (!reworded.Any(w => w.Code == WarningCodes.QuantumEffects))
         {
             reworded.Insert(0, new Warning(WarningCodes.QuantumEffects, verdict));
