@@ -26,8 +26,21 @@ internal interface ILaneWalk<TD, TState>
     /// <summary>What the records see of the state after a step (the draw).</summary>
     LanePoint<TD> Point(in TState state);
 
+    /// <summary>
+    /// Puts a chain into lane <paramref name="lane"/>: its stream, its inverse temperature <paramref name="beta"/> (1/eV; one
+    /// register may hold several temperatures) and its start (<paramref name="x"/>, <paramref name="y"/>, <paramref name="z"/>;
+    /// a line uses x only).
+    /// </summary>
+    void Place(ref TState state, int lane, in RandomStream stream, double beta, double x, double y, double z);
+
     /// <summary>After every lane is placed: the starting energies, with their fault check.</summary>
     void Start(ref TState state);
+
+    /// <summary>Writes what the walk keeps outside <typeparamref name="TState"/> (a ring polymer's beads), nothing for a one-point walk.</summary>
+    void SaveOwn(StateWriter w);
+
+    /// <summary>Reads what <see cref="SaveOwn"/> wrote.</summary>
+    void LoadOwn(StateReader r);
 
     /// <summary>Clears the fault notes before a chunk.</summary>
     void ClearFaults(ref TState state);
@@ -82,6 +95,11 @@ internal readonly struct LanePoint<TD>(TD x, TD y, TD z, TD energy) where TD : s
 
     internal TD Energy { get; } = energy;
 }
+
+/// <summary>What a lane group's plan fixes for the engine: steps, the first and largest proposal widths, the target
+/// acceptance, the moment block and the checkpoint tags.</summary>
+internal readonly record struct EngineSettings(long BurnIn, long Samples, double InitialWidth, double MaxWidth, double TargetAcceptance, int BlockSize,
+    string HeaderTag, string WidthTag, string What);
 
 /// <summary>What a lane group is asked to do: its chains (from <see cref="FirstChain"/>; padding lanes at or beyond <see cref="End"/>
 /// are dropped), how to make each chain's record and progress reporter, its checkpoints and cancellation.</summary>
@@ -197,9 +215,6 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
     /// <summary>The open moment block's temperature-factor sums (empty when no scattering vector was asked for).</summary>
     private protected LaneWaves<TOps, TD, TB> Waves { get; }
 
-    /// <summary>What a lane group's plan fixes for the engine.</summary>
-    internal readonly record struct EngineSettings(long BurnIn, long Samples, double InitialWidth, double MaxWidth, double TargetAcceptance, int BlockSize,
-        string HeaderTag, string WidthTag, string What);
 
     private readonly GroupWork _work;
 
@@ -285,9 +300,8 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
     {
     }
 
-    /// <summary>Loads <paramref name="stream"/> into lane <paramref name="lane"/> of the four generator words.</summary>
-    private protected static void SeedLane(ref TB r0, ref TB r1, ref TB r2, ref TB r3, int lane, in RandomStream stream)
-        => LaneSeeding.Load<TOps, TD, TB>(ref r0, ref r1, ref r2, ref r3, lane, stream);
+    /// <summary>The walk (its fixed parameters).</summary>
+    private protected TWalk Walk => _walk;
 
     /// <summary>
     /// One chunk of burn-in: step, then the Robbins–Monro width update, in every lane. A separate method with no calls
@@ -445,6 +459,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         Tally.Save(w, RecordedSteps);
         Waves.Save(w);
         SaveExtra(w);
+        _walk.SaveOwn(w);
     }
 
     private void Load(StateReader r)
@@ -460,6 +475,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         Tally.Load(r, RecordedSteps);
         Waves.Load(r);
         LoadExtra(r);
+        _walk.LoadOwn(r);
         r.End();
     }
 }

@@ -34,9 +34,10 @@ internal static class PairChains
     /// <param name="session">The checkpoint session, or null.</param>
     /// <param name="temperatureIndex">The temperature's index in the session.</param>
     /// <param name="range">The chains to run.</param>
+    /// <param name="ring">The ring polymer of a path integral (each chain a ring of its beads), or null for classical chains.</param>
     internal static TemperatureRecord Sample<TPotential>(PairLandscape<TPotential> landscape, ExactPairDistribution exact, double reference, double initialWidth,
         double targetAcceptance, Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken,
-        CheckpointSession? session, int temperatureIndex, ChainRange range)
+        CheckpointSession? session, int temperatureIndex, ChainRange range, RingPlan? ring = null)
         where TPotential : struct, IPairPotential
     {
         bool metropolis = settings.Method == SamplingMethod.Metropolis;
@@ -50,12 +51,14 @@ internal static class PairChains
         ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
 
+        double Start(int c) => quantile!(chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1));
         PairLaneChains.Plan<TPotential>? plan = metropolis ? new(landscape.Potential, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms,
             1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial, initialWidth, targetAcceptance,
             landscape.WindowWidthInAngstroms, settings.BurnIn, settings.SamplesPerChain, settings.Seed) : null;
         var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
-            (lanes, first, end, checkpoints, g) => PairLaneChains.Run(lanes, plan!, first, end, c => quantile!(chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1)),
-                NewRecord, NewReporter, checkpoints, g, cancellationToken),
+            (lanes, first, end, checkpoints, g) => ring is null
+                ? PairLaneChains.Run(lanes, plan!, first, end, Start, NewRecord, NewReporter, checkpoints, g, cancellationToken)
+                : PairLaneChains.RunRing(lanes, plan!, ring, first, end, Start, NewRecord, NewReporter, checkpoints, g, cancellationToken),
             (c, checkpoints) => new DirectChain<TableDraws<TPotential>>(new(table!, landscape.Potential), settings, c, NewRecord(c), NewReporter(c), "direct chain").Run(checkpoints, cancellationToken));
         return new TemperatureRecord("pair", landscape.Description, Fingerprint(landscape), temperature, settings, targetAcceptance, 1, layout, [.. results],
             Internal.LibraryVersion.Current);

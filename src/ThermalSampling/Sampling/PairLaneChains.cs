@@ -38,6 +38,34 @@ internal static class PairLaneChains
         where TPotential : struct, IPairPotential
         => LaneGroups.Run(lanes, new Starts<TPotential>(plan, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
 
+    /// <summary>Like <see cref="Run{TPotential}"/>, with each chain a ring polymer of <paramref name="ring"/>'s beads (the path-integral walk; a radial pair as its relative vector in three dimensions).</summary>
+    internal static ChainRecord[] RunRing<TPotential>(int lanes, Plan<TPotential> plan, RingPlan ring, int firstChain, int end, Func<int, double> start,
+        Func<int, ChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
+        where TPotential : struct, IPairPotential
+        => LaneGroups.Run(lanes, new RingStarts<TPotential>(plan, ring, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
+
+    /// <summary>The plan, the ring and the chains' starts: what builds a group of ring polymers at any width.</summary>
+    private readonly record struct RingStarts<TPotential>(Plan<TPotential> Plan, RingPlan Ring, Func<int, double> Start) : ILanePlan where TPotential : struct, IPairPotential
+    {
+        public ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
+            where TOps : struct, ILaneOps<TD, TB>
+            where TD : struct
+            where TB : struct
+        {
+            var plan = Plan;
+            var start = Start;
+            var settings = new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, plan.TargetAcceptance, BlockedMomentAccumulator.BlockSize,
+                "RPGH", "LOGW", "pair ring-polymer group");
+            Func<int, (RandomStream, double, double)> place = c => (RandomStream.ForChain(plan.Seed, c), plan.BetaOf(c), start(c));
+            var (beads, segment, hbar2m) = (Ring.Beads, Ring.Segment, Ring.HbarSquaredOverMass);
+            return plan.Radial
+                ? new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, RadialField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
+                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m), place, work).Run()
+                : new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, LineField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
+                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m), place, work).Run();
+        }
+    }
+
     /// <summary>The plan and the chains' starts: what builds a pair group at any width.</summary>
     private readonly record struct Starts<TPotential>(Plan<TPotential> Plan, Func<int, double> Start) : ILanePlan where TPotential : struct, IPairPotential
     {
@@ -45,28 +73,40 @@ internal static class PairLaneChains
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
-            => new Group<TOps, TD, TB, TPotential>(Plan, Start, work).Run();
+        {
+            var plan = Plan;
+            var start = Start;
+            var settings = new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, plan.TargetAcceptance, BlockedMomentAccumulator.BlockSize,
+                "PLGH", "LOGW", "pair chain group");
+            return new Group<TOps, TD, TB, PairWalk<TOps, TD, TB, TPotential>, PairWalkState<TD, TB>>(settings, new(plan),
+                c => (RandomStream.ForChain(plan.Seed, c), plan.BetaOf(c), start(c)), work).Run();
+        }
     }
 
-    /// <summary>One lane group of pair chains on the lane engine: the pair walk, the line recorder and the chains' records.</summary>
-    private sealed class Group<TOps, TD, TB, TPotential>
-        : LaneEngine<TOps, TD, TB, PairWalk<TOps, TD, TB, TPotential>, PairWalkState<TD, TB>, LineRecorder<TOps, TD, TB>, LineSums<TD>>
+    /// <summary>
+    /// One lane group of chains that draw a separation, on the lane engine: a walk (the pair walk, or the ring polymer of a
+    /// path integral), the line recorder and the chains' records.
+    /// </summary>
+    internal sealed class Group<TOps, TD, TB, TWalk, TState>
+        : LaneEngine<TOps, TD, TB, TWalk, TState, LineRecorder<TOps, TD, TB>, LineSums<TD>>
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
-        where TPotential : struct, IPairPotential
+        where TWalk : struct, ILaneWalk<TD, TState>
+        where TState : struct
     {
         private readonly ChainRecord[] _records;
-        private readonly Plan<TPotential> _plan;
         private readonly Tally _tally;
-        private readonly Func<int, double> _start;
+        private readonly Func<int, (RandomStream Stream, double Beta, double Start)> _place;
 
-        internal Group(Plan<TPotential> plan, Func<int, double> start, GroupWork work)
-            : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, plan.TargetAcceptance, BlockedMomentAccumulator.BlockSize,
-                "PLGH", "LOGW", "pair chain group"), new PairWalk<TOps, TD, TB, TPotential>(plan), work)
+        /// <param name="settings">The engine's settings (steps, widths, tags).</param>
+        /// <param name="walk">The walk.</param>
+        /// <param name="place">Chain c's stream, β and start.</param>
+        /// <param name="work">The chains.</param>
+        internal Group(EngineSettings settings, TWalk walk, Func<int, (RandomStream Stream, double Beta, double Start)> place, GroupWork work)
+            : base(settings, walk, work)
         {
-            _plan = plan;
-            _start = start;
+            _place = place;
             _records = Records;
             _tally = new Tally(_records, TOps.Count);
         }
@@ -75,14 +115,13 @@ internal static class PairLaneChains
 
         private protected override void PlaceLane(int lane, int chain)
         {
-            SeedLane(ref State.R0, ref State.R1, ref State.R2, ref State.R3, lane, RandomStream.ForChain(_plan.Seed, chain));
-            State.NegativeBeta = TOps.Set(State.NegativeBeta, lane, -_plan.BetaOf(chain)); // β per lane: one register may hold several temperatures
-            State.Position = TOps.Set(State.Position, lane, _start(chain));
+            var (stream, beta, start) = _place(chain);
+            Walk.Place(ref State, lane, stream, beta, start, 0, 0);
         }
 
         private protected override LineRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, Waves, done, chunk);
 
-        private protected override void StartRecords() => Sums.BlockReference = State.Position;
+        private protected override void StartRecords() => Sums.BlockReference = Walk.Point(State).X;
 
         private protected override LaneTally Tally => _tally;
 
@@ -107,7 +146,7 @@ internal static class PairLaneChains
             Waves.Clear();
             var zero = TOps.Broadcast(0.0);
             Sums.S1 = Sums.S2 = Sums.S3 = Sums.S4 = zero;
-            Sums.BlockReference = State.Position;
+            Sums.BlockReference = Walk.Point(State).X;
         }
 
     }
@@ -143,6 +182,21 @@ internal static class PairLaneChains
             LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _potential.Description);
             state.Energy = e;
             state.Jacobian = _radial ? TOps.Multiply(r, r) : TOps.Broadcast(1.0);
+        }
+
+        public void Place(ref PairWalkState<TD, TB> state, int lane, in RandomStream stream, double beta, double x, double y, double z)
+        {
+            LaneSeeding.Load<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3, lane, stream);
+            state.NegativeBeta = TOps.Set(state.NegativeBeta, lane, -beta);
+            state.Position = TOps.Set(state.Position, lane, x);
+        }
+
+        public void SaveOwn(StateWriter w)
+        {
+        }
+
+        public void LoadOwn(StateReader r)
+        {
         }
 
         public void ClearFaults(ref PairWalkState<TD, TB> state) => state.Faults = LaneFaultCheck.None<TOps, TD, TB>();

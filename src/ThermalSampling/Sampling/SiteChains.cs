@@ -25,7 +25,7 @@ internal static class SiteChains
     /// <summary>Runs every chain of <paramref name="settings"/> at one temperature about the harmonic estimate <paramref name="harmonic"/>.</summary>
     internal static TemperatureRecord Sample<TPotential>(SiteLandscape<TPotential> landscape, SiteHarmonicEstimate harmonic, double targetAcceptance,
         Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken,
-        CheckpointSession? session, int temperatureIndex, ChainRange range)
+        CheckpointSession? session, int temperatureIndex, ChainRange range, RingPlan? ring = null)
         where TPotential : struct, IPairPotential
     {
         double target = targetAcceptance;
@@ -57,8 +57,10 @@ internal static class SiteChains
             min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, wallBand,
             settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description, basin) : null;
         var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
-            (lanes, first, end, checkpoints, g) => SiteLaneChains.Run(lanes, plan!, first, end, c => StartOfChain(landscape, min, cholesky, settings.Seed, c),
-                NewRecord, NewReporter, checkpoints, g, cancellationToken),
+            (lanes, first, end, checkpoints, g) => ring is null
+                ? SiteLaneChains.Run(lanes, plan!, first, end, c => StartOfChain(landscape, min, cholesky, settings.Seed, c), NewRecord, NewReporter, checkpoints, g, cancellationToken)
+                : SiteLaneChains.RunRing(lanes, plan!, ring, settings.InitialStepWidthInAngstroms ?? 2.38 / Math.Sqrt(3) * sigmaMin, 2 * size, first, end,
+                    c => StartOfChain(landscape, min, cholesky, settings.Seed, c), NewRecord, NewReporter, checkpoints, g, cancellationToken),
             (c, checkpoints) => new DirectChain<EnvelopeDraws<TPotential>>(new(kernel, landscape, envelope!, basin, wallBand), settings, c, NewRecord(c), NewReporter(c), "direct site chain")
                 .Run(checkpoints, cancellationToken));
         return new TemperatureRecord("sites", landscape.Description, Fingerprint(landscape), temperature, settings, target, sigmaMin, layout, [.. results],

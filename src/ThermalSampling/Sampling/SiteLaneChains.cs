@@ -29,7 +29,7 @@ internal static class SiteLaneChains
     internal sealed record Plan<TPotential>(TPotential Potential, double[] Sites, Position Centre, Confinement Confinement, Position Minimum,
         double L00, double L10, double L11, double L20, double L21, double L22, double Beta, double InitialScale, double TargetAcceptance,
         double MaxScale, double WallBand, long BurnIn, long Samples, ulong Seed, string Description, BasinGrid Basin, double[]? ChainBetas = null)
-        where TPotential : struct, IPairPotential
+        : ISiteFrame where TPotential : struct, IPairPotential
     {
         /// <summary>The inverse temperature of chain <paramref name="chain"/> (<see cref="ChainBetas"/> when the chains' temperatures differ), 1/eV.</summary>
         internal double BetaOf(int chain) => ChainBetas?[chain] ?? Beta;
@@ -52,31 +52,96 @@ internal static class SiteLaneChains
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
-            => new Group<TOps, TD, TB, TPotential>(Plan, Start, work).Run();
+        {
+            var plan = Plan;
+            var start = Start;
+            return new Group<TOps, TD, TB, SiteWalk<TOps, TD, TB, TPotential>, SiteWalkState<TD, TB>>(Settings(plan), new(plan), plan, c =>
+            {
+                var (stream, p) = start(c);
+                return (stream, plan.BetaOf(c), p);
+            }, work).Run();
+        }
     }
 
-    /// <summary>One lane group of site chains on the lane engine: the site walk, the site recorder and the chains' records.</summary>
-    private sealed class Group<TOps, TD, TB, TPotential>
-        : LaneEngine<TOps, TD, TB, SiteWalk<TOps, TD, TB, TPotential>, SiteWalkState<TD, TB>, SiteRecorder<TOps, TD, TB>, SiteSums<TD>>
+    /// <summary>
+    /// Like <see cref="Run{TPotential}"/>, with each chain a ring polymer of <paramref name="ring"/>'s beads (the path-integral
+    /// walk), whose whole-ring translation starts at <paramref name="initialWidth"/> Å per coordinate and stays below <paramref name="maxWidth"/>.
+    /// </summary>
+    internal static ChainRecord[] RunRing<TPotential>(int lanes, Plan<TPotential> plan, RingPlan ring, double initialWidth, double maxWidth, int firstChain, int end,
+        ChainStart start, Func<int, ChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
+        where TPotential : struct, IPairPotential
+        => LaneGroups.Run(lanes, new RingStarts<TPotential>(plan, ring, initialWidth, maxWidth, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
+
+    /// <summary>The plan, the ring and the chains' starts: what builds a group of ring polymers in a site at any width.</summary>
+    private readonly record struct RingStarts<TPotential>(Plan<TPotential> Plan, RingPlan Ring, double InitialWidth, double MaxWidth, ChainStart Start) : ILanePlan
+        where TPotential : struct, IPairPotential
+    {
+        public ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
+            where TOps : struct, ILaneOps<TD, TB>
+            where TD : struct
+            where TB : struct
+        {
+            var plan = Plan;
+            var start = Start;
+            var settings = new EngineSettings(plan.BurnIn, plan.Samples, InitialWidth, MaxWidth, plan.TargetAcceptance, BlockSize, "RSGH", "LOGR", "site ring-polymer group");
+            var field = new SiteField<TOps, TD, TB, TPotential>(plan.Potential, plan.Sites, plan.Confinement, plan.Centre);
+            return new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, SiteField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
+                new(field, Ring.Beads, Ring.Segment, Ring.HbarSquaredOverMass), plan, c =>
+                {
+                    var (stream, p) = start(c);
+                    return (stream, plan.BetaOf(c), p);
+                }, work).Run();
+        }
+    }
+
+    /// <summary>What a site plan fixes for the engine.</summary>
+    internal static EngineSettings Settings<TPotential>(Plan<TPotential> plan) where TPotential : struct, IPairPotential
+        => new(plan.BurnIn, plan.Samples, plan.InitialScale, plan.MaxScale, plan.TargetAcceptance, BlockSize, "SLGH", "LOGS", "site chain group");
+
+    /// <summary>The site frame a group's records need: the minimum, the confinement and its centre, the wall band and the basin.</summary>
+    internal interface ISiteFrame
+    {
+        /// <summary>The harmonic minimum, Å.</summary>
+        Position Minimum { get; }
+
+        /// <summary>The confinement.</summary>
+        Confinement Confinement { get; }
+
+        /// <summary>The confinement's centre, Å.</summary>
+        Position Centre { get; }
+
+        /// <summary>The width of the band inside the wall where draws count as near it, Å.</summary>
+        double WallBand { get; }
+
+        /// <summary>The basin grid.</summary>
+        BasinGrid Basin { get; }
+    }
+
+    /// <summary>
+    /// One lane group of chains that draw a point in space, on the lane engine: a walk (the site walk, or the ring polymer
+    /// of a path integral), the site recorder and the chains' records.
+    /// </summary>
+    internal sealed class Group<TOps, TD, TB, TWalk, TState>
+        : LaneEngine<TOps, TD, TB, TWalk, TState, SiteRecorder<TOps, TD, TB>, SiteSums<TD>>
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
-        where TPotential : struct, IPairPotential
+        where TWalk : struct, ILaneWalk<TD, TState>
+        where TState : struct
     {
-        private readonly Plan<TPotential> _plan;
+        private readonly ISiteFrame _plan;
         private readonly ChainRecord[] _records;
         private readonly SiteTally _tally;
-        private readonly ChainStart _start;
+        private readonly Func<int, (RandomStream Stream, double Beta, Position Start)> _place;
         private readonly TD[] _shapeDraws = new TD[3 * (LaneAdaptation.ChunkSteps / ShapeFrame.LaneStride + 1)];
 
-        internal Group(Plan<TPotential> plan, ChainStart start, GroupWork work)
-            : base(new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialScale, plan.MaxScale, plan.TargetAcceptance, BlockSize, "SLGH", "LOGS", "site chain group"),
-                new SiteWalk<TOps, TD, TB, TPotential>(plan), work)
+        internal Group(EngineSettings settings, TWalk walk, ISiteFrame frame, Func<int, (RandomStream Stream, double Beta, Position Start)> place, GroupWork work)
+            : base(settings, walk, work)
         {
-            _plan = plan;
-            _start = start;
+            _plan = frame;
+            _place = place;
             _records = Records;
-            _tally = new SiteTally(_records, TOps.Count, plan.Basin, plan.Minimum, plan.Confinement, plan.Centre, plan.WallBand);
+            _tally = new SiteTally(_records, TOps.Count, frame.Basin, frame.Minimum, frame.Confinement, frame.Centre, frame.WallBand);
         }
 
         private protected override long Accepted(int lane) => (long)TOps.Get(Sums.Accepted, lane);
@@ -90,12 +155,8 @@ internal static class SiteLaneChains
 
         private protected override void PlaceLane(int lane, int chain)
         {
-            var (stream, p) = _start(chain);
-            SeedLane(ref State.R0, ref State.R1, ref State.R2, ref State.R3, lane, stream);
-            State.NegativeBeta = TOps.Set(State.NegativeBeta, lane, -_plan.BetaOf(chain)); // β per lane: one register may hold several temperatures
-            State.X = TOps.Set(State.X, lane, p.X);
-            State.Y = TOps.Set(State.Y, lane, p.Y);
-            State.Z = TOps.Set(State.Z, lane, p.Z);
+            var (stream, beta, p) = _place(chain);
+            Walk.Place(ref State, lane, stream, beta, p.X, p.Y, p.Z);
         }
 
         private protected override SiteRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, Waves, _shapeDraws, done, chunk);
@@ -332,6 +393,23 @@ internal static class SiteLaneChains
                 ThrowAt(faults, state.X, state.Y, state.Z);
             }
             state.Energy = e;
+        }
+
+        public void Place(ref SiteWalkState<TD, TB> state, int lane, in RandomStream stream, double beta, double x, double y, double z)
+        {
+            LaneSeeding.Load<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3, lane, stream);
+            state.NegativeBeta = TOps.Set(state.NegativeBeta, lane, -beta);
+            state.X = TOps.Set(state.X, lane, x);
+            state.Y = TOps.Set(state.Y, lane, y);
+            state.Z = TOps.Set(state.Z, lane, z);
+        }
+
+        public void SaveOwn(StateWriter w)
+        {
+        }
+
+        public void LoadOwn(StateReader r)
+        {
         }
 
         public void ClearFaults(ref SiteWalkState<TD, TB> state) => state.Faults = LaneFaultCheck.None<TOps, TD, TB>();
