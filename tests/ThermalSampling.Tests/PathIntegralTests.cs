@@ -54,4 +54,96 @@ public class PathIntegralTests(ITestOutputHelper output)
         output.WriteLine($"P={beads}: sampled {m.Variance:G6} expected {expected:G6} ratio {m.Variance / expected:F4} accept {record.Chains.Average(c => (double)c.Accepted / c.Proposals):F3}");
         Assert.InRange(m.Variance / expected, 0.97, 1.03);
     }
+
+    /// <summary>
+    /// The front door on the invented harmonic line (k = 2 eV/Å², 4 u, ħω/kT = 26.5 at 20 K): the runs at P and P/2 each
+    /// match their finite-P closed form within 4 standard errors, and the extrapolated variance matches the quantum oscillator's
+    /// (ħ/2mω) coth(βħω/2) (closed form) within 4 standard errors and 1 %; the default P follows the documented rule.
+    /// </summary>
+    [Fact]
+    public void Extrapolated_harmonic_variance_matches_the_quantum_oscillator()
+    {
+        const double k = 2.0, massU = 4;
+        var landscape = PairLandscape.Line(new HarmonicBond(k, Length.FromAngstroms(3)), Length.FromAngstroms(1.0), Length.FromAngstroms(5.0));
+        var t = Temperature.FromKelvin(20);
+        double beta = 1 / t.ThermalEnergyInElectronVolts, hw = Math.Sqrt(Hbar2OverU * k / massU);
+        var settings = new SamplingSettings { Seed = 11, Chains = 8, SamplesPerChain = 100_000, BurnIn = 10_000 };
+        var report = PathIntegralSampler.RunPair(landscape, Mass.FromAtomicMassUnits(massU), t, settings);
+        Assert.Equal(PathIntegralSampler.DefaultBeads(beta * hw), report.PathIntegral.Beads);
+        Assert.Equal(64, report.PathIntegral.Beads); // 2·26.5 = 53 → 64
+        foreach (var (run, p) in new[] { (report.AtBeads, report.PathIntegral.Beads), (report.AtHalfBeads, report.PathIntegral.Beads / 2) })
+        {
+            double closed = FiniteBeadVariance(k, massU, beta, p);
+            Assert.True(Math.Abs(run.Variance.ZScore(closed)) < 4, $"P = {p}: {run.Variance} against {closed:G6}");
+        }
+        double exact = Hbar2OverU / massU / (2 * hw) / Math.Tanh(beta * hw / 2);
+        output.WriteLine($"extrapolated {report.Variance} exact {exact:G6} P-run {report.AtBeads.Variance} correction {report.PathIntegral.RelativeBeadCorrection:P2}");
+        Assert.True(Math.Abs(report.Variance.ZScore(exact)) < 4, $"{report.Variance} against {exact:G6}");
+        Assert.InRange(report.Variance.Value / exact, 0.99, 1.01);
+        Assert.True(report.PathIntegral.Converged);
+        Assert.Equal(Hbar2OverU / massU / (2 * hw), report.PathIntegral.ZeroPointVarianceInAngstromsSquared, 1e-9);
+        Assert.Contains(report.Warnings, w => w.Code.Contains("quantum", StringComparison.Ordinal)); // 10× the classical spread
+    }
+
+    /// <summary>
+    /// An invented Morse well on a line (0.3 eV, 1.8/Å, 2.0 Å, 2 u): path-integral mean and variance agree with the grid's
+    /// exact quantum thermal averages (Colbert–Miller, checked against the analytic Morse levels in QuantumGridTests) within
+    /// 4 standard errors at 30, 150 and 600 K (ħω/kT = 12.5, 2.5 and 0.6).
+    /// </summary>
+    [Theory]
+    [InlineData(30)]
+    [InlineData(150)]
+    [InlineData(600)]
+    public void Morse_line_agrees_with_the_exact_grid(double kelvin)
+    {
+        var morse = new Morse(Energy.FromElectronVolts(0.3), 1.8, Length.FromAngstroms(2.0));
+        var landscape = PairLandscape.Line(morse, Length.FromAngstroms(1.2), Length.FromAngstroms(4.5));
+        var settings = new SamplingSettings { Seed = 5, Chains = 8, SamplesPerChain = 40_000, BurnIn = 5_000 };
+        var report = PathIntegralSampler.RunPair(landscape, Mass.FromAtomicMassUnits(2), Temperature.FromKelvin(kelvin), settings);
+        output.WriteLine($"{kelvin} K P={report.PathIntegral.Beads} L={report.PathIntegral.StagingLinks} ħω/kT={report.PathIntegral.LargestQuantumToThermalRatio:G3}: mean {report.Mean} exact {report.Exact.MeanInAngstroms:G6}; var {report.Variance} exact {report.Exact.VarianceInAngstromsSquared:G6}; accept {report.AtBeads.Diagnostics.AcceptanceRate:F3}");
+        Assert.True(Math.Abs(report.ZScoresAgainstExact.Mean) < 4, $"mean z = {report.ZScoresAgainstExact.Mean:G3}");
+        Assert.True(Math.Abs(report.ZScoresAgainstExact.Variance) < 4, $"variance z = {report.ZScoresAgainstExact.Variance:G3}");
+        Assert.DoesNotContain(report.Warnings, w => w.Code == WarningCodes.DisagreesWithExact);
+    }
+
+    /// <summary>
+    /// The invented fcc cage (12 Lennard-Jones neighbours, 10 meV at 3.5 Å) with 20 u at 5 K: the path-integral
+    /// mean-square displacement agrees with the exact quantum basis value (QuantumSite) within 4 standard errors, is many
+    /// times the classical one, and the report says so in a warning whose code contains "quantum".
+    /// </summary>
+    [Fact]
+    public void Fcc_cage_agrees_with_the_basis_result()
+    {
+        var settings = new SamplingSettings { Seed = 3, Chains = 4, SamplesPerChain = 20_000, BurnIn = 4_000 };
+        var report = PathIntegralSampler.RunSite(InventedLandscapes.Cage, Mass.FromAtomicMassUnits(20), Temperature.FromKelvin(5), settings);
+        Assert.NotNull(report.Exact);
+        double exact = report.Exact!.MeanSquareDisplacementInAngstromsSquared;
+        output.WriteLine($"P={report.PathIntegral.Beads} L={report.PathIntegral.StagingLinks}: MSD {report.MeanSquareDisplacement} exact {exact:G6} classical {report.Classical.MeanSquareDisplacement}");
+        Assert.True(Math.Abs(report.MeanSquareDisplacement.ZScore(exact)) < 4, $"{report.MeanSquareDisplacement} against {exact:G6}");
+        Assert.True(report.MeanSquareDisplacement.Value > 3 * report.Classical.MeanSquareDisplacement.Value);
+        Assert.Contains(report.Warnings, w => w.Code.Contains("quantum", StringComparison.Ordinal) && w.Message.Contains("underestimate", StringComparison.Ordinal));
+        Assert.True(report.Mean.Norm < 5 * report.MeanStandardError.Norm + 1e-3);
+        Assert.Equal(8 * Math.PI * Math.PI / 3 * report.MeanSquareDisplacement.Value, report.DebyeWallerB.Value, 1e-12);
+    }
+
+    /// <summary>
+    /// An anisotropic near-harmonic site (invented: springs ½k(r − r0)², k = 1 eV/Å², r0 = 1 Å, to neighbours at ±1.5, ±2.0
+    /// and ±3.0 Å along x, y and z; 6 u; 40 K): each diagonal component of the path-integral covariance agrees with the
+    /// exact quantum basis within 4 standard errors of the mean-square displacement, and the three differ (the site is anisotropic).
+    /// </summary>
+    [Fact]
+    public void Anisotropic_site_agrees_with_the_basis_component_by_component()
+    {
+        Position[] sites = [new(1.5, 0, 0), new(-1.5, 0, 0), new(0, 2, 0), new(0, -2, 0), new(0, 0, 3), new(0, 0, -3)];
+        var site = SiteLandscape.Create(new HarmonicBond(1.0, Length.FromAngstroms(1.0)), sites, Position.Origin, Confinement.Sphere(Length.FromAngstroms(0.8)));
+        var settings = new SamplingSettings { Seed = 9, Chains = 4, SamplesPerChain = 20_000, BurnIn = 4_000 };
+        var report = PathIntegralSampler.RunSite(site, Mass.FromAtomicMassUnits(6), Temperature.FromKelvin(40), settings);
+        Assert.NotNull(report.Exact);
+        var q = report.Exact!.Covariance;
+        var c = report.Covariance;
+        double se = report.MeanSquareDisplacement.StandardError;
+        output.WriteLine($"PIMC {c} basis {q} MSD {report.MeanSquareDisplacement}");
+        Assert.True(Math.Abs(c.XX - q.XX) < 4 * se && Math.Abs(c.YY - q.YY) < 4 * se && Math.Abs(c.ZZ - q.ZZ) < 4 * se);
+        Assert.True(q.XX < q.YY && q.YY < q.ZZ);
+    }
 }

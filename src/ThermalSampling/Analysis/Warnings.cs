@@ -46,4 +46,7 @@ public static class WarningCodes
 
     /// <summary>More than 0.1 % of a site's draws fell outside its distribution histograms' range (±6 harmonic standard deviations): the well is wider than its harmonic estimate.</summary>
     public const string BeyondDistributionRange = "beyond-distribution-range";
+
+    /// <summary>A path-integral result still changes with the number of beads beyond its tolerance: raise the beads.</summary>
+    public const string QuantumBeadsNotConverged = "quantum-beads-not-converged";
 }

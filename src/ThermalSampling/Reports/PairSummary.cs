@@ -73,9 +73,13 @@ internal static class PairSummary
         return (ReportParts.WithQuantumVerdict(warnings, verdict), quantum);
     }
 
-    /// <summary>The report of one temperature from its run record.</summary>
+    /// <summary>
+    /// The report of one temperature from its run record. For the record of a path integral's ring polymers
+    /// (<paramref name="pathIntegral"/>), the classical-validity verdict and the comparison with the classical quadrature are
+    /// left out: the path-integral report makes its own against the exact quantum values.
+    /// </summary>
     internal static PairVibrationReport Summarise<TPotential>(PairLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
-        References references, TemperatureRecord run)
+        References references, TemperatureRecord run, bool pathIntegral = false)
         where TPotential : struct, IPairPotential
     {
         var (exact, well, harmonic, firstOrder, _) = references;
@@ -107,10 +111,12 @@ internal static class PairSummary
             exact.Skewness * Math.Pow(exactSigma, 3), exact.ExcessKurtosis * Math.Pow(exactSigma, 4));
         var cumulants = CumulantEstimate.From(results.Select(r => r.Cumulants).ToList());
 
-        var (validity, quantum) = Verdict(landscape, mass, temperature, ValidityWarnings(mass, temperature, references, exact.RmsInAngstroms), exact);
+        var (validity, quantum) = pathIntegral
+            ? (ReportParts.WithoutQuantumAdvice(ValidityWarnings(mass, temperature, references, exact.RmsInAngstroms)), null)
+            : Verdict(landscape, mass, temperature, ValidityWarnings(mass, temperature, references, exact.RmsInAngstroms), exact);
         warnings.AddRange(validity); // at the exact spread, as validate uses
         ReportParts.AddConvergenceWarnings(warnings, summary, acceptance, metropolis ? target : null);
-        if (Math.Abs(comparison.ZScoreMean) > 4 || Math.Abs(comparison.ZScoreVariance) > 4)
+        if (!pathIntegral && (Math.Abs(comparison.ZScoreMean) > 4 || Math.Abs(comparison.ZScoreVariance) > 4))
         {
             warnings.Add(new Warning(WarningCodes.DisagreesWithExact, string.Create(CultureInfo.InvariantCulture,
                 $"The sampled mean or variance differs from the exact quadrature value by more than 4 standard errors (z = {comparison.ZScoreMean:G3}, {comparison.ZScoreVariance:G3}): the chains are not converged or the error bars are too small. Trust the exact value.")));

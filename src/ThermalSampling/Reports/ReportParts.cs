@@ -75,6 +75,10 @@ internal static class ReportParts
         return points.MoveToImmutable();
     }
 
+    /// <summary>The warnings without the classical-validity ones about quantum effects (a path integral's own report states those with its quantum numbers).</summary>
+    internal static ImmutableArray<Warning> WithoutQuantumAdvice(IEnumerable<Warning> warnings)
+        => [.. warnings.Where(w => w.Code is not (WarningCodes.QuantumEffects or WarningCodes.DeBroglieWavelength))];
+
     /// <summary>
     /// The warnings with the quantum-effects one giving <paramref name="verdict"/> (the exact quantum number, or why there is
     /// none) in place of its advice to use an estimate; a quantum-effects warning with the verdict is added first when only

@@ -67,9 +67,12 @@ internal static class SiteSummary
         return (ReportParts.WithQuantumVerdict(warnings, verdict), quantum);
     }
 
-    /// <summary>The report of one temperature from its run record.</summary>
+    /// <summary>
+    /// The report of one temperature from its run record. For the record of a path integral's ring polymers
+    /// (<paramref name="pathIntegral"/>), the classical-validity verdict is left out: the path-integral report makes its own.
+    /// </summary>
     internal static SiteVibrationReport Summarise<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, Temperature temperature, SamplingSettings settings,
-        SiteHarmonicEstimate harmonic, TemperatureRecord run)
+        SiteHarmonicEstimate harmonic, TemperatureRecord run, bool pathIntegral = false)
         where TPotential : struct, IPairPotential
     {
         var results = run.Chains;
@@ -119,7 +122,8 @@ internal static class SiteSummary
         {
             warnings.Add(SiteBasins.LeftSiteWarning(basin, outside));
         }
-        var (validity, quantum) = Verdict(landscape, mass, temperature, [.. ValidityWarnings(mass, temperature, harmonic, basin, Math.Sqrt(Math.Max(msd, 1e-300) / 3), nearWalls)], msd);
+        ImmutableArray<Warning> validityWarnings = [.. ValidityWarnings(mass, temperature, harmonic, basin, Math.Sqrt(Math.Max(msd, 1e-300) / 3), nearWalls)];
+        var (validity, quantum) = pathIntegral ? (ReportParts.WithoutQuantumAdvice(validityWarnings), null) : Verdict(landscape, mass, temperature, validityWarnings, msd);
         warnings.AddRange(validity);
         if (staysAtSite && ReportParts.FirstOrderCheck("mean shift (length of the vector)", harmonic.FirstOrderMeanShift.Norm, (mean - min).Norm, seMean.Norm) is { } firstOrderWarning)
         {
