@@ -33,14 +33,14 @@ internal static class ReportJsonWriter
         w.WriteString("libraryVersion", Provenance.CurrentLibraryVersion);
         WriteInputs(w, s, results.Surface);
         w.WriteStartArray("results");
-        foreach (var r in results.Pairs)
+        for (int i = 0; i < results.Pairs.Count; i++)
         {
-            WritePair(w, r, l, s);
+            WritePair(w, results.Pairs[i], l, s, results.PairQuantum?[i]);
         }
         double e = ScenarioUnits.Energy[s.EnergyUnit];
-        foreach (var r in results.Sites)
+        for (int i = 0; i < results.Sites.Count; i++)
         {
-            WriteSite(w, r, l, e, s);
+            WriteSite(w, results.Sites[i], l, e, s, results.SiteQuantum?[i]);
         }
         w.WriteEndArray();
         WriteEinsteinFit(w, results, l);
@@ -353,7 +353,7 @@ internal static class ReportJsonWriter
         w.WriteEndArray();
     }
 
-    private static void WritePair(Utf8JsonWriter w, PairVibrationReport r, double l, Scenario s)
+    private static void WritePair(Utf8JsonWriter w, PairVibrationReport r, double l, Scenario s, PairPathIntegralReport? quantum)
     {
         double l2 = l * l;
         w.WriteStartObject();
@@ -427,11 +427,53 @@ internal static class ReportJsonWriter
             w.WriteEndObject();
         }
         TemperatureFactors(w, r.TemperatureFactors, l);
+        if (quantum is not null)
+        {
+            // Quantum statistics: the keys above are the path integral's; here the classical run's, and how the quantum values were made.
+            var c = quantum.Classical;
+            w.WriteStartObject("classical");
+            Number(w, "mean", c.Mean.Value / l);
+            Number(w, "meanStdErr", c.Mean.StandardError / l);
+            Number(w, "meanShift", c.MeanShift?.Value / l);
+            Number(w, "meanShiftStdErr", c.MeanShift?.StandardError / l);
+            Number(w, "variance", c.Variance.Value / l2);
+            Number(w, "varianceStdErr", c.Variance.StandardError / l2);
+            Number(w, "rms", c.Rms.Value / l);
+            Number(w, "rmsStdErr", c.Rms.StandardError / l);
+            w.WriteEndObject();
+            QuantumDetails(w, quantum.PathIntegral, l, quantum.AtBeads.Variance, quantum.AtHalfBeads.Variance, "variance");
+        }
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
     }
 
-    private static void WriteSite(Utf8JsonWriter w, SiteVibrationReport r, double l, double e, Scenario s)
+    /// <summary>The <c>quantum</c> object: beads, extrapolation, zero-point variance, convergence, and the two runs' values of <paramref name="what"/>.</summary>
+    private static void QuantumDetails(Utf8JsonWriter w, PathIntegralDetails d, double l, Estimate atBeads, Estimate atHalfBeads, string what)
+    {
+        double l2 = l * l;
+        w.WriteStartObject("quantum");
+        w.WriteNumber("beads", d.Beads);
+        w.WriteBoolean("extrapolated", d.Extrapolated);
+        Number(w, "zeroPointVariance", d.ZeroPointVarianceInAngstromsSquared / l2);
+        w.WriteBoolean("converged", d.Converged);
+        w.WriteNumber("stagingLinks", d.StagingLinks);
+        Number(w, "relativeBeadCorrection", d.RelativeBeadCorrection);
+        Number(w, "hbarOmegaOverKT", d.LargestQuantumToThermalRatio);
+        Number(w, "thermalWavelength", d.ThermalWavelengthInAngstroms / l);
+        w.WriteStartArray("runs");
+        foreach (var (beads, value) in new[] { (d.Beads, atBeads), (d.Beads / 2, atHalfBeads) })
+        {
+            w.WriteStartObject();
+            w.WriteNumber("beads", beads);
+            Number(w, what, value.Value / l2);
+            Number(w, what + "StdErr", value.StandardError / l2);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteEndObject();
+    }
+
+    private static void WriteSite(Utf8JsonWriter w, SiteVibrationReport r, double l, double e, Scenario s, SitePathIntegralReport? quantum)
     {
         double l2 = l * l;
         w.WriteStartObject();
@@ -544,6 +586,29 @@ internal static class ReportJsonWriter
         Number(w, "gridSpacing", basin.GridSpacingInAngstroms / l);
         w.WriteEndObject();
         TemperatureFactors(w, r.TemperatureFactors, l);
+        if (quantum is not null)
+        {
+            // Quantum statistics: the keys above are the path integral's; the exact quantum tensor (when the basis reaches
+            // this temperature; otherwise a warning says why), the classical run's values, and how the quantum ones were made.
+            if (quantum.Exact is { } basis)
+            {
+                w.WriteStartObject("exact");
+                Vector(w, "mean", basis.Mean, l);
+                Matrix(w, "covariance", basis.Covariance, l2);
+                Number(w, "meanSquareDisplacement", basis.MeanSquareDisplacementInAngstromsSquared / l2);
+                w.WriteEndObject();
+            }
+            var c = quantum.Classical;
+            w.WriteStartObject("classical");
+            Vector(w, "mean", c.Mean, l);
+            Matrix(w, "covariance", c.Covariance, l2);
+            Number(w, "meanSquareDisplacement", c.MeanSquareDisplacement.Value / l2);
+            Number(w, "meanSquareDisplacementStdErr", c.MeanSquareDisplacement.StandardError / l2);
+            Number(w, "debyeWallerB", c.DebyeWallerB?.Value / l2);
+            Number(w, "debyeWallerBStdErr", c.DebyeWallerB?.StandardError / l2);
+            w.WriteEndObject();
+            QuantumDetails(w, quantum.PathIntegral, l, quantum.AtBeads.MeanSquareDisplacement, quantum.AtHalfBeads.MeanSquareDisplacement, "meanSquareDisplacement");
+        }
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
     }

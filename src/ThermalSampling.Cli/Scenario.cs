@@ -49,6 +49,14 @@ internal sealed record Scenario(
     /// <summary><c>output.symmetrise</c>: add the tensors averaged over the site's point group to site results.</summary>
     internal bool Symmetrise { get; init; }
 
+    /// <summary><c>statistics</c>: "classical" (the default) or "quantum" (path-integral sampling; docs/quantum.md).</summary>
+    internal string Statistics { get; init; } = "classical";
+
+    /// <summary><c>beads</c>: the path integral's P (a power of two), or null for the default rule.</summary>
+    internal int? Beads { get; init; }
+
+    internal bool Quantum => Statistics == "quantum";
+
     internal double AngstromsPerLengthUnit => ScenarioUnits.Length[LengthUnit];
 }
 
@@ -322,7 +330,7 @@ internal static class ScenarioReader
         {
             throw new ScenarioException(new[] { "$: the scenario must be a JSON object." });
         }
-        c.CheckKeys(root, "$", "title", "units", "mass", "potential", "landscape", "temperatures", "sampling", "output");
+        c.CheckKeys(root, "$", "title", "units", "mass", "potential", "landscape", "temperatures", "sampling", "output", "statistics", "beads");
         string title = c.String(root, "title", "$", required: false) ?? "";
         string energyUnit = "eV", lengthUnit = "angstrom";
         if (c.Object(root, "units", "$", required: false) is { } units)
@@ -382,6 +390,20 @@ internal static class ScenarioReader
                 sampling = sampling with { ScatteringVectorsInInverseAngstroms = [.. q] };
             }
         }
+        string statistics = c.String(root, "statistics", "$", false, ["classical", "quantum"]) ?? "classical";
+        int? beads = (int?)c.Integer(root, "beads", "$", false, ScenarioSchema.At("properties/beads"));
+        if (beads is int b && (b & (b - 1)) != 0)
+        {
+            c.Add("$.beads", string.Create(CultureInfo.InvariantCulture, $"{b} is not a power of two; the path integral extrapolates from P/2 and P beads, so P must be 2, 4, 8, … {PathIntegralSampler.MaxBeads}."));
+        }
+        if (beads is not null && statistics != "quantum")
+        {
+            c.Add("$.beads", "applies only with \"statistics\": \"quantum\" (the path integral's beads).");
+        }
+        if (statistics == "quantum" && sampling is not null && sampling.Method != SamplingMethod.Metropolis)
+        {
+            c.Add("$.sampling.method", "quantum statistics walk ring polymers of beads and need \"metropolis\", not \"direct\".");
+        }
         if (c.Problems.Count > 0)
         {
             throw new ScenarioException(c.Problems);
@@ -390,6 +412,8 @@ internal static class ScenarioReader
         {
             SourceJson = root.GetRawText(),
             Symmetrise = symmetrise,
+            Statistics = statistics,
+            Beads = beads,
         };
     }
 

@@ -28,6 +28,12 @@ internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibr
     /// <summary>For <c>sweep --shard</c>: the part's records, one per temperature it has chains of.</summary>
     internal IReadOnlyList<TemperatureRecord>? Records { get; init; }
 
+    /// <summary>With quantum statistics: the path-integral reports of the pairs (<see cref="Pairs"/> holds their <c>ToVibrationReport</c> forms).</summary>
+    internal IReadOnlyList<PairPathIntegralReport>? PairQuantum { get; init; }
+
+    /// <summary>With quantum statistics: the path-integral reports of the sites (<see cref="Sites"/> holds their <c>ToVibrationReport</c> forms).</summary>
+    internal IReadOnlyList<SitePathIntegralReport>? SiteQuantum { get; init; }
+
     internal int Finished => Pairs.Count + Sites.Count;
 }
 
@@ -154,6 +160,15 @@ internal static class ScenarioRunner
                 {
                     return new ScenarioResults(scenario, [], [], Checks: temperatures.SelectMany(t => PairSampler.Check(landscape, mass, t).Select(w => (t.InKelvin, w))).ToList());
                 }
+                if (scenario.Quantum && !checkOnly)
+                {
+                    RefuseQuantumParts(shard, merged, checkpoint);
+                    var quantum = new List<PairPathIntegralReport>();
+                    bool stopped = RunEach(temperatures, t => quantum.Add(PathIntegralSampler.RunPair(landscape, mass, t, scenario.Sampling, scenario.Beads, progress, ct)));
+                    var shown = quantum.Select(q => q.ToVibrationReport()).ToList();
+                    var quantumFigures = plotPath is null ? null : Figures(() => FigureWriter.WritePair(shown, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
+                    return new ScenarioResults(scenario, shown, [], stopped, quantumFigures) { PairQuantum = quantum };
+                }
                 if (shard is { } part)
                 {
                     return new ScenarioResults(scenario, [], []) { Records = Part(temperatures, scenario.Sampling.Chains, part, (t, range) => PairSampler.Sample(landscape, t, scenario.Sampling, range, progress, ct)) };
@@ -208,6 +223,15 @@ internal static class ScenarioRunner
             {
                 return new ScenarioResults(scenario, [], [], Checks: temperatures.SelectMany(t => SiteSampler.Check(siteLandscape, mass, t).Select(w => (t.InKelvin, w))).ToList()) { Surface = surface };
             }
+            if (scenario.Quantum)
+            {
+                RefuseQuantumParts(shard, merged, checkpoint);
+                var quantum = new List<SitePathIntegralReport>();
+                bool stopped = RunEach(temperatures, t => quantum.Add(PathIntegralSampler.RunSite(siteLandscape, mass, t, scenario.Sampling, scenario.Beads, progress, ct)));
+                var shown = quantum.Select(q => q.ToVibrationReport()).ToList();
+                var quantumFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSite(shown, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
+                return new ScenarioResults(scenario, [], shown, stopped, quantumFigures) { Surface = surface, SiteQuantum = quantum };
+            }
             if (shard is { } sitePart)
             {
                 return new ScenarioResults(scenario, [], []) { Records = Part(temperatures, scenario.Sampling.Chains, sitePart, (t, range) => SiteSampler.Sample(siteLandscape, t, scenario.Sampling, range, progress, ct)), Surface = surface };
@@ -232,6 +256,15 @@ internal static class ScenarioRunner
         catch (LandscapeException ex)
         {
             throw new ScenarioException(new[] { $"$.landscape: {ex.Message}" });
+        }
+    }
+
+    /// <summary>Quantum runs are three runs per temperature (classical, P and P/2 beads): not yet sharded, merged or checkpointed.</summary>
+    private static void RefuseQuantumParts((int Index, int Count)? shard, IReadOnlyList<TemperatureRecord>? merged, CheckpointPlan? checkpoint)
+    {
+        if (shard is not null || merged is not null || checkpoint is not null)
+        {
+            throw new ScenarioException(new[] { "$.statistics: quantum runs cannot yet be split into shards, merged, checkpointed or resumed; run the scenario whole (one process per temperature list), or split its temperatures into several scenarios." });
         }
     }
 

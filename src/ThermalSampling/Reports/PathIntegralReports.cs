@@ -59,6 +59,40 @@ public sealed record PairPathIntegralReport
 
     /// <summary>The verdict on classical statistics and on the quantum result (codes in <see cref="WarningCodes"/>).</summary>
     public required ImmutableArray<Warning> Warnings { get; init; }
+
+    /// <summary>
+    /// The report in the form of a classical one, for code that reads vibration reports (tables, figures, JSON): the run at
+    /// P beads (its histogram is the quantum density at P) with the extrapolated mean, shift, variance and RMS, this report's
+    /// warnings, the exact quantum values in place of the classical quadrature (<see cref="PairVibrationReport.Exact"/>:
+    /// moments, z-scores and the grid's probability in each histogram bin) and <see cref="PairVibrationReport.QuantumExact"/>.
+    /// </summary>
+    public PairVibrationReport ToVibrationReport()
+    {
+        var q = Exact;
+        double sigma = System.Math.Sqrt(q.VarianceInAngstromsSquared);
+        var h = AtBeads.Histogram;
+        var bins = new double[h.Density.Length];
+        for (int i = 0; i < q.Grid.Length; i++)
+        {
+            int bin = (int)System.Math.Floor((q.Grid[i] - h.Lower) / h.BinWidth);
+            if (bin >= 0 && bin < bins.Length)
+            {
+                bins[bin] += q.Probabilities[i] / h.BinWidth;
+            }
+        }
+        return AtBeads with
+        {
+            Mean = Mean,
+            MeanShift = MeanShift,
+            Variance = Variance,
+            Rms = Rms,
+            Exact = new ExactComparison(q.MeanInAngstroms, q.VarianceInAngstromsSquared, q.Skewness, q.ExcessKurtosis, double.NaN, ZScoresAgainstExact.Mean,
+                ZScoresAgainstExact.Variance, q.Skewness * sigma * sigma * sigma, q.ExcessKurtosis * sigma * sigma * sigma * sigma),
+            ExactBinDensity = [.. bins],
+            QuantumExact = q,
+            Warnings = Warnings,
+        };
+    }
 }
 
 /// <summary>
@@ -108,4 +142,20 @@ public sealed record SitePathIntegralReport
 
     /// <summary>The verdict on classical statistics and on the quantum result.</summary>
     public required ImmutableArray<Warning> Warnings { get; init; }
+
+    /// <summary>
+    /// The report in the form of a classical one: the run at P beads with the extrapolated mean, shift, covariance, MSD and
+    /// B, this report's warnings and the exact quantum tensor as <see cref="SiteVibrationReport.QuantumExact"/>.
+    /// </summary>
+    public SiteVibrationReport ToVibrationReport() => AtBeads with
+    {
+        Mean = Mean,
+        MeanStandardError = MeanStandardError,
+        MeanShift = MeanShift,
+        Covariance = Covariance,
+        MeanSquareDisplacement = MeanSquareDisplacement,
+        DebyeWallerB = DebyeWallerB,
+        QuantumExact = Exact,
+        Warnings = Warnings,
+    };
 }

@@ -48,7 +48,9 @@ internal static class SiteChains
         Envelope? envelope = metropolis ? null : Envelope.Build(kernel, min, cholesky, logWeightMin, landscape, settings.Seed);
         var layout = new RecordLayout(3, settings.SamplesPerChain, settings.MaxDiagnosticValuesPerChain, settings.RetainedDrawsPerChain, [min.X, min.Y, min.Z],
             harmonic.MinimumEnergyInElectronVolts, 0, radialMax, settings.HistogramBins, SiteWaves(settings),
-            ShapeFrame.For(harmonic, landscape.Confinement, landscape.Centre, settings.HistogramBins, settings.SiteDistributionHalfWidthInSigmas));
+            // A ring polymer's beads spread as the quantum harmonic modes say (wider than the classical ones at low temperature): its frame uses those.
+            ShapeFrame.For(ring is null ? harmonic : harmonic with { Modes = [.. harmonic.Modes.Select(m => m with { ClassicalVarianceInAngstromsSquared = m.QuantumVarianceInAngstromsSquared })] },
+                landscape.Confinement, landscape.Centre, settings.HistogramBins, settings.SiteDistributionHalfWidthInSigmas));
         double binWidth = EnergyHistogram.BinWidthFor(temperature.ThermalEnergyInElectronVolts);
         ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
