@@ -146,4 +146,20 @@ public class PathIntegralTests(ITestOutputHelper output)
         Assert.True(Math.Abs(c.XX - q.XX) < 4 * se && Math.Abs(c.YY - q.YY) < 4 * se && Math.Abs(c.ZZ - q.ZZ) < 4 * se);
         Assert.True(q.XX < q.YY && q.YY < q.ZZ);
     }
+
+    /// <summary>
+    /// Too few beads for a strongly quantum well (the invented harmonic line, ħω/kT = 26.5, with P = 4): the extrapolation
+    /// moves the value by far more than the tolerance, and the report says so (not converged, with a warning).
+    /// </summary>
+    [Fact]
+    public void Too_few_beads_are_reported_as_not_converged()
+    {
+        var landscape = PairLandscape.Line(new HarmonicBond(2.0, Length.FromAngstroms(3)), Length.FromAngstroms(1.0), Length.FromAngstroms(5.0));
+        var settings = new SamplingSettings { Seed = 2, Chains = 4, SamplesPerChain = 20_000, BurnIn = 2_000 };
+        var report = PathIntegralSampler.RunPair(landscape, Mass.FromAtomicMassUnits(4), Temperature.FromKelvin(20), settings, beads: 4);
+        Assert.False(report.PathIntegral.Converged);
+        Assert.True(report.PathIntegral.RelativeBeadCorrection > 0.1); // 0.139 from the closed form at P = 2 and 4
+        Assert.Contains(report.Warnings, w => w.Code == WarningCodes.QuantumBeadsNotConverged && w.Message.Contains("from 2 and 4 beads", StringComparison.Ordinal));
+        Assert.Throws<ArgumentOutOfRangeException>(() => PathIntegralSampler.RunPair(landscape, Mass.FromAtomicMassUnits(4), Temperature.FromKelvin(20), settings, beads: 6));
+    }
 }
