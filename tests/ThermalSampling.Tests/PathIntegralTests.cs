@@ -1,5 +1,6 @@
 using System;
 using System.Linq;
+using System.Runtime.Intrinsics;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
 using ThermalSampling.Potentials;
@@ -161,5 +162,92 @@ public class PathIntegralTests(ITestOutputHelper output)
         Assert.True(report.PathIntegral.RelativeBeadCorrection > 0.1); // 0.139 from the closed form at P = 2 and 4
         Assert.Contains(report.Warnings, w => w.Code == WarningCodes.QuantumBeadsNotConverged && w.Message.Contains("from 2 and 4 beads", StringComparison.Ordinal));
         Assert.Throws<ArgumentOutOfRangeException>(() => PathIntegralSampler.RunPair(landscape, Mass.FromAtomicMassUnits(4), Temperature.FromKelvin(20), settings, beads: 6));
+    }
+
+    /// <summary>The path-integral runs are the same bits at every lane width and thread count (line, radial and site rings).</summary>
+    [Theory]
+    [InlineData("line")]
+    [InlineData("radial")]
+    [InlineData("site")]
+    public void Ring_walks_give_the_same_bits_at_every_lane_width_and_thread_count(string which)
+    {
+        var morse = new Morse(Energy.FromElectronVolts(0.3), 1.8, Length.FromAngstroms(2.0));
+        double[] Run(int? lanes, int threads)
+        {
+            var settings = new SamplingSettings { Seed = 21, Chains = 5, SamplesPerChain = 3000, BurnIn = 500, ChainsPerVector = lanes, MaxThreads = threads };
+            var mass = Mass.FromAtomicMassUnits(which == "site" ? 20 : 2);
+            var t = Temperature.FromKelvin(which == "site" ? 10 : 60);
+            if (which == "site")
+            {
+                var r = PathIntegralSampler.RunSite(InventedLandscapes.Cage, mass, t, settings, beads: 8);
+                return [r.AtBeads.MeanSquareDisplacement.Value, r.AtBeads.Mean.X, r.AtHalfBeads.Covariance.XY, r.AtBeads.Diagnostics.AcceptanceRate ?? 0, .. r.AtBeads.Distribution.Radial.Density];
+            }
+            var landscape = which == "line"
+                ? PairLandscape.Line(morse, Length.FromAngstroms(1.2), Length.FromAngstroms(4.5))
+                : PairLandscape.Radial(morse, Length.FromAngstroms(1.2), Length.FromAngstroms(4.5));
+            var p = PathIntegralSampler.RunPair(landscape, mass, t, settings, beads: 16);
+            return [p.AtBeads.Mean.Value, p.AtBeads.Variance.Value, p.AtHalfBeads.Variance.Value, p.AtBeads.Diagnostics.AcceptanceRate ?? 0, .. p.AtBeads.Histogram.Density];
+        }
+        var reference = Run(1, 1);
+        foreach (var (lanes, threads) in new (int?, int)[] { (2, 1), (4, 2), (8, 1), (null, 2) })
+        {
+            Assert.Equal(reference, Run(lanes, threads));
+        }
+    }
+
+    /// <summary>
+    /// A radial pair is sampled as its relative vector in three dimensions: the invented Morse pair of 2 u at 60 K agrees
+    /// with the exact quantum grid (the l sum; QuantumGridTests checks it against the 3D oscillator) within 4 standard errors.
+    /// </summary>
+    [Fact]
+    public void Radial_pair_agrees_with_the_l_sum()
+    {
+        var morse = new Morse(Energy.FromElectronVolts(0.3), 1.8, Length.FromAngstroms(2.0));
+        var landscape = PairLandscape.Radial(morse, Length.FromAngstroms(1.2), Length.FromAngstroms(4.5));
+        var settings = new SamplingSettings { Seed = 10, Chains = 8, SamplesPerChain = 40_000, BurnIn = 4_000 };
+        var report = PathIntegralSampler.RunPair(landscape, Mass.FromAtomicMassUnits(2), Temperature.FromKelvin(60), settings);
+        output.WriteLine($"P={report.PathIntegral.Beads}: mean {report.Mean} exact {report.Exact.MeanInAngstroms:G6}; var {report.Variance} exact {report.Exact.VarianceInAngstromsSquared:G6}");
+        Assert.True(Math.Abs(report.ZScoresAgainstExact.Mean) < 4, $"mean z = {report.ZScoresAgainstExact.Mean:G3}");
+        Assert.True(Math.Abs(report.ZScoresAgainstExact.Variance) < 4, $"variance z = {report.ZScoresAgainstExact.Variance:G3}");
+    }
+
+    /// <summary>
+    /// Quantum → classical as T grows: the invented harmonic line (k = 2 eV/Å², 40 u) at 1200 K has ħω/kT = 0.14, and the
+    /// path-integral variance equals the classical kT/k within 4 standard errors (the quantum excess (x/2)coth(x/2) − 1 is
+    /// 0.16 % there), with no quantum warning.
+    /// </summary>
+    [Fact]
+    public void Quantum_tends_to_classical_when_hot()
+    {
+        var landscape = PairLandscape.Line(new HarmonicBond(2.0, Length.FromAngstroms(3)), Length.FromAngstroms(1.0), Length.FromAngstroms(5.0));
+        var settings = new SamplingSettings { Seed = 4, Chains = 8, SamplesPerChain = 30_000, BurnIn = 4_000 };
+        var t = Temperature.FromKelvin(1200);
+        var report = PathIntegralSampler.RunPair(landscape, Mass.FromAtomicMassUnits(40), t, settings);
+        double classical = t.ThermalEnergyInElectronVolts / 2.0;
+        output.WriteLine($"P={report.PathIntegral.Beads} ħω/kT={report.PathIntegral.LargestQuantumToThermalRatio:G3}: {report.Variance} classical {classical:G6}");
+        Assert.True(report.PathIntegral.LargestQuantumToThermalRatio < 0.2);
+        Assert.True(Math.Abs(report.Variance.ZScore(classical)) < 4, $"{report.Variance} against {classical:G6}");
+        Assert.DoesNotContain(report.Warnings, w => w.Code == WarningCodes.QuantumEffects);
+    }
+
+    /// <summary>Reference: Math.Log (the platform's libm) over (0, 1] as the Gaussian draws use it, and over wide magnitudes; the same bits at every width.</summary>
+    [Fact]
+    public void Lane_logarithm_is_within_1e15_of_Math_Log_and_the_same_at_every_width()
+    {
+        var random = Randomness.RandomStream.FromSeed(31);
+        double worst = 0;
+        for (int i = 0; i < 200_000; i++)
+        {
+            double x = i % 2 == 0 ? 1 - random.NextUnitInterval() : Math.Exp(-700 + 1400 * random.NextUnitInterval());
+            double mine = Numerics.LaneMath.Log<Numerics.Lanes1, double, ulong>(x);
+            double reference = Math.Log(x);
+            worst = Math.Max(worst, Math.Abs(mine - reference) / Math.Max(1, Math.Abs(reference)));
+            var v8 = Numerics.LaneMath.Log<Numerics.Lanes8, System.Runtime.Intrinsics.Vector512<double>, System.Runtime.Intrinsics.Vector512<ulong>>(System.Runtime.Intrinsics.Vector512.Create(x));
+            var v2 = Numerics.LaneMath.Log<Numerics.Lanes2, System.Runtime.Intrinsics.Vector128<double>, System.Runtime.Intrinsics.Vector128<ulong>>(System.Runtime.Intrinsics.Vector128.Create(x));
+            Assert.Equal(mine, v8.GetElement(3));
+            Assert.Equal(mine, v2.GetElement(1));
+        }
+        Assert.True(worst <= 1e-15, $"worst error {worst:G3}");
+        Assert.Equal(0.0, Numerics.LaneMath.Log<Numerics.Lanes1, double, ulong>(1.0));
     }
 }
