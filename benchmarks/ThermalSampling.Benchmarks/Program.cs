@@ -8,7 +8,7 @@ namespace ThermalSampling.Benchmarks;
 /// <summary>
 /// Entry point. <c>dotnet run -c Release --project benchmarks/ThermalSampling.Benchmarks -- --filter '*'</c> runs every
 /// benchmark with a short job (a few minutes in all on two cores); add <c>--smoke</c> for a dry job that only proves the
-/// benchmarks build and run (what CI does; it times nothing); <c>--ess</c> prints effective samples per step of each sampler.
+/// benchmarks build and run (what CI does; it times nothing); <c>--ess</c> prints effective samples per step of each sampler, <c>--ring-ess</c> those of the path-integral walks.
 /// </summary>
 public static class Program
 {
@@ -17,6 +17,11 @@ public static class Program
         if (args.Contains("--ess"))
         {
             EffectiveSampleRates.Print();
+            return;
+        }
+        if (args.Contains("--ring-ess"))
+        {
+            RingEfficiency.Print();
             return;
         }
         bool smoke = args.Contains("--smoke");

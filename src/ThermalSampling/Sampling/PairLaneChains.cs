@@ -60,9 +60,9 @@ internal static class PairLaneChains
             var (beads, segment, hbar2m) = (Ring.Beads, Ring.Segment, Ring.HbarSquaredOverMass);
             return plan.Radial
                 ? new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, RadialField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
-                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m), place, work).Run()
+                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m, Ring.Moves), place, work).Run()
                 : new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, LineField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
-                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m), place, work).Run();
+                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m, Ring.Moves), place, work).Run();
         }
     }
 

@@ -9,8 +9,18 @@ using ThermalSampling.Randomness;
 
 namespace ThermalSampling.Sampling;
 
-/// <summary>A ring polymer's size: P beads, staging segments of L links, and ħ²/m (eV·Å²), which sets the springs.</summary>
-internal sealed record RingPlan(int Beads, int Segment, double HbarSquaredOverMass);
+/// <summary>How a ring's shape is moved after the whole-ring translation.</summary>
+internal enum RingMoves
+{
+    /// <summary>Staging: segments redrawn from the free-particle bridge (the library's walk).</summary>
+    Staging,
+
+    /// <summary>One bead at a time, a uniform offset of ±σ per coordinate accepted on springs and potential together: the plain textbook move, kept as the benchmarks' baseline (its efficiency falls as P grows).</summary>
+    SingleBead,
+}
+
+/// <summary>A ring polymer's size: P beads, staging segments of L links, and ħ²/m (eV·Å²), which sets the springs; <paramref name="Moves"/> the shape moves.</summary>
+internal sealed record RingPlan(int Beads, int Segment, double HbarSquaredOverMass, RingMoves Moves = RingMoves.Staging);
 
 /// <summary>
 /// Where the beads of a ring polymer live: the potential energy of one bead, and its signed distance to the nearest hard
@@ -71,6 +81,7 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
 
     private readonly TField _field;
     private readonly int _beads, _segment, _dimensions;
+    private readonly bool _singleBead;
     private readonly double _hbarSquaredOverMass;
     private readonly TD[] _bead, _trial;          // [3k + d]
     private readonly TD[] _energy, _trialEnergy;   // [k]
@@ -81,8 +92,10 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
     /// <param name="beads">P, 1 to 4096.</param>
     /// <param name="segment">L, the staging length: a power of two that divides P (ignored when P = 1).</param>
     /// <param name="hbarSquaredOverMass">ħ²/m, eV·Å².</param>
-    internal RingWalk(TField field, int beads, int segment, double hbarSquaredOverMass)
+    /// <param name="moves">The shape moves.</param>
+    internal RingWalk(TField field, int beads, int segment, double hbarSquaredOverMass, RingMoves moves = RingMoves.Staging)
     {
+        _singleBead = moves == RingMoves.SingleBead;
         _field = field;
         _beads = beads;
         _segment = Math.Max(1, Math.Min(segment, beads));
@@ -182,7 +195,14 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
     {
         long turn = state.Turn;
         var accept = Translate(ref state, width);
-        if (_beads > 1)
+        if (_beads > 1 && _singleBead)
+        {
+            for (int k = 0; k < _beads; k++)
+            {
+                MoveOne(ref state, k);
+            }
+        }
+        else if (_beads > 1)
         {
             int offset = (int)(turn % _segment);
             for (int a = offset; a < _beads + offset; a += _segment)
@@ -298,6 +318,61 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
         {
             Take(accept, (a + j) % _beads);
         }
+    }
+
+    /// <summary>The baseline's move: bead k alone by a uniform offset of ±σ per coordinate, accepted on the change of its two springs and its energy.</summary>
+    private void MoveOne(ref RingState<TD, TB> state, int k)
+    {
+        int before = (k + _beads - 1) % _beads, after = (k + 1) % _beads;
+        var ox = TOps.Multiply(state.Spread, LaneMath.NextOffsetPair<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3, out var oy));
+        oy = TOps.Multiply(state.Spread, oy);
+        var oz = TOps.Broadcast(0.0);
+        if (_dimensions == 3)
+        {
+            oz = TOps.Multiply(state.Spread, LaneMath.NextOffsetPair<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3, out _));
+        }
+        else
+        {
+            oy = oz;
+        }
+        var u = LaneMath.NextUnit<TOps, TD, TB>(ref state.R0, ref state.R1, ref state.R2, ref state.R3);
+        TD x = _bead[3 * k], y = _bead[3 * k + 1], z = _bead[3 * k + 2];
+        TD nx = TOps.Add(x, ox), ny = TOps.Add(y, oy), nz = TOps.Add(z, oz);
+        var zero = TOps.Broadcast(0.0);
+        var wall = _field.Wall(nx, ny, nz);
+        var inside = TOps.LessOrEqual(zero, wall);
+        var e = _field.Energy(TOps.Select(inside, nx, x), TOps.Select(inside, ny, y), TOps.Select(inside, nz, z));
+        LaneFaultCheck.Note<TOps, TD, TB>(ref state.Faults, nx, e);
+        // Σ over the two links of |new − neighbour|² − |old − neighbour|², then × −1/(2σ²) = −(2/σ²)/4.
+        TD bx = _bead[3 * before], by = _bead[3 * before + 1], bz = _bead[3 * before + 2];
+        TD cx = _bead[3 * after], cy = _bead[3 * after + 1], cz = _bead[3 * after + 2];
+        var springs = TOps.Subtract(TOps.Add(Square(nx, ny, nz, bx, by, bz), Square(nx, ny, nz, cx, cy, cz)),
+            TOps.Add(Square(x, y, z, bx, by, bz), Square(x, y, z, cx, cy, cz)));
+        var exponent = TOps.Add(TOps.Multiply(state.NegativeBetaPerBead, TOps.Subtract(e, _energy[k])),
+            TOps.Multiply(TOps.Multiply(TOps.Broadcast(-0.25), state.TwoOverSpreadSquared), springs));
+        var ratio = LaneMath.Exp<TOps, TD, TB>(exponent);
+        var threshold = u;
+        var nearest = Min(Min(wall, _wall[k]), Min(_wall[before], _wall[after]));
+        if (!FarFromAllWalls(nearest, state.TwoOverSpreadSquared))
+        {
+            (_trialWall[before], _trialWall[k], _trialWall[after]) = (_wall[before], wall, _wall[after]);
+            ratio = TOps.Multiply(ratio, ImageProduct(_trialWall, before, 2, _beads, state.TwoOverSpreadSquared));
+            threshold = TOps.Multiply(u, ImageProduct(_wall, before, 2, _beads, state.TwoOverSpreadSquared));
+        }
+        var accept = TOps.And(inside, TOps.LessThan(threshold, ratio));
+        (_trial[3 * k], _trial[3 * k + 1], _trial[3 * k + 2]) = (nx, ny, nz);
+        _trialEnergy[k] = e;
+        _trialWall[k] = wall;
+        Take(accept, k);
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static TD Square(TD x, TD y, TD z, TD ax, TD ay, TD az)
+    {
+        var dx = TOps.Subtract(x, ax);
+        var dy = TOps.Subtract(y, ay);
+        var dz = TOps.Subtract(z, az);
+        return TOps.MultiplyAdd(dx, dx, TOps.MultiplyAdd(dy, dy, TOps.Multiply(dz, dz)));
     }
 
     /// <summary>Bead k takes its trial position, energy and wall distance where <paramref name="accept"/> holds.</summary>

@@ -86,7 +86,7 @@ internal static class SiteLaneChains
             var settings = new EngineSettings(plan.BurnIn, plan.Samples, InitialWidth, MaxWidth, plan.TargetAcceptance, BlockSize, "RSGH", "LOGR", "site ring-polymer group");
             var field = new SiteField<TOps, TD, TB, TPotential>(plan.Potential, plan.Sites, plan.Confinement, plan.Centre);
             return new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, SiteField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
-                new(field, Ring.Beads, Ring.Segment, Ring.HbarSquaredOverMass), plan, c =>
+                new(field, Ring.Beads, Ring.Segment, Ring.HbarSquaredOverMass, Ring.Moves), plan, c =>
                 {
                     var (stream, p) = start(c);
                     return (stream, plan.BetaOf(c), p);
