@@ -75,7 +75,7 @@ public class RingStepCostBenchmarks
 [MemoryDiagnoser]
 public class RingEfficiencyBenchmarks
 {
-    internal const int Steps = 4000;
+    internal const int Steps = 16_000;
 
     /// <summary>P.</summary>
     [Params(8, 32, 128)]

@@ -51,4 +51,17 @@ public class ReadmeTests
         Assert.Contains("dotnet run -c Release --project src/ThermalSampling.Cli -- demo", readme);
         Assert.Contains("--project src/ThermalSampling.Cli -- demo", ci);
     }
+
+    /// <summary>The quick start's path-integral lines (the invented 50 u atom and 15 meV partner at 10 K): the quantum RMS is near the grid's and well above the classical.</summary>
+    [Fact]
+    public void Readme_path_integral_quick_start_runs()
+    {
+        var pair = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.015));
+        var line = PairLandscape.Line(pair, Length.FromAngstroms(3.0), Length.FromAngstroms(6.0));
+        var settings = new ThermalSampling.Sampling.SamplingSettings { Seed = 42, Chains = 4, SamplesPerChain = 100_000, BurnIn = 10_000 };
+        var q = ThermalSampling.PathIntegralSampler.RunPair(line, Mass.FromAtomicMassUnits(50), Temperature.FromKelvin(10), settings);
+        Assert.True(Math.Abs(q.Rms.Value - q.Exact.RmsInAngstroms) < 4 * q.Rms.StandardError + 0.005 * q.Exact.RmsInAngstroms);
+        Assert.True(q.Rms.Value > 1.15 * q.Classical.Rms.Value);
+        Assert.True(q.PathIntegral.Converged);
+    }
 }

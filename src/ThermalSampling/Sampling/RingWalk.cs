@@ -82,6 +82,7 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
     private readonly TField _field;
     private readonly int _beads, _segment, _dimensions;
     private readonly bool _singleBead;
+    private readonly long _stride;
     private readonly double _hbarSquaredOverMass;
     private readonly TD[] _bead, _trial;          // [3k + d]
     private readonly TD[] _energy, _trialEnergy;   // [k]
@@ -96,6 +97,9 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
     internal RingWalk(TField field, int beads, int segment, double hbarSquaredOverMass, RingMoves moves = RingMoves.Staging)
     {
         _singleBead = moves == RingMoves.SingleBead;
+        // The recorded bead jumps by the odd number nearest 0.618·P (P is a power of two, so every bead comes round once
+        // in P steps), so that consecutive records lie far apart on the ring and share less of its slow modes.
+        _stride = beads <= 2 ? 1 : (long)Math.Round(0.618 * beads) | 1;
         _field = field;
         _beads = beads;
         _segment = Math.Max(1, Math.Min(segment, beads));
@@ -210,7 +214,7 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
                 Regrow(ref state, a % _beads);
             }
         }
-        Show(ref state, (int)(turn % _beads));
+        Show(ref state, (int)(turn * _stride % _beads));
         state.Turn = turn + 1;
         return accept;
     }
