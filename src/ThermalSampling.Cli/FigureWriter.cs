@@ -63,6 +63,53 @@ internal static class FigureWriter
         return written;
     }
 
+    /// <summary>The figures of a quantum pair scenario: the sweep with path-integral points, and each temperature's classical and quantum distributions together.</summary>
+    internal static List<string> WritePairQuantum<TPotential>(IReadOnlyList<PairPathIntegralReport> reports, PairLandscape<TPotential> landscape, string basePath,
+        string? title = null, FigureUnits? units = null)
+        where TPotential : struct, IPairPotential
+    {
+        var written = new List<string>();
+        var names = TemperatureNames(reports.Select(r => r.Temperature.InKelvin).ToList());
+        if (reports.Count >= 2)
+        {
+            written.Add(Save(VibrationFigures.PathIntegralSweep(reports, title, units), basePath, ""));
+        }
+        var plots = reports.Select(r => VibrationFigures.PathIntegralDistribution(r, landscape, title, units)).ToList();
+        if (Panelled(basePath, reports.Count))
+        {
+            written.Add(SavePanels(plots, basePath, "-distributions"));
+            return written;
+        }
+        for (int i = 0; i < reports.Count; i++)
+        {
+            written.Add(Save(plots[i], basePath, reports.Count == 1 ? "" : names[i]));
+        }
+        return written;
+    }
+
+    /// <summary>The figures of a quantum site scenario: the MSD sweep with path-integral points, and each temperature's quantum and classical marginals and its projection.</summary>
+    internal static List<string> WriteSiteQuantum(IReadOnlyList<SitePathIntegralReport> reports, string basePath, string? title = null, FigureUnits? units = null)
+    {
+        var written = new List<string>();
+        var names = TemperatureNames(reports.Select(r => r.Temperature.InKelvin).ToList());
+        if (reports.Count >= 2)
+        {
+            written.Add(Save(VibrationFigures.PathIntegralSweep(reports, title, units), basePath, ""));
+        }
+        if (Panelled(basePath, reports.Count))
+        {
+            written.Add(SavePanels(reports.Select(r => VibrationFigures.PathIntegralSiteMarginals(r, title, units)).ToList(), basePath, "-marginals"));
+            written.Add(SavePanels(reports.Select(r => VibrationFigures.SiteProjection(r.ToVibrationReport(), title, units)).ToList(), basePath, "-projections"));
+            return written;
+        }
+        for (int i = 0; i < reports.Count; i++)
+        {
+            written.Add(Save(VibrationFigures.PathIntegralSiteMarginals(reports[i], title, units), basePath, reports.Count == 1 ? "" : names[i] + "-marginals"));
+            written.Add(Save(VibrationFigures.SiteProjection(reports[i].ToVibrationReport(), title, units), basePath, (reports.Count == 1 ? "" : names[i]) + "-projection"));
+        }
+        return written;
+    }
+
     /// <summary>The scenario's own units for its figures (an energy given as E/kB in K is drawn in meV).</summary>
     internal static FigureUnits UnitsOf(Scenario scenario)
     {

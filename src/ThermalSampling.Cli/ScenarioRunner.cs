@@ -166,7 +166,7 @@ internal static class ScenarioRunner
                     var quantum = new List<PairPathIntegralReport>();
                     bool stopped = RunEach(temperatures, t => quantum.Add(PathIntegralSampler.RunPair(landscape, mass, t, scenario.Sampling, scenario.Beads, progress, ct)));
                     var shown = quantum.Select(q => q.ToVibrationReport()).ToList();
-                    var quantumFigures = plotPath is null ? null : Figures(() => FigureWriter.WritePair(shown, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
+                    var quantumFigures = plotPath is null ? null : Figures(() => FigureWriter.WritePairQuantum(quantum, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
                     return new ScenarioResults(scenario, shown, [], stopped, quantumFigures) { PairQuantum = quantum };
                 }
                 if (shard is { } part)
@@ -229,7 +229,7 @@ internal static class ScenarioRunner
                 var quantum = new List<SitePathIntegralReport>();
                 bool stopped = RunEach(temperatures, t => quantum.Add(PathIntegralSampler.RunSite(siteLandscape, mass, t, scenario.Sampling, scenario.Beads, progress, ct)));
                 var shown = quantum.Select(q => q.ToVibrationReport()).ToList();
-                var quantumFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSite(shown, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
+                var quantumFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSiteQuantum(quantum, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
                 return new ScenarioResults(scenario, [], shown, stopped, quantumFigures) { Surface = surface, SiteQuantum = quantum };
             }
             if (shard is { } sitePart)

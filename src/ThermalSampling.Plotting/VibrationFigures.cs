@@ -369,6 +369,124 @@ public static class VibrationFigures
         return plot;
     }
 
+    /// <summary>
+    /// A pair's quantum and classical distributions together: the classical run (sampled, its exact quadrature and harmonic
+    /// Gaussians, as <see cref="PositionDistribution{TPotential}"/> draws them), the exact quantum density (grid) and the
+    /// path-integral beads' histogram at P beads with its standard errors.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="report">A path-integral report.</param>
+    /// <param name="landscape">The landscape it was sampled in.</param>
+    /// <param name="context">A line shown under the title, such as the scenario's title; none when null.</param>
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot PathIntegralDistribution<TPotential>(PairPathIntegralReport report, PairLandscape<TPotential> landscape, string? context = null,
+        FigureUnits? units = null)
+        where TPotential : struct, IPairPotential
+    {
+        ArgumentNullException.ThrowIfNull(report);
+        var u = units ?? FigureUnits.Default;
+        double L = u.AngstromsPerUnit;
+        var plot = PositionDistribution(report.Classical with { QuantumExact = report.Exact, Warnings = report.Warnings }, landscape, context, u);
+        Relabel(plot, "sampled (± 1 SE)", "classical, sampled (± 1 SE)");
+        Relabel(plot, "exact (quadrature)", "classical, exact (quadrature)");
+        var h = report.AtBeads.Histogram;
+        var xs = Enumerable.Range(0, h.Density.Length).Select(i => h.BinCentre(i) / L).ToArray();
+        var ys = h.Density.Select(d => d * L).ToArray();
+        var beads = plot.Add.Scatter(xs, ys, Quantum);
+        beads.LineWidth = 0;
+        beads.MarkerSize = 6;
+        beads.MarkerShape = MarkerShape.FilledSquare;
+        beads.LegendText = string.Create(CultureInfo.InvariantCulture, $"path integral, sampled ({report.PathIntegral.Beads} beads, ± 1 SE)");
+        var bars = plot.Add.ErrorBar(xs, ys, h.DensityStandardError.Select(d => d * L).ToArray());
+        bars.Color = Quantum;
+        plot.Axes.AutoScaleY(plot.Axes.Left);
+        plot.Axes.SetLimitsY(0, 1.15 * Math.Max(ys.Max(), plot.Axes.Left.Max / 1.15), plot.Axes.Left);
+        return plot;
+    }
+
+    /// <summary>
+    /// A site's quantum marginals along its principal axes (the path-integral beads at P, with the harmonic and quantum
+    /// harmonic Gaussians, as <see cref="SiteMarginals"/> draws them) and, as thin lines, the classical run's marginals.
+    /// </summary>
+    /// <param name="report">A path-integral report of a site.</param>
+    /// <param name="context">A line shown under the title; none when null.</param>
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot PathIntegralSiteMarginals(SitePathIntegralReport report, string? context = null, FigureUnits? units = null)
+    {
+        ArgumentNullException.ThrowIfNull(report);
+        var unit = units ?? FigureUnits.Default;
+        double L = unit.AngstromsPerUnit;
+        var plot = SiteMarginals(report.ToVibrationReport(), context, unit);
+        for (int axis = 0; axis < 3; axis++)
+        {
+            Relabel(plot, $"sampled, axis {axis + 1}", $"path integral, axis {axis + 1}", prefix: true);
+            var h = report.Classical.Distribution.Marginals[axis];
+            var line = plot.Add.Scatter(Enumerable.Range(0, h.Density.Length).Select(i => h.BinCentre(i) / L).ToArray(), h.Density.Select(p => p * L).ToArray(), Axes3[axis]);
+            line.MarkerSize = 0;
+            line.LineWidth = 1;
+            line.LegendText = $"classical, sampled, axis {axis + 1}";
+        }
+        plot.Axes.AutoScaleY(plot.Axes.Left);
+        return plot;
+    }
+
+    /// <summary>
+    /// A pair's RMS spread against temperature: the classical run and its closed-form curves, the exact quantum (grid)
+    /// points and the path-integral values with their standard errors.
+    /// </summary>
+    /// <param name="reports">Path-integral reports at several temperatures (at least two).</param>
+    /// <param name="context">A line shown under the title; none when null.</param>
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot PathIntegralSweep(IReadOnlyList<PairPathIntegralReport> reports, string? context = null, FigureUnits? units = null)
+    {
+        var unit = units ?? FigureUnits.Default;
+        double L = unit.AngstromsPerUnit;
+        var sorted = SortedByTemperature(reports, r => r.Temperature);
+        var plot = TemperatureSweep(sorted.Select(r => r.Classical with { QuantumExact = r.Exact, Warnings = r.Warnings }).ToList(), context, unit);
+        Relabel(plot, "RMS spread, sampled", "RMS spread, classical sampled");
+        Relabel(plot, "mean shift, sampled", "mean shift, classical sampled");
+        AddSeries(plot, sorted.Select(r => r.Temperature.InKelvin).ToArray(), sorted.Select(r => r.Rms.Value / L).ToArray(),
+            sorted.Select(r => r.Rms.StandardError / L).ToArray(), Quantum, "RMS spread, path integral");
+        plot.Axes.AutoScaleY(plot.Axes.Left);
+        return plot;
+    }
+
+    /// <summary>
+    /// A site's mean-square displacement against temperature: the classical run and the classical and quantum harmonic
+    /// curves, the exact quantum (basis) points where the basis reaches, and the path-integral values with their standard errors.
+    /// </summary>
+    /// <param name="reports">Path-integral reports of a site at several temperatures (at least two).</param>
+    /// <param name="context">A line shown under the title; none when null.</param>
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot PathIntegralSweep(IReadOnlyList<SitePathIntegralReport> reports, string? context = null, FigureUnits? units = null)
+    {
+        var unit = units ?? FigureUnits.Default;
+        double L2 = unit.AngstromsPerUnit * unit.AngstromsPerUnit;
+        var sorted = SortedByTemperature(reports, r => r.Temperature);
+        var plot = TemperatureSweep(sorted.Select(r => r.Classical with { QuantumExact = r.Exact, Warnings = r.Warnings }).ToList(), context, unit);
+        Relabel(plot, "MSD, sampled", "MSD, classical sampled");
+        AddSeries(plot, sorted.Select(r => r.Temperature.InKelvin).ToArray(), sorted.Select(r => r.MeanSquareDisplacement.Value / L2).ToArray(),
+            sorted.Select(r => r.MeanSquareDisplacement.StandardError / L2).ToArray(), Quantum, "MSD, path integral");
+        plot.Axes.AutoScaleY(plot.Axes.Left);
+        return plot;
+    }
+
+    /// <summary>Renames the legend entry <paramref name="from"/> (or every entry starting with it, with <paramref name="prefix"/>).</summary>
+    private static void Relabel(Plot plot, string from, string to, bool prefix = false)
+    {
+        foreach (var scatter in plot.GetPlottables().OfType<ScottPlot.Plottables.Scatter>())
+        {
+            if (scatter.LegendText == from)
+            {
+                scatter.LegendText = to;
+            }
+            else if (prefix && scatter.LegendText.StartsWith(from, StringComparison.Ordinal))
+            {
+                scatter.LegendText = to + scatter.LegendText[from.Length..];
+            }
+        }
+    }
+
     /// <summary>Saves a figure as PNG or SVG, chosen by the file extension (.png or .svg).</summary>
     /// <param name="plot">The figure.</param>
     /// <param name="path">The file; its extension must be .png or .svg.</param>

@@ -252,4 +252,29 @@ public class PathIntegralTests(ITestOutputHelper output)
         Assert.True(worst <= 1e-15, $"worst error {worst:G3}");
         Assert.Equal(0.0, Numerics.LaneMath.Log<Numerics.Lanes1, double, ulong>(1.0));
     }
+
+    /// <summary>
+    /// Light against heavy with the path integral (the invented Lennard-Jones well of QuantumGridTests, 20 meV at 3.5 Å, on
+    /// [3.0, 5.0] Å, 20 K; 4 u and 130 u): the light atom's quantum variance is more than twice the classical one and the
+    /// report warns that the spread is underestimated by more than 40 %; the heavy atom's correction (ħω/kT = 1.1, about
+    /// 10 % in the harmonic estimate) is at most 20 % and under a tenth of the light one's, and its verdict says so.
+    /// </summary>
+    [Fact]
+    public void Light_and_heavy_atoms_get_different_path_integral_verdicts()
+    {
+        var lj = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.020));
+        var line = PairLandscape.Line(lj, Length.FromAngstroms(3.0), Length.FromAngstroms(5.0));
+        var t = Temperature.FromKelvin(20);
+        var settings = new SamplingSettings { Seed = 12, Chains = 4, SamplesPerChain = 20_000, BurnIn = 2_000 };
+        var light = PathIntegralSampler.RunPair(line, Mass.FromAtomicMassUnits(4), t, settings);
+        var heavy = PathIntegralSampler.RunPair(line, Mass.FromAtomicMassUnits(130), t, settings);
+        output.WriteLine($"light {light.Variance} classical {light.Classical.Variance}; heavy {heavy.Variance} classical {heavy.Classical.Variance}");
+        Assert.True(light.Variance.Value > 2 * light.Classical.Variance.Value);
+        Assert.Contains(light.Warnings, w => w.Code == WarningCodes.QuantumEffects && w.Message.Contains("underestimate the RMS spread", StringComparison.Ordinal));
+        double heavyExcess = heavy.Variance.Value / heavy.Classical.Variance.Value - 1, lightExcess = light.Variance.Value / light.Classical.Variance.Value - 1;
+        Assert.InRange(heavyExcess, 0.0, 0.2);
+        Assert.True(lightExcess > 10 * heavyExcess);
+        Assert.Matches("underestimate the RMS spread by ([4-9][0-9]|[1-9][0-9][0-9]) %", light.Warnings.First(w => w.Code == WarningCodes.QuantumEffects).Message);
+        Assert.All(heavy.Warnings.Where(w => w.Code == WarningCodes.QuantumEffects), w => Assert.Matches("underestimate the RMS spread by [0-9] %", w.Message));
+    }
 }

@@ -74,6 +74,33 @@ public class PlottingTests
         Assert.Contains("temperature (K)", SvgText(VibrationFigures.TemperatureSweep(pairs).GetSvgXml(600, 400)));
     }
 
+    /// <summary>
+    /// Quantum figures draw classical and path-integral results together: the pair distribution with both sampled
+    /// histograms, the classical quadrature and the exact quantum density; the site marginals of both; the sweeps with
+    /// path-integral points (an invented Morse pair of 2 u, 30 and 60 K; the invented cage with 20 u at 5 and 10 K).
+    /// </summary>
+    [Fact]
+    public void Path_integral_figures_show_classical_and_quantum_together()
+    {
+        var morse = new Morse(Energy.FromElectronVolts(0.3), 1.8, Length.FromAngstroms(2.0));
+        var line = PairLandscape.Line(morse, Length.FromAngstroms(1.2), Length.FromAngstroms(4.5));
+        var settings = new SamplingSettings { Seed = 3, Chains = 2, SamplesPerChain = 4000, BurnIn = 500 };
+        var pairs = new[] { 30.0, 60 }.Select(k => PathIntegralSampler.RunPair(line, Mass.FromAtomicMassUnits(2), Temperature.FromKelvin(k), settings, beads: 16)).ToList();
+        string pairText = SvgText(VibrationFigures.PathIntegralDistribution(pairs[0], line).GetSvgXml(900, 550));
+        Assert.Contains("path integral, sampled (16 beads, ± 1 SE)", pairText);
+        Assert.Contains("classical, sampled (± 1 SE)", pairText);
+        Assert.Contains("exact quantum (grid)", pairText);
+        Assert.Contains("classical, exact (quadrature)", pairText);
+        string sweepText = SvgText(VibrationFigures.PathIntegralSweep(pairs).GetSvgXml(900, 550));
+        Assert.Contains("RMS spread, path integral", sweepText);
+        Assert.Contains("RMS spread, classical sampled", sweepText);
+        var sites = new[] { 5.0, 10 }.Select(k => PathIntegralSampler.RunSite(InventedLandscapes.Cage, Mass.FromAtomicMassUnits(20), Temperature.FromKelvin(k), settings, beads: 8)).ToList();
+        string marginals = SvgText(VibrationFigures.PathIntegralSiteMarginals(sites[0]).GetSvgXml(900, 550));
+        Assert.Contains("path integral, axis 1", marginals);
+        Assert.Contains("classical, sampled, axis 3", marginals);
+        Assert.Contains("MSD, path integral", SvgText(VibrationFigures.PathIntegralSweep(sites).GetSvgXml(900, 550)));
+    }
+
     /// <summary>Site figures are drawn from the report's own distribution (no retained draws needed); bad file types are refused.</summary>
     [Fact]
     public void Site_figures_need_no_retained_draws_and_bad_file_types_are_refused()
