@@ -310,7 +310,7 @@ public sealed class CheckpointTests
         var other = Read(WithMetadata(bytes, "\"libraryVersion\":\"" + Provenance.CurrentLibraryVersion, "\"libraryVersion\":\"0.0.1"));
         var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(Line, Argon, TwoTemperatures, settings, other));
         Assert.Contains("library version 0.0.1", ex.Message);
-        Assert.Contains("format version 4; this library reads version 5", Assert.Throws<CheckpointException>(() => Read(WithMetadata(bytes, "\"formatVersion\":5", "\"formatVersion\":4"))).Message); // a checkpoint of the layout before the temperature-factor sums
+        Assert.Contains("format version 5; this library reads version 6", Assert.Throws<CheckpointException>(() => Read(WithMetadata(bytes, "\"formatVersion\":6", "\"formatVersion\":5"))).Message); // a checkpoint of the layout before the reweighting sums
 
         var checkpoint = Read(bytes);
         Assert.Contains("temperatures are [30, 60] K, and this run's are [30, 61] K",

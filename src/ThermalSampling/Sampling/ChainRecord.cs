@@ -37,6 +37,7 @@ public sealed class ChainRecord
         Bins = new BinCounter(layout.BinLower, layout.BinUpper, layout.Bins);
         Cumulants = new CumulantSums(layout.Coordinates, layout.Samples, layout.Waves);
         EnergyHistogram = new EnergyHistogram(layout.EnergyReference, energyBinWidth);
+        Reweighting = new EnergyBinSums(layout.EnergyReference, EnergyBinSums.WidthFromCoarse(energyBinWidth), layout.Coordinates == 1 ? 2 : 9, layout.Samples);
         Shape = layout.Shape is null ? null : new ShapeCounter(layout.Shape);
         if (layout.Coordinates == 1)
         {
@@ -104,6 +105,9 @@ public sealed class ChainRecord
     /// <summary>The histogram of the potential energy above V_ref.</summary>
     public EnergyHistogram EnergyHistogram { get; }
 
+    /// <summary>The fine energy histogram with per-bin position sums that reweighting across temperatures uses.</summary>
+    internal EnergyBinSums Reweighting { get; }
+
     /// <summary>
     /// The counts of the record's histogram: of the separation over the window (pairs), or of the distance from the
     /// harmonic minimum from 0 to the farthest point of the confinement (sites), in equal bins.
@@ -136,6 +140,8 @@ public sealed class ChainRecord
     /// <summary>One direct draw of a pair: separation <paramref name="r"/> at energy <paramref name="energy"/>.</summary>
     internal void AddSeparation(double r, double energy)
     {
+        double b = r - Layout.References[0];
+        Reweighting.Add(_separation.Count, energy, [b, b * b]);
         Cumulants.Add(_separation.Count, [r - Layout.References[0]]);
         _separation.Add(r);
         Bins.Add(r);
@@ -147,6 +153,8 @@ public sealed class ChainRecord
     /// <summary>One direct draw of a site: position (x, y, z) at energy <paramref name="energy"/> (the radial histogram's origin is the layout's reference, the minimum).</summary>
     internal void AddPosition(double x, double y, double z, double energy)
     {
+        double ux = x - Layout.References[0], uy = y - Layout.References[1], uz = z - Layout.References[2];
+        Reweighting.Add(_position.Count, energy, [ux, uy, uz, ux * ux, uy * uy, uz * uz, ux * uy, ux * uz, uy * uz]);
         Cumulants.Add(_position.Count, [x - Layout.References[0], y - Layout.References[1], z - Layout.References[2]]);
         _position.Add(x, y, z);
         _stores[0].Add(x);
@@ -193,6 +201,7 @@ public sealed class ChainRecord
         Shape?.Save(w);
         Cumulants.Save(w);
         EnergyHistogram.Save(w);
+        Reweighting.Save(w);
         if (Coordinates == 1)
         {
             _keptSeparations!.Save(w, 1);
@@ -258,6 +267,7 @@ public sealed class ChainRecord
         Shape?.Load(r);
         Cumulants.Load(r);
         EnergyHistogram.Load(r);
+        Reweighting.Load(r);
         if (Coordinates == 1)
         {
             _keptSeparations!.Load(r, 1);

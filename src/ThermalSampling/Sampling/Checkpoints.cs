@@ -72,7 +72,7 @@ public sealed class SamplingCheckpoint
     public const string FormatName = "thermal-sampling-checkpoint";
 
     /// <summary>The version of the file layout this library writes and reads.</summary>
-    public const int FormatVersion = 5;
+    public const int FormatVersion = 6;
 
 
     private readonly byte[]?[]?[] _states;

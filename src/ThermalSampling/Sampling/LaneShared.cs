@@ -146,6 +146,16 @@ internal class LaneTally
         Counts = new long[lanes * Bins];
         Index = new ulong[width];
         Scratch = new double[coordinates * width];
+        RwValues = coordinates == 1 ? 2 : 9;
+        RwCounts = new long[lanes * EnergyBinSums.Groups * EnergyBinSums.Slots];
+        RwSums = new double[lanes * EnergyBinSums.Groups * EnergyBinSums.Slots * RwValues];
+        Samples = layout.Samples;
+        RwScratch = new double[(coordinates + 1) * width];
+        RwScales = new double[width];
+        for (int lane = 0; lane < width; lane++)
+        {
+            RwScales[lane] = 1 / records[Math.Min(lane, lanes - 1)].Reweighting.Width;
+        }
         Kept = new double[(long)coordinates * lanes * retained];
         // A chunk of up to 4096 steps closes at most 4096/batchSize + 1 batches.
         BatchSums = new double[batchValues * width * (LaneAdaptation.ChunkSteps / first.Stores[0].BatchSize + 1)];
@@ -163,6 +173,8 @@ internal class LaneTally
         {
             records[lane].Bins.AddCounts(Counts.AsSpan(lane * Bins, Bins));
             records[lane].EnergyHistogram.AddCounts(EnergyCounts.AsSpan(lane * EnergyHistogram.Slots, EnergyHistogram.Slots));
+            int block = EnergyBinSums.Groups * EnergyBinSums.Slots;
+            records[lane].Reweighting.AddAll(RwCounts.AsSpan(lane * block, block), RwSums.AsSpan(lane * block * RwValues, block * RwValues));
             for (long k = 0; k < kept; k++)
             {
                 long row = Coordinates * (lane * (long)Retained + k);
@@ -185,6 +197,8 @@ internal class LaneTally
     {
         w.Longs("LCNT", Counts);
         w.Longs("LECN", EnergyCounts);
+        w.Longs("LRWC", RwCounts);
+        w.Doubles("LRWS", RwSums);
         long kept = Coordinates * Math.Min(recorded, Retained);
         for (int lane = 0; lane < Lanes; lane++)
         {
@@ -197,6 +211,8 @@ internal class LaneTally
     {
         r.Longs("LCNT", Counts.Length).CopyTo(Counts, 0);
         r.Longs("LECN", EnergyCounts.Length).CopyTo(EnergyCounts, 0);
+        r.Longs("LRWC", RwCounts.Length).CopyTo(RwCounts, 0);
+        r.DoublesInto("LRWS", RwSums);
         long kept = Coordinates * Math.Min(recorded, Retained);
         for (int lane = 0; lane < Lanes; lane++)
         {
@@ -220,6 +236,24 @@ internal class LaneTally
 
     /// <summary>1 / bin width of each lane's energy histogram, 1/eV.</summary>
     internal double[] EnergyScales { get; }
+
+    /// <summary>Recorded draws per chain.</summary>
+    internal long Samples { get; }
+
+    /// <summary>Values summed per fine energy bin for reweighting: 2 (pair) or 9 (site).</summary>
+    internal int RwValues { get; }
+
+    /// <summary>Lane-major fine energy counts for reweighting (<see cref="EnergyBinSums"/>).</summary>
+    internal long[] RwCounts { get; }
+
+    /// <summary>Lane-major per-bin sums for reweighting.</summary>
+    internal double[] RwSums { get; }
+
+    /// <summary>Scratch for one vector's fine slots and values.</summary>
+    internal double[] RwScratch { get; }
+
+    /// <summary>1 / fine bin width of each lane, 1/eV.</summary>
+    internal double[] RwScales { get; }
 
     /// <summary>Scratch for one vector's flat histogram indices.</summary>
     internal ulong[] Index { get; }
@@ -247,12 +281,12 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
     where TD : struct
     where TB : struct
 {
-    private readonly TD _binScale, _binCount, _lastBin, _energyScale;
+    private readonly TD _binScale, _binCount, _lastBin, _energyScale, _rwScale;
     private readonly TB _binOffsets, _energyOffsets;
-    private readonly long[] _counts, _energyCounts;
+    private readonly long[] _counts, _energyCounts, _rwCounts;
     private readonly ulong[] _index;
-    private readonly double[] _scratch, _kept;
-    private readonly long _keptStride, _done, _retain;
+    private readonly double[] _scratch, _kept, _rwSums, _rwScratch;
+    private readonly long _keptStride, _done, _retain, _samples;
 
     /// <param name="tally">The group's tally.</param>
     /// <param name="done">Recorded steps before the chunk.</param>
@@ -267,10 +301,13 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
         _binOffsets = LaneCounting.Offsets<TOps, TD, TB>(tally.Bins, Lanes);
         _energyOffsets = LaneCounting.Offsets<TOps, TD, TB>(EnergyHistogram.Slots, Lanes);
         _energyScale = TOps.Broadcast(0.0);
+        _rwScale = TOps.Broadcast(0.0);
         for (int lane = 0; lane < TOps.Count; lane++)
         {
             _energyScale = TOps.Set(_energyScale, lane, tally.EnergyScales[lane]);
+            _rwScale = TOps.Set(_rwScale, lane, tally.RwScales[lane]);
         }
+        (_rwCounts, _rwSums, _rwScratch, _samples) = (tally.RwCounts, tally.RwSums, tally.RwScratch, tally.Samples);
         (_counts, _energyCounts, _index, _scratch, _kept) = (tally.Counts, tally.EnergyCounts, tally.Index, tally.Scratch, tally.Kept);
         BatchSums = tally.BatchSums;
         _keptStride = tally.Retained;
@@ -303,6 +340,73 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     internal void CountEnergy(TD de)
         => LaneCounting.Count<TOps, TD, TB>(LaneCounting.EnergySlot<TOps, TD, TB>(de, _energyScale), _energyOffsets, _index, _energyCounts, Lanes);
+
+    /// <summary>
+    /// Every fourth recorded draw (<see cref="EnergyBinSums"/>): its fine energy slot of <paramref name="de"/> = V − V_ref,
+    /// counted with the pair's values b and b² (b = x − ref). The slot and values leave the vector once; the adds are per lane.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal void ReweightLine(int j, TD de, TD b)
+    {
+        if (((_done + j) & (EnergyBinSums.Stride - 1)) != 0)
+        {
+            return;
+        }
+        var scratch = _rwScratch;
+        TOps.Store(FineSlot(de), ref scratch[0]);
+        TOps.Store(b, ref scratch[TOps.Count]);
+        int group = EnergyBinSums.GroupOf(_done + j, _samples);
+        for (int lane = 0; lane < Lanes; lane++)
+        {
+            int slot = (lane * EnergyBinSums.Groups + group) * EnergyBinSums.Slots + (int)scratch[lane];
+            double v = scratch[TOps.Count + lane];
+            _rwCounts[slot]++;
+            _rwSums[2 * slot] += v;
+            _rwSums[2 * slot + 1] += v * v;
+        }
+    }
+
+    /// <summary>As <see cref="ReweightLine"/> for a site: the displacement (u_x, u_y, u_z) from the minimum and its six products.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal void ReweightSite(int j, TD de, TD ux, TD uy, TD uz)
+    {
+        if (((_done + j) & (EnergyBinSums.Stride - 1)) != 0)
+        {
+            return;
+        }
+        var scratch = _rwScratch;
+        int n = TOps.Count;
+        TOps.Store(FineSlot(de), ref scratch[0]);
+        TOps.Store(ux, ref scratch[n]);
+        TOps.Store(uy, ref scratch[2 * n]);
+        TOps.Store(uz, ref scratch[3 * n]);
+        int group = EnergyBinSums.GroupOf(_done + j, _samples);
+        for (int lane = 0; lane < Lanes; lane++)
+        {
+            int at = 9 * ((lane * EnergyBinSums.Groups + group) * EnergyBinSums.Slots + (int)scratch[lane]);
+            double x = scratch[n + lane], y = scratch[2 * n + lane], z = scratch[3 * n + lane];
+            _rwCounts[at / 9]++;
+            var sums = _rwSums;
+            sums[at] += x;
+            sums[at + 1] += y;
+            sums[at + 2] += z;
+            sums[at + 3] += x * x;
+            sums[at + 4] += y * y;
+            sums[at + 5] += z * z;
+            sums[at + 6] += x * y;
+            sums[at + 7] += x * z;
+            sums[at + 8] += y * z;
+        }
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private TD FineSlot(TD de)
+    {
+        var t = TOps.MultiplyAdd(de, _rwScale, TOps.Broadcast(1.0));
+        t = TOps.Select(TOps.LessThan(t, TOps.Broadcast(1.0)), TOps.Broadcast(0.0), t);
+        var last = TOps.Broadcast(EnergyBinSums.Slots - 1);
+        return TOps.Select(TOps.LessThan(t, last), t, last);
+    }
 
     /// <summary>Keeps draw <paramref name="j"/> of the chunk (x, and y and z for three coordinates) if it is among each chain's first kept draws.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]

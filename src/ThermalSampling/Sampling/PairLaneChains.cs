@@ -293,6 +293,7 @@ internal static class PairLaneChains
             // Histograms (x is inside the window, so x − lower is in [0, width]), then the draw itself if kept.
             _tally.CountBin(TOps.Subtract(x, _binLower));
             _tally.CountEnergy(de);
+            _tally.ReweightLine(j, de, b);
             _tally.Keep(j, 1, x, x, x);
         }
 

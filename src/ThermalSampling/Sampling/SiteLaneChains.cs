@@ -596,6 +596,10 @@ internal static class SiteLaneChains
             s.NearWall = TOps.Add(s.NearWall, TOps.Select(near, one, zero));
             _tally.CountBin(TOps.Sqrt(TOps.Add(TOps.Add(TOps.Multiply(mx, mx), TOps.Multiply(my, my)), TOps.Multiply(mz, mz))));
             _tally.CountEnergy(de);
+            if (!_momentsOnly)
+            {
+                _tally.ReweightSite(j, de, mx, my, mz);
+            }
 
             // Basin membership by the nearest point of the basin grid, only when the confinement reaches outside the basin
             // (a loop-invariant branch): i = round((x − x0)/h) by adding and removing 2^52 (exact for 0 ≤ t < 2^51), the
