@@ -86,6 +86,13 @@ internal static class CommandLine
             CustomParser = r => ParseShard(r.Tokens.Single().Value) is { } s
                 ? s : Fail<(int, int)?>(r, $"--shard '{r.Tokens.Single().Value}' is not a part of a sweep; give I/N with 1 ≤ I ≤ N ≤ 100000, such as 3/40."),
         };
+        var reweight = new Option<(double From, double To, int Count)?>("--reweight-to")
+        {
+            Description = "Also give results at N temperatures evenly spaced from K1 to K2, reweighted from the sampled ones (as the scenario key sampling.reweightTo; classical statistics).",
+            HelpName = "K1..K2:N",
+            CustomParser = r => ParseReweight(r.Tokens.Single().Value) is { } w
+                ? w : Fail<(double, double, int)?>(r, $"--reweight-to '{r.Tokens.Single().Value}' is not a range of temperatures; give K1..K2:N with 0 < K1 < K2 ≤ 1e7 and 1 ≤ N ≤ 100000, such as 10..80:50."),
+        };
         var parts = new Argument<string[]>("PART") { Description = "The files written by 'sweep --shard I/N --output FILE', every part once.", Arity = ArgumentArity.OneOrMore };
         var merge = new Command("merge", "Combine the parts of a sharded sweep into the document the one-process sweep writes (the same bits); refuses parts of other scenarios or library versions, duplicates and missing parts, naming them.")
         {
@@ -98,7 +105,7 @@ internal static class CommandLine
         };
         var sweep = new Command("sweep", "Like run; with --from, --to and --count the file's temperatures are replaced by --count values evenly spaced from --from to --to. With --shard I/N, run one part of it for 'merge'.")
         {
-            scenario, from, to, count, shard, format, output, samples, plot, seed, threads, quiet, checkpoint, every,
+            scenario, from, to, count, shard, reweight, format, output, samples, plot, seed, threads, quiet, checkpoint, every,
         };
         var resume = new Command("resume", "Finish a run or sweep from its checkpoint with exactly the report the uninterrupted run would have written; keeps checkpointing to the same file.")
         {
@@ -153,7 +160,7 @@ internal static class CommandLine
                 {
                     c.AddError("--shard needs --output FILE: a part is written to a file for 'merge'.");
                 }
-                foreach (var (option, name) in new (Option, string)[] { (checkpoint, "--checkpoint"), (samples, "--samples"), (plot, "--plot"), (format, "--format") })
+                foreach (var (option, name) in new (Option, string)[] { (checkpoint, "--checkpoint"), (samples, "--samples"), (plot, "--plot"), (format, "--format"), (reweight, "--reweight-to") })
                 {
                     if (c.GetResult(option) is not null)
                     {
@@ -181,7 +188,8 @@ internal static class CommandLine
             command is "run" or "sweep" or "resume" ? r.GetValue(every) : null,
             r.GetValue(format) is not null,
             command == "sweep" ? r.GetValue(shard) : null,
-            command == "merge" ? r.GetValue(parts) : null);
+            command == "merge" ? r.GetValue(parts) : null,
+            command == "sweep" ? r.GetValue(reweight) : null);
         run.SetAction(r => accept(Options(r, "run", r.GetValue(scenario))));
         sweep.SetAction(r => accept(Options(r, "sweep", r.GetValue(scenario))));
         resume.SetAction(r => accept(Options(r, "resume", r.GetValue(checkpointFile))));
@@ -209,6 +217,23 @@ internal static class CommandLine
             return Program.InvalidInput;
         });
         return root;
+    }
+
+    /// <summary>"K1..K2:N" with 0 &lt; K1 &lt; K2 ≤ 1e7 (or K1 = K2 with N = 1) and 1 ≤ N ≤ 100 000, or null.</summary>
+    internal static (double From, double To, int Count)? ParseReweight(string text)
+    {
+        var range = text.Split(':');
+        var ends = range[0].Split("..");
+        if (range.Length != 2 || ends.Length != 2)
+        {
+            return null;
+        }
+        if (!double.TryParse(ends[0], NumberStyles.Float, CultureInfo.InvariantCulture, out double a) || !double.TryParse(ends[1], NumberStyles.Float, CultureInfo.InvariantCulture, out double b)
+            || !int.TryParse(range[1], NumberStyles.None, CultureInfo.InvariantCulture, out int n))
+        {
+            return null;
+        }
+        return a > 0 && b <= 1e7 && double.IsFinite(a) && double.IsFinite(b) && n >= 1 && n <= 100_000 && (a < b || (a == b && n == 1)) ? (a, b, n) : null;
     }
 
     /// <summary>"I/N" with 1 ≤ I ≤ N ≤ 100 000, or null.</summary>

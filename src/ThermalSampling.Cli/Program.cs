@@ -23,7 +23,7 @@ public static class Program
 
     internal sealed record Options(string Command, string? File, string Format, string? Output, string? Samples, ulong? Seed, int? Threads, bool Quiet,
         double? From, double? To, int? Count, string? Plot = null, string? Figures = null, string? Checkpoint = null, TimeSpan? CheckpointEvery = null,
-        bool FormatGiven = false, (int Index, int Count)? Shard = null, string[]? Parts = null);
+        bool FormatGiven = false, (int Index, int Count)? Shard = null, string[]? Parts = null, (double From, double To, int Count)? ReweightTo = null);
 
     /// <summary>How often a checkpoint is written when --checkpoint-every is not given.</summary>
     private static readonly TimeSpan DefaultCheckpointInterval = TimeSpan.FromSeconds(60);
@@ -172,6 +172,14 @@ public static class Program
 
     private static Scenario WithSweepTemperatures(Scenario scenario, Options o)
     {
+        if (o.ReweightTo is { } reweight)
+        {
+            if (scenario.Quantum)
+            {
+                throw new ScenarioException(new[] { "--reweight-to: reweighting across temperatures applies to classical statistics; this scenario asks for quantum statistics." });
+            }
+            scenario = scenario with { ReweightTo = reweight };
+        }
         if (o.Command != "sweep" || o.Count is null)
         {
             return scenario; // a sweep without --from, --to and --count runs the scenario's own temperatures

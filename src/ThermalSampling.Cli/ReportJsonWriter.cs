@@ -42,6 +42,14 @@ internal static class ReportJsonWriter
         {
             WriteSite(w, results.Sites[i], l, e, s, results.SiteQuantum?[i]);
         }
+        foreach (var r in results.PairReweighted ?? [])
+        {
+            WriteReweightedPair(w, r, l, e);
+        }
+        foreach (var r in results.SiteReweighted ?? [])
+        {
+            WriteReweightedSite(w, r, l, e);
+        }
         w.WriteEndArray();
         WriteEinsteinFit(w, results, l);
         w.WriteEndObject();
@@ -358,6 +366,10 @@ internal static class ReportJsonWriter
         double l2 = l * l;
         w.WriteStartObject();
         w.WriteNumber("temperature", r.Temperature.InKelvin);
+        if (s.ReweightTo is not null)
+        {
+            w.WriteString("source", "sampled");
+        }
         Number(w, "minimum", r.MinimumInAngstroms / l);
         Number(w, "mean", r.Mean.Value / l);
         Number(w, "meanShift", r.MeanShift?.Value / l);
@@ -473,11 +485,76 @@ internal static class ReportJsonWriter
         w.WriteEndObject();
     }
 
+    /// <summary>A reweighted pair result: the usual keys with standard errors, the exact quadrature, and where it came from.</summary>
+    private static void WriteReweightedPair(Utf8JsonWriter w, ReweightedPairEstimate r, double l, double e)
+    {
+        double l2 = l * l;
+        w.WriteStartObject();
+        w.WriteNumber("temperature", r.Temperature.InKelvin);
+        w.WriteString("source", "reweighted");
+        Number(w, "mean", r.Mean.Value / l);
+        Number(w, "meanStdErr", r.Mean.StandardError / l);
+        Number(w, "meanShift", r.MeanShift?.Value / l);
+        Number(w, "meanShiftStdErr", r.MeanShift?.StandardError / l);
+        Number(w, "variance", r.Variance.Value / l2);
+        Number(w, "varianceStdErr", r.Variance.StandardError / l2);
+        Number(w, "rms", r.Rms.Value / l);
+        Number(w, "rmsStdErr", r.Rms.StandardError / l);
+        Number(w, "potentialEnergy", r.PotentialEnergy.Value / e);
+        Number(w, "potentialEnergyStdErr", r.PotentialEnergy.StandardError / e);
+        w.WriteStartObject("exact");
+        Number(w, "mean", r.Exact.MeanInAngstroms / l);
+        Number(w, "variance", r.Exact.VarianceInAngstromsSquared / l2);
+        Number(w, "skewness", r.Exact.Skewness);
+        Number(w, "excessKurtosis", r.Exact.ExcessKurtosis);
+        Number(w, "zScoreMean", r.Mean.ZScore(r.Exact.MeanInAngstroms));
+        Number(w, "zScoreVariance", r.Variance.ZScore(r.Exact.VarianceInAngstromsSquared));
+        w.WriteEndObject();
+        ReweightingSource(w, r.Source);
+        w.WriteEndObject();
+    }
+
+    /// <summary>A reweighted site result: mean, covariance, MSD and B with standard errors, and where it came from.</summary>
+    private static void WriteReweightedSite(Utf8JsonWriter w, ReweightedSiteEstimate r, double l, double e)
+    {
+        double l2 = l * l;
+        w.WriteStartObject();
+        w.WriteNumber("temperature", r.Temperature.InKelvin);
+        w.WriteString("source", "reweighted");
+        Vector(w, "mean", r.Mean, l);
+        Vector(w, "meanStdErr", r.MeanStandardError, l);
+        Matrix(w, "covariance", r.Covariance, l2);
+        Number(w, "meanSquareDisplacement", r.MeanSquareDisplacement.Value / l2);
+        Number(w, "meanSquareDisplacementStdErr", r.MeanSquareDisplacement.StandardError / l2);
+        Number(w, "debyeWallerB", r.DebyeWallerB.Value / l2);
+        Number(w, "debyeWallerBStdErr", r.DebyeWallerB.StandardError / l2);
+        Number(w, "potentialEnergy", r.PotentialEnergy.Value / e);
+        Number(w, "potentialEnergyStdErr", r.PotentialEnergy.StandardError / e);
+        ReweightingSource(w, r.Source);
+        w.WriteEndObject();
+    }
+
+    private static void ReweightingSource(Utf8JsonWriter w, ReweightingSource s)
+    {
+        w.WriteStartObject("reweighting");
+        w.WriteStartArray("from");
+        w.WriteNumberValue(s.LowerKelvin);
+        w.WriteNumberValue(s.UpperKelvin);
+        w.WriteEndArray();
+        Number(w, "overlap", s.Overlap);
+        Number(w, "shareLeftOut", s.ShareLeftOut);
+        w.WriteEndObject();
+    }
+
     private static void WriteSite(Utf8JsonWriter w, SiteVibrationReport r, double l, double e, Scenario s, SitePathIntegralReport? quantum)
     {
         double l2 = l * l;
         w.WriteStartObject();
         w.WriteNumber("temperature", r.Temperature.InKelvin);
+        if (s.ReweightTo is not null)
+        {
+            w.WriteString("source", "sampled");
+        }
         Vector(w, "minimum", r.Minimum, l);
         Vector(w, "mean", r.Mean, l);
         Vector(w, "meanShift", r.MeanShift, l);

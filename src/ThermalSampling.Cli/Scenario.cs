@@ -57,6 +57,13 @@ internal sealed record Scenario(
 
     internal bool Quantum => Statistics == "quantum";
 
+    /// <summary><c>sampling.reweightTo</c> (or <c>sweep --reweight-to</c>): the temperatures to reweight the sampled runs to, or null.</summary>
+    internal (double From, double To, int Count)? ReweightTo { get; init; }
+
+    /// <summary>The reweighting targets, K: <see cref="ReweightTo"/>'s count values evenly spaced (empty without one).</summary>
+    internal double[] ReweightTargets => ReweightTo is not { } r ? []
+        : [.. Enumerable.Range(0, r.Count).Select(i => r.Count == 1 ? r.From : r.From + (r.To - r.From) * i / (r.Count - 1))];
+
     internal double AngstromsPerLengthUnit => ScenarioUnits.Length[LengthUnit];
 }
 
@@ -390,7 +397,33 @@ internal static class ScenarioReader
                 sampling = sampling with { ScatteringVectorsInInverseAngstroms = [.. q] };
             }
         }
+        (double, double, int)? reweightTo = null;
+        if (root.TryGetProperty("sampling", out var samplingElement) && samplingElement.ValueKind == JsonValueKind.Object
+            && c.Object(samplingElement, "reweightTo", "$.sampling", required: false) is { } rw)
+        {
+            const string rwPath = "$.sampling.reweightTo";
+            c.CheckKeys(rw, rwPath, "from", "to", "count");
+            const string rwSchema = "properties/sampling/properties/reweightTo/properties/";
+            double? from = c.Number(rw, "from", rwPath, true, ScenarioSchema.At(rwSchema + "from"));
+            double? to = c.Number(rw, "to", rwPath, true, ScenarioSchema.At(rwSchema + "to"));
+            long? count = c.Integer(rw, "count", rwPath, true, ScenarioSchema.At(rwSchema + "count"));
+            if (from is double f && to is double t && count is long n)
+            {
+                if (!(f < t) && !(n == 1 && f == t))
+                {
+                    c.Add(rwPath, string.Create(CultureInfo.InvariantCulture, $"from ({f:R} K) must be below to ({t:R} K) (or equal, with count 1)."));
+                }
+                else
+                {
+                    reweightTo = (f, t, (int)n);
+                }
+            }
+        }
         string statistics = c.String(root, "statistics", "$", false, ["classical", "quantum"]) ?? "classical";
+        if (reweightTo is not null && statistics == "quantum")
+        {
+            c.Add("$.sampling.reweightTo", "reweighting across temperatures applies to classical statistics; a quantum run's ring polymers are not reweighted.");
+        }
         int? beads = (int?)c.Integer(root, "beads", "$", false, ScenarioSchema.At("properties/beads"));
         if (beads is int b && (b & (b - 1)) != 0)
         {
@@ -414,6 +447,7 @@ internal static class ScenarioReader
             Symmetrise = symmetrise,
             Statistics = statistics,
             Beads = beads,
+            ReweightTo = reweightTo,
         };
     }
 
@@ -819,7 +853,7 @@ internal static class ScenarioReader
             return null;
         }
         const string path = "$.sampling";
-        c.CheckKeys(p, path, "method", "chains", "samplesPerChain", "burnIn", "seed");
+        c.CheckKeys(p, path, "method", "chains", "samplesPerChain", "burnIn", "seed", "reweightTo");
         string method = c.String(p, "method", path, false, "metropolis", "direct") ?? "metropolis";
         long chains = c.Integer(p, "chains", path, false, ScenarioSchema.At(Sampling + "chains")) ?? 4;
         long samples = c.Integer(p, "samplesPerChain", path, false, ScenarioSchema.At(Sampling + "samplesPerChain")) ?? 100_000;

@@ -28,6 +28,12 @@ internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibr
     /// <summary>For <c>sweep --shard</c>: the part's records, one per temperature it has chains of.</summary>
     internal IReadOnlyList<TemperatureRecord>? Records { get; init; }
 
+    /// <summary>With <c>sampling.reweightTo</c>: the pair estimates at the reweighting targets.</summary>
+    internal IReadOnlyList<ReweightedPairEstimate>? PairReweighted { get; init; }
+
+    /// <summary>With <c>sampling.reweightTo</c>: the site estimates at the reweighting targets.</summary>
+    internal IReadOnlyList<ReweightedSiteEstimate>? SiteReweighted { get; init; }
+
     /// <summary>With quantum statistics: the path-integral reports of the pairs (<see cref="Pairs"/> holds their <c>ToVibrationReport</c> forms).</summary>
     internal IReadOnlyList<PairPathIntegralReport>? PairQuantum { get; init; }
 
@@ -175,7 +181,24 @@ internal static class ScenarioRunner
                 }
                 if (merged is not null)
                 {
-                    return new ScenarioResults(scenario, [.. merged.Select(r => PairSampler.Summarise(landscape, mass, r))], []);
+                    return new ScenarioResults(scenario, [.. merged.Select(r => PairSampler.Summarise(landscape, mass, r))], [])
+                    {
+                        PairReweighted = scenario.ReweightTo is null ? null : Reweighted(() => Reweighting.Pair(landscape, merged, Targets(scenario))),
+                    };
+                }
+                if (scenario.ReweightTo is not null)
+                {
+                    RefuseCheckpoint(checkpoint);
+                    var records = new List<TemperatureRecord>();
+                    var sampled = new List<PairVibrationReport>();
+                    bool stopped = RunEach(temperatures, t =>
+                    {
+                        records.Add(PairSampler.Sample(landscape, t, scenario.Sampling, null, progress, ct));
+                        sampled.Add(PairSampler.Summarise(landscape, mass, records[^1])); // the same bits as PairSampler.Run
+                    });
+                    var reweighted = stopped ? null : Reweighted(() => Reweighting.Pair(landscape, records, Targets(scenario)));
+                    var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WritePair(sampled, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
+                    return new ScenarioResults(scenario, sampled, [], stopped, sampledFigures) { PairReweighted = reweighted };
                 }
                 var reports = new List<PairVibrationReport>();
                 bool cancelled = checkpoint is null
@@ -238,7 +261,25 @@ internal static class ScenarioRunner
             }
             if (merged is not null)
             {
-                return new ScenarioResults(scenario, [], [.. merged.Select(r => SiteSampler.Summarise(siteLandscape, mass, r))]) { Surface = surface };
+                return new ScenarioResults(scenario, [], [.. merged.Select(r => SiteSampler.Summarise(siteLandscape, mass, r))])
+                {
+                    Surface = surface,
+                    SiteReweighted = scenario.ReweightTo is null ? null : Reweighted(() => Reweighting.Site(siteLandscape, merged, Targets(scenario))),
+                };
+            }
+            if (scenario.ReweightTo is not null)
+            {
+                RefuseCheckpoint(checkpoint);
+                var records = new List<TemperatureRecord>();
+                var sampled = new List<SiteVibrationReport>();
+                bool stopped = RunEach(temperatures, t =>
+                {
+                    records.Add(SiteSampler.Sample(siteLandscape, t, scenario.Sampling, null, progress, ct));
+                    sampled.Add(SiteSampler.Summarise(siteLandscape, mass, records[^1])); // the same bits as SiteSampler.Run
+                });
+                var reweighted = stopped ? null : Reweighted(() => Reweighting.Site(siteLandscape, records, Targets(scenario)));
+                var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSite(sampled, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
+                return new ScenarioResults(scenario, [], sampled, stopped, sampledFigures) { Surface = surface, SiteReweighted = reweighted };
             }
             var siteReports = new List<SiteVibrationReport>();
             bool siteCancelled = checkpoint is null
@@ -256,6 +297,29 @@ internal static class ScenarioRunner
         catch (LandscapeException ex)
         {
             throw new ScenarioException(new[] { $"$.landscape: {ex.Message}" });
+        }
+    }
+
+    private static IEnumerable<Temperature> Targets(Scenario scenario) => scenario.ReweightTargets.Select(Temperature.FromKelvin);
+
+    /// <summary>Reweights; targets it cannot reach are an input error naming them and the overlap found (exit 2).</summary>
+    private static IReadOnlyList<T> Reweighted<T>(Func<ImmutableArray<T>> reweight)
+    {
+        try
+        {
+            return reweight();
+        }
+        catch (ArgumentException ex) when (ex.ParamName == "targets")
+        {
+            throw new ScenarioException(new[] { "$.sampling.reweightTo: " + FirstSentences(ex.Message) });
+        }
+    }
+
+    private static void RefuseCheckpoint(CheckpointPlan? checkpoint)
+    {
+        if (checkpoint is not null)
+        {
+            throw new ScenarioException(new[] { "$.sampling.reweightTo: a reweighted run cannot yet be checkpointed; run it without --checkpoint, or shard it (sweep --shard) and reweight at 'merge'." });
         }
     }
 

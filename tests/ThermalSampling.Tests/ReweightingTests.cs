@@ -81,4 +81,38 @@ public class ReweightingTests(ITestOutputHelper output)
         // Twice the width: fine slots 1 and 2 of the colder run form coarse bin 1 of the hotter one.
         Assert.Equal(1.0, HistogramReweighting.Overlap([Make(w, (1, 5), (2, 5))], [Make(2 * w, (1, 10))]), 12);
     }
+
+    /// <summary>
+    /// A site (the invented 12-neighbour Lennard-Jones cage) sampled at 20 and 40 K and reweighted to 25, 30 and 35 K: the
+    /// mean-square displacement agrees with direct runs at those temperatures within 4 combined standard errors, and the
+    /// covariance stays isotropic (the cage's Oh symmetry).
+    /// </summary>
+    [Fact]
+    public void Reweighted_site_agrees_with_direct_runs()
+    {
+        var settings = new SamplingSettings { Seed = 8, Chains = 8, SamplesPerChain = 40_000, BurnIn = 4_000 };
+        var sampled = new[] { 20.0, 40 }.Select(k => SiteSampler.Sample(InventedLandscapes.Cage, Temperature.FromKelvin(k), settings)).ToList();
+        var reweighted = Reweighting.Site(InventedLandscapes.Cage, sampled, [.. new[] { 25.0, 30, 35 }.Select(Temperature.FromKelvin)]);
+        foreach (var r in reweighted)
+        {
+            var direct = SiteSampler.Run(InventedLandscapes.Cage, Mass.FromAtomicMassUnits(40), r.Temperature, settings with { Seed = 77 });
+            output.WriteLine($"{r.Temperature.InKelvin} K: MSD {r.MeanSquareDisplacement} direct {direct.MeanSquareDisplacement}; covariance {r.Covariance}");
+            double combined = Math.Sqrt(Math.Pow(r.MeanSquareDisplacement.StandardError, 2) + Math.Pow(direct.MeanSquareDisplacement.StandardError, 2));
+            Assert.True(Math.Abs(r.MeanSquareDisplacement.Value - direct.MeanSquareDisplacement.Value) < 4 * combined);
+            Assert.InRange(r.Covariance.XX / r.Covariance.ZZ, 0.9, 1.1);
+            Assert.Equal(8 * Math.PI * Math.PI / 3 * r.MeanSquareDisplacement.Value, r.DebyeWallerB.Value, 1e-12);
+        }
+    }
+
+    /// <summary>Reweighting 10 runs onto 200 temperatures (the speed target is 1 s; BenchmarkDotNet measures it, this only checks it completes and is sane).</summary>
+    [Fact]
+    public void Many_targets_from_many_runs()
+    {
+        var settings = new SamplingSettings { Seed = 2, Chains = 4, SamplesPerChain = 10_000, BurnIn = 1_000 };
+        var runs = Enumerable.Range(0, 10).Select(i => PairSampler.Sample(Line, Temperature.FromKelvin(10 + 3 * i), settings)).ToList();
+        var targets = Enumerable.Range(0, 200).Select(i => Temperature.FromKelvin(10 + 27.0 * i / 199)).ToList();
+        var all = Reweighting.Pair(Line, runs, targets);
+        Assert.Equal(200, all.Length);
+        Assert.True(all.Zip(all.Skip(1)).All(p => p.Second.Variance.Value > p.First.Variance.Value - 5 * p.First.Variance.StandardError));
+    }
 }
