@@ -453,14 +453,16 @@ internal static class ReportJsonWriter
             Number(w, "rms", c.Rms.Value / l);
             Number(w, "rmsStdErr", c.Rms.StandardError / l);
             w.WriteEndObject();
-            QuantumDetails(w, quantum.PathIntegral, l, quantum.AtBeads.Variance, quantum.AtHalfBeads.Variance, "variance");
+            QuantumDetails(w, quantum.PathIntegral, l, quantum.AtBeads.Variance, quantum.AtHalfBeads.Variance, "variance",
+                quantum.KineticEnergy, quantum.ClassicalKineticEnergyInElectronVolts, ScenarioUnits.Energy[s.EnergyUnit]);
         }
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
     }
 
     /// <summary>The <c>quantum</c> object: beads, extrapolation, zero-point variance, convergence, and the two runs' values of <paramref name="what"/>.</summary>
-    private static void QuantumDetails(Utf8JsonWriter w, PathIntegralDetails d, double l, Estimate atBeads, Estimate atHalfBeads, string what)
+    private static void QuantumDetails(Utf8JsonWriter w, PathIntegralDetails d, double l, Estimate atBeads, Estimate atHalfBeads, string what,
+        Estimate kinetic, double classicalKinetic, double energyUnit)
     {
         double l2 = l * l;
         w.WriteStartObject("quantum");
@@ -472,6 +474,9 @@ internal static class ReportJsonWriter
         Number(w, "relativeBeadCorrection", d.RelativeBeadCorrection);
         Number(w, "hbarOmegaOverKT", d.LargestQuantumToThermalRatio);
         Number(w, "thermalWavelength", d.ThermalWavelengthInAngstroms / l);
+        Number(w, "kineticEnergy", kinetic.Value / energyUnit);
+        Number(w, "kineticEnergyStdErr", kinetic.StandardError / energyUnit);
+        Number(w, "classicalKineticEnergy", classicalKinetic / energyUnit);
         w.WriteStartArray("runs");
         foreach (var (beads, value) in new[] { (d.Beads, atBeads), (d.Beads / 2, atHalfBeads) })
         {
@@ -684,7 +689,8 @@ internal static class ReportJsonWriter
             Number(w, "debyeWallerB", c.DebyeWallerB?.Value / l2);
             Number(w, "debyeWallerBStdErr", c.DebyeWallerB?.StandardError / l2);
             w.WriteEndObject();
-            QuantumDetails(w, quantum.PathIntegral, l, quantum.AtBeads.MeanSquareDisplacement, quantum.AtHalfBeads.MeanSquareDisplacement, "meanSquareDisplacement");
+            QuantumDetails(w, quantum.PathIntegral, l, quantum.AtBeads.MeanSquareDisplacement, quantum.AtHalfBeads.MeanSquareDisplacement, "meanSquareDisplacement",
+                quantum.KineticEnergy, quantum.ClassicalKineticEnergyInElectronVolts, e);
         }
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();

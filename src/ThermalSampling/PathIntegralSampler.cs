@@ -100,15 +100,15 @@ public static class PathIntegralSampler
             landscape.WindowWidthInAngstroms);
         double reference = references.Well?.EquilibriumDistanceInAngstroms ?? references.Exact.MeanInAngstroms;
         double hbar2m = PhysicalConstants.HbarSquaredOverAtomicMassElectronVoltAngstromSquared / mass.InAtomicMassUnits;
-        PairVibrationReport RunAt(int n)
+        (PairVibrationReport, Estimate) RunAt(int n)
         {
             var s = settings with { Seed = SeedFor(settings.Seed, n) };
             var record = PairChains.Sample(landscape, references.Exact, reference, width0, target, temperature, s, progress, cancellationToken, null, 0,
                 ChainRange.All(s.Chains), new RingPlan(n, StagingLinks(n, ratio), hbar2m));
-            return PairSummary.Summarise(landscape, mass, temperature, s, references, record, pathIntegral: true);
+            return (PairSummary.Summarise(landscape, mass, temperature, s, references, record, pathIntegral: true), Kinetic(record));
         }
-        var full = RunAt(p);
-        var half = RunAt(p / 2);
+        var (full, fullKinetic) = RunAt(p);
+        var (half, halfKinetic) = RunAt(p / 2);
         var exact = classical.QuantumExact ?? QuantumPairDistribution.Compute(landscape, mass, temperature);
 
         var mean = Extrapolate(full.Mean, half.Mean);
@@ -141,8 +141,29 @@ public static class PathIntegralSampler
             Classical = classical,
             AtBeads = full,
             AtHalfBeads = half,
+            KineticEnergy = Extrapolate(fullKinetic, halfKinetic),
+            ClassicalKineticEnergyInElectronVolts = (landscape.Geometry == SeparationGeometry.Radial ? 1.5 : 0.5) * temperature.ThermalEnergyInElectronVolts,
             Warnings = warnings.ToImmutable(),
         };
+    }
+
+    /// <summary>
+    /// The mean centroid-virial kinetic energy over every chain's values, eV, with the standard error from the spread of the
+    /// chains' own means (the chains are independent); NaN error with a single chain.
+    /// </summary>
+    private static Estimate Kinetic(TemperatureRecord record)
+    {
+        var chains = record.Chains.Where(c => c.Kinetic.Count > 0).ToList();
+        double total = chains.Sum(c => (double)c.Kinetic.Count);
+        double mean = chains.Sum(c => c.Kinetic.Sum) / total;
+        if (chains.Count < 2)
+        {
+            return new Estimate(mean, double.NaN);
+        }
+        var means = chains.Select(c => c.Kinetic.Sum / c.Kinetic.Count).ToList();
+        double average = means.Average();
+        double spread = means.Sum(m => (m - average) * (m - average)) / (means.Count - 1);
+        return new Estimate(mean, Math.Sqrt(spread / means.Count));
     }
 
     /// <summary>Samples the quantum distribution of a particle at a site at one temperature.</summary>
@@ -166,15 +187,15 @@ public static class PathIntegralSampler
         var classical = SiteSampler.Run(landscape, mass, temperature, settings, progress, cancellationToken);
         double target = settings.TargetAcceptance ?? SiteSampler.DefaultTargetAcceptance;
         double hbar2m = PhysicalConstants.HbarSquaredOverAtomicMassElectronVoltAngstromSquared / mass.InAtomicMassUnits;
-        SiteVibrationReport RunAt(int n)
+        (SiteVibrationReport, Estimate) RunAt(int n)
         {
             var s = settings with { Seed = SeedFor(settings.Seed, n) };
             var record = SiteChains.Sample(landscape, harmonic, target, temperature, s, progress, cancellationToken, null, 0, ChainRange.All(s.Chains),
                 new RingPlan(n, StagingLinks(n, ratio), hbar2m));
-            return SiteSummary.Summarise(landscape, mass, temperature, s, harmonic, record, pathIntegral: true);
+            return (SiteSummary.Summarise(landscape, mass, temperature, s, harmonic, record, pathIntegral: true), Kinetic(record));
         }
-        var full = RunAt(p);
-        var half = RunAt(p / 2);
+        var (full, fullKinetic) = RunAt(p);
+        var (half, halfKinetic) = RunAt(p / 2);
         QuantumSite? exact = classical.QuantumExact;
         string? why = null;
         if (exact is null)
@@ -222,6 +243,8 @@ public static class PathIntegralSampler
             Classical = classical,
             AtBeads = full,
             AtHalfBeads = half,
+            KineticEnergy = Extrapolate(fullKinetic, halfKinetic),
+            ClassicalKineticEnergyInElectronVolts = 1.5 * temperature.ThermalEnergyInElectronVolts,
             Warnings = warnings.ToImmutable(),
         };
     }

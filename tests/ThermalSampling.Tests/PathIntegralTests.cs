@@ -86,6 +86,12 @@ public class PathIntegralTests(ITestOutputHelper output)
         Assert.True(report.PathIntegral.Converged);
         Assert.Equal(Hbar2OverU / massU / (2 * hw), report.PathIntegral.ZeroPointVarianceInAngstromsSquared, 1e-9);
         Assert.Contains(report.Warnings, w => w.Code.Contains("quantum", StringComparison.Ordinal)); // 10× the classical spread
+        // The centroid-virial kinetic energy against the oscillator's (ħω/4) coth(βħω/2) (closed form), far above kT/2.
+        double kinetic = hw / 4 / Math.Tanh(beta * hw / 2);
+        output.WriteLine($"kinetic {report.KineticEnergy} exact {kinetic:G6} classical {report.ClassicalKineticEnergyInElectronVolts:G4}");
+        Assert.True(Math.Abs(report.KineticEnergy.ZScore(kinetic)) < 4, $"{report.KineticEnergy} against {kinetic:G6}");
+        Assert.InRange(report.KineticEnergy.Value / kinetic, 0.98, 1.02);
+        Assert.True(report.KineticEnergy.Value > 10 * report.ClassicalKineticEnergyInElectronVolts);
     }
 
     /// <summary>
@@ -148,6 +154,15 @@ public class PathIntegralTests(ITestOutputHelper output)
         output.WriteLine($"PIMC {c} basis {q} MSD {report.MeanSquareDisplacement}");
         Assert.True(Math.Abs(c.XX - q.XX) < 4 * se && Math.Abs(c.YY - q.YY) < 4 * se && Math.Abs(c.ZZ - q.ZZ) < 4 * se);
         Assert.True(q.XX < q.YY && q.YY < q.ZZ);
+        // Both against the product of 1D closed forms along the normal modes, Σ (ħ/2mω) coth(ħω/2kT) v vᵀ (the quantum harmonic
+        // covariance): the site is near-harmonic at this amplitude (⟨u²⟩/a² ≈ 0.003), so they agree to 2 %.
+        var closed = Analysis.SiteAnalysis.Harmonic(site, Mass.FromAtomicMassUnits(6), Temperature.FromKelvin(40)).QuantumCovariance;
+        output.WriteLine($"closed forms {closed}");
+        foreach (var (sampled, basis, harmonic) in new[] { (c.XX, q.XX, closed.XX), (c.YY, q.YY, closed.YY), (c.ZZ, q.ZZ, closed.ZZ) })
+        {
+            Assert.InRange(basis / harmonic, 0.98, 1.02);
+            Assert.True(Math.Abs(sampled - harmonic) < 4 * se + 0.02 * harmonic);
+        }
     }
 
     /// <summary>

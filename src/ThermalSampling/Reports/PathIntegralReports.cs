@@ -57,6 +57,16 @@ public sealed record PairPathIntegralReport
     /// <summary>The run at P/2 beads, used for the extrapolation.</summary>
     public required PairVibrationReport AtHalfBeads { get; init; }
 
+    /// <summary>
+    /// The kinetic energy from the centroid-virial estimator (every 16th step of each ring), extrapolated in P like the
+    /// other values, eV, with the standard error from the spread of the chains' means; the zero-point motion raises it
+    /// above the classical <see cref="ClassicalKineticEnergyInElectronVolts"/>.
+    /// </summary>
+    public required Estimate KineticEnergy { get; init; }
+
+    /// <summary>The classical kinetic energy, d·kT/2 (d = 1 on a line, 3 for a radial pair's relative vector and for a site), eV.</summary>
+    public required double ClassicalKineticEnergyInElectronVolts { get; init; }
+
     /// <summary>The verdict on classical statistics and on the quantum result (codes in <see cref="WarningCodes"/>).</summary>
     public required ImmutableArray<Warning> Warnings { get; init; }
 
@@ -139,6 +149,16 @@ public sealed record SitePathIntegralReport
 
     /// <summary>The run at P/2 beads, used for the extrapolation.</summary>
     public required SiteVibrationReport AtHalfBeads { get; init; }
+
+    /// <summary>
+    /// The kinetic energy from the centroid-virial estimator (every 16th step of each ring), extrapolated in P like the
+    /// other values, eV, with the standard error from the spread of the chains' means; the zero-point motion raises it
+    /// above the classical <see cref="ClassicalKineticEnergyInElectronVolts"/>.
+    /// </summary>
+    public required Estimate KineticEnergy { get; init; }
+
+    /// <summary>The classical kinetic energy, d·kT/2 (d = 1 on a line, 3 for a radial pair's relative vector and for a site), eV.</summary>
+    public required double ClassicalKineticEnergyInElectronVolts { get; init; }
 
     /// <summary>The verdict on classical statistics and on the quantum result.</summary>
     public required ImmutableArray<Warning> Warnings { get; init; }

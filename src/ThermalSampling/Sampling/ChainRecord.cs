@@ -108,6 +108,9 @@ public sealed class ChainRecord
     /// <summary>The fine energy histogram with per-bin position sums that reweighting across temperatures uses.</summary>
     internal EnergyBinSums Reweighting { get; }
 
+    /// <summary>A path-integral chain's centroid-virial kinetic-energy values: their sum, sum of squares (eV, eV²) and count; zeros otherwise.</summary>
+    internal (double Sum, double Squares, long Count) Kinetic { get; set; }
+
     /// <summary>
     /// The counts of the record's histogram: of the separation over the window (pairs), or of the distance from the
     /// harmonic minimum from 0 to the farthest point of the confinement (sites), in equal bins.
@@ -202,6 +205,7 @@ public sealed class ChainRecord
         Cumulants.Save(w);
         EnergyHistogram.Save(w);
         Reweighting.Save(w);
+        w.Doubles("CRKE", [Kinetic.Sum, Kinetic.Squares, Kinetic.Count]);
         if (Coordinates == 1)
         {
             _keptSeparations!.Save(w, 1);
@@ -268,6 +272,8 @@ public sealed class ChainRecord
         Cumulants.Load(r);
         EnergyHistogram.Load(r);
         Reweighting.Load(r);
+        var kinetic = r.Doubles("CRKE", 3);
+        Kinetic = (kinetic[0], kinetic[1], (long)r.InRange((long)kinetic[2], 0, long.MaxValue, "the kinetic-energy values"));
         if (Coordinates == 1)
         {
             _keptSeparations!.Load(r, 1);

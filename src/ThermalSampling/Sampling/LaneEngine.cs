@@ -36,6 +36,12 @@ internal interface ILaneWalk<TD, TState>
     /// <summary>After every lane is placed: the starting energies, with their fault check.</summary>
     void Start(ref TState state);
 
+    /// <summary>Burn-in is over: the walk clears its own recorded tallies (a ring's kinetic-energy sums) and starts them.</summary>
+    void StartRecording(ref TState state);
+
+    /// <summary>What the walk adds to lane <paramref name="lane"/>'s finished record (a ring's kinetic-energy sums; nothing for a one-point walk).</summary>
+    void Complete(in TState state, int lane, ChainRecord record);
+
     /// <summary>Writes what the walk keeps outside <typeparamref name="TState"/> (a ring polymer's beads), nothing for a one-point walk.</summary>
     void SaveOwn(StateWriter w);
 
@@ -241,6 +247,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
             var record = Records[lane];
             (record.Proposals, record.Accepted, record.ProposalScale) = (_samples, Accepted(lane), TOps.Get(width, lane));
             CompleteRecord(record, lane);
+            _walk.Complete(State, lane, record);
             _walk.StreamState(State, lane, words);
             record.SetStreamState(words);
         }
@@ -374,6 +381,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
             Sums = default;
             Waves.Clear();
             StartRecords();
+            _walk.StartRecording(ref State);
         }
         var width = LaneAdaptation.Width<TOps, TD, TB>(_logWidth, _maxWidth);
         if (Phase == GroupPhase.Recording)

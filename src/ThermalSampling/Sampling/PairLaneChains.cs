@@ -191,6 +191,14 @@ internal static class PairLaneChains
             state.Position = TOps.Set(state.Position, lane, x);
         }
 
+        public void StartRecording(ref PairWalkState<TD, TB> state)
+        {
+        }
+
+        public void Complete(in PairWalkState<TD, TB> state, int lane, ChainRecord record)
+        {
+        }
+
         public void SaveOwn(StateWriter w)
         {
         }

@@ -404,6 +404,14 @@ internal static class SiteLaneChains
             state.Z = TOps.Set(state.Z, lane, z);
         }
 
+        public void StartRecording(ref SiteWalkState<TD, TB> state)
+        {
+        }
+
+        public void Complete(in SiteWalkState<TD, TB> state, int lane, ChainRecord record)
+        {
+        }
+
         public void SaveOwn(StateWriter w)
         {
         }
