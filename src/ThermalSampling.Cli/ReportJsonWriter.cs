@@ -454,7 +454,8 @@ internal static class ReportJsonWriter
             Number(w, "rmsStdErr", c.Rms.StandardError / l);
             w.WriteEndObject();
             QuantumDetails(w, quantum.PathIntegral, l, quantum.AtBeads.Variance, quantum.AtHalfBeads.Variance, "variance",
-                quantum.KineticEnergy, quantum.ClassicalKineticEnergyInElectronVolts, ScenarioUnits.Energy[s.EnergyUnit]);
+                quantum.KineticEnergy, quantum.ClassicalKineticEnergyInElectronVolts, ScenarioUnits.Energy[s.EnergyUnit],
+                quantum.Variance.Value / quantum.Classical.Variance.Value, [quantum.PathIntegral.LargestQuantumToThermalRatio]);
         }
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
@@ -462,7 +463,7 @@ internal static class ReportJsonWriter
 
     /// <summary>The <c>quantum</c> object: beads, extrapolation, zero-point variance, convergence, and the two runs' values of <paramref name="what"/>.</summary>
     private static void QuantumDetails(Utf8JsonWriter w, PathIntegralDetails d, double l, Estimate atBeads, Estimate atHalfBeads, string what,
-        Estimate kinetic, double classicalKinetic, double energyUnit)
+        Estimate kinetic, double classicalKinetic, double energyUnit, double ratioToClassical, double[] perMode)
     {
         double l2 = l * l;
         w.WriteStartObject("quantum");
@@ -473,6 +474,8 @@ internal static class ReportJsonWriter
         w.WriteNumber("stagingLinks", d.StagingLinks);
         Number(w, "relativeBeadCorrection", d.RelativeBeadCorrection);
         Number(w, "hbarOmegaOverKT", d.LargestQuantumToThermalRatio);
+        Numbers(w, "hbarOmegaOverKTPerMode", perMode, 1);
+        Number(w, "ratioToClassical", ratioToClassical);
         Number(w, "thermalWavelength", d.ThermalWavelengthInAngstroms / l);
         Number(w, "kineticEnergy", kinetic.Value / energyUnit);
         Number(w, "kineticEnergyStdErr", kinetic.StandardError / energyUnit);
@@ -690,7 +693,8 @@ internal static class ReportJsonWriter
             Number(w, "debyeWallerBStdErr", c.DebyeWallerB?.StandardError / l2);
             w.WriteEndObject();
             QuantumDetails(w, quantum.PathIntegral, l, quantum.AtBeads.MeanSquareDisplacement, quantum.AtHalfBeads.MeanSquareDisplacement, "meanSquareDisplacement",
-                quantum.KineticEnergy, quantum.ClassicalKineticEnergyInElectronVolts, e);
+                quantum.KineticEnergy, quantum.ClassicalKineticEnergyInElectronVolts, e,
+                quantum.MeanSquareDisplacement.Value / quantum.Classical.MeanSquareDisplacement.Value, [.. r.Harmonic.Modes.Select(m => m.QuantumToThermalRatio)]);
         }
         Common(w, r.Diagnostics, r.Warnings, s);
         w.WriteEndObject();
