@@ -19,7 +19,7 @@ namespace ThermalSampling.Cli;
 internal static class FigureWriter
 {
     internal static List<string> WritePair<TPotential>(IReadOnlyList<PairVibrationReport> reports, PairLandscape<TPotential> landscape, string basePath,
-        string? title = null, FigureUnits? units = null)
+        string? title = null, FigureUnits? units = null, IReadOnlyList<ReweightedPairEstimate>? reweighted = null)
         where TPotential : struct, IPairPotential
     {
         var written = new List<string>();
@@ -27,6 +27,10 @@ internal static class FigureWriter
         if (reports.Count >= 2)
         {
             written.Add(Save(VibrationFigures.TemperatureSweep(reports, title, units), basePath, ""));
+        }
+        if (reweighted is { Count: >= 2 })
+        {
+            written.Add(Save(VibrationFigures.ReweightedSweep(reports, reweighted, title, units), basePath, "-reweighted"));
         }
         var plots = reports.Select(r => VibrationFigures.PositionDistribution(r, landscape, title, units)).ToList();
         if (Panelled(basePath, reports.Count))
@@ -41,13 +45,18 @@ internal static class FigureWriter
         return written;
     }
 
-    internal static List<string> WriteSite(IReadOnlyList<SiteVibrationReport> reports, string basePath, string? title = null, FigureUnits? units = null)
+    internal static List<string> WriteSite(IReadOnlyList<SiteVibrationReport> reports, string basePath, string? title = null, FigureUnits? units = null,
+        IReadOnlyList<ReweightedSiteEstimate>? reweighted = null)
     {
         var written = new List<string>();
         var names = TemperatureNames(reports.Select(r => r.Temperature.InKelvin).ToList());
         if (reports.Count >= 2)
         {
             written.Add(Save(VibrationFigures.TemperatureSweep(reports, title, units), basePath, ""));
+        }
+        if (reweighted is { Count: >= 2 })
+        {
+            written.Add(Save(VibrationFigures.ReweightedSweep(reports, reweighted, title, units), basePath, "-reweighted"));
         }
         if (Panelled(basePath, reports.Count))
         {

@@ -197,7 +197,7 @@ internal static class ScenarioRunner
                         sampled.Add(PairSampler.Summarise(landscape, mass, records[^1])); // the same bits as PairSampler.Run
                     });
                     var reweighted = stopped ? null : Reweighted(() => Reweighting.Pair(landscape, records, Targets(scenario)));
-                    var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WritePair(sampled, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
+                    var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WritePair(sampled, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario), reweighted));
                     return new ScenarioResults(scenario, sampled, [], stopped, sampledFigures) { PairReweighted = reweighted };
                 }
                 var reports = new List<PairVibrationReport>();
@@ -278,7 +278,7 @@ internal static class ScenarioRunner
                     sampled.Add(SiteSampler.Summarise(siteLandscape, mass, records[^1])); // the same bits as SiteSampler.Run
                 });
                 var reweighted = stopped ? null : Reweighted(() => Reweighting.Site(siteLandscape, records, Targets(scenario)));
-                var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSite(sampled, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
+                var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSite(sampled, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario), reweighted));
                 return new ScenarioResults(scenario, [], sampled, stopped, sampledFigures) { Surface = surface, SiteReweighted = reweighted };
             }
             var siteReports = new List<SiteVibrationReport>();

@@ -471,6 +471,67 @@ public static class VibrationFigures
         return plot;
     }
 
+    /// <summary>
+    /// A pair's RMS spread against temperature from reweighting: the reweighted values as a band (± 1 standard error), the
+    /// sampled temperatures as points with error bars, and the exact quadrature at the reweighted temperatures as a line.
+    /// </summary>
+    /// <param name="sampled">The sampled temperatures' reports.</param>
+    /// <param name="reweighted">The reweighted estimates (at least two).</param>
+    /// <param name="context">A line shown under the title; none when null.</param>
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot ReweightedSweep(IReadOnlyList<PairVibrationReport> sampled, IReadOnlyList<ReweightedPairEstimate> reweighted, string? context = null,
+        FigureUnits? units = null)
+    {
+        ArgumentNullException.ThrowIfNull(sampled);
+        var unit = units ?? FigureUnits.Default;
+        double L = unit.AngstromsPerUnit;
+        var sorted = SortedByTemperature(reweighted, r => r.Temperature);
+        var plot = new Plot();
+        double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
+        var band = plot.Add.FillY(t, sorted.Select(r => (r.Rms.Value - r.Rms.StandardError) / L).ToArray(), sorted.Select(r => (r.Rms.Value + r.Rms.StandardError) / L).ToArray());
+        band.FillStyle.Color = Sampled.WithAlpha(0.3);
+        band.LineStyle.Width = 0;
+        band.LegendText = "RMS spread, reweighted (± 1 SE)";
+        AddCurve(plot, t, sorted.Select(r => r.Exact.RmsInAngstroms / L).ToArray(), Exact, LinePattern.Dashed, "RMS spread, exact (quadrature)");
+        var points = sampled.OrderBy(r => r.Temperature.InKelvin).ToList();
+        AddSeries(plot, points.Select(r => r.Temperature.InKelvin).ToArray(), points.Select(r => r.Rms.Value / L).ToArray(),
+            points.Select(r => r.Rms.StandardError / L).ToArray(), Sampled, "RMS spread, sampled");
+        Title(plot, "Thermal spread against temperature, reweighted between the sampled temperatures", context, points.SelectMany(r => r.Warnings).ToList());
+        plot.XLabel("temperature (K)");
+        plot.YLabel($"RMS spread ({unit.LengthName})");
+        plot.ShowLegend(Alignment.UpperLeft);
+        return plot;
+    }
+
+    /// <summary>A site's mean-square displacement against temperature from reweighting: the reweighted band and the sampled points.</summary>
+    /// <param name="sampled">The sampled temperatures' reports.</param>
+    /// <param name="reweighted">The reweighted estimates (at least two).</param>
+    /// <param name="context">A line shown under the title; none when null.</param>
+    /// <param name="units">The units to draw in; Å when null.</param>
+    public static Plot ReweightedSweep(IReadOnlyList<SiteVibrationReport> sampled, IReadOnlyList<ReweightedSiteEstimate> reweighted, string? context = null,
+        FigureUnits? units = null)
+    {
+        ArgumentNullException.ThrowIfNull(sampled);
+        var unit = units ?? FigureUnits.Default;
+        double L2 = unit.AngstromsPerUnit * unit.AngstromsPerUnit;
+        var sorted = SortedByTemperature(reweighted, r => r.Temperature);
+        var plot = new Plot();
+        double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
+        var band = plot.Add.FillY(t, sorted.Select(r => (r.MeanSquareDisplacement.Value - r.MeanSquareDisplacement.StandardError) / L2).ToArray(),
+            sorted.Select(r => (r.MeanSquareDisplacement.Value + r.MeanSquareDisplacement.StandardError) / L2).ToArray());
+        band.FillStyle.Color = Sampled.WithAlpha(0.3);
+        band.LineStyle.Width = 0;
+        band.LegendText = "MSD, reweighted (± 1 SE)";
+        var points = sampled.OrderBy(r => r.Temperature.InKelvin).ToList();
+        AddSeries(plot, points.Select(r => r.Temperature.InKelvin).ToArray(), points.Select(r => r.MeanSquareDisplacement.Value / L2).ToArray(),
+            points.Select(r => r.MeanSquareDisplacement.StandardError / L2).ToArray(), Sampled, "MSD, sampled");
+        Title(plot, "Mean-square displacement against temperature, reweighted between the sampled temperatures", context, points.SelectMany(r => r.Warnings).ToList());
+        plot.XLabel("temperature (K)");
+        plot.YLabel($"mean-square displacement ({unit.LengthName}²)");
+        plot.ShowLegend(Alignment.UpperLeft);
+        return plot;
+    }
+
     /// <summary>Renames the legend entry <paramref name="from"/> (or every entry starting with it, with <paramref name="prefix"/>).</summary>
     private static void Relabel(Plot plot, string from, string to, bool prefix = false)
     {

@@ -115,4 +115,18 @@ public class ReweightingTests(ITestOutputHelper output)
         Assert.Equal(200, all.Length);
         Assert.True(all.Zip(all.Skip(1)).All(p => p.Second.Variance.Value > p.First.Variance.Value - 5 * p.First.Variance.StandardError));
     }
+
+    /// <summary>The reweighted sweep figure draws the band, the exact curve and the sampled points (their legends).</summary>
+    [Fact]
+    public void Reweighted_sweep_figure_renders()
+    {
+        var settings = new SamplingSettings { Seed = 2, Chains = 2, SamplesPerChain = 8_000, BurnIn = 1_000 };
+        var records = new[] { 10.0, 20 }.Select(k => PairSampler.Sample(Line, Temperature.FromKelvin(k), settings)).ToList();
+        var reports = records.Select(r => PairSampler.Summarise(Line, Mass.FromAtomicMassUnits(50), r)).ToList();
+        var reweighted = Reweighting.Pair(Line, records, [.. Enumerable.Range(0, 11).Select(i => Temperature.FromKelvin(10 + i))]);
+        string svg = Plotting.VibrationFigures.ReweightedSweep(reports, reweighted).GetSvgXml(800, 500);
+        Assert.Contains("RMS spread, reweighted (± 1 SE)", svg);
+        Assert.Contains("RMS spread, exact (quadrature)", svg);
+        Assert.Contains("RMS spread, sampled", svg);
+    }
 }
