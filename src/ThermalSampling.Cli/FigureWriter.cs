@@ -58,6 +58,10 @@ internal static class FigureWriter
         {
             written.Add(Save(VibrationFigures.ReweightedSweep(reports, reweighted, title, units), basePath, "-reweighted"));
         }
+        if (reports.Count >= 2 && reports.Any(r => r.BasinPopulations.Length > 1))
+        {
+            written.Add(Save(VibrationFigures.BasinPopulations(reports, title), basePath, "-basins"));
+        }
         if (Panelled(basePath, reports.Count))
         {
             written.Add(SavePanels(reports.Select(r => VibrationFigures.SiteMarginals(r, title, units)).ToList(), basePath, "-marginals"));

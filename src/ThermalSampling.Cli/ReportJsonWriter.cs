@@ -51,6 +51,15 @@ internal static class ReportJsonWriter
             WriteReweightedSite(w, r, l, e);
         }
         w.WriteEndArray();
+        if (SweepWarnings.BasinPopulationShift(results.Sites) is { } shift)
+        {
+            w.WriteStartArray("sweepWarnings");
+            w.WriteStartObject();
+            w.WriteString("code", shift.Code);
+            w.WriteString("message", UnitText.InUnits(shift.Message, s.EnergyUnit, s.LengthUnit));
+            w.WriteEndObject();
+            w.WriteEndArray();
+        }
         WriteEinsteinFit(w, results, l);
         w.WriteEndObject();
     }
@@ -669,6 +678,39 @@ internal static class ReportJsonWriter
         Number(w, "inscribedRadius", basin.InscribedRadiusInAngstroms / l);
         Number(w, "outerRadius", basin.OuterRadiusInAngstroms / l);
         Number(w, "gridSpacing", basin.GridSpacingInAngstroms / l);
+        w.WriteStartArray("populations");
+        foreach (var p in r.BasinPopulations)
+        {
+            w.WriteStartObject();
+            w.WriteNumber("index", p.Index);
+            if (p.Minimum is { } at)
+            {
+                Vector(w, "minimum", at, l);
+            }
+            else
+            {
+                w.WriteString("kind", "wall");
+            }
+            Number(w, "energyAboveSite", p.EnergyAboveSiteInElectronVolts / e);
+            Number(w, "sampled", p.SampledShare.Value);
+            Number(w, "sampledStdErr", p.SampledShare.StandardError);
+            Number(w, "harmonic", p.HarmonicShare);
+            Number(w, "quadrature", p.QuadratureShare);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteStartArray("passes");
+        foreach (var p in r.BasinPasses)
+        {
+            w.WriteStartObject();
+            w.WriteStartArray("between");
+            w.WriteNumberValue(p.From);
+            w.WriteNumberValue(p.To);
+            w.WriteEndArray();
+            Number(w, "passAboveSite", p.PassAboveSiteInElectronVolts / e);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
         w.WriteEndObject();
         TemperatureFactors(w, r.TemperatureFactors, l);
         if (quantum is not null)

@@ -532,6 +532,36 @@ public static class VibrationFigures
         return plot;
     }
 
+    /// <summary>
+    /// A site's basin populations against temperature: each basin's sampled share with its standard error, and as a line
+    /// its grid-quadrature share (the equilibrium answer on the basin map).
+    /// </summary>
+    /// <param name="reports">Site reports at several temperatures (at least two).</param>
+    /// <param name="context">A line shown under the title; none when null.</param>
+    public static Plot BasinPopulations(IReadOnlyList<SiteVibrationReport> reports, string? context = null)
+    {
+        var sorted = SortedByTemperature(reports, r => r.Temperature);
+        var plot = new Plot();
+        double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
+        int basins = sorted.Max(r => r.BasinPopulations.Length == 0 ? 0 : r.BasinPopulations.Max(p => p.Index) + 1);
+        Color[] palette = [Sampled, Harmonic, Exact, FirstOrder, Quantum, Potential, .. Axes3];
+        for (int i = 0; i < basins; i++)
+        {
+            var color = palette[i % palette.Length];
+            BasinPopulation? At(SiteVibrationReport r) => r.BasinPopulations.FirstOrDefault(p => p.Index == i);
+            string name = i == 0 ? "site basin" : sorted.Any(r => At(r) is { Minimum: null }) ? "to the wall" : $"basin {i}";
+            AddSeries(plot, t, sorted.Select(r => At(r)?.SampledShare.Value ?? 0).ToArray(), sorted.Select(r => At(r)?.SampledShare.StandardError ?? 0).ToArray(), color,
+                $"{name}, sampled");
+            AddCurve(plot, t, sorted.Select(r => At(r)?.QuadratureShare ?? 0).ToArray(), color, LinePattern.Dashed, $"{name}, quadrature");
+        }
+        Title(plot, "Basin populations against temperature", context, sorted.SelectMany(r => r.Warnings).ToList());
+        plot.XLabel("temperature (K)");
+        plot.YLabel("share of the draws");
+        plot.Axes.SetLimitsY(0, 1.05);
+        plot.ShowLegend(Alignment.UpperRight);
+        return plot;
+    }
+
     /// <summary>Renames the legend entry <paramref name="from"/> (or every entry starting with it, with <paramref name="prefix"/>).</summary>
     private static void Relabel(Plot plot, string from, string to, bool prefix = false)
     {

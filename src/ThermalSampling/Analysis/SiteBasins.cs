@@ -20,6 +20,12 @@ namespace ThermalSampling.Analysis;
 /// <param name="HarmonicWeight">Its harmonic partition-function weight relative to the site's, e^(−ΔE/kT)·√(det H_site / det H), at the temperature of <see cref="SiteBasin.OutsidePopulation"/>; null until a temperature is given.</param>
 public sealed record OtherMinimum(Position Position, double EnergyAboveSiteInElectronVolts, double? HarmonicWeight = null);
 
+/// <summary>The pass between two neighbouring basins: the lowest over neighbouring grid points of the higher of their energies, above the site's minimum (a minimum-energy-path estimate at the grid's spacing).</summary>
+/// <param name="From">The lower basin index (0 the site's, 1 … K the other minima in order, K + 1 the wall's).</param>
+/// <param name="To">The higher basin index.</param>
+/// <param name="PassAboveSiteInElectronVolts">The pass energy above the site's minimum, eV.</param>
+public sealed record BasinPass(int From, int To, double PassAboveSiteInElectronVolts);
+
 /// <summary>
 /// The basin of attraction of a site's minimum inside its confinement: the points from which steepest descent on the energy
 /// ends at the site's minimum. Mapped on a grid across the confinement (each grid point descends to its lowest neighbour
@@ -312,9 +318,31 @@ public static class SiteBasins
                 neighbour = refined;
             }
         }
+        // Basin labels: 0 the site's basin, 1 … K the other minima in the order reported (sinks that refine to the same
+        // minimum share one), K + 1 every cell whose descent ends at the confinement's wall.
+        var ordered = others.OrderBy(o => o.EnergyAboveSiteInElectronVolts).ThenBy(o => (o.Position - minimum).Norm).ToList();
+        var sinkLabel = new Dictionary<int, byte>();
+        int wallLabel = Math.Min(ordered.Count + 1, 255);
+        foreach (int s in Enumerable.Range(0, energy.Length).Where(c => inside[c] && sink[c] == c))
+        {
+            if (s == site)
+            {
+                sinkLabel[s] = 0;
+                continue;
+            }
+            if (atWall[s])
+            {
+                sinkLabel[s] = (byte)wallLabel;
+                continue;
+            }
+            var refined = Refine(landscape, Position(s), h) ?? Position(s);
+            int match = ordered.FindIndex(o => (o.Position - refined).Norm < 1e-4);
+            sinkLabel[s] = (byte)((refined - minimum).Norm < 1e-4 ? 0 : match >= 0 ? Math.Min(match + 1, wallLabel) : wallLabel);
+        }
         // A draw belongs to its nearest grid point, which for a draw beside the wall can lie just outside the confinement:
-        // such a point counts as in the basin when one of its neighbours inside the confinement is.
-        var outsideMask = new byte[energy.Length];
+        // such a point takes the site's label when one of its neighbours inside the confinement is in the site's basin,
+        // else the label of its first inside neighbour.
+        var labels = new byte[energy.Length];
         for (int k = 0; k < n; k++)
         {
             for (int j = 0; j < n; j++)
@@ -322,13 +350,51 @@ public static class SiteBasins
                 for (int i = 0; i < n; i++)
                 {
                     int c = Index(i, j, k);
-                    bool inBasin = inside[c] ? sink[c] == site : Neighbours(i, j, k, n).Any(d => inside[d] && sink[d] == site);
-                    outsideMask[c] = (byte)(inBasin ? 0 : 1);
+                    if (inside[c])
+                    {
+                        labels[c] = sinkLabel[sink[c]];
+                        continue;
+                    }
+                    var near = Neighbours(i, j, k, n).Where(d => inside[d]).ToList();
+                    labels[c] = near.Any(d => sink[d] == site) ? (byte)0 : near.Count > 0 ? sinkLabel[sink[near[0]]] : (byte)wallLabel;
+                }
+            }
+        }
+        // Passes between basins: the lowest over neighbouring cells of the higher of their two energies.
+        var passes = new Dictionary<(int, int), double>();
+        for (int k = 0; k < n; k++)
+        {
+            for (int j = 0; j < n; j++)
+            {
+                for (int i = 0; i < n; i++)
+                {
+                    int c = Index(i, j, k);
+                    if (!inside[c])
+                    {
+                        continue;
+                    }
+                    foreach (int d in Neighbours(i, j, k, n))
+                    {
+                        if (!inside[d] || labels[d] <= labels[c])
+                        {
+                            continue;
+                        }
+                        var key = ((int)labels[c], (int)labels[d]);
+                        double pass = Math.Max(energy[c], energy[d]) - siteEnergy;
+                        passes[key] = passes.TryGetValue(key, out double old) ? Math.Min(old, pass) : pass;
+                    }
                 }
             }
         }
         bool anyOutside = Enumerable.Range(0, energy.Length).Any(c => inside[c] && sink[c] != site);
-        var grid = new BasinGrid(centre.X - size, centre.Y - size, centre.Z - size, h, n, outsideMask, anyOutside);
+        var outsideMask = labels.Select(l => (byte)(l == 0 ? 0 : 1)).ToArray();
+        var grid = new BasinGrid(centre.X - size, centre.Y - size, centre.Z - size, h, n, outsideMask, anyOutside)
+        {
+            Labels = labels,
+            LabelCount = wallLabel + 1,
+            Energies = [.. energy.Select(e => e - siteEnergy)],
+            Passes = [.. passes.OrderBy(p => p.Key).Select(p => new BasinPass(p.Key.Item1, p.Key.Item2, Math.Max(0, p.Value)))],
+        };
         return (new SiteBasin
         {
             Minimum = minimum,
@@ -472,6 +538,42 @@ public static class SiteBasins
 /// inside one basin, the usual case) no draw can be outside, and the samplers skip the lookup.</remarks>
 internal sealed record BasinGrid(double X0, double Y0, double Z0, double Spacing, int N, byte[] Outside, bool AnyOutside)
 {
+    /// <summary>Each grid point's basin: 0 the site's, 1 … K the other minima in <see cref="SiteBasin.OtherMinima"/>'s order, K + 1 the wall's.</summary>
+    internal byte[] Labels { get; init; } = [];
+
+    /// <summary>K + 2: the labels in use.</summary>
+    internal int LabelCount { get; init; } = 1;
+
+    /// <summary>V − V_site at each grid point, eV (+∞ outside the confinement).</summary>
+    internal double[] Energies { get; init; } = [];
+
+    /// <summary>The passes between neighbouring basins.</summary>
+    internal ImmutableArray<BasinPass> Passes { get; init; } = [];
+
+    /// <summary>The share of each basin in Σ e^(−(V − V_site)/kT) over the grid points inside the confinement (a grid quadrature).</summary>
+    internal double[] QuadratureShares(double thermalEnergy)
+    {
+        var shares = new double[LabelCount];
+        double total = 0;
+        for (int c = 0; c < Energies.Length; c++)
+        {
+            if (double.IsPositiveInfinity(Energies[c]))
+            {
+                continue;
+            }
+            double w = Math.Exp(-Energies[c] / thermalEnergy);
+            shares[Labels[c]] += w;
+            total += w;
+        }
+        for (int i = 0; i < shares.Length; i++)
+        {
+            shares[i] /= total;
+        }
+        return shares;
+    }
+
+    /// <summary>The basin label of (x, y, z) by its nearest grid point.</summary>
+    internal int LabelOf(double x, double y, double z) => Labels.Length == 0 ? (IsOutside(x, y, z) ? 1 : 0) : Labels[Index(x, y, z)];
 
     /// <summary>Whether the position is outside the site's basin (by its nearest grid point).</summary>
     internal bool IsOutside(double x, double y, double z) => Outside[Index(x, y, z)] != 0;

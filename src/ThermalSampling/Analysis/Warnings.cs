@@ -49,4 +49,7 @@ public static class WarningCodes
 
     /// <summary>A path-integral result still changes with the number of beads beyond its tolerance: raise the beads.</summary>
     public const string QuantumBeadsNotConverged = "quantum-beads-not-converged";
+
+    /// <summary>Over a sweep, a site's population moves between basins (a share changes by more than 0.1, or the most populated basin changes).</summary>
+    public const string BasinPopulationShift = "basin-population-shift";
 }

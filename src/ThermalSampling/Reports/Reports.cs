@@ -190,6 +190,16 @@ public sealed record RetainedDraws<T>(ImmutableArray<ImmutableArray<T>> Chains)
 public sealed record ExactComparison(double Mean, double Variance, double Skewness, double ExcessKurtosis, double ProbabilityNearWalls, double ZScoreMean, double ZScoreVariance,
     double ThirdCumulant, double FourthCumulant);
 
+/// <summary>One basin of a site's map and its population at a temperature.</summary>
+/// <param name="Index">0 the site's basin, 1 … K the other minima by energy, K + 1 the draws that slide to the confinement's wall.</param>
+/// <param name="Minimum">The basin's minimum, Å (null for the wall's).</param>
+/// <param name="EnergyAboveSiteInElectronVolts">Its energy above the site's minimum, eV (null for the wall's).</param>
+/// <param name="SampledShare">The share of recorded draws in it, with the larger of the chain-to-chain and the ESS-based standard error.</param>
+/// <param name="HarmonicShare">Harmonic superposition: e^(−E/kT)/√det H normalised over the minima (null for the wall's).</param>
+/// <param name="QuadratureShare">The share of Σ e^(−V/kT) over the basin map's points inside the confinement (a grid quadrature at the map's spacing).</param>
+public sealed record BasinPopulation(int Index, Position? Minimum, double? EnergyAboveSiteInElectronVolts, Estimate SampledShare, double? HarmonicShare,
+    double QuadratureShare);
+
 /// <summary>The vibration report of a line or radial pair at one temperature: the sampled mean, shift, spread and shape with
 /// error bars, beside the exact, harmonic and first-order references, the diagnostics and every warning.</summary>
 public sealed record PairVibrationReport
@@ -372,6 +382,16 @@ public sealed record SiteVibrationReport
 
     /// <summary>The share of recorded draws outside the basin of the site's minimum (each draw placed by the nearest point of the basin map).</summary>
     public required double ShareOutsideBasin { get; init; }
+
+    /// <summary>
+    /// Every basin inside the confinement (the site's first, then the other minima by energy, then the draws whose descent
+    /// ends at the wall, when any point does) with its population: sampled (with a standard error), harmonic, and by grid
+    /// quadrature of the Boltzmann weight over the basin map.
+    /// </summary>
+    public required ImmutableArray<BasinPopulation> BasinPopulations { get; init; }
+
+    /// <summary>The passes between neighbouring basins (indices as in <see cref="BasinPopulations"/>).</summary>
+    public required ImmutableArray<BasinPass> BasinPasses { get; init; }
 
     /// <summary>Convergence diagnostics.</summary>
     public required SamplingDiagnostics Diagnostics { get; init; }

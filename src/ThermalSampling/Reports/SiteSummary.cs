@@ -172,6 +172,8 @@ internal static class SiteSummary
                 q => harmonic.ClassicalCovariance.Quadratic(new Position(q[0], q[1], q[2])), _ => null),
             Basin = basin,
             ShareOutsideBasin = outside,
+            BasinPopulations = Populations(landscape, min, basin, results, temperature, combined.Ess),
+            BasinPasses = SiteBasins.MapWithGrid(landscape, min).Grid.Passes,
             Diagnostics = diagnostics,
             RadialHistogram = radialHistogram,
             Distribution = distribution,
@@ -179,6 +181,54 @@ internal static class SiteSummary
             Provenance = provenance,
             Draws = ReportParts.Draws(results.Select(r => r.KeptPositions)),
         };
+    }
+
+    /// <summary>Each basin's sampled, harmonic and grid-quadrature population (<see cref="SiteVibrationReport.BasinPopulations"/>).</summary>
+    private static ImmutableArray<BasinPopulation> Populations<TPotential>(SiteLandscape<TPotential> landscape, Position min, SiteBasin basin,
+        IReadOnlyList<ChainRecord> results, Temperature temperature, double ess)
+        where TPotential : struct, IPairPotential
+    {
+        var grid = SiteBasins.MapWithGrid(landscape, min).Grid;
+        int labels = grid.LabelCount;
+        long[] Counts(ChainRecord r)
+        {
+            var c = new long[labels];
+            if (r.DrawsPerBasin.Length == labels)
+            {
+                r.DrawsPerBasin.CopyTo(c, 0);
+            }
+            else
+            {
+                c[0] = r.Draws;
+            }
+            return c;
+        }
+        var perChain = results.Select(Counts).ToList();
+        double total = results.Sum(r => (double)r.Draws);
+        var quadrature = grid.QuadratureShares(temperature.ThermalEnergyInElectronVolts);
+        double harmonicTotal = 1 + basin.OtherMinima.Sum(m => m.HarmonicWeight ?? 0);
+        bool wallUsed = quadrature[labels - 1] > 0 || perChain.Any(c => c[labels - 1] > 0);
+        var list = ImmutableArray.CreateBuilder<BasinPopulation>();
+        for (int l = 0; l < labels; l++)
+        {
+            bool wall = l == labels - 1 && labels - 1 > basin.OtherMinima.Length;
+            if (wall && !wallUsed)
+            {
+                continue;
+            }
+            double p = perChain.Sum(c => (double)c[l]) / total;
+            double se = Math.Sqrt(p * (1 - p) / Math.Max(ess, 1));
+            if (perChain.Count >= 2)
+            {
+                var shares = perChain.Select((c, i) => c[l] / (double)results[i].Draws).ToList();
+                double mean = shares.Average();
+                se = Math.Max(se, Math.Sqrt(shares.Sum(x => (x - mean) * (x - mean)) / (shares.Count - 1) / shares.Count));
+            }
+            var other = l >= 1 && l <= basin.OtherMinima.Length ? basin.OtherMinima[l - 1] : null;
+            list.Add(new BasinPopulation(l, l == 0 ? min : other?.Position, l == 0 ? 0 : other?.EnergyAboveSiteInElectronVolts, new Estimate(p, se),
+                l == 0 ? 1 / harmonicTotal : other?.HarmonicWeight is double w ? w / harmonicTotal : null, quadrature[l]));
+        }
+        return list.ToImmutable();
     }
 
     /// <summary>The chains' distribution counts pooled into densities with standard errors from the effective sample size.</summary>

@@ -75,6 +75,11 @@ public sealed class ChainRecord
     /// <summary>Draws outside the basin of the site's minimum (sites; 0 for pairs).</summary>
     public long DrawsOutsideBasin { get; internal set; }
 
+    /// <summary>Draws per basin of the site's map (0 the site's, 1 … K the other minima in order, K + 1 the wall's; sites only, empty for pairs).</summary>
+    public ImmutableArray<long> BasinCounts => [.. DrawsPerBasin];
+
+    internal long[] DrawsPerBasin { get; set; } = [];
+
     /// <summary>The four words of the chain's xoshiro256** state after its last draw: where its seed stream stands.</summary>
     public ImmutableArray<ulong> StreamState => ImmutableArray.Create(_stream);
 
@@ -206,6 +211,8 @@ public sealed class ChainRecord
         EnergyHistogram.Save(w);
         Reweighting.Save(w);
         w.Doubles("CRKE", [Kinetic.Sum, Kinetic.Squares, Kinetic.Count]);
+        w.Longs("CRBN", [DrawsPerBasin.Length]);
+        w.Longs("CRBC", DrawsPerBasin);
         if (Coordinates == 1)
         {
             _keptSeparations!.Save(w, 1);
@@ -274,6 +281,8 @@ public sealed class ChainRecord
         Reweighting.Load(r);
         var kinetic = r.Doubles("CRKE", 3);
         Kinetic = (kinetic[0], kinetic[1], (long)r.InRange((long)kinetic[2], 0, long.MaxValue, "the kinetic-energy values"));
+        int basins = (int)r.InRange(r.Longs("CRBN", 1)[0], 0, 256, "the basins");
+        DrawsPerBasin = r.Longs("CRBC", basins);
         if (Coordinates == 1)
         {
             _keptSeparations!.Load(r, 1);

@@ -174,7 +174,13 @@ internal static class SiteChains
                     {
                         record.DrawsNearWall++;
                     }
-                    if (basin.AnyOutside && basin.IsOutside(x, y, z))
+                    if (record.DrawsPerBasin.Length == 0)
+                    {
+                        record.DrawsPerBasin = new long[basin.LabelCount];
+                    }
+                    int label = basin.AnyOutside ? basin.LabelOf(x, y, z) : 0;
+                    record.DrawsPerBasin[label]++;
+                    if (label != 0)
                     {
                         record.DrawsOutsideBasin++;
                     }

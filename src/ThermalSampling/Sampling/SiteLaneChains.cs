@@ -148,7 +148,14 @@ internal static class SiteLaneChains
 
         private protected override void CompleteRecord(ChainRecord record, int lane)
         {
-            (record.DrawsNearWall, record.DrawsOutsideBasin) = ((long)TOps.Get(Sums.NearWall, lane), _tally.OutsideBasin[lane]);
+            int labels = _tally.Basin.LabelCount;
+            var counts = _tally.BasinCounts.AsSpan(lane * labels, labels).ToArray();
+            if (!_tally.Basin.AnyOutside)
+            {
+                counts[0] = record.Draws; // no point of the confinement lies outside the site's basin: nothing was looked up
+            }
+            record.DrawsPerBasin = counts;
+            (record.DrawsNearWall, record.DrawsOutsideBasin) = ((long)TOps.Get(Sums.NearWall, lane), record.Draws - counts[0]);
             int slots = _tally.Frame.Slots;
             record.Shape!.AddCounts(_tally.ShapeCounts.AsSpan(lane * slots, slots));
         }
@@ -179,7 +186,7 @@ internal static class SiteLaneChains
 
         private protected override void StartRecords()
         {
-            Array.Clear(_tally.OutsideBasin);
+            Array.Clear(_tally.BasinCounts);
             Array.Clear(_tally.ShapeCounts);
         }
 
@@ -217,13 +224,13 @@ internal static class SiteLaneChains
 
         private protected override void SaveExtra(StateWriter w)
         {
-            w.Longs("OUTB", _tally.OutsideBasin);
+            w.Longs("BASN", _tally.BasinCounts);
             w.Longs("SHPL", _tally.ShapeCounts);
         }
 
         private protected override void LoadExtra(StateReader r)
         {
-            r.Longs("OUTB", _tally.OutsideBasin.Length).CopyTo(_tally.OutsideBasin, 0);
+            r.Longs("BASN", _tally.BasinCounts.Length).CopyTo(_tally.BasinCounts, 0);
             r.Longs("SHPL", _tally.ShapeCounts.Length).CopyTo(_tally.ShapeCounts, 0);
         }
     }
@@ -522,7 +529,8 @@ internal static class SiteLaneChains
         private readonly LaneTallyView<TOps, TD, TB> _tally;
         private readonly LaneConfinement<TOps, TD, TB> _confinement;
         private readonly TD _minX, _minY, _minZ, _gridX0, _gridY0, _gridZ0, _gridScale, _gridN;
-        private readonly long[] _outsideBasin;
+        private readonly long[] _basinCounts;
+        private readonly int _labelCount;
         private readonly byte[] _outsideMask;
         private readonly bool _countOutside, _momentsOnly;
         private readonly int _shapePhase;
@@ -540,8 +548,9 @@ internal static class SiteLaneChains
             var minimum = tally.Minimum;
             (_minX, _minY, _minZ) = (TOps.Broadcast(minimum.X), TOps.Broadcast(minimum.Y), TOps.Broadcast(minimum.Z));
             var grid = tally.Basin;
-            _outsideMask = grid.Outside;
-            _outsideBasin = tally.OutsideBasin;
+            _outsideMask = grid.Labels;
+            _basinCounts = tally.BasinCounts;
+            _labelCount = grid.LabelCount;
             _countOutside = grid.AnyOutside;
             (_gridX0, _gridY0, _gridZ0) = (TOps.Broadcast(grid.X0), TOps.Broadcast(grid.Y0), TOps.Broadcast(grid.Z0));
             _gridScale = TOps.Broadcast(1 / grid.Spacing);
@@ -621,11 +630,11 @@ internal static class SiteLaneChains
                 var flat = TOps.MultiplyAdd(TOps.MultiplyAdd(gk, _gridN, gj), _gridN, gi);
                 var index = _tally.Index;
                 TOps.StoreBits(TOps.Truncate(flat), ref index[0]);
-                var outsideMask = _outsideMask;
-                var outsideBasin = _outsideBasin;
+                var labels = _outsideMask;
+                var basinCounts = _basinCounts;
                 for (int lane = 0; lane < _tally.Lanes; lane++)
                 {
-                    outsideBasin[lane] += outsideMask[index[lane]];
+                    basinCounts[lane * _labelCount + labels[index[lane]]]++;
                 }
             }
             _tally.Keep(j, 3, point.X, point.Y, point.Z);
@@ -699,8 +708,8 @@ internal static class SiteLaneChains
         /// <summary>The site's basin map, for the membership test of every draw.</summary>
         internal BasinGrid Basin { get; } = basin;
 
-        /// <summary>Recorded draws outside the site's basin, per live lane.</summary>
-        internal long[] OutsideBasin { get; } = new long[records.Length];
+        /// <summary>Recorded draws per basin label (<see cref="BasinGrid.Labels"/>), lane-major.</summary>
+        internal long[] BasinCounts { get; } = new long[records.Length * basin.LabelCount];
 
         /// <summary>The confinement and wall band, for the near-wall count.</summary>
         internal (Confinement Confinement, Position Centre, double WallBand) Confinement { get; } = (confinement, centre, wallBand);
