@@ -130,7 +130,7 @@ public static class Program
             {
                 var configured = Configure(loaded, o);
                 var records = ScenarioRunner.RunShard(configured, part.Index, part.Count, o.Quiet ? null : new LineProgress(stderr, configured.Sampling.Chains, configured.TemperaturesInKelvin.Length), cancellationToken);
-                ShardFile.Write(o.Output!, File.ReadAllBytes(o.File!), configured, part.Index, part.Count, records);
+                ShardFile.Write(o.Output!, ScenarioFiles.Resolved(o.File!), configured, part.Index, part.Count, records);
                 if (!o.Quiet)
                 {
                     stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"part {part.Index} of {part.Count}: {records.Sum(r => r.Chains.Length)} chain(s) over {records.Count} temperature(s) written to {o.Output}"));
@@ -143,7 +143,7 @@ public static class Program
                 string path = o.Checkpoint;
                 var options = new CheckpointOptions(o.CheckpointEvery ?? DefaultCheckpointInterval, c => c.WriteToFile(path))
                 {
-                    ApplicationData = RunRecord.Write(o, File.ReadAllBytes(o.File!)),
+                    ApplicationData = RunRecord.Write(o, ScenarioFiles.Resolved(o.File!)),
                 };
                 plan = new CheckpointPlan(options, null);
             }
@@ -254,7 +254,7 @@ public static class Program
             stderr.WriteLine($"error: {file}: $: the file is {info.Length} bytes; scenario files are limited to {ScenarioReader.MaximumBytes} bytes.");
             return null;
         }
-        return ScenarioReader.Read(File.ReadAllBytes(file));
+        return ScenarioReader.Read(ScenarioFiles.Resolved(file));
     }
 
     /// <summary>

@@ -629,6 +629,8 @@ internal static class ReportJsonWriter
             w.WriteStartObject("harmonic");
             Number(w, "meanSquareDisplacement", r.Harmonic.ClassicalMeanSquareDisplacement / l2);
             Number(w, "quantumMeanSquareDisplacement", r.Harmonic.QuantumMeanSquareDisplacement / l2);
+            Matrix(w, "covariance", r.Harmonic.ClassicalCovariance, l2);
+            Matrix(w, "quantumCovariance", r.Harmonic.QuantumCovariance, l2);
             w.WriteEndObject();
             w.WriteStartObject("firstOrder");
             Vector(w, "meanShift", r.Harmonic.FirstOrderMeanShift, l);

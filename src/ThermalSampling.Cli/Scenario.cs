@@ -743,7 +743,12 @@ internal static class ScenarioReader
     /// </summary>
     private static LandscapeSpec? ReadStructure(Context c, JsonElement p, string path, double l)
     {
-        c.CheckKeys(p, path, "kind", "xyz", "cif", "atom", "atomLabel", "cutoff", "species", "confinement");
+        c.CheckKeys(p, path, "kind", "xyz", "cif", "file", "atom", "atomLabel", "movingAtom", "cutoff", "species", "confinement");
+        if (p.TryGetProperty("file", out _))
+        {
+            c.Add($"{path}.file", "a structure file is read when the scenario is loaded from its own file (the command line does this, relative to the scenario's folder); scenario text read on its own must carry the structure as cif or xyz text.");
+            return null;
+        }
         bool isCif = p.TryGetProperty("cif", out _);
         if (isCif == p.TryGetProperty("xyz", out _))
         {
@@ -753,10 +758,26 @@ internal static class ScenarioReader
         string? text = c.String(p, isCif ? "cif" : "xyz", path, true);
         // The moving atom: its number from 1, or the first atom of a species label (for a CIF, the type symbol).
         long? atom = null;
-        string? atomLabel = null;
-        if (p.TryGetProperty("atom", out _) == p.TryGetProperty("atomLabel", out _))
+        string? atomLabel = null, siteLabel = null;
+        int ways = (p.TryGetProperty("atom", out _) ? 1 : 0) + (p.TryGetProperty("atomLabel", out _) ? 1 : 0) + (p.TryGetProperty("movingAtom", out _) ? 1 : 0);
+        if (ways != 1)
         {
-            c.Add(path, "give exactly one of atom (its number from 1) or atomLabel (a species label).");
+            c.Add(path, "give exactly one of movingAtom (a CIF atom-site label, or the atom's number from 1), atom (its number from 1) or atomLabel (a species label).");
+        }
+        else if (p.TryGetProperty("movingAtom", out var moving))
+        {
+            if (moving.ValueKind == JsonValueKind.String && moving.GetString() is { Length: > 0 } name)
+            {
+                siteLabel = name;
+            }
+            else if (moving.ValueKind == JsonValueKind.Number && moving.TryGetInt64(out long index) && index >= 1)
+            {
+                atom = index;
+            }
+            else
+            {
+                c.Add($"{path}.movingAtom", $"must be an atom-site label (a string) or the atom's number from 1, not {Context.Describe(moving)}.");
+            }
         }
         else if (p.TryGetProperty("atomLabel", out _))
         {
@@ -778,7 +799,7 @@ internal static class ScenarioReader
             }
         }
         var confinement = ReadConfinement(c, p, path, l);
-        if (text is null || (atom is null && atomLabel is null) || cutoff is null)
+        if (text is null || (atom is null && atomLabel is null && siteLabel is null) || cutoff is null)
         {
             return null;
         }
@@ -791,6 +812,19 @@ internal static class ScenarioReader
         {
             c.Add($"{path}.{(isCif ? "cif" : "xyz")}", ex.Message);
             return null;
+        }
+        if (siteLabel is not null)
+        {
+            // A CIF atom-site label first (its first copy in the expanded cell), else a species label.
+            int found = structure.Atoms.ToList().FindIndex(a => a.Label == siteLabel);
+            found = found >= 0 ? found : structure.Atoms.ToList().FindIndex(a => a.Species == siteLabel);
+            if (found < 0)
+            {
+                var names = structure.Atoms.Select(a => a.Label ?? a.Species).Distinct().Take(12);
+                c.Add($"{path}.movingAtom", $"'{siteLabel}' is not an atom of the structure (its atoms: {string.Join(", ", names)}).");
+                return null;
+            }
+            atom = found + 1;
         }
         if (atomLabel is not null)
         {

@@ -173,7 +173,7 @@ public static class CifReader
         {
             throw new StructureFormatException(source, sites.Values[^1].Line, $"the atom-site loop has {sites.Values.Count} values, not a whole number of rows of {width}.");
         }
-        var fractional = new List<(string Species, double[] F)>();
+        var fractional = new List<(string Species, double[] F, string Label)>();
         for (int row = 0; row < sites.Values.Count / width; row++)
         {
             (string Value, int Line) At(int col) => sites.Values[row * width + col];
@@ -201,11 +201,11 @@ public static class CifReader
                 bool seen = fractional.Any(p => Enumerable.Range(0, 3).All(i => { double d = Math.Abs(p.F[i] - g[i]); return Math.Min(d, 1 - d) < 1e-4; }));
                 if (!seen)
                 {
-                    fractional.Add((species, g));
+                    fractional.Add((species, g, name.Value));
                 }
             }
         }
-        var atoms = fractional.Select(p => new StructureAtom(p.Species, p.F[0] * va + p.F[1] * vb + p.F[2] * vc)).ToImmutableArray();
+        var atoms = fractional.Select(p => new StructureAtom(p.Species, p.F[0] * va + p.F[1] * vb + p.F[2] * vc, p.Label)).ToImmutableArray();
         return new Structure(atoms, [va, vb, vc], source);
     }
 

@@ -10,9 +10,10 @@ using ThermalSampling.Internal;
 namespace ThermalSampling.Landscapes;
 
 /// <summary>One atom of a structure: its species label (the element symbol or any label) and position, Å.</summary>
-/// <param name="Species">The label in the file's first column.</param>
+/// <param name="Species">The species: an XYZ file's first column, a CIF's type symbol (its site label without one).</param>
 /// <param name="Position">Cartesian coordinates, Å.</param>
-public readonly record struct StructureAtom(string Species, Position Position);
+/// <param name="Label">A CIF atom site's label (shared by the copies the symmetry operations make); null for XYZ.</param>
+public readonly record struct StructureAtom(string Species, Position Position, string? Label = null);
 
 /// <summary>
 /// Atoms read from a structure file, with the periodic lattice when the file gives one (three cell vectors, Å), and the

@@ -1,0 +1,100 @@
+using System;
+using System.IO;
+using System.Linq;
+using System.Text;
+using System.Text.Json;
+using ThermalSampling.Cli;
+using Xunit;
+
+namespace ThermalSampling.Tests;
+
+/// <summary>The structure landscape's file and movingAtom keys, and the site results' harmonic covariance.</summary>
+public class CliStructureFileTests
+{
+    /// <summary>An invented rock-salt-like crystal (cell 5.0 Å; labels Na1 and Cl1, type symbols Na and Cl), for the test only.</summary>
+    private const string Cif = """
+        data_invented_rocksalt
+        _cell_length_a    5.0
+        _cell_length_b    5.0
+        _cell_length_c    5.0
+        _cell_angle_alpha 90
+        _cell_angle_beta  90
+        _cell_angle_gamma 90
+        loop_
+        _space_group_symop_operation_xyz
+        'x, y, z'
+        'x, y+1/2, z+1/2'
+        'x+1/2, y, z+1/2'
+        'x+1/2, y+1/2, z'
+        loop_
+        _atom_site_label
+        _atom_site_type_symbol
+        _atom_site_fract_x
+        _atom_site_fract_y
+        _atom_site_fract_z
+        Na1 Na 0.0 0.0 0.0
+        Cl1 Cl 0.5 0.5 0.5
+        """;
+
+    private static string Scenario(string file, string moving) => $$"""
+        {
+          "title": "invented rock-salt-like crystal, the Na site among its Cl neighbours",
+          "mass": 23,
+          "potential": { "form": "lennard-jones", "wellDepth": 0.02, "equilibriumDistance": 2.5 },
+          "landscape": { "kind": "structure", "file": "{{file}}", "movingAtom": {{moving}}, "cutoff": 2.6, "species": ["Cl"],
+                         "confinement": { "shape": "sphere", "radius": 0.6 } },
+          "temperatures": [100],
+          "sampling": { "chains": 2, "samplesPerChain": 4000, "burnIn": 1000, "seed": 3 }
+        }
+        """;
+
+    private static (int Code, string Stdout, string Stderr) RunArgs(params string[] args)
+    {
+        using var stdout = new MemoryStream();
+        using var stderr = new StringWriter();
+        int code = Program.Run(args, stdout, stderr);
+        return (code, Encoding.UTF8.GetString(stdout.ToArray()), stderr.ToString());
+    }
+
+    /// <summary>
+    /// A CIF named by a path relative to the scenario file and the moving atom by its atom-site label: the Na site has its
+    /// six Cl neighbours at 2.5 Å, the document carries the file's text (so it reproduces alone), and the site result has
+    /// the 3×3 harmonic covariance. A missing file and an unknown label are named (exit 2).
+    /// </summary>
+    [Fact]
+    public void A_cif_file_relative_to_the_scenario_and_a_site_label()
+    {
+        string dir = Path.Combine(Path.GetTempPath(), $"ts-structure-{Guid.NewGuid():N}");
+        Directory.CreateDirectory(Path.Combine(dir, "structures"));
+        try
+        {
+            File.WriteAllText(Path.Combine(dir, "structures", "salt.cif"), Cif);
+            string scenario = Path.Combine(dir, "scenario.json");
+            File.WriteAllText(scenario, Scenario("structures/salt.cif", "\"Na1\""));
+            var (code, stdout, stderr) = RunArgs("run", scenario, "--format", "json", "--quiet");
+            Assert.True(code == 0, stderr);
+            var doc = JsonDocument.Parse(stdout).RootElement;
+            Assert.Contains("data_invented_rocksalt", doc.GetProperty("input").GetProperty("landscape").GetProperty("cif").GetString());
+            var harmonic = doc.GetProperty("results")[0].GetProperty("harmonic");
+            var covariance = harmonic.GetProperty("covariance");
+            Assert.Equal(3, covariance.GetArrayLength());
+            Assert.Equal(harmonic.GetProperty("meanSquareDisplacement").GetDouble(), Enumerable.Range(0, 3).Sum(i => covariance[i][i].GetDouble()), 12);
+            // The same site by number (Na1 is the first expanded atom).
+            File.WriteAllText(scenario, Scenario("structures/salt.cif", "1"));
+            Assert.Equal(0, RunArgs("run", scenario, "--format", "json", "--quiet").Code);
+
+            File.WriteAllText(scenario, Scenario("structures/missing.cif", "\"Na1\""));
+            (code, _, stderr) = RunArgs("run", scenario, "--quiet");
+            Assert.Equal(2, code);
+            Assert.Contains("$.landscape.file: the structure file 'structures/missing.cif' does not exist", stderr);
+            File.WriteAllText(scenario, Scenario("structures/salt.cif", "\"K1\""));
+            (code, _, stderr) = RunArgs("run", scenario, "--quiet");
+            Assert.Equal(2, code);
+            Assert.Contains("$.landscape.movingAtom: 'K1' is not an atom of the structure (its atoms: Na1, Cl1)", stderr);
+        }
+        finally
+        {
+            Directory.Delete(dir, recursive: true);
+        }
+    }
+}
