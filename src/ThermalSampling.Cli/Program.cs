@@ -119,6 +119,10 @@ public static class Program
                 // and confinement checked; the same errors, and the same warnings that need no draws.
                 var checks = ScenarioRunner.Check(loaded).Checks!;
                 stderr.WriteLine($"{o.File}: valid scenario ({loaded.TemperaturesInKelvin.Length} temperature(s), {loaded.Potential.Form} potential, {loaded.Landscape.Kind} landscape); {(checks.Count == 0 ? "no warnings before sampling." : $"{checks.Count} warning(s) before sampling:")}");
+                foreach (string pair in ScenarioRunner.PairSummary(loaded.Landscape))
+                {
+                    stderr.WriteLine($"pair {pair}");
+                }
                 foreach (var (kelvin, warning) in checks)
                 {
                     stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"warning at {kelvin:G6} K [{warning.Code}]: {UnitText.InUnits(warning.Message, loaded.EnergyUnit, loaded.LengthUnit)}"));

@@ -72,7 +72,17 @@ internal sealed record PotentialSpec(string Form, ImmutableDictionary<string, do
 
 /// <summary>A landscape in canonical units.</summary>
 internal sealed record LandscapeSpec(string Kind, double WindowLower, double WindowUpper, ImmutableArray<Position> Sites, string? Lattice,
-    double NearestNeighbourDistance, int Shells, Position Centre, Confinement? Confinement, MillerIndices? Facet = null, string? AdsorptionSite = null, int Layers = 3);
+    double NearestNeighbourDistance, int Shells, Position Centre, Confinement? Confinement, MillerIndices? Facet = null, string? AdsorptionSite = null, int Layers = 3)
+{
+    /// <summary>For a structure with <c>pairs</c>: each site's species (aligned with <see cref="Sites"/>).</summary>
+    internal ImmutableArray<string> SiteSpecies { get; init; } = [];
+
+    /// <summary>For a structure with <c>pairs</c>: the pair potential of each neighbour species with the moving atom (absent: no short-range term).</summary>
+    internal ImmutableDictionary<string, PotentialSpec>? Pairs { get; init; }
+
+    /// <summary>For a structure with <c>pairs</c>: the moving atom's species.</summary>
+    internal string? MovingSpecies { get; init; }
+}
 
 /// <summary>Reads scenario files. Every problem is collected (with its JSON path) and reported at once.</summary>
 internal static class ScenarioReader
@@ -355,8 +365,14 @@ internal static class ScenarioReader
             c.Add("$.mass", string.Create(CultureInfo.InvariantCulture,
                 $"{mass:G4} is outside {MinimumMass}–{MaximumMass} u: the mass is in atomic mass units (u), not kg or g (an atom of 40 u weighs 6.6e-26 kg)."));
         }
-        var potential = ReadPotential(c, root, e, l);
-        var landscape = ReadLandscape(c, root, l);
+        bool pairsGiven = root.TryGetProperty("landscape", out var landscapeElement) && landscapeElement.ValueKind == JsonValueKind.Object
+            && landscapeElement.TryGetProperty("pairs", out _);
+        if (pairsGiven && root.TryGetProperty("potential", out _))
+        {
+            c.Add("$.potential", "give the potentials once: the landscape's pairs name each species pair's potential, so there is no top-level potential with them.");
+        }
+        var potential = pairsGiven ? new PotentialSpec("pairs", ImmutableDictionary<string, double>.Empty, [], []) : ReadPotential(c, root, e, l);
+        var landscape = ReadLandscape(c, root, l, e);
         var temperatures = c.Numbers(root, "temperatures", "$", true, ScenarioSchema.At("properties/temperatures")) ?? Array.Empty<double>();
         var duplicate = temperatures.GroupBy(t => t).FirstOrDefault(g => g.Count() > 1);
         if (duplicate is not null)
@@ -534,13 +550,13 @@ internal static class ScenarioReader
         return c.Problems.Count == problems ? [.. values] : null;
     }
 
-    private static PotentialSpec? ReadPotential(Context c, JsonElement root, double e, double l)
+    private static PotentialSpec? ReadPotential(Context c, JsonElement root, double e, double l, string parentPath = "$", bool required = true)
     {
-        if (c.Object(root, "potential", "$") is not { } p)
+        if (c.Object(root, "potential", parentPath, required) is not { } p)
         {
             return null;
         }
-        const string path = "$.potential";
+        string path = parentPath + ".potential";
         string? form = c.String(p, "form", path, true, "lennard-jones", "morse", "buckingham", "harmonic", "table");
         var values = ImmutableDictionary.CreateBuilder<string, double>();
         void Put(string key, double? v, double scale)
@@ -614,7 +630,7 @@ internal static class ScenarioReader
         return form is null ? null : new PotentialSpec(form, values.ToImmutable(), ImmutableArray<double>.Empty, ImmutableArray<double>.Empty);
     }
 
-    private static LandscapeSpec? ReadLandscape(Context c, JsonElement root, double l)
+    private static LandscapeSpec? ReadLandscape(Context c, JsonElement root, double l, double e)
     {
         if (c.Object(root, "landscape", "$") is not { } p)
         {
@@ -624,7 +640,7 @@ internal static class ScenarioReader
         string? kind = c.String(p, "kind", path, true, "line", "radial", "sites", "structure");
         if (kind == "structure")
         {
-            return ReadStructure(c, p, path, l);
+            return ReadStructure(c, p, path, l, e);
         }
         if (kind is "line" or "radial")
         {
@@ -741,9 +757,13 @@ internal static class ScenarioReader
     /// optionally only some species), confined about the atom's own position. One pair potential serves every neighbour,
     /// so neighbours of several species are refused unless <c>species</c> picks them.
     /// </summary>
-    private static LandscapeSpec? ReadStructure(Context c, JsonElement p, string path, double l)
+    private static LandscapeSpec? ReadStructure(Context c, JsonElement p, string path, double l, double e)
     {
-        c.CheckKeys(p, path, "kind", "xyz", "cif", "file", "atom", "atomLabel", "movingAtom", "cutoff", "species", "confinement");
+        c.CheckKeys(p, path, "kind", "xyz", "cif", "file", "atom", "atomLabel", "movingAtom", "cutoff", "species", "confinement", "pairs", "charges");
+        if (p.TryGetProperty("charges", out _))
+        {
+            c.Add($"{path}.charges", "the Coulomb term between charged species is not available yet (Ewald summation is planned); give pairs alone, whose short-range forms are all a structure site can use now.");
+        }
         if (p.TryGetProperty("file", out _))
         {
             c.Add($"{path}.file", "a structure file is read when the scenario is loaded from its own file (the command line does this, relative to the scenario's folder); scenario text read on its own must carry the structure as cif or xyz text.");
@@ -764,19 +784,19 @@ internal static class ScenarioReader
         {
             c.Add(path, "give exactly one of movingAtom (a CIF atom-site label, or the atom's number from 1), atom (its number from 1) or atomLabel (a species label).");
         }
-        else if (p.TryGetProperty("movingAtom", out var moving))
+        else if (p.TryGetProperty("movingAtom", out var movingElement))
         {
-            if (moving.ValueKind == JsonValueKind.String && moving.GetString() is { Length: > 0 } name)
+            if (movingElement.ValueKind == JsonValueKind.String && movingElement.GetString() is { Length: > 0 } name)
             {
                 siteLabel = name;
             }
-            else if (moving.ValueKind == JsonValueKind.Number && moving.TryGetInt64(out long index) && index >= 1)
+            else if (movingElement.ValueKind == JsonValueKind.Number && movingElement.TryGetInt64(out long index) && index >= 1)
             {
                 atom = index;
             }
             else
             {
-                c.Add($"{path}.movingAtom", $"must be an atom-site label (a string) or the atom's number from 1, not {Context.Describe(moving)}.");
+                c.Add($"{path}.movingAtom", $"must be an atom-site label (a string) or the atom's number from 1, not {Context.Describe(movingElement)}.");
             }
         }
         else if (p.TryGetProperty("atomLabel", out _))
@@ -849,12 +869,93 @@ internal static class ScenarioReader
             c.Add($"{path}.cutoff", string.Create(CultureInfo.InvariantCulture, $"no{(species is null ? "" : " chosen")} atom lies within {cutoff:R} of atom {atom}."));
             return null;
         }
+        string moving = structure.Atoms[(int)atom.Value - 1].Species;
+        if (p.TryGetProperty("pairs", out var pairsElement))
+        {
+            var pairs = ReadPairs(c, pairsElement, $"{path}.pairs", moving, structure, e, l);
+            if (pairs is null)
+            {
+                return null;
+            }
+            return new LandscapeSpec("sites", 0, 0, [.. neighbours.Select(n => n.Position)], null, 0, 0, structure.Atoms[(int)atom.Value - 1].Position, confinement)
+            {
+                SiteSpecies = [.. neighbours.Select(n => n.Species)],
+                Pairs = pairs,
+                MovingSpecies = moving,
+            };
+        }
         if (kinds.Count > 1)
         {
-            c.Add($"{path}.species", $"the neighbours are of {kinds.Count} species ({string.Join(", ", kinds)}), and one pair potential serves every neighbour: choose them with \"species\", such as [\"{kinds[0]}\"].");
+            c.Add($"{path}.species", $"the neighbours are of {kinds.Count} species ({string.Join(", ", kinds)}), and one pair potential serves every neighbour: choose them with \"species\", such as [\"{kinds[0]}\"], or give each species pair its potential with \"pairs\".");
             return null;
         }
         return new LandscapeSpec("sites", 0, 0, [.. neighbours.Select(n => n.Position)], null, 0, 0, structure.Atoms[(int)atom.Value - 1].Position, confinement);
+    }
+
+    /// <summary>
+    /// <c>pairs</c>: [{"between": [species, species], "potential": {…}}, …], each pair once, each species in the structure;
+    /// returns the potential of each species with the moving atom's species (pairs not involving it are refused: only the
+    /// moving atom's pairs act on it).
+    /// </summary>
+    private static ImmutableDictionary<string, PotentialSpec>? ReadPairs(Context c, JsonElement array, string path, string moving, Structure structure, double e, double l)
+    {
+        if (array.ValueKind != JsonValueKind.Array || array.GetArrayLength() == 0)
+        {
+            c.Add(path, $"must be a non-empty array of {{\"between\": [species, species], \"potential\": {{…}}}}, not {Context.Describe(array)}.");
+            return null;
+        }
+        var present = structure.Atoms.Select(a => a.Species).ToHashSet();
+        var result = ImmutableDictionary.CreateBuilder<string, PotentialSpec>();
+        int i = 0;
+        bool ok = true;
+        foreach (var entry in array.EnumerateArray())
+        {
+            string at = $"{path}[{i++}]";
+            if (entry.ValueKind != JsonValueKind.Object)
+            {
+                c.Add(at, $"must be an object {{\"between\": [species, species], \"potential\": {{…}}}}, not {Context.Describe(entry)}.");
+                ok = false;
+                continue;
+            }
+            c.CheckKeys(entry, at, "between", "potential");
+            string[]? between = entry.TryGetProperty("between", out var b) && b.ValueKind == JsonValueKind.Array && b.GetArrayLength() == 2
+                && b.EnumerateArray().All(x => x.ValueKind == JsonValueKind.String) ? [.. b.EnumerateArray().Select(x => x.GetString()!)] : null;
+            if (between is null)
+            {
+                c.Add($"{at}.between", "must be two species labels, such as [\"Na\", \"Cl\"].");
+                ok = false;
+                continue;
+            }
+            foreach (var species in between.Where(x => !present.Contains(x)))
+            {
+                c.Add($"{at}.between", $"species '{species}' is not in the structure (its species: {string.Join(", ", present)}).");
+                ok = false;
+            }
+            var potential = ReadPotential(c, entry, e, l, at);
+            if (potential is { Form: "table" })
+            {
+                c.Add($"{at}.potential.form", "a species pair takes lennard-jones, morse, buckingham or harmonic (a table serves one-species landscapes).");
+                ok = false;
+            }
+            if (!between.Contains(moving))
+            {
+                c.Add($"{at}.between", $"[{between[0]}, {between[1]}] does not involve the moving atom's species '{moving}'; the fixed atoms do not move, so only the moving atom's pairs act.");
+                ok = false;
+                continue;
+            }
+            string other = between[0] == moving ? between[1] : between[0];
+            if (result.ContainsKey(other))
+            {
+                c.Add($"{at}.between", $"the pair [{moving}, {other}] is given twice; give each pair once.");
+                ok = false;
+                continue;
+            }
+            if (potential is not null)
+            {
+                result[other] = potential;
+            }
+        }
+        return ok ? result.ToImmutable() : null;
     }
 
     private static Confinement? ReadConfinement(Context c, JsonElement p, string path, double l)

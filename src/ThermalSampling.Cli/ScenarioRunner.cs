@@ -91,6 +91,7 @@ internal static class ScenarioRunner
                 p.Parameters["C"]), "$.potential"), job),
             "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), job),
             "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), job),
+            "pairs" => Dispatch(scenario, PairForm.None, job), // a structure with species pairs: the landscape carries each pair's form
             _ => throw new ScenarioException(new[] { $"$.potential.form: '{p.Form}' is not a known form." }),
         };
     }
@@ -236,6 +237,10 @@ internal static class ScenarioRunner
                     Start = geometry.Start + l.Centre,
                 }, confinement);
             }
+            else if (l.Pairs is not null)
+            {
+                siteLandscape = (SiteLandscape<TPotential>)(object)SpeciesLandscape(l); // TPotential is PairForm for "pairs"
+            }
             else
             {
                 siteLandscape = SiteLandscape.Create(potential, l.Lattice is not null
@@ -299,6 +304,33 @@ internal static class ScenarioRunner
             throw new ScenarioException(new[] { $"$.landscape: {ex.Message}" });
         }
     }
+
+    /// <summary>A structure site with each neighbour species' own pair form (none where no pair is given).</summary>
+    private static SiteLandscape<PairForm> SpeciesLandscape(LandscapeSpec l)
+    {
+        var forms = l.SiteSpecies.Distinct().ToDictionary(species => species,
+            species => l.Pairs!.TryGetValue(species, out var spec) ? FormOf(spec, $"$.landscape.pairs[{l.MovingSpecies}, {species}].potential") : PairForm.None);
+        return SiteLandscape.CreateWithSpecies(l.Sites.Zip(l.SiteSpecies), forms, l.Centre, l.Confinement!.Value);
+    }
+
+    /// <summary>The pair form a potential spec names.</summary>
+    internal static PairForm FormOf(PotentialSpec p, string path) => p.Form switch
+    {
+        "lennard-jones" => Guard(() => PairForm.From(p.Parameters.ContainsKey("sigma")
+            ? LennardJones.FromSigmaEpsilon(Length.FromAngstroms(p.Parameters["sigma"]), Energy.FromElectronVolts(p.Parameters["epsilon"]))
+            : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"]))), path),
+        "morse" => Guard(() => PairForm.From(new Morse(Energy.FromElectronVolts(p.Parameters["wellDepth"]), p.Parameters["width"],
+            Length.FromAngstroms(p.Parameters["equilibriumDistance"]))), path),
+        "buckingham" => Guard(() => PairForm.From(new Buckingham(Energy.FromElectronVolts(p.Parameters["A"]), Length.FromAngstroms(p.Parameters["rho"]), p.Parameters["C"])), path),
+        "harmonic" => Guard(() => PairForm.From(new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"]))), path),
+        _ => throw new ScenarioException(new[] { $"{path}.form: '{p.Form}' cannot serve a species pair." }),
+    };
+
+    /// <summary>For validate and reports: how each neighbour species acts on the moving atom.</summary>
+    internal static IEnumerable<string> PairSummary(LandscapeSpec l)
+        => l.Pairs is null ? [] : l.SiteSpecies.Distinct().Select(species => l.Pairs.TryGetValue(species, out var spec)
+            ? $"{l.MovingSpecies}–{species}: short-range {spec.Form} ({l.SiteSpecies.Count(x => x == species)} neighbours)"
+            : $"{l.MovingSpecies}–{species}: not at all (no pair given, no charges; {l.SiteSpecies.Count(x => x == species)} neighbours)");
 
     private static IEnumerable<Temperature> Targets(Scenario scenario) => scenario.ReweightTargets.Select(Temperature.FromKelvin);
 

@@ -97,4 +97,65 @@ public class CliStructureFileTests
             Directory.Delete(dir, recursive: true);
         }
     }
+
+    private static string PairsScenario(string pairs, string extra = "") => $$"""
+        {
+          "title": "invented rock-salt-like crystal, the Na site with species pairs",
+          "mass": 23,{{extra}}
+          "landscape": { "kind": "structure", "file": "salt.cif", "movingAtom": "Na1", "cutoff": 3.6,
+                         "pairs": {{pairs}},
+                         "confinement": { "shape": "sphere", "radius": 0.6 } },
+          "temperatures": [100],
+          "sampling": { "chains": 2, "samplesPerChain": 4000, "burnIn": 1000, "seed": 3 }
+        }
+        """;
+
+    /// <summary>
+    /// Species pairs: a structure site among six Cl and twelve Na neighbours with only the Na–Cl pair given equals the
+    /// one-species site of the six Cl with the same potential, to the last bit (the Na neighbours have no short-range
+    /// term and add zeros); validate lists how each species acts; a pair naming a species not in the file, pairs beside
+    /// a top-level potential, and charges are refused by path.
+    /// </summary>
+    [Fact]
+    public void Species_pairs_give_each_neighbour_species_its_potential()
+    {
+        string dir = Path.Combine(Path.GetTempPath(), $"ts-pairs-{Guid.NewGuid():N}");
+        Directory.CreateDirectory(dir);
+        try
+        {
+            File.WriteAllText(Path.Combine(dir, "salt.cif"), Cif);
+            string scenario = Path.Combine(dir, "scenario.json");
+            const string naCl = """[{ "between": ["Na", "Cl"], "potential": { "form": "lennard-jones", "wellDepth": 0.02, "equilibriumDistance": 2.5 } }]""";
+            File.WriteAllText(scenario, PairsScenario(naCl));
+            var (code, stdout, stderr) = RunArgs("run", scenario, "--format", "json", "--quiet");
+            Assert.True(code == 0, stderr);
+            double pairsMsd = JsonDocument.Parse(stdout).RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble();
+            (code, _, stderr) = RunArgs("validate", scenario);
+            Assert.Equal(0, code);
+            Assert.Contains("pair Na–Cl: short-range lennard-jones (6 neighbours)", stderr);
+            Assert.Contains("pair Na–Na: not at all (no pair given, no charges; 12 neighbours)", stderr);
+
+            File.WriteAllText(Path.Combine(dir, "one.json"), Scenario("salt.cif", "\"Na1\"").Replace("2.6", "3.6", StringComparison.Ordinal));
+            (code, stdout, stderr) = RunArgs("run", Path.Combine(dir, "one.json"), "--format", "json", "--quiet");
+            Assert.True(code == 0, stderr);
+            Assert.Equal(pairsMsd, JsonDocument.Parse(stdout).RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble());
+
+            File.WriteAllText(scenario, PairsScenario(naCl.Replace("\"Cl\"]", "\"K\"]", StringComparison.Ordinal)));
+            (code, _, stderr) = RunArgs("run", scenario, "--quiet");
+            Assert.Equal(2, code);
+            Assert.Contains("$.landscape.pairs[0].between: species 'K' is not in the structure", stderr);
+            File.WriteAllText(scenario, PairsScenario(naCl, "\n  \"potential\": { \"form\": \"morse\", \"wellDepth\": 0.1, \"width\": 1.5, \"equilibriumDistance\": 2.5 },"));
+            (code, _, stderr) = RunArgs("run", scenario, "--quiet");
+            Assert.Equal(2, code);
+            Assert.Contains("$.potential: give the potentials once", stderr);
+            File.WriteAllText(scenario, PairsScenario(naCl).Replace("\"cutoff\": 3.6,", "\"cutoff\": 3.6, \"charges\": { \"Na\": 1, \"Cl\": -1 },", StringComparison.Ordinal));
+            (code, _, stderr) = RunArgs("run", scenario, "--quiet");
+            Assert.Equal(2, code);
+            Assert.Contains("$.landscape.charges: the Coulomb term between charged species is not available yet", stderr);
+        }
+        finally
+        {
+            Directory.Delete(dir, recursive: true);
+        }
+    }
 }

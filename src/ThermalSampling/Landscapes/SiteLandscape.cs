@@ -19,13 +19,28 @@ namespace ThermalSampling.Landscapes;
 public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPotential
 {
     private readonly double[] _coordinates; // x0, y0, z0, x1, ... for the hot loops
+    private readonly TPotential[] _potentials; // per site
 
     internal SiteLandscape(TPotential potential, ImmutableArray<Position> sites, Position centre, Confinement confinement)
+        : this([.. sites.Select(_ => potential)], sites, [.. sites.Select(_ => "")], centre, confinement, null)
     {
-        Potential = potential;
+    }
+
+    /// <param name="potentials">Each site's potential, sites of one species together (the order of <see cref="Groups"/>).</param>
+    /// <param name="sites">The sites in that order.</param>
+    /// <param name="species">Each site's species label ("" when the landscape has one species).</param>
+    /// <param name="centre">The centre.</param>
+    /// <param name="confinement">The confinement.</param>
+    /// <param name="rule">The mixing rule that made the pair potentials, for the description, or null.</param>
+    internal SiteLandscape(TPotential[] potentials, ImmutableArray<Position> sites, ImmutableArray<string> species, Position centre, Confinement confinement, string? rule)
+    {
+        Potential = potentials[0];
+        _potentials = potentials;
         Sites = sites;
+        SiteSpecies = species;
         Centre = centre;
         Confinement = confinement;
+        MixingRule = rule;
         _coordinates = new double[3 * sites.Length];
         for (int i = 0; i < sites.Length; i++)
         {
@@ -33,10 +48,44 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
             _coordinates[3 * i + 1] = sites[i].Y;
             _coordinates[3 * i + 2] = sites[i].Z;
         }
+        var groups = ImmutableArray.CreateBuilder<(int Start, int Count)>();
+        for (int i = 0; i < sites.Length;)
+        {
+            int j = i + 1;
+            while (j < sites.Length && species[j] == species[i] && potentials[j].Equals(potentials[i]))
+            {
+                j++;
+            }
+            groups.Add((i, j - i));
+            i = j;
+        }
+        Groups = groups.ToImmutable();
     }
 
-    /// <summary>The pair potential between the particle and each site.</summary>
+    /// <summary>The pair potential between the particle and each site (with several species: the first site's; <see cref="SitePotentials"/> has each).</summary>
     public TPotential Potential { get; }
+
+    /// <summary>Each site's pair potential with the particle, in the order of <see cref="Sites"/>.</summary>
+    public ImmutableArray<TPotential> SitePotentials => [.. _potentials];
+
+    /// <summary>Each site's species label ("" for a one-species landscape), in the order of <see cref="Sites"/>.</summary>
+    public ImmutableArray<string> SiteSpecies { get; }
+
+    /// <summary>The mixing rule that made the pair potentials (named in reports), or null when they were given.</summary>
+    public string? MixingRule { get; }
+
+    /// <summary>Runs of consecutive sites that share one species and potential: the kernels evaluate a group's potential for all its sites.</summary>
+    internal ImmutableArray<(int Start, int Count)> Groups { get; }
+
+    /// <summary>The potential of group <paramref name="g"/>.</summary>
+    internal TPotential GroupPotential(int g) => _potentials[Groups[g].Start];
+
+    /// <summary>Whether every site has the same species and potential.</summary>
+    internal bool OneSpecies => Groups.Length == 1;
+
+    /// <summary>For the kernels: each group's potential and the end of its sites in <see cref="PackedCoordinates"/> (3 per site).</summary>
+    internal (TPotential[] Potentials, int[] Ends) KernelGroups()
+        => ([.. Groups.Select(g => _potentials[g.Start])], [.. Groups.Select(g => 3 * (g.Start + g.Count))]);
 
     /// <summary>The fixed sites, Å.</summary>
     public ImmutableArray<Position> Sites { get; }
@@ -64,7 +113,7 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
         for (int i = 0; i < c.Length; i += 3)
         {
             double dx = position.X - c[i], dy = position.Y - c[i + 1], dz = position.Z - c[i + 2];
-            sum += Potential.EnergyAtSquaredDistance(dx * dx + dy * dy + dz * dz);
+            sum += _potentials[i / 3].EnergyAtSquaredDistance(dx * dx + dy * dy + dz * dz);
         }
         return sum;
     }
@@ -74,11 +123,11 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
     public Position Gradient(Position position)
     {
         double gx = 0, gy = 0, gz = 0;
-        foreach (var s in Sites)
+        for (int site = 0; site < Sites.Length; site++)
         {
-            var d = position - s;
+            var d = position - Sites[site];
             double r = d.Norm;
-            double f = Potential.Derivatives(r).First / r;
+            double f = _potentials[site].Derivatives(r).First / r;
             gx += f * d.X;
             gy += f * d.Y;
             gz += f * d.Z;
@@ -91,11 +140,11 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
     public Matrix<double> Hessian(Position position)
     {
         var h = Matrix<double>.Build.Dense(3, 3);
-        foreach (var s in Sites)
+        for (int site = 0; site < Sites.Length; site++)
         {
-            var d = position - s;
+            var d = position - Sites[site];
             double r = d.Norm;
-            var pd = Potential.Derivatives(r);
+            var pd = _potentials[site].Derivatives(r);
             double a = pd.Second - pd.First / r, b = pd.First / r;
             for (int i = 0; i < 3; i++)
             {
@@ -116,11 +165,11 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
     {
         var t = new double[3, 3, 3];
         Span<double> n = stackalloc double[3];
-        foreach (var s in Sites)
+        for (int site = 0; site < Sites.Length; site++)
         {
-            var d = position - s;
+            var d = position - Sites[site];
             double r = d.Norm;
-            var pd = Potential.Derivatives(r);
+            var pd = _potentials[site].Derivatives(r);
             double cnnn = pd.Third - 3 * pd.Second / r + 3 * pd.First / (r * r);
             double cdn = (pd.Second - pd.First / r) / r;
             n[0] = d.X / r;
@@ -152,11 +201,11 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
     {
         var f = new double[3, 3, 3, 3];
         Span<double> n = stackalloc double[3];
-        foreach (var s in Sites)
+        for (int site = 0; site < Sites.Length; site++)
         {
-            var d = position - s;
+            var d = position - Sites[site];
             double r = d.Norm;
-            var pd = Potential.Derivatives(r);
+            var pd = _potentials[site].Derivatives(r);
             double a = pd.Fourth - 6 * pd.Third / r + 15 * pd.Second / (r * r) - 15 * pd.First / (r * r * r);
             double b = (pd.Third - 3 * pd.Second / r + 3 * pd.First / (r * r)) / r;
             double c = (pd.Second - pd.First / r) / (r * r);
@@ -220,7 +269,11 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
 
     /// <summary>A description for reports.</summary>
     public string Description => string.Create(CultureInfo.InvariantCulture,
-        $"{Sites.Length} fixed sites, {Confinement.Shape.ToString().ToLowerInvariant()} confinement of size {Confinement.SizeInAngstroms:G6} Å around {Centre}, {Potential.Description}");
+        $"{Sites.Length} fixed sites, {Confinement.Shape.ToString().ToLowerInvariant()} confinement of size {Confinement.SizeInAngstroms:G6} Å around {Centre}, {PotentialsDescription}");
+
+    private string PotentialsDescription => OneSpecies ? Potential.Description
+        : string.Join("; ", Groups.Select(g => $"{g.Count} × {(SiteSpecies[g.Start].Length > 0 ? SiteSpecies[g.Start] + ": " : "")}{_potentials[g.Start].Description}"))
+            + (MixingRule is null ? "" : $" ({MixingRule} mixing)");
 }
 
 /// <summary>Factories for <see cref="SiteLandscape{TPotential}"/>.</summary>
@@ -228,6 +281,51 @@ public static class SiteLandscape
 {
     /// <summary>The smallest distance (Å) allowed between two sites, or between a site and the centre.</summary>
     public const double MinimumSeparationInAngstroms = 1e-3;
+
+    /// <summary>
+    /// A particle among sites of several species, each species with its own pair potential with the particle (all of one
+    /// type: give different forms as <see cref="PairForm"/>). Sites are kept species by species in the order the species
+    /// first appear (<see cref="SiteLandscape{TPotential}.Sites"/> lists them so), so that the kernels evaluate one
+    /// potential per run of sites.
+    /// </summary>
+    /// <typeparam name="TPotential">The potential type.</typeparam>
+    /// <param name="sites">Each fixed site with its species label.</param>
+    /// <param name="potentials">The pair potential of each species present (a species without one is an error naming it; give a zero <see cref="PairForm.None"/> for none).</param>
+    /// <param name="centre">The start and centre of the confinement, Å.</param>
+    /// <param name="confinement">The region around the centre.</param>
+    /// <param name="mixingRule">The rule that made the potentials, named in reports (for example "Lorentz–Berthelot"), or null.</param>
+    public static SiteLandscape<TPotential> CreateWithSpecies<TPotential>(IEnumerable<(Position Site, string Species)> sites, IReadOnlyDictionary<string, TPotential> potentials,
+        Position centre, Confinement confinement, string? mixingRule = null)
+        where TPotential : struct, IPairPotential
+    {
+        Preconditions.CheckNotNull(sites, nameof(sites));
+        Preconditions.CheckNotNull(potentials, nameof(potentials));
+        var list = sites.ToList();
+        var missing = list.Select(s => s.Species).Distinct().Where(k => !potentials.ContainsKey(k)).ToList();
+        if (missing.Count > 0)
+        {
+            throw new ArgumentException($"potentials has no entry for species {string.Join(", ", missing)}; give each species present its pair potential (PairForm.None for none).", nameof(potentials));
+        }
+        var order = list.Select(s => s.Species).Distinct().ToList();
+        var grouped = list.Select((s, i) => (s, i)).OrderBy(t => order.IndexOf(t.s.Species)).ThenBy(t => t.i).Select(t => t.s).ToList();
+        // The one-species checks (finite, not on the centre, not coincident, the potential's domain) on every species.
+        foreach (var species in order)
+        {
+            _ = Create(potentials[species], grouped.Where(s => s.Species == species).Select(s => s.Site), centre, confinement);
+        }
+        var all = grouped.Select(s => s.Site).ToList();
+        for (int i = 0; i < all.Count; i++)
+        {
+            for (int j = i + 1; j < all.Count; j++)
+            {
+                if ((all[i] - all[j]).Norm < MinimumSeparationInAngstroms)
+                {
+                    throw new ArgumentException(string.Create(CultureInfo.InvariantCulture, $"sites {all[i]} ({grouped[i].Species}) and {all[j]} ({grouped[j].Species}) coincide."), nameof(sites));
+                }
+            }
+        }
+        return new SiteLandscape<TPotential>([.. grouped.Select(s => potentials[s.Species])], [.. all], [.. grouped.Select(s => s.Species)], centre, confinement, mixingRule);
+    }
 
     /// <summary>A particle among <paramref name="sites"/>, confined around <paramref name="centre"/>.</summary>
     /// <typeparam name="TPotential">The potential type.</typeparam>

@@ -574,14 +574,16 @@ internal readonly struct SiteField<TOps, TD, TB, TPotential> : IBeadField<TD>
     where TB : struct
     where TPotential : struct, IPairPotential
 {
-    private readonly TPotential _potential;
+    private readonly TPotential[] _potentials;
+    private readonly int[] _ends;
     private readonly double[] _sites;
     private readonly double _size, _cx, _cy, _cz;
     private readonly bool _sphere;
 
-    internal SiteField(TPotential potential, double[] sites, Confinement confinement, Position centre)
+    internal SiteField(TPotential[] potentials, int[] ends, double[] sites, Confinement confinement, Position centre)
     {
-        _potential = potential;
+        _potentials = potentials;
+        _ends = ends;
         _sites = sites;
         _size = confinement.SizeInAngstroms;
         _sphere = confinement.Shape == ConfinementShape.Sphere;
@@ -590,23 +592,10 @@ internal readonly struct SiteField<TOps, TD, TB, TPotential> : IBeadField<TD>
 
     public int Dimensions => 3;
 
-    public string Description => _potential.Description;
+    public string Description => _potentials[0].Description;
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public TD Energy(TD x, TD y, TD z)
-    {
-        var sites = _sites;
-        var e = TOps.Broadcast(0.0);
-        for (int i = 0; i + 2 < sites.Length; i += 3)
-        {
-            var dx = TOps.Subtract(x, TOps.Broadcast(sites[i]));
-            var dy = TOps.Subtract(y, TOps.Broadcast(sites[i + 1]));
-            var dz = TOps.Subtract(z, TOps.Broadcast(sites[i + 2]));
-            var r2 = TOps.Add(TOps.Add(TOps.Multiply(dx, dx), TOps.Multiply(dy, dy)), TOps.Multiply(dz, dz));
-            e = TOps.Add(e, _potential.LaneEnergyAtSquaredDistance<TOps, TD, TB>(r2));
-        }
-        return e;
-    }
+    public TD Energy(TD x, TD y, TD z) => SiteSums.Energy<TOps, TD, TB, TPotential>(_potentials, _ends, _sites, x, y, z);
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public TD Wall(TD x, TD y, TD z)

@@ -15,6 +15,8 @@ internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPair
 {
     private readonly TPotential _potential;
     private readonly double[] _sites;
+    private readonly TPotential[] _groupPotentials;
+    private readonly int[] _groupEnds;
     private readonly double _cx, _cy, _cz, _beta;
     private readonly Confinement _confinement;
     private readonly string _description;
@@ -23,6 +25,7 @@ internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPair
     {
         _potential = landscape.Potential;
         _sites = landscape.PackedCoordinates.ToArray();
+        (_groupPotentials, _groupEnds) = landscape.KernelGroups();
         _cx = landscape.Centre.X;
         _cy = landscape.Centre.Y;
         _cz = landscape.Centre.Z;
@@ -41,14 +44,19 @@ internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPair
         }
         double e = 0;
         var s = _sites;
-        for (int i = 0; i < s.Length; i += 3)
+        int i = 0;
+        for (int g = 0; g < _groupEnds.Length; g++)
         {
-            double dx = x - s[i], dy = y - s[i + 1], dz = z - s[i + 2];
-            e += _potential.EnergyAtSquaredDistance(dx * dx + dy * dy + dz * dz);
+            var potential = _groupPotentials[g];
+            for (int end = _groupEnds[g]; i < end; i += 3)
+            {
+                double dx = x - s[i], dy = y - s[i + 1], dz = z - s[i + 2];
+                e += potential.EnergyAtSquaredDistance(dx * dx + dy * dy + dz * dz);
+            }
         }
         if (double.IsNaN(e) || double.IsNegativeInfinity(e))
         {
-            throw new NonFiniteEnergyException(SitePairs.OffendingSeparation(_potential, _sites, x, y, z), e, _description);
+            throw new NonFiniteEnergyException(SitePairs.OffendingSeparation(_groupPotentials, _groupEnds, _sites, x, y, z), e, _description);
         }
         return -_beta * e;
     }
@@ -62,14 +70,18 @@ internal static class SitePairs
     /// −∞, or else the first infinite one (a sum of +∞ and −∞ from two pairs); NaN when no pair's energy there is
     /// non-finite.
     /// </summary>
-    internal static double OffendingSeparation<TPotential>(in TPotential potential, double[] sites, double x, double y, double z)
+    internal static double OffendingSeparation<TPotential>(TPotential[] potentials, int[] ends, double[] sites, double x, double y, double z)
         where TPotential : struct, IPairPotential
     {
         double firstInfinite = double.NaN;
-        for (int i = 0; i < sites.Length; i += 3)
+        for (int i = 0, g = 0; i < sites.Length; i += 3)
         {
+            while (i >= ends[g])
+            {
+                g++;
+            }
             double dx = x - sites[i], dy = y - sites[i + 1], dz = z - sites[i + 2], r2 = dx * dx + dy * dy + dz * dz;
-            double pair = potential.EnergyAtSquaredDistance(r2);
+            double pair = potentials[g].EnergyAtSquaredDistance(r2);
             if (double.IsNaN(pair) || double.IsNegativeInfinity(pair))
             {
                 return Math.Sqrt(r2);

@@ -28,9 +28,16 @@ internal static class SiteLaneChains
     /// <summary>Everything fixed for a run.</summary>
     internal sealed record Plan<TPotential>(TPotential Potential, double[] Sites, Position Centre, Confinement Confinement, Position Minimum,
         double L00, double L10, double L11, double L20, double L21, double L22, double Beta, double InitialScale, double TargetAcceptance,
-        double MaxScale, double WallBand, long BurnIn, long Samples, ulong Seed, string Description, BasinGrid Basin, double[]? ChainBetas = null)
+        double MaxScale, double WallBand, long BurnIn, long Samples, ulong Seed, string Description, BasinGrid Basin, double[]? ChainBetas = null,
+        TPotential[]? GroupPotentials = null, int[]? GroupEnds = null)
         : ISiteFrame where TPotential : struct, IPairPotential
     {
+        /// <summary>Each run of sites' potential (one run of every site when the landscape has one species).</summary>
+        internal TPotential[] Potentials => GroupPotentials ?? [Potential];
+
+        /// <summary>The end of each run's sites in <see cref="Sites"/> (3 per site).</summary>
+        internal int[] Ends => GroupEnds ?? [Sites.Length];
+
         /// <summary>The inverse temperature of chain <paramref name="chain"/> (<see cref="ChainBetas"/> when the chains' temperatures differ), 1/eV.</summary>
         internal double BetaOf(int chain) => ChainBetas?[chain] ?? Beta;
     }
@@ -84,7 +91,7 @@ internal static class SiteLaneChains
             var plan = Plan;
             var start = Start;
             var settings = new EngineSettings(plan.BurnIn, plan.Samples, InitialWidth, MaxWidth, plan.TargetAcceptance, BlockSize, "RSGH", "LOGR", "site ring-polymer group");
-            var field = new SiteField<TOps, TD, TB, TPotential>(plan.Potential, plan.Sites, plan.Confinement, plan.Centre);
+            var field = new SiteField<TOps, TD, TB, TPotential>(plan.Potentials, plan.Ends, plan.Sites, plan.Confinement, plan.Centre);
             return new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, SiteField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
                 new(field, Ring.Beads, Ring.Segment, Ring.HbarSquaredOverMass, Ring.Moves), plan, c =>
                 {
@@ -361,34 +368,23 @@ internal static class SiteLaneChains
         where TPotential : struct, IPairPotential
     {
         private readonly Plan<TPotential> _plan;
-        private readonly TPotential _potential;
+        private readonly TPotential[] _potentials;
+        private readonly int[] _ends;
         private readonly double[] _sites;
         private readonly LaneConfinement<TOps, TD, TB> _confinement;
 
         internal SiteWalk(Plan<TPotential> plan)
         {
             _plan = plan;
-            _potential = plan.Potential;
+            _potentials = plan.Potentials;
+            _ends = plan.Ends;
             _sites = plan.Sites;
             _confinement = new LaneConfinement<TOps, TD, TB>(plan.Confinement, plan.Centre, plan.WallBand);
         }
 
-        /// <summary>Σ_sites V(|p − site|²) in every lane, summed site by site in the landscape's order.</summary>
+        /// <summary>Σ_sites V(|p − site|²) in every lane, summed site by site in the landscape's order, one potential per run of sites of a species.</summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Energy(TD x, TD y, TD z)
-        {
-            var sites = _sites;
-            var e = TOps.Broadcast(0.0);
-            for (int i = 0; i + 2 < sites.Length; i += 3)
-            {
-                var dx = TOps.Subtract(x, TOps.Broadcast(sites[i]));
-                var dy = TOps.Subtract(y, TOps.Broadcast(sites[i + 1]));
-                var dz = TOps.Subtract(z, TOps.Broadcast(sites[i + 2]));
-                var r2 = TOps.Add(TOps.Add(TOps.Multiply(dx, dx), TOps.Multiply(dy, dy)), TOps.Multiply(dz, dz));
-                e = TOps.Add(e, _potential.LaneEnergyAtSquaredDistance<TOps, TD, TB>(r2));
-            }
-            return e;
-        }
+        private TD Energy(TD x, TD y, TD z) => SiteSums.Energy<TOps, TD, TB, TPotential>(_potentials, _ends, _sites, x, y, z);
 
         public void Start(ref SiteWalkState<TD, TB> state)
         {
@@ -511,7 +507,7 @@ internal static class SiteLaneChains
         private void ThrowAt(in LaneFaults<TD> faults, TD x, TD y, TD z)
         {
             int lane = LaneFaultCheck.FirstFaultedLane<TOps, TD, TB>(faults);
-            double separation = SitePairs.OffendingSeparation(_potential, _sites, TOps.Get(x, lane), TOps.Get(y, lane), TOps.Get(z, lane));
+            double separation = SitePairs.OffendingSeparation(_potentials, _ends, _sites, TOps.Get(x, lane), TOps.Get(y, lane), TOps.Get(z, lane));
             throw new NonFiniteEnergyException(separation, TOps.Get(faults.Energy, lane), _plan.Description);
         }
     }
@@ -729,6 +725,35 @@ internal static class SiteLaneChains
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
+/// <summary>The site energy in every lane, shared by the site walk and the ring's site field.</summary>
+internal static class SiteSums
+{
+    /// <summary>Σ_sites V(|p − site|²), one potential per run of sites (<paramref name="ends"/>: each run's end in <paramref name="sites"/>, 3 per site): the potential is loaded once per run, so a species costs no call per neighbour.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal static TD Energy<TOps, TD, TB, TPotential>(TPotential[] potentials, int[] ends, double[] sites, TD x, TD y, TD z)
+        where TOps : struct, ILaneOps<TD, TB>
+        where TD : struct
+        where TB : struct
+        where TPotential : struct, IPairPotential
+    {
+        var e = TOps.Broadcast(0.0);
+        int i = 0;
+        for (int g = 0; g < ends.Length; g++)
+        {
+            var potential = potentials[g];
+            for (int end = ends[g]; i < end; i += 3)
+            {
+                var dx = TOps.Subtract(x, TOps.Broadcast(sites[i]));
+                var dy = TOps.Subtract(y, TOps.Broadcast(sites[i + 1]));
+                var dz = TOps.Subtract(z, TOps.Broadcast(sites[i + 2]));
+                var r2 = TOps.Add(TOps.Add(TOps.Multiply(dx, dx), TOps.Multiply(dy, dy)), TOps.Multiply(dz, dz));
+                e = TOps.Add(e, potential.LaneEnergyAtSquaredDistance<TOps, TD, TB>(r2));
+            }
+        }
+        return e;
+    }
+}
+
 /// <summary>The site walk's state in every lane: position, energy, −β, random stream and fault notes (saved word for word in this order).</summary>
 /// <typeparam name="TD">The lane type.</typeparam>
 /// <typeparam name="TB">The lane word type.</typeparam>
