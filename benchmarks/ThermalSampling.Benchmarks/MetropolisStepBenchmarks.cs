@@ -1,4 +1,6 @@
 using System;
+using System.Collections.Generic;
+using System.Linq;
 using BenchmarkDotNet.Attributes;
 using MathNet.Numerics.Distributions;
 using MathNet.Numerics.Statistics.Mcmc;
@@ -293,4 +295,50 @@ public class SiteRecordingCostBenchmarks
     /// <summary>The default plus the temperature factor at four scattering vectors.</summary>
     [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
     public double WithFourScatteringVectors() => Run(false, [4, 0, 0, 0, 4, 0, 3, 3, 3, 8, 2, 1]);
+}
+
+/// <summary>
+/// What a second species costs per site chain-step: the invented 12-neighbour Lennard-Jones cage (u0 = 0.0103 eV,
+/// r0 = 3.8 Å, 40 K, sphere of 1.5 Å) with one species (baseline, as LennardJones and as PairForm), against the same
+/// cage with its 12 neighbours split into two species of different parameters (6 + 6, PairForm), in one run; 16 chains,
+/// one thread, the widest native vector.
+/// </summary>
+[MemoryDiagnoser]
+public class SpeciesCostBenchmarks
+{
+    private const int Chains = 16;
+    private const int StepsPerChain = 1_000_000;
+    private SiteLandscape<LennardJones> _one = null!;
+    private SiteLandscape<PairForm> _oneForm = null!, _two = null!;
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        var lj = LennardJones.FromMinimum(Length.FromAngstroms(3.8), Energy.FromElectronVolts(0.0103));
+        var other = LennardJones.FromMinimum(Length.FromAngstroms(3.7), Energy.FromElectronVolts(0.0120));
+        var cage = LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.8));
+        var sphere = Confinement.Sphere(Length.FromAngstroms(1.5));
+        _one = SiteLandscape.Create(lj, cage, Position.Origin, sphere);
+        _oneForm = SiteLandscape.Create(PairForm.From(lj), cage, Position.Origin, sphere);
+        _two = SiteLandscape.CreateWithSpecies(cage.Select((p, i) => (p, i % 2 == 0 ? "A" : "B")),
+            new Dictionary<string, PairForm> { ["A"] = PairForm.From(lj), ["B"] = PairForm.From(other) }, Position.Origin, sphere);
+    }
+
+    private static double Run<T>(SiteLandscape<T> landscape) where T : struct, IPairPotential
+    {
+        var settings = new SamplingSettings { Seed = 1, Chains = Chains, SamplesPerChain = StepsPerChain, BurnIn = 2000, MaxThreads = 1 };
+        return SiteSampler.Run(landscape, Mass.FromAtomicMassUnits(39.948), Temperature.FromKelvin(40), settings).MeanSquareDisplacement.Value;
+    }
+
+    /// <summary>One species, the Lennard-Jones type itself.</summary>
+    [Benchmark(Baseline = true, OperationsPerInvoke = Chains * StepsPerChain)]
+    public double OneSpecies() => Run(_one);
+
+    /// <summary>One species through PairForm.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double OneSpeciesPairForm() => Run(_oneForm);
+
+    /// <summary>Two species, 6 + 6 neighbours.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double TwoSpecies() => Run(_two);
 }
