@@ -310,6 +310,7 @@ public class SpeciesCostBenchmarks
     private const int StepsPerChain = 1_000_000;
     private SiteLandscape<LennardJones> _one = null!;
     private SiteLandscape<PairForm> _oneForm = null!, _two = null!;
+    private SiteLandscape<LennardJones> _twoSameForm = null!;
 
     [GlobalSetup]
     public void Setup()
@@ -322,6 +323,8 @@ public class SpeciesCostBenchmarks
         _oneForm = SiteLandscape.Create(PairForm.From(lj), cage, Position.Origin, sphere);
         _two = SiteLandscape.CreateWithSpecies(cage.Select((p, i) => (p, i % 2 == 0 ? "A" : "B")),
             new Dictionary<string, PairForm> { ["A"] = PairForm.From(lj), ["B"] = PairForm.From(other) }, Position.Origin, sphere);
+        _twoSameForm = SiteLandscape.CreateWithSpecies(cage.Select((p, i) => (p, i % 2 == 0 ? "A" : "B")),
+            new Dictionary<string, LennardJones> { ["A"] = lj, ["B"] = other }, Position.Origin, sphere);
     }
 
     private static double Run<T>(SiteLandscape<T> landscape) where T : struct, IPairPotential
@@ -338,7 +341,11 @@ public class SpeciesCostBenchmarks
     [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
     public double OneSpeciesPairForm() => Run(_oneForm);
 
-    /// <summary>Two species, 6 + 6 neighbours.</summary>
+    /// <summary>Two species, 6 + 6 neighbours, through PairForm.</summary>
     [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
     public double TwoSpecies() => Run(_two);
+
+    /// <summary>Two species of one form (Lennard-Jones with two parameter sets), 6 + 6 neighbours: what the command uses when every pair has the same form.</summary>
+    [Benchmark(OperationsPerInvoke = Chains * StepsPerChain)]
+    public double TwoSpeciesSameForm() => Run(_twoSameForm);
 }

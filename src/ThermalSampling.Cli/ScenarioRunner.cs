@@ -82,16 +82,12 @@ internal static class ScenarioRunner
         var p = scenario.Potential;
         return p.Form switch
         {
-            "lennard-jones" => Dispatch(scenario, Guard(() => p.Parameters.ContainsKey("sigma")
-                ? LennardJones.FromSigmaEpsilon(Length.FromAngstroms(p.Parameters["sigma"]), Energy.FromElectronVolts(p.Parameters["epsilon"]))
-                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])), "$.potential"), job),
-            "morse" => Dispatch(scenario, Guard(() => new Morse(Energy.FromElectronVolts(p.Parameters["wellDepth"]), p.Parameters["width"],
-                Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), job),
-            "buckingham" => Dispatch(scenario, Guard(() => new Buckingham(Energy.FromElectronVolts(p.Parameters["A"]), Length.FromAngstroms(p.Parameters["rho"]),
-                p.Parameters["C"]), "$.potential"), job),
-            "harmonic" => Dispatch(scenario, Guard(() => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])), "$.potential"), job),
-            "table" => Dispatch(scenario, Guard(() => new TabulatedPotential(p.TableR, p.TableEnergy), "$.potential"), job),
-            "pairs" => Dispatch(scenario, PairForm.None, job), // a structure with species pairs: the landscape carries each pair's form
+            "lennard-jones" => Dispatch(scenario, Make<LennardJones>(p, "$.potential"), job),
+            "morse" => Dispatch(scenario, Make<Morse>(p, "$.potential"), job),
+            "buckingham" => Dispatch(scenario, Make<Buckingham>(p, "$.potential"), job),
+            "harmonic" => Dispatch(scenario, Make<HarmonicBond>(p, "$.potential"), job),
+            "table" => Dispatch(scenario, Make<TabulatedPotential>(p, "$.potential"), job),
+            "pairs" => DispatchPairs(scenario, job), // a structure with species pairs: the landscape carries each pair's potential
             _ => throw new ScenarioException(new[] { $"$.potential.form: '{p.Form}' is not a known form." }),
         };
     }
@@ -239,7 +235,7 @@ internal static class ScenarioRunner
             }
             else if (l.Pairs is not null)
             {
-                siteLandscape = (SiteLandscape<TPotential>)(object)SpeciesLandscape(l); // TPotential is PairForm for "pairs"
+                siteLandscape = SpeciesLandscape<TPotential>(l);
             }
             else
             {
@@ -305,26 +301,72 @@ internal static class ScenarioRunner
         }
     }
 
-    /// <summary>A structure site with each neighbour species' own pair form (none where no pair is given).</summary>
-    private static SiteLandscape<PairForm> SpeciesLandscape(LandscapeSpec l)
+    /// <summary>
+    /// Species pairs all of one form run on that form's own type (a species costs nothing then; several forms run on
+    /// <see cref="PairForm"/>, which costs about a third more per step: docs/performance.md).
+    /// </summary>
+    private static ScenarioResults DispatchPairs(Scenario scenario, Job job)
     {
-        var forms = l.SiteSpecies.Distinct().ToDictionary(species => species,
-            species => l.Pairs!.TryGetValue(species, out var spec) ? FormOf(spec, $"$.landscape.pairs[{l.MovingSpecies}, {species}].potential") : PairForm.None);
-        return SiteLandscape.CreateWithSpecies(l.Sites.Zip(l.SiteSpecies), forms, l.Centre, l.Confinement!.Value);
+        var specs = scenario.Landscape.Pairs!.Values.ToList();
+        if (specs.Count == 0)
+        {
+            throw new ScenarioException(new[] { "$.landscape.pairs: no pair involves a neighbour within the cutoff; nothing would act on the moving atom." });
+        }
+        var forms = specs.Select(p => p.Form).Distinct().ToList();
+        string path = "$.landscape.pairs";
+        return forms.Count > 1 ? Dispatch(scenario, PairForm.None, job) : forms[0] switch
+        {
+            "lennard-jones" => Dispatch(scenario, Make<LennardJones>(specs[0], path), job),
+            "morse" => Dispatch(scenario, Make<Morse>(specs[0], path), job),
+            "buckingham" => Dispatch(scenario, Make<Buckingham>(specs[0], path), job),
+            _ => Dispatch(scenario, Make<HarmonicBond>(specs[0], path), job),
+        };
     }
 
-    /// <summary>The pair form a potential spec names.</summary>
-    internal static PairForm FormOf(PotentialSpec p, string path) => p.Form switch
+    /// <summary>
+    /// A structure site with each neighbour species' own pair potential. Neighbours of a species with no pair (and no
+    /// charge) feel nothing of the moving atom, so they are left out (validate lists them as acting not at all).
+    /// </summary>
+    private static SiteLandscape<TPotential> SpeciesLandscape<TPotential>(LandscapeSpec l) where TPotential : struct, IPairPotential
     {
-        "lennard-jones" => Guard(() => PairForm.From(p.Parameters.ContainsKey("sigma")
-            ? LennardJones.FromSigmaEpsilon(Length.FromAngstroms(p.Parameters["sigma"]), Energy.FromElectronVolts(p.Parameters["epsilon"]))
-            : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"]))), path),
-        "morse" => Guard(() => PairForm.From(new Morse(Energy.FromElectronVolts(p.Parameters["wellDepth"]), p.Parameters["width"],
-            Length.FromAngstroms(p.Parameters["equilibriumDistance"]))), path),
-        "buckingham" => Guard(() => PairForm.From(new Buckingham(Energy.FromElectronVolts(p.Parameters["A"]), Length.FromAngstroms(p.Parameters["rho"]), p.Parameters["C"])), path),
-        "harmonic" => Guard(() => PairForm.From(new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"]))), path),
-        _ => throw new ScenarioException(new[] { $"{path}.form: '{p.Form}' cannot serve a species pair." }),
-    };
+        var acting = l.Sites.Zip(l.SiteSpecies).Where(s => l.Pairs!.ContainsKey(s.Second)).ToList();
+        if (acting.Count == 0)
+        {
+            throw new ScenarioException(new[] { "$.landscape.pairs: no pair involves a neighbour within the cutoff; nothing would act on the moving atom." });
+        }
+        var potentials = acting.Select(site => site.Second).Distinct()
+            .ToDictionary(species => species, species => Make<TPotential>(l.Pairs![species], $"$.landscape.pairs[{l.MovingSpecies}, {species}].potential"));
+        return SiteLandscape.CreateWithSpecies(acting, potentials, l.Centre, l.Confinement!.Value);
+    }
+
+    /// <summary>The potential a spec names, as <typeparamref name="TPotential"/> (its own form's type, or <see cref="PairForm"/>).</summary>
+    internal static TPotential Make<TPotential>(PotentialSpec p, string path) where TPotential : struct, IPairPotential
+    {
+        object made = Guard<object>(() => p.Form switch
+        {
+            "lennard-jones" => p.Parameters.ContainsKey("sigma")
+                ? LennardJones.FromSigmaEpsilon(Length.FromAngstroms(p.Parameters["sigma"]), Energy.FromElectronVolts(p.Parameters["epsilon"]))
+                : LennardJones.FromMinimum(Length.FromAngstroms(p.Parameters["equilibriumDistance"]), Energy.FromElectronVolts(p.Parameters["wellDepth"])),
+            "morse" => new Morse(Energy.FromElectronVolts(p.Parameters["wellDepth"]), p.Parameters["width"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])),
+            "buckingham" => new Buckingham(Energy.FromElectronVolts(p.Parameters["A"]), Length.FromAngstroms(p.Parameters["rho"]), p.Parameters["C"]),
+            "harmonic" => new HarmonicBond(p.Parameters["stiffness"], Length.FromAngstroms(p.Parameters["equilibriumDistance"])),
+            "table" => new TabulatedPotential(p.TableR, p.TableEnergy),
+            _ => throw new ScenarioException(new[] { $"{path}.form: '{p.Form}' is not a known form." }),
+        }, path);
+        if (typeof(TPotential) != typeof(PairForm))
+        {
+            return (TPotential)made;
+        }
+        object form = made switch
+        {
+            LennardJones lj => PairForm.From(lj),
+            Morse morse => PairForm.From(morse),
+            Buckingham buckingham => PairForm.From(buckingham),
+            HarmonicBond harmonic => PairForm.From(harmonic),
+            _ => throw new ScenarioException(new[] { $"{path}.form: '{p.Form}' cannot serve a species pair." }),
+        };
+        return (TPotential)form;
+    }
 
     /// <summary>For validate and reports: how each neighbour species acts on the moving atom.</summary>
     internal static IEnumerable<string> PairSummary(LandscapeSpec l)
