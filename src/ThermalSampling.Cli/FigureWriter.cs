@@ -32,17 +32,18 @@ internal static class FigureWriter
         {
             written.Add(Save(VibrationFigures.ReweightedSweep(reports, reweighted, title, units), basePath, "-reweighted"));
         }
-        var plots = reports.Select(r => VibrationFigures.PositionDistribution(r, landscape, title, units)).ToList();
-        if (Panelled(basePath, reports.Count))
-        {
-            written.Add(SavePanels(plots, basePath, "-distributions"));
-            return written;
-        }
-        for (int i = 0; i < reports.Count; i++)
-        {
-            written.Add(Save(plots[i], basePath, reports.Count == 1 ? "" : names[i]));
-        }
+        written.AddRange(SaveDistributions([.. reports.Select(r => VibrationFigures.PositionDistribution(r, landscape, title, units))], names, basePath));
         return written;
+    }
+
+    /// <summary>One distribution figure per temperature (named by it; the base name alone for one), or their panels when there are many.</summary>
+    private static IEnumerable<string> SaveDistributions(IReadOnlyList<ScottPlot.Plot> plots, IReadOnlyList<string> names, string basePath)
+    {
+        if (Panelled(basePath, plots.Count))
+        {
+            return [SavePanels(plots, basePath, "-distributions")];
+        }
+        return [.. plots.Select((plot, i) => Save(plot, basePath, plots.Count == 1 ? "" : names[i]))];
     }
 
     internal static List<string> WriteSite(IReadOnlyList<SiteVibrationReport> reports, string basePath, string? title = null, FigureUnits? units = null,
@@ -87,16 +88,7 @@ internal static class FigureWriter
         {
             written.Add(Save(VibrationFigures.PathIntegralSweep(reports, title, units), basePath, ""));
         }
-        var plots = reports.Select(r => VibrationFigures.PathIntegralDistribution(r, landscape, title, units)).ToList();
-        if (Panelled(basePath, reports.Count))
-        {
-            written.Add(SavePanels(plots, basePath, "-distributions"));
-            return written;
-        }
-        for (int i = 0; i < reports.Count; i++)
-        {
-            written.Add(Save(plots[i], basePath, reports.Count == 1 ? "" : names[i]));
-        }
+        written.AddRange(SaveDistributions([.. reports.Select(r => VibrationFigures.PathIntegralDistribution(r, landscape, title, units))], names, basePath));
         return written;
     }
 

@@ -488,10 +488,7 @@ public static class VibrationFigures
         var sorted = SortedByTemperature(reweighted, r => r.Temperature);
         var plot = new Plot();
         double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
-        var band = plot.Add.FillY(t, sorted.Select(r => (r.Rms.Value - r.Rms.StandardError) / L).ToArray(), sorted.Select(r => (r.Rms.Value + r.Rms.StandardError) / L).ToArray());
-        band.FillStyle.Color = Sampled.WithAlpha(0.3);
-        band.LineStyle.Width = 0;
-        band.LegendText = "RMS spread, reweighted (± 1 SE)";
+        AddBand(plot, t, [.. sorted.Select(r => r.Rms)], L, "RMS spread, reweighted (± 1 SE)");
         AddCurve(plot, t, sorted.Select(r => r.Exact.RmsInAngstroms / L).ToArray(), Exact, LinePattern.Dashed, "RMS spread, exact (quadrature)");
         var points = sampled.OrderBy(r => r.Temperature.InKelvin).ToList();
         AddSeries(plot, points.Select(r => r.Temperature.InKelvin).ToArray(), points.Select(r => r.Rms.Value / L).ToArray(),
@@ -517,11 +514,7 @@ public static class VibrationFigures
         var sorted = SortedByTemperature(reweighted, r => r.Temperature);
         var plot = new Plot();
         double[] t = sorted.Select(r => r.Temperature.InKelvin).ToArray();
-        var band = plot.Add.FillY(t, sorted.Select(r => (r.MeanSquareDisplacement.Value - r.MeanSquareDisplacement.StandardError) / L2).ToArray(),
-            sorted.Select(r => (r.MeanSquareDisplacement.Value + r.MeanSquareDisplacement.StandardError) / L2).ToArray());
-        band.FillStyle.Color = Sampled.WithAlpha(0.3);
-        band.LineStyle.Width = 0;
-        band.LegendText = "MSD, reweighted (± 1 SE)";
+        AddBand(plot, t, [.. sorted.Select(r => r.MeanSquareDisplacement)], L2, "MSD, reweighted (± 1 SE)");
         var points = sampled.OrderBy(r => r.Temperature.InKelvin).ToList();
         AddSeries(plot, points.Select(r => r.Temperature.InKelvin).ToArray(), points.Select(r => r.MeanSquareDisplacement.Value / L2).ToArray(),
             points.Select(r => r.MeanSquareDisplacement.StandardError / L2).ToArray(), Sampled, "MSD, sampled");
@@ -560,6 +553,15 @@ public static class VibrationFigures
         plot.Axes.SetLimitsY(0, 1.05);
         plot.ShowLegend(Alignment.UpperRight);
         return plot;
+    }
+
+    /// <summary>The estimates ± 1 standard error as a shaded band, each divided by <paramref name="unit"/>.</summary>
+    private static void AddBand(Plot plot, double[] x, Estimate[] values, double unit, string label)
+    {
+        var band = plot.Add.FillY(x, [.. values.Select(v => (v.Value - v.StandardError) / unit)], [.. values.Select(v => (v.Value + v.StandardError) / unit)]);
+        band.FillStyle.Color = Sampled.WithAlpha(0.3);
+        band.LineStyle.Width = 0;
+        band.LegendText = label;
     }
 
     /// <summary>Renames the legend entry <paramref name="from"/> (or every entry starting with it, with <paramref name="prefix"/>).</summary>
