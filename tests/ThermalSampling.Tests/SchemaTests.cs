@@ -64,7 +64,7 @@ public class SchemaTests
         var data = new TheoryData<string>();
         foreach (string file in Directory.GetFiles(Path.Combine(Root, "docs", "examples", "scenarios"), "*.json").Order())
         {
-            data.Add(File.ReadAllText(file));
+            data.Add(System.Text.Encoding.UTF8.GetString(ScenarioFiles.Resolved(file))); // a structure file inlined, as the command loads it
         }
         data.Add(DemoScenarios.LinePair);
         data.Add(DemoScenarios.SurfaceHollow);
