@@ -42,6 +42,12 @@ public static class PhysicalConstants
     /// <summary>Boltzmann constant in eV/K.</summary>
     public const double BoltzmannElectronVoltPerKelvin = BoltzmannJoulePerKelvin / ElementaryChargeCoulomb;
 
+    /// <summary>Vacuum electric permittivity ε₀, F/m (CODATA 2018).</summary>
+    public const double VacuumPermittivityFaradPerMetre = 8.8541878128e-12;
+
+    /// <summary>e/(4πε₀), V·Å: the potential (V) at 1 Å from one elementary charge; e²/(4πε₀) = this many eV·Å (14.3996…).</summary>
+    public const double CoulombVoltAngstrom = ElementaryChargeCoulomb / (4 * Math.PI * VacuumPermittivityFaradPerMetre) * 1e10;
+
     /// <summary>Reduced Planck constant in eV·s.</summary>
     public const double ReducedPlanckElectronVoltSecond = ReducedPlanckJouleSecond / ElementaryChargeCoulomb;
 
