@@ -82,6 +82,12 @@ internal sealed record LandscapeSpec(string Kind, double WindowLower, double Win
 
     /// <summary>For a structure with <c>pairs</c>: the moving atom's species.</summary>
     internal string? MovingSpecies { get; init; }
+
+    /// <summary>For a structure with <c>charges</c>: the charge of each species, e.</summary>
+    internal ImmutableDictionary<string, double>? Charges { get; init; }
+
+    /// <summary>For a structure with <c>charges</c>: the moving ion's Coulomb energy in the crystal's field (Ewald, as a polynomial about its site).</summary>
+    internal PolynomialField? CoulombField { get; init; }
 }
 
 /// <summary>Reads scenario files. Every problem is collected (with its JSON path) and reported at once.</summary>
@@ -760,9 +766,29 @@ internal static class ScenarioReader
     private static LandscapeSpec? ReadStructure(Context c, JsonElement p, string path, double l, double e)
     {
         c.CheckKeys(p, path, "kind", "xyz", "cif", "file", "atom", "atomLabel", "movingAtom", "cutoff", "species", "confinement", "pairs", "charges");
-        if (p.TryGetProperty("charges", out _))
+        ImmutableDictionary<string, double>? charges = null;
+        if (p.TryGetProperty("charges", out var chargesElement))
         {
-            c.Add($"{path}.charges", "the Coulomb term between charged species is not available yet (Ewald summation is planned); give pairs alone, whose short-range forms are all a structure site can use now.");
+            if (chargesElement.ValueKind != JsonValueKind.Object)
+            {
+                c.Add($"{path}.charges", $"must be an object of charges per species label (e), such as {{\"Na\": 1, \"Cl\": -1}}, not {Context.Describe(chargesElement)}.");
+            }
+            else
+            {
+                var builder = ImmutableDictionary.CreateBuilder<string, double>();
+                foreach (var property in chargesElement.EnumerateObject())
+                {
+                    if (property.Value.ValueKind == JsonValueKind.Number && property.Value.TryGetDouble(out double q) && double.IsFinite(q) && Math.Abs(q) <= 10)
+                    {
+                        builder[property.Name] = q;
+                    }
+                    else
+                    {
+                        c.Add($"{path}.charges.{property.Name}", $"must be a charge in e from −10 to 10, not {Context.Describe(property.Value)}.");
+                    }
+                }
+                charges = builder.ToImmutable();
+            }
         }
         if (p.TryGetProperty("file", out _))
         {
@@ -870,6 +896,25 @@ internal static class ScenarioReader
             return null;
         }
         string moving = structure.Atoms[(int)atom.Value - 1].Species;
+        PolynomialField? coulomb = null;
+        if (charges is not null && confinement is { } box)
+        {
+            foreach (var label in charges.Keys.Where(k => !structure.Atoms.Any(a => a.Species == k)))
+            {
+                c.Add($"{path}.charges.{label}", $"species '{label}' is not in the structure (its species: {string.Join(", ", structure.Atoms.Select(a => a.Species).Distinct())}).");
+                return null;
+            }
+            double reach = box.Shape == ConfinementShape.Sphere ? box.SizeInAngstroms : box.SizeInAngstroms * Math.Sqrt(3);
+            try
+            {
+                coulomb = CoulombSite.Field(structure, (int)atom.Value - 1, charges, 1.05 * reach);
+            }
+            catch (ArgumentException ex)
+            {
+                c.Add($"{path}.charges", ex.Message.Split(" (Parameter '")[0]);
+                return null;
+            }
+        }
         if (p.TryGetProperty("pairs", out var pairsElement))
         {
             var pairs = ReadPairs(c, pairsElement, $"{path}.pairs", moving, structure, e, l);
@@ -882,6 +927,8 @@ internal static class ScenarioReader
                 SiteSpecies = [.. neighbours.Select(n => n.Species)],
                 Pairs = pairs,
                 MovingSpecies = moving,
+                Charges = charges,
+                CoulombField = coulomb,
             };
         }
         if (kinds.Count > 1)
@@ -889,7 +936,12 @@ internal static class ScenarioReader
             c.Add($"{path}.species", $"the neighbours are of {kinds.Count} species ({string.Join(", ", kinds)}), and one pair potential serves every neighbour: choose them with \"species\", such as [\"{kinds[0]}\"], or give each species pair its potential with \"pairs\".");
             return null;
         }
-        return new LandscapeSpec("sites", 0, 0, [.. neighbours.Select(n => n.Position)], null, 0, 0, structure.Atoms[(int)atom.Value - 1].Position, confinement);
+        return new LandscapeSpec("sites", 0, 0, [.. neighbours.Select(n => n.Position)], null, 0, 0, structure.Atoms[(int)atom.Value - 1].Position, confinement)
+        {
+            Charges = charges,
+            CoulombField = coulomb,
+            MovingSpecies = moving,
+        };
     }
 
     /// <summary>

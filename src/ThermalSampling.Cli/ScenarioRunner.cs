@@ -243,6 +243,10 @@ internal static class ScenarioRunner
                     ? LatticeSites.NeighbourCage(Lattice(l.Lattice), Length.FromAngstroms(l.NearestNeighbourDistance), l.Shells).Select(s => s + l.Centre).ToImmutableArray()
                     : l.Sites, centre, l.Confinement!.Value);
             }
+            if (l.CoulombField is { } coulomb)
+            {
+                siteLandscape = siteLandscape.WithField(coulomb); // the moving ion in the crystal's Ewald field
+            }
             if (checkOnly)
             {
                 return new ScenarioResults(scenario, [], [], Checks: temperatures.SelectMany(t => SiteSampler.Check(siteLandscape, mass, t).Select(w => (t.InKelvin, w))).ToList()) { Surface = surface };
@@ -370,9 +374,31 @@ internal static class ScenarioRunner
 
     /// <summary>For validate and reports: how each neighbour species acts on the moving atom.</summary>
     internal static IEnumerable<string> PairSummary(LandscapeSpec l)
-        => l.Pairs is null ? [] : l.SiteSpecies.Distinct().Select(species => l.Pairs.TryGetValue(species, out var spec)
-            ? $"{l.MovingSpecies}–{species}: short-range {spec.Form} ({l.SiteSpecies.Count(x => x == species)} neighbours)"
-            : $"{l.MovingSpecies}–{species}: not at all (no pair given, no charges; {l.SiteSpecies.Count(x => x == species)} neighbours)");
+    {
+        bool charged = l.Charges is not null && l.Charges.TryGetValue(l.MovingSpecies ?? "", out double q) && q != 0;
+        string Coulomb(string species) => charged && l.Charges!.TryGetValue(species, out double other) && other != 0 ? " and Coulomb" : "";
+        var species = l.Pairs is not null ? l.SiteSpecies.Distinct() : l.Charges?.Keys ?? [];
+        foreach (var s in species)
+        {
+            string count = l.Pairs is null ? "" : $"{l.SiteSpecies.Count(x => x == s)} neighbours";
+            if (l.Pairs is not null && l.Pairs.TryGetValue(s, out var spec))
+            {
+                yield return $"{l.MovingSpecies}–{s}: short-range {spec.Form}{Coulomb(s)} ({count})";
+            }
+            else if (Coulomb(s).Length > 0)
+            {
+                yield return $"{l.MovingSpecies}–{s}: Coulomb only{(count.Length > 0 ? $" ({count})" : "")}";
+            }
+            else if (l.Pairs is not null)
+            {
+                yield return $"{l.MovingSpecies}–{s}: not at all (no pair given, no charge; {count})";
+            }
+        }
+        if (l.CoulombField is { } field)
+        {
+            yield return string.Create(CultureInfo.InvariantCulture, $"Coulomb: Ewald field of the whole crystal about the site, as a degree-{field.Degree} polynomial in a ball of {field.Radius:G3} Å (largest error against Ewald at check points {field.FitError:G2} eV)");
+        }
+    }
 
     private static IEnumerable<Temperature> Targets(Scenario scenario) => scenario.ReweightTargets.Select(Temperature.FromKelvin);
 

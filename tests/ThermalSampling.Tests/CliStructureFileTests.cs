@@ -113,8 +113,8 @@ public class CliStructureFileTests
     /// <summary>
     /// Species pairs: a structure site among six Cl and twelve Na neighbours with only the Na–Cl pair given equals the
     /// one-species site of the six Cl with the same potential, to the last bit (the Na neighbours have no short-range
-    /// term and add zeros); validate lists how each species acts; a pair naming a species not in the file, pairs beside
-    /// a top-level potential, and charges are refused by path.
+    /// term and add zeros); validate lists how each species acts; a pair naming a species not in the file and pairs beside
+    /// a top-level potential are refused by path; charges add the Coulomb term, and a charged cell is refused.
     /// </summary>
     [Fact]
     public void Species_pairs_give_each_neighbour_species_its_potential()
@@ -133,7 +133,7 @@ public class CliStructureFileTests
             (code, _, stderr) = RunArgs("validate", scenario);
             Assert.Equal(0, code);
             Assert.Contains("pair Na–Cl: short-range lennard-jones (6 neighbours)", stderr);
-            Assert.Contains("pair Na–Na: not at all (no pair given, no charges; 12 neighbours)", stderr);
+            Assert.Contains("pair Na–Na: not at all (no pair given, no charge; 12 neighbours)", stderr);
 
             File.WriteAllText(Path.Combine(dir, "one.json"), Scenario("salt.cif", "\"Na1\"").Replace("2.6", "3.6", StringComparison.Ordinal));
             (code, stdout, stderr) = RunArgs("run", Path.Combine(dir, "one.json"), "--format", "json", "--quiet");
@@ -148,10 +148,22 @@ public class CliStructureFileTests
             (code, _, stderr) = RunArgs("run", scenario, "--quiet");
             Assert.Equal(2, code);
             Assert.Contains("$.potential: give the potentials once", stderr);
+            // Charges add the Coulomb term (Ewald, as a polynomial about the site): the run works, validate says how each
+            // species acts, the Coulomb energy has no Hessian at this cubic site, so the MSD moves little; a charged cell is refused.
             File.WriteAllText(scenario, PairsScenario(naCl).Replace("\"cutoff\": 3.6,", "\"cutoff\": 3.6, \"charges\": { \"Na\": 1, \"Cl\": -1 },", StringComparison.Ordinal));
+            (code, stdout, stderr) = RunArgs("run", scenario, "--format", "json", "--quiet");
+            Assert.True(code == 0, stderr);
+            double withCoulomb = JsonDocument.Parse(stdout).RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble();
+            Assert.InRange(withCoulomb / pairsMsd, 0.8, 1.25);
+            (code, _, stderr) = RunArgs("validate", scenario);
+            Assert.Equal(0, code);
+            Assert.Contains("pair Na–Cl: short-range lennard-jones and Coulomb (6 neighbours)", stderr);
+            Assert.Contains("pair Na–Na: Coulomb only (12 neighbours)", stderr);
+            Assert.Contains("pair Coulomb: Ewald field of the whole crystal about the site", stderr);
+            File.WriteAllText(scenario, PairsScenario(naCl).Replace("\"cutoff\": 3.6,", "\"cutoff\": 3.6, \"charges\": { \"Na\": 1, \"Cl\": -0.5 },", StringComparison.Ordinal));
             (code, _, stderr) = RunArgs("run", scenario, "--quiet");
             Assert.Equal(2, code);
-            Assert.Contains("$.landscape.charges: the Coulomb term between charged species is not available yet", stderr);
+            Assert.Contains("$.landscape.charges: the cell is not neutral: its net charge is 2 e", stderr);
         }
         finally
         {

@@ -168,3 +168,32 @@ public sealed class EwaldField
 
     private static Position Cross(Position a, Position b) => new(a.Y * b.Z - a.Z * b.Y, a.Z * b.X - a.X * b.Z, a.X * b.Y - a.Y * b.X);
 }
+
+/// <summary>The Coulomb energy of an ion moving about its site in the field of the rest of its crystal, in the hot loop's form.</summary>
+public static class CoulombSite
+{
+    /// <summary>
+    /// E(r) = q[φ_crystal(r) − q/(4πε₀|r − r_home|)], eV: the moving atom's charge q in the Ewald field of every other
+    /// charge of the infinite crystal (its own periodic images included, its home site's bare term left out), fitted as a
+    /// polynomial of <paramref name="degree"/> about its home in a ball of <paramref name="radius"/>. The field is
+    /// harmonic (∇²φ = 0) there, so the fit converges like (radius/nearest charge)^(degree + 1);
+    /// <see cref="PolynomialField.FitError"/> states the largest error against Ewald at check points.
+    /// </summary>
+    /// <param name="structure">The periodic structure.</param>
+    /// <param name="atom">The moving atom's index.</param>
+    /// <param name="charges">The charge of each species, e (a neutral cell).</param>
+    /// <param name="radius">The ball the particle stays in, Å (at least the confinement's reach).</param>
+    /// <param name="degree">The polynomial's degree, 2 to 12 (default 8).</param>
+    /// <param name="accuracy">The Ewald sums' accuracy (Kolafa–Perram cut-offs).</param>
+    public static PolynomialField Field(Structure structure, int atom, IReadOnlyDictionary<string, double> charges, double radius, int degree = 8, double accuracy = 1e-10)
+    {
+        Preconditions.CheckNotNull(structure, nameof(structure));
+        if (atom < 0 || atom >= structure.Atoms.Length)
+        {
+            throw new ArgumentOutOfRangeException(nameof(atom), atom, $"atom must be from 0 to {structure.Atoms.Length - 1}.");
+        }
+        var ewald = EwaldField.Create(structure, charges, accuracy);
+        double q = charges[structure.Atoms[atom].Species];
+        return PolynomialField.Fit(p => q * ewald.PotentialInVolts(p, atom), structure.Atoms[atom].Position, radius, degree);
+    }
+}

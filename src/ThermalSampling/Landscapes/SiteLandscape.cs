@@ -32,8 +32,11 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
     /// <param name="centre">The centre.</param>
     /// <param name="confinement">The confinement.</param>
     /// <param name="rule">The mixing rule that made the pair potentials, for the description, or null.</param>
-    internal SiteLandscape(TPotential[] potentials, ImmutableArray<Position> sites, ImmutableArray<string> species, Position centre, Confinement confinement, string? rule)
+    /// <param name="field">A smooth energy added to the pair terms, eV, or null.</param>
+    internal SiteLandscape(TPotential[] potentials, ImmutableArray<Position> sites, ImmutableArray<string> species, Position centre, Confinement confinement, string? rule,
+        PolynomialField? field = null)
     {
+        Field = field;
         Potential = potentials[0];
         _potentials = potentials;
         Sites = sites;
@@ -73,6 +76,17 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
 
     /// <summary>The mixing rule that made the pair potentials (named in reports), or null when they were given.</summary>
     public string? MixingRule { get; }
+
+    /// <summary>A smooth energy added to the pair terms (eV; for example the Coulomb energy of an ion in its crystal's field, <see cref="CoulombSite"/>), or null.</summary>
+    public PolynomialField? Field { get; }
+
+    /// <summary>The same landscape with <paramref name="field"/> (eV) added to its energy.</summary>
+    /// <param name="field">The field, eV, fitted over at least the confinement.</param>
+    public SiteLandscape<TPotential> WithField(PolynomialField field)
+    {
+        Preconditions.CheckNotNull(field, nameof(field));
+        return new SiteLandscape<TPotential>(_potentials, Sites, SiteSpecies, Centre, Confinement, MixingRule, field);
+    }
 
     /// <summary>Runs of consecutive sites that share one species and potential: the kernels evaluate a group's potential for all its sites.</summary>
     internal ImmutableArray<(int Start, int Count)> Groups { get; }
@@ -115,7 +129,7 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
             double dx = position.X - c[i], dy = position.Y - c[i + 1], dz = position.Z - c[i + 2];
             sum += _potentials[i / 3].EnergyAtSquaredDistance(dx * dx + dy * dy + dz * dz);
         }
-        return sum;
+        return Field is null ? sum : sum + Field.Value(position);
     }
 
     /// <summary>The gradient ∂E/∂x at <paramref name="position"/>, eV/Å.</summary>
@@ -131,6 +145,10 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
             gx += f * d.X;
             gy += f * d.Y;
             gz += f * d.Z;
+        }
+        if (Field is { } field)
+        {
+            (gx, gy, gz) = (gx + field.Derivative(position, 1, 0, 0), gy + field.Derivative(position, 0, 1, 0), gz + field.Derivative(position, 0, 0, 1));
         }
         return new Position(gx, gy, gz);
     }
@@ -155,6 +173,7 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
                 }
             }
         }
+        AddField(position, 2, (index, value) => h[index[0], index[1]] += value);
         return h;
     }
 
@@ -187,6 +206,7 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
                 }
             }
         }
+        AddField(position, 3, (index, value) => t[index[0], index[1], index[2]] += value);
         return t;
     }
 
@@ -227,7 +247,30 @@ public sealed class SiteLandscape<TPotential> where TPotential : struct, IPairPo
                 }
             }
         }
+        AddField(position, 4, (index, value) => f[index[0], index[1], index[2], index[3]] += value);
         return f;
+    }
+
+    /// <summary>Adds the field's derivatives of <paramref name="order"/> at every index tuple (each axis 0–2) through <paramref name="add"/>.</summary>
+    private void AddField(Position position, int order, Action<int[], double> add)
+    {
+        if (Field is not { } field)
+        {
+            return;
+        }
+        var index = new int[order];
+        for (int flat = 0; flat < (int)Math.Pow(3, order); flat++)
+        {
+            int rest = flat;
+            var counts = new int[3];
+            for (int q = 0; q < order; q++)
+            {
+                index[q] = rest % 3;
+                counts[index[q]]++;
+                rest /= 3;
+            }
+            add(index, field.Derivative(position, counts[0], counts[1], counts[2]));
+        }
     }
 
     /// <summary>

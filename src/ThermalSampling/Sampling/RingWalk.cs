@@ -580,8 +580,11 @@ internal readonly struct SiteField<TOps, TD, TB, TPotential> : IBeadField<TD>
     private readonly double _size, _cx, _cy, _cz;
     private readonly bool _sphere;
 
-    internal SiteField(TPotential[] potentials, int[] ends, double[] sites, Confinement confinement, Position centre)
+    private readonly LaneField<TOps, TD, TB> _field;
+
+    internal SiteField(TPotential[] potentials, int[] ends, double[] sites, Confinement confinement, Position centre, PolynomialField? field = null)
     {
+        _field = new LaneField<TOps, TD, TB>(field);
         _potentials = potentials;
         _ends = ends;
         _sites = sites;
@@ -595,7 +598,11 @@ internal readonly struct SiteField<TOps, TD, TB, TPotential> : IBeadField<TD>
     public string Description => _potentials[0].Description;
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public TD Energy(TD x, TD y, TD z) => SiteSums.Energy<TOps, TD, TB, TPotential>(_potentials, _ends, _sites, x, y, z);
+    public TD Energy(TD x, TD y, TD z)
+    {
+        var e = SiteSums.Energy<TOps, TD, TB, TPotential>(_potentials, _ends, _sites, x, y, z);
+        return _field.IsEmpty ? e : TOps.Add(e, _field.Value(x, y, z));
+    }
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public TD Wall(TD x, TD y, TD z)

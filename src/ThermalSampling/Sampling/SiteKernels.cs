@@ -17,6 +17,7 @@ internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPair
     private readonly double[] _sites;
     private readonly TPotential[] _groupPotentials;
     private readonly int[] _groupEnds;
+    private readonly PolynomialField? _field;
     private readonly double _cx, _cy, _cz, _beta;
     private readonly Confinement _confinement;
     private readonly string _description;
@@ -26,6 +27,7 @@ internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPair
         _potential = landscape.Potential;
         _sites = landscape.PackedCoordinates.ToArray();
         (_groupPotentials, _groupEnds) = landscape.KernelGroups();
+        _field = landscape.Field;
         _cx = landscape.Centre.X;
         _cy = landscape.Centre.Y;
         _cz = landscape.Centre.Z;
@@ -53,6 +55,10 @@ internal readonly struct SiteWeight<TPotential> where TPotential : struct, IPair
                 double dx = x - s[i], dy = y - s[i + 1], dz = z - s[i + 2];
                 e += potential.EnergyAtSquaredDistance(dx * dx + dy * dy + dz * dz);
             }
+        }
+        if (_field is not null)
+        {
+            e += _field.Value(new Position(x, y, z));
         }
         if (double.IsNaN(e) || double.IsNegativeInfinity(e))
         {

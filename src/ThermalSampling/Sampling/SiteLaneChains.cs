@@ -29,7 +29,7 @@ internal static class SiteLaneChains
     internal sealed record Plan<TPotential>(TPotential Potential, double[] Sites, Position Centre, Confinement Confinement, Position Minimum,
         double L00, double L10, double L11, double L20, double L21, double L22, double Beta, double InitialScale, double TargetAcceptance,
         double MaxScale, double WallBand, long BurnIn, long Samples, ulong Seed, string Description, BasinGrid Basin, double[]? ChainBetas = null,
-        TPotential[]? GroupPotentials = null, int[]? GroupEnds = null)
+        TPotential[]? GroupPotentials = null, int[]? GroupEnds = null, PolynomialField? Field = null)
         : ISiteFrame where TPotential : struct, IPairPotential
     {
         /// <summary>Each run of sites' potential (one run of every site when the landscape has one species).</summary>
@@ -91,7 +91,7 @@ internal static class SiteLaneChains
             var plan = Plan;
             var start = Start;
             var settings = new EngineSettings(plan.BurnIn, plan.Samples, InitialWidth, MaxWidth, plan.TargetAcceptance, BlockSize, "RSGH", "LOGR", "site ring-polymer group");
-            var field = new SiteField<TOps, TD, TB, TPotential>(plan.Potentials, plan.Ends, plan.Sites, plan.Confinement, plan.Centre);
+            var field = new SiteField<TOps, TD, TB, TPotential>(plan.Potentials, plan.Ends, plan.Sites, plan.Confinement, plan.Centre, plan.Field);
             return new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, SiteField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
                 new(field, Ring.Beads, Ring.Segment, Ring.HbarSquaredOverMass, Ring.Moves), plan, c =>
                 {
@@ -372,6 +372,7 @@ internal static class SiteLaneChains
         private readonly int[] _ends;
         private readonly double[] _sites;
         private readonly LaneConfinement<TOps, TD, TB> _confinement;
+        private readonly LaneField<TOps, TD, TB> _field;
 
         internal SiteWalk(Plan<TPotential> plan)
         {
@@ -380,11 +381,16 @@ internal static class SiteLaneChains
             _ends = plan.Ends;
             _sites = plan.Sites;
             _confinement = new LaneConfinement<TOps, TD, TB>(plan.Confinement, plan.Centre, plan.WallBand);
+            _field = new LaneField<TOps, TD, TB>(plan.Field);
         }
 
-        /// <summary>Σ_sites V(|p − site|²) in every lane, summed site by site in the landscape's order, one potential per run of sites of a species.</summary>
+        /// <summary>Σ_sites V(|p − site|²) in every lane, summed site by site in the landscape's order, one potential per run of sites of a species; plus the landscape's field, when it has one.</summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private TD Energy(TD x, TD y, TD z) => SiteSums.Energy<TOps, TD, TB, TPotential>(_potentials, _ends, _sites, x, y, z);
+        private TD Energy(TD x, TD y, TD z)
+        {
+            var e = SiteSums.Energy<TOps, TD, TB, TPotential>(_potentials, _ends, _sites, x, y, z);
+            return _field.IsEmpty ? e : TOps.Add(e, _field.Value(x, y, z));
+        }
 
         public void Start(ref SiteWalkState<TD, TB> state)
         {
@@ -725,6 +731,60 @@ internal static class SiteLaneChains
 }
 
 // Stryker disable all : vector-lane kernel, in no mutation mode (eng/mutation-testing.sh); LaneKernelTests checks it bit for bit
+/// <summary>
+/// A <see cref="PolynomialField"/> in every lane: the powers of the displacement from its centre (kept in a scratch array
+/// the walk owns), then Σ c·u_x^a u_y^b u_z^c term by term in the fit's order (the same bits at every width).
+/// </summary>
+internal readonly struct LaneField<TOps, TD, TB>
+    where TOps : struct, ILaneOps<TD, TB>
+    where TD : struct
+    where TB : struct
+{
+    private readonly int[] _a = [], _b = [], _c = [];
+    private readonly double[] _coefficients = [];
+    private readonly double _cx, _cy, _cz;
+    private readonly int _degree;
+    private readonly TD[] _powers = [];
+
+    internal LaneField(PolynomialField? field)
+    {
+        if (field is null)
+        {
+            return;
+        }
+        (_a, _b, _c, _coefficients) = field.Terms;
+        (_cx, _cy, _cz) = (field.Centre.X, field.Centre.Y, field.Centre.Z);
+        _degree = field.Degree;
+        _powers = new TD[3 * (_degree + 1)];
+    }
+
+    internal bool IsEmpty => _coefficients.Length == 0;
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal TD Value(TD x, TD y, TD z)
+    {
+        var p = _powers;
+        int n = _degree + 1;
+        var one = TOps.Broadcast(1.0);
+        var ux = TOps.Subtract(x, TOps.Broadcast(_cx));
+        var uy = TOps.Subtract(y, TOps.Broadcast(_cy));
+        var uz = TOps.Subtract(z, TOps.Broadcast(_cz));
+        (p[0], p[n], p[2 * n]) = (one, one, one);
+        for (int k = 1; k < n; k++)
+        {
+            p[k] = TOps.Multiply(p[k - 1], ux);
+            p[n + k] = TOps.Multiply(p[n + k - 1], uy);
+            p[2 * n + k] = TOps.Multiply(p[2 * n + k - 1], uz);
+        }
+        var sum = TOps.Broadcast(0.0);
+        for (int t = 0; t < _coefficients.Length; t++)
+        {
+            sum = TOps.MultiplyAdd(TOps.Multiply(TOps.Broadcast(_coefficients[t]), p[_a[t]]), TOps.Multiply(p[n + _b[t]], p[2 * n + _c[t]]), sum);
+        }
+        return sum;
+    }
+}
+
 /// <summary>The site energy in every lane, shared by the site walk and the ring's site field.</summary>
 internal static class SiteSums
 {
