@@ -67,3 +67,27 @@ public class StructureSettingTests
         Assert.Equal(reference, Shells(xyz));
     }
 }
+
+/// <summary>The structure readers against the built-in lattice builder.</summary>
+public class StructureAgainstLatticeTests
+{
+    /// <summary>
+    /// An invented fcc metal written by hand as a CIF (one site, the four centring operations; nearest-neighbour distance
+    /// 3.5 Å) gives the same first two neighbour shells, position by position, as LatticeSites.NeighbourCage (12 at 3.5 Å,
+    /// then 6 at 4.95 Å).
+    /// </summary>
+    [Fact]
+    public void A_hand_written_fcc_cif_gives_the_lattice_builders_shells()
+    {
+        double a = 3.5 * Math.Sqrt(2);
+        string cif = FormattableString.Invariant($"data_invented_fcc\n_cell_length_a {a:R}\n_cell_length_b {a:R}\n_cell_length_c {a:R}\n_cell_angle_alpha 90\n_cell_angle_beta 90\n_cell_angle_gamma 90\n")
+            + "loop_\n_space_group_symop_operation_xyz\n'x, y, z'\n'x, y+1/2, z+1/2'\n'x+1/2, y, z+1/2'\n'x+1/2, y+1/2, z'\n"
+            + "loop_\n_atom_site_label\n_atom_site_type_symbol\n_atom_site_fract_x\n_atom_site_fract_y\n_atom_site_fract_z\nM1 M 0 0 0\n";
+        var structure = CifReader.Read(new StringReader(cif), "fcc.cif");
+        static string Key(Position p) => FormattableString.Invariant($"{Math.Round(p.X, 6) + 0.0},{Math.Round(p.Y, 6) + 0.0},{Math.Round(p.Z, 6) + 0.0}"); // + 0.0 turns −0 into 0
+        var fromCif = structure.NeighboursOf(0, Length.FromAngstroms(5.0)).Select(n => Key(n.Position - structure.Atoms[0].Position)).Order().ToList();
+        var built = LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(3.5), 2).Select(Key).Order().ToList();
+        Assert.Equal(18, built.Count);
+        Assert.Equal(built, fromCif);
+    }
+}
