@@ -83,6 +83,12 @@ internal sealed record LandscapeSpec(string Kind, double WindowLower, double Win
     /// <summary>For a structure with <c>pairs</c>: the moving atom's species.</summary>
     internal string? MovingSpecies { get; init; }
 
+    /// <summary>For a structure with <c>pairs</c> and <c>mixing</c>: the species whose pair with the moving atom was mixed from the like pairs.</summary>
+    internal ImmutableHashSet<string> Mixed { get; init; } = [];
+
+    /// <summary>The mixing rule applied (named in reports), or null.</summary>
+    internal string? MixingRule { get; init; }
+
     /// <summary>For a structure with <c>charges</c>: the charge of each species, e.</summary>
     internal ImmutableDictionary<string, double>? Charges { get; init; }
 
@@ -765,7 +771,8 @@ internal static class ScenarioReader
     /// </summary>
     private static LandscapeSpec? ReadStructure(Context c, JsonElement p, string path, double l, double e)
     {
-        c.CheckKeys(p, path, "kind", "xyz", "cif", "file", "atom", "atomLabel", "movingAtom", "cutoff", "species", "confinement", "pairs", "charges");
+        c.CheckKeys(p, path, "kind", "xyz", "cif", "file", "atom", "atomLabel", "movingAtom", "cutoff", "species", "confinement", "pairs", "charges", "mixing");
+        string? mixing = c.String(p, "mixing", path, false, "lorentz-berthelot", "geometric");
         ImmutableDictionary<string, double>? charges = null;
         if (p.TryGetProperty("charges", out var chargesElement))
         {
@@ -917,7 +924,7 @@ internal static class ScenarioReader
         }
         if (p.TryGetProperty("pairs", out var pairsElement))
         {
-            var pairs = ReadPairs(c, pairsElement, $"{path}.pairs", moving, structure, e, l);
+            var pairs = ReadPairs(c, pairsElement, $"{path}.pairs", moving, structure, e, l, mixing, out var mixed);
             if (pairs is null)
             {
                 return null;
@@ -929,6 +936,8 @@ internal static class ScenarioReader
                 MovingSpecies = moving,
                 Charges = charges,
                 CoulombField = coulomb,
+                Mixed = mixed,
+                MixingRule = mixed.Count == 0 ? null : mixing == "geometric" ? "geometric" : "Lorentz–Berthelot",
             };
         }
         if (kinds.Count > 1)
@@ -949,8 +958,11 @@ internal static class ScenarioReader
     /// returns the potential of each species with the moving atom's species (pairs not involving it are refused: only the
     /// moving atom's pairs act on it).
     /// </summary>
-    private static ImmutableDictionary<string, PotentialSpec>? ReadPairs(Context c, JsonElement array, string path, string moving, Structure structure, double e, double l)
+    private static ImmutableDictionary<string, PotentialSpec>? ReadPairs(Context c, JsonElement array, string path, string moving, Structure structure, double e, double l,
+        string? mixing, out ImmutableHashSet<string> mixed)
     {
+        mixed = [];
+        var like = new Dictionary<string, PotentialSpec>();
         if (array.ValueKind != JsonValueKind.Array || array.GetArrayLength() == 0)
         {
             c.Add(path, $"must be a non-empty array of {{\"between\": [species, species], \"potential\": {{…}}}}, not {Context.Describe(array)}.");
@@ -989,9 +1001,17 @@ internal static class ScenarioReader
                 c.Add($"{at}.potential.form", "a species pair takes lennard-jones, morse, buckingham or harmonic (a table serves one-species landscapes).");
                 ok = false;
             }
+            if (mixing is not null && between[0] == between[1] && potential is not null)
+            {
+                like[between[0]] = potential; // a like pair, for mixing
+            }
             if (!between.Contains(moving))
             {
-                c.Add($"{at}.between", $"[{between[0]}, {between[1]}] does not involve the moving atom's species '{moving}'; the fixed atoms do not move, so only the moving atom's pairs act.");
+                if (mixing is not null && between[0] == between[1])
+                {
+                    continue;
+                }
+                c.Add($"{at}.between", $"[{between[0]}, {between[1]}] does not involve the moving atom's species '{moving}'; the fixed atoms do not move, so only the moving atom's pairs act (like pairs such as [{between[0]}, {between[0]}] serve \"mixing\").");
                 ok = false;
                 continue;
             }
@@ -1007,7 +1027,45 @@ internal static class ScenarioReader
                 result[other] = potential;
             }
         }
+        if (ok && mixing is not null && like.TryGetValue(moving, out var own))
+        {
+            var made = ImmutableHashSet.CreateBuilder<string>();
+            foreach (var species in structure.Atoms.Select(a => a.Species).Distinct().Where(x => !result.ContainsKey(x) && like.ContainsKey(x)))
+            {
+                var mix = Mix(own, like[species], mixing);
+                if (mix is null)
+                {
+                    c.Add(path, $"\"mixing\": \"{mixing}\" cannot combine the [{moving}, {moving}] {own.Form} pair with the [{species}, {species}] {like[species].Form} pair (Lorentz–Berthelot mixes lennard-jones; geometric mixes buckingham or morse, each with its own form).");
+                    return null;
+                }
+                result[species] = mix;
+                made.Add(species);
+            }
+            mixed = made.ToImmutable();
+        }
         return ok ? result.ToImmutable() : null;
+    }
+
+    /// <summary>An unlike pair from two like pairs by the rule (null when the rule does not combine their forms).</summary>
+    private static PotentialSpec? Mix(PotentialSpec a, PotentialSpec b, string rule)
+    {
+        if (a.Form != b.Form)
+        {
+            return null;
+        }
+        var pa = a.Parameters;
+        var pb = b.Parameters;
+        double Sigma(ImmutableDictionary<string, double> q) => q.TryGetValue("sigma", out double s) ? s : q["equilibriumDistance"] / Math.Pow(2, 1.0 / 6);
+        double Epsilon(ImmutableDictionary<string, double> q) => q.TryGetValue("epsilon", out double s) ? s : q["wellDepth"];
+        ImmutableDictionary<string, double> Of(params (string Key, double Value)[] values) => values.ToImmutableDictionary(v => v.Key, v => v.Value);
+        return (rule, a.Form) switch
+        {
+            ("lorentz-berthelot", "lennard-jones") => new PotentialSpec("lennard-jones", Of(("sigma", 0.5 * (Sigma(pa) + Sigma(pb))), ("epsilon", Math.Sqrt(Epsilon(pa) * Epsilon(pb)))), [], []),
+            ("geometric", "buckingham") => new PotentialSpec("buckingham", Of(("A", Math.Sqrt(pa["A"] * pb["A"])), ("rho", 0.5 * (pa["rho"] + pb["rho"])), ("C", Math.Sqrt(pa["C"] * pb["C"]))), [], []),
+            ("geometric", "morse") => new PotentialSpec("morse", Of(("wellDepth", Math.Sqrt(pa["wellDepth"] * pb["wellDepth"])), ("width", 0.5 * (pa["width"] + pb["width"])),
+                ("equilibriumDistance", 0.5 * (pa["equilibriumDistance"] + pb["equilibriumDistance"]))), [], []),
+            _ => null,
+        };
     }
 
     private static Confinement? ReadConfinement(Context c, JsonElement p, string path, double l)

@@ -340,7 +340,7 @@ internal static class ScenarioRunner
         }
         var potentials = acting.Select(site => site.Second).Distinct()
             .ToDictionary(species => species, species => Make<TPotential>(l.Pairs![species], $"$.landscape.pairs[{l.MovingSpecies}, {species}].potential"));
-        return SiteLandscape.CreateWithSpecies(acting, potentials, l.Centre, l.Confinement!.Value);
+        return SiteLandscape.CreateWithSpecies(acting, potentials, l.Centre, l.Confinement!.Value, l.MixingRule);
     }
 
     /// <summary>The potential a spec names, as <typeparamref name="TPotential"/> (its own form's type, or <see cref="PairForm"/>).</summary>
@@ -383,7 +383,7 @@ internal static class ScenarioRunner
             string count = l.Pairs is null ? "" : $"{l.SiteSpecies.Count(x => x == s)} neighbours";
             if (l.Pairs is not null && l.Pairs.TryGetValue(s, out var spec))
             {
-                yield return $"{l.MovingSpecies}–{s}: short-range {spec.Form}{Coulomb(s)} ({count})";
+                yield return $"{l.MovingSpecies}–{s}: short-range {spec.Form}{(l.Mixed.Contains(s) ? $" ({l.MixingRule} mixing)" : "")}{Coulomb(s)} ({count})";
             }
             else if (Coulomb(s).Length > 0)
             {

@@ -170,4 +170,43 @@ public class CliStructureFileTests
             Directory.Delete(dir, recursive: true);
         }
     }
+
+    /// <summary>
+    /// Mixing: like pairs [Na, Na] and [Cl, Cl] (Lennard-Jones) with "mixing": "lorentz-berthelot" give the Na–Cl pair
+    /// σ = (σ_Na + σ_Cl)/2, ε = √(ε_Na ε_Cl): the same bits as that pair given by hand, and validate names the rule; a rule
+    /// that does not combine the forms is refused.
+    /// </summary>
+    [Fact]
+    public void Mixed_pairs_equal_the_pairs_given_by_hand()
+    {
+        string dir = Path.Combine(Path.GetTempPath(), $"ts-mixing-{Guid.NewGuid():N}");
+        Directory.CreateDirectory(dir);
+        try
+        {
+            File.WriteAllText(Path.Combine(dir, "salt.cif"), Cif);
+            string scenario = Path.Combine(dir, "scenario.json");
+            const string like = """[{ "between": ["Na", "Na"], "potential": { "form": "lennard-jones", "sigma": 2.4, "epsilon": 0.01 } }, { "between": ["Cl", "Cl"], "potential": { "form": "lennard-jones", "sigma": 3.2, "epsilon": 0.04 } }]""";
+            File.WriteAllText(scenario, PairsScenario(like).Replace("\"cutoff\": 3.6,", "\"cutoff\": 3.6, \"mixing\": \"lorentz-berthelot\",", StringComparison.Ordinal));
+            var (code, mixedOut, stderr) = RunArgs("run", scenario, "--format", "json", "--quiet");
+            Assert.True(code == 0, stderr);
+            (code, _, stderr) = RunArgs("validate", scenario);
+            Assert.Contains("pair Na–Cl: short-range lennard-jones (Lorentz–Berthelot mixing) (6 neighbours)", stderr);
+            string sigma = (0.5 * (2.4 + 3.2)).ToString("R", System.Globalization.CultureInfo.InvariantCulture);
+            string epsilon = Math.Sqrt(0.01 * 0.04).ToString("R", System.Globalization.CultureInfo.InvariantCulture);
+            string byHand = $$"""[{ "between": ["Na", "Cl"], "potential": { "form": "lennard-jones", "sigma": {{sigma}}, "epsilon": {{epsilon}} } }, { "between": ["Na", "Na"], "potential": { "form": "lennard-jones", "sigma": 2.4, "epsilon": 0.01 } }]""";
+            File.WriteAllText(scenario, PairsScenario(byHand));
+            (code, string handOut, stderr) = RunArgs("run", scenario, "--format", "json", "--quiet");
+            Assert.True(code == 0, stderr);
+            double Msd(string json) => JsonDocument.Parse(json).RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble();
+            Assert.Equal(Msd(handOut), Msd(mixedOut));
+            File.WriteAllText(scenario, PairsScenario(like).Replace("\"cutoff\": 3.6,", "\"cutoff\": 3.6, \"mixing\": \"geometric\",", StringComparison.Ordinal));
+            (code, _, stderr) = RunArgs("run", scenario, "--quiet");
+            Assert.Equal(2, code);
+            Assert.Contains("cannot combine the [Na, Na] lennard-jones pair", stderr);
+        }
+        finally
+        {
+            Directory.Delete(dir, recursive: true);
+        }
+    }
 }

@@ -72,4 +72,18 @@ public class SpeciesTests
         Assert.Equal(3.5, mixed.SigmaInAngstroms, 12);
         Assert.Equal(0.020, mixed.EpsilonInElectronVolts, 15);
     }
+
+    /// <summary>The geometric rules against hand values (common practice, no source): Buckingham √(A_i A_j), (ρ_i + ρ_j)/2, √(C_i C_j); Morse √(D_i D_j), (a_i + a_j)/2, (r_i + r_j)/2.</summary>
+    [Fact]
+    public void Geometric_mixing_matches_hand_values()
+    {
+        var b = MixingRules.Geometric(new Buckingham(Energy.FromElectronVolts(1000), Length.FromAngstroms(0.3), 4), new Buckingham(Energy.FromElectronVolts(4000), Length.FromAngstroms(0.2), 25));
+        Assert.Equal(2000, b.RepulsionPrefactorInElectronVolts, 9);
+        Assert.Equal(0.25, b.RhoInAngstroms, 12);
+        Assert.Equal(10, b.DispersionElectronVoltAngstrom6, 12);
+        var m = MixingRules.Geometric(new Morse(Energy.FromElectronVolts(0.1), 1.0, Length.FromAngstroms(2.0)), new Morse(Energy.FromElectronVolts(0.4), 2.0, Length.FromAngstroms(3.0)));
+        Assert.Equal(0.2, m.WellDepthInElectronVolts, 12);
+        Assert.Equal(1.5, m.WidthPerAngstrom, 12);
+        Assert.Equal(2.5, m.EquilibriumDistanceInAngstroms, 12);
+    }
 }

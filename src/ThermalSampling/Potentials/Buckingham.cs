@@ -66,6 +66,15 @@ public readonly struct Buckingham : IPairPotential
     /// <summary>The position of the short-range barrier (the spurious maximum), Å; 0 when C = 0.</summary>
     public double BarrierDistanceInAngstroms => _barrier;
 
+    /// <summary>The repulsion prefactor A, eV.</summary>
+    public double RepulsionPrefactorInElectronVolts => _a;
+
+    /// <summary>The repulsion length ρ, Å.</summary>
+    public double RhoInAngstroms => _rho;
+
+    /// <summary>The dispersion coefficient C, eV·Å⁶.</summary>
+    public double DispersionElectronVoltAngstrom6 => _c;
+
     /// <summary>The height of the barrier, V(barrier), eV; +∞ when C = 0.</summary>
     public double BarrierEnergyInElectronVolts => _c == 0 ? double.PositiveInfinity : Energy(_barrier);
 

@@ -291,4 +291,26 @@ public static class MixingRules
         => LennardJones.FromSigmaEpsilon(
             Length.FromAngstroms(0.5 * (first.SigmaInAngstroms + second.SigmaInAngstroms)),
             Energy.FromElectronVolts(Math.Sqrt(first.EpsilonInElectronVolts * second.EpsilonInElectronVolts)));
+
+    /// <summary>
+    /// The geometric rule for Buckingham pairs: A_ij = √(A_i A_j), ρ_ij = (ρ_i + ρ_j)/2, C_ij = √(C_i C_j) (common practice,
+    /// no source; one of several rules in use, named in reports when applied).
+    /// </summary>
+    /// <param name="first">The like-pair potential of species i.</param>
+    /// <param name="second">The like-pair potential of species j.</param>
+    public static Buckingham Geometric(Buckingham first, Buckingham second)
+        => new(Energy.FromElectronVolts(Math.Sqrt(first.RepulsionPrefactorInElectronVolts * second.RepulsionPrefactorInElectronVolts)),
+            Length.FromAngstroms(0.5 * (first.RhoInAngstroms + second.RhoInAngstroms)),
+            Math.Sqrt(first.DispersionElectronVoltAngstrom6 * second.DispersionElectronVoltAngstrom6));
+
+    /// <summary>
+    /// The geometric rule for Morse pairs: D_ij = √(D_i D_j), a_ij = (a_i + a_j)/2, r_ij = (r_i + r_j)/2 (common practice,
+    /// no source; named in reports when applied).
+    /// </summary>
+    /// <param name="first">The like-pair potential of species i.</param>
+    /// <param name="second">The like-pair potential of species j.</param>
+    public static Morse Geometric(Morse first, Morse second)
+        => new(Energy.FromElectronVolts(Math.Sqrt(first.WellDepthInElectronVolts * second.WellDepthInElectronVolts)),
+            0.5 * (first.WidthPerAngstrom + second.WidthPerAngstrom),
+            Length.FromAngstroms(0.5 * (first.EquilibriumDistanceInAngstroms + second.EquilibriumDistanceInAngstroms)));
 }
