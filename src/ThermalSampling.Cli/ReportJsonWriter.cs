@@ -146,6 +146,17 @@ internal static class ReportJsonWriter
             w.WriteString("frame", sf.Frame);
             w.WriteEndObject();
         }
+        var pairs = ScenarioRunner.PairSummary(s.Landscape).ToList();
+        if (pairs.Count > 0)
+        {
+            // A structure with species pairs or charges: how each neighbour species acts on the moving atom, so nothing is silently missing.
+            w.WriteStartArray("pairs");
+            foreach (string pair in pairs)
+            {
+                w.WriteStringValue(pair);
+            }
+            w.WriteEndArray();
+        }
         w.WriteEndObject();
     }
 

@@ -154,6 +154,8 @@ public class CliStructureFileTests
             (code, stdout, stderr) = RunArgs("run", scenario, "--format", "json", "--quiet");
             Assert.True(code == 0, stderr);
             double withCoulomb = JsonDocument.Parse(stdout).RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble();
+            var resolvedPairs = JsonDocument.Parse(stdout).RootElement.GetProperty("resolved").GetProperty("pairs").EnumerateArray().Select(p => p.GetString()).ToList();
+            Assert.Contains("Na–Na: Coulomb only (12 neighbours)", resolvedPairs);
             Assert.InRange(withCoulomb / pairsMsd, 0.8, 1.25);
             (code, _, stderr) = RunArgs("validate", scenario);
             Assert.Equal(0, code);

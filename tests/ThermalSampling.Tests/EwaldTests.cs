@@ -142,3 +142,35 @@ public class CoulombSiteTests
         Assert.InRange(report.MeanSquareDisplacement.Value / report.Harmonic.ClassicalMeanSquareDisplacement, 0.97, 1.03);
     }
 }
+
+/// <summary>The C# builder of a structure site: the same landscape a scenario's structure landscape builds.</summary>
+public class StructureSiteBuilderTests
+{
+    private static readonly Structure Salt = new(
+        [.. new (string S, double X, double Y, double Z, string L)[] { ("Na", 0, 0, 0, "Na1"), ("Na", 0, 0.5, 0.5, "Na1"), ("Na", 0.5, 0, 0.5, "Na1"), ("Na", 0.5, 0.5, 0, "Na1"),
+            ("Cl", 0.5, 0, 0, "Cl1"), ("Cl", 0, 0.5, 0, "Cl1"), ("Cl", 0, 0, 0.5, "Cl1"), ("Cl", 0.5, 0.5, 0.5, "Cl1") }
+            .Select(f => new StructureAtom(f.S, new Position(5.0 * f.X, 5.0 * f.Y, 5.0 * f.Z), f.L))],
+        [new Position(5, 0, 0), new Position(0, 5, 0), new Position(0, 0, 5)], "invented rock-salt-like cell, a = 5 Å");
+
+    /// <summary>
+    /// The builder's Na site (Cl pairs by an invented Lennard-Jones, charges ±1): its energy is the hand sum of the six Cl
+    /// pair terms plus the Ewald energy of the ion (within the fit's stated error); missing steps and unknown names are refused.
+    /// </summary>
+    [Fact]
+    public void The_builder_gives_pairs_plus_the_Coulomb_term()
+    {
+        var lj = LennardJones.FromMinimum(Length.FromAngstroms(2.5), Energy.FromElectronVolts(0.02));
+        var charges = new Dictionary<string, double> { ["Na"] = 1, ["Cl"] = -1 };
+        var site = new StructureSiteBuilder(Salt).MovingAtom("Na1").Cutoff(Length.FromAngstroms(3.6)).Pair("Cl", PairForm.From(lj)).Charges(charges)
+            .Confinement(Confinement.Sphere(Length.FromAngstroms(0.5))).Build();
+        Assert.Equal(6, site.Sites.Length); // the twelve Na neighbours have no pair: left out (the Coulomb field covers every ion)
+        var x = new Position(0.1, -0.05, 0.2);
+        double pairs = Salt.NeighboursOf(0, Length.FromAngstroms(3.6)).Where(n => n.Species == "Cl").Sum(n => lj.Energy((x - n.Position).Norm));
+        double coulomb = EwaldField.Create(Salt, charges).PotentialInVolts(x, 0);
+        Assert.Equal(pairs + coulomb, site.Energy(x), 2e-4);
+        Assert.NotNull(site.Field);
+        Assert.Throws<ArgumentException>(() => new StructureSiteBuilder(Salt).MovingAtom("K1"));
+        Assert.Throws<ArgumentException>(() => new StructureSiteBuilder(Salt).Pair("K", PairForm.None));
+        Assert.Throws<InvalidOperationException>(() => new StructureSiteBuilder(Salt).MovingAtom(0).Build());
+    }
+}
