@@ -12,29 +12,7 @@ namespace ThermalSampling.Tests;
 public class CliStructureFileTests
 {
     /// <summary>An invented rock-salt-like crystal (cell 5.0 Å; labels Na1 and Cl1, type symbols Na and Cl), for the test only.</summary>
-    private const string Cif = """
-        data_invented_rocksalt
-        _cell_length_a    5.0
-        _cell_length_b    5.0
-        _cell_length_c    5.0
-        _cell_angle_alpha 90
-        _cell_angle_beta  90
-        _cell_angle_gamma 90
-        loop_
-        _space_group_symop_operation_xyz
-        'x, y, z'
-        'x, y+1/2, z+1/2'
-        'x+1/2, y, z+1/2'
-        'x+1/2, y+1/2, z'
-        loop_
-        _atom_site_label
-        _atom_site_type_symbol
-        _atom_site_fract_x
-        _atom_site_fract_y
-        _atom_site_fract_z
-        Na1 Na 0.0 0.0 0.0
-        Cl1 Cl 0.5 0.5 0.5
-        """;
+    private const string Cif = InventedStructures.RockSaltCif;
 
     private static string Scenario(string file, string moving) => $$"""
         {

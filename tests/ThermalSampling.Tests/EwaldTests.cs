@@ -72,11 +72,7 @@ public class EwaldTests
 /// <summary>The Coulomb term of an ion at its site, in the hot loop's polynomial form, against Ewald and inside a site landscape.</summary>
 public class CoulombSiteTests
 {
-    private static readonly Structure Salt = new(
-        [.. new (string S, double X, double Y, double Z)[] { ("Na", 0, 0, 0), ("Na", 0, 0.5, 0.5), ("Na", 0.5, 0, 0.5), ("Na", 0.5, 0.5, 0),
-            ("Cl", 0.5, 0, 0), ("Cl", 0, 0.5, 0), ("Cl", 0, 0, 0.5), ("Cl", 0.5, 0.5, 0.5) }
-            .Select(f => new StructureAtom(f.S, new Position(5.0 * f.X, 5.0 * f.Y, 5.0 * f.Z)))],
-        [new Position(5, 0, 0), new Position(0, 5, 0), new Position(0, 0, 5)], "invented rock-salt-like cell, a = 5 Å");
+    private static readonly Structure Salt = InventedStructures.RockSalt;
 
     private static readonly Dictionary<string, double> Charges = new() { ["Na"] = 1, ["Cl"] = -1 };
 
@@ -146,11 +142,7 @@ public class CoulombSiteTests
 /// <summary>The C# builder of a structure site: the same landscape a scenario's structure landscape builds.</summary>
 public class StructureSiteBuilderTests
 {
-    private static readonly Structure Salt = new(
-        [.. new (string S, double X, double Y, double Z, string L)[] { ("Na", 0, 0, 0, "Na1"), ("Na", 0, 0.5, 0.5, "Na1"), ("Na", 0.5, 0, 0.5, "Na1"), ("Na", 0.5, 0.5, 0, "Na1"),
-            ("Cl", 0.5, 0, 0, "Cl1"), ("Cl", 0, 0.5, 0, "Cl1"), ("Cl", 0, 0, 0.5, "Cl1"), ("Cl", 0.5, 0.5, 0.5, "Cl1") }
-            .Select(f => new StructureAtom(f.S, new Position(5.0 * f.X, 5.0 * f.Y, 5.0 * f.Z), f.L))],
-        [new Position(5, 0, 0), new Position(0, 5, 0), new Position(0, 0, 5)], "invented rock-salt-like cell, a = 5 Å");
+    private static readonly Structure Salt = InventedStructures.RockSalt;
 
     /// <summary>
     /// The builder's Na site (Cl pairs by an invented Lennard-Jones, charges ±1): its energy is the hand sum of the six Cl

@@ -16,30 +16,7 @@ namespace ThermalSampling.Tests;
 /// </summary>
 public class StructureFuzzTests
 {
-    private const string Cif = """
-        data_invented_rocksalt
-        _cell_length_a    5.0
-        _cell_length_b    5.0
-        _cell_length_c    5.0
-        _cell_angle_alpha 90
-        _cell_angle_beta  90
-        _cell_angle_gamma 90
-        loop_
-        _space_group_symop_operation_xyz
-        'x, y, z'
-        'x, y+1/2, z+1/2'
-        'x+1/2, y, z+1/2'
-        'x+1/2, y+1/2, z'
-        loop_
-        _atom_site_label
-        _atom_site_type_symbol
-        _atom_site_fract_x
-        _atom_site_fract_y
-        _atom_site_fract_z
-        _atom_site_occupancy
-        Na1 Na 0.0 0.0 0.0 1.0
-        Cl1 Cl 0.5 0.5 0.5 1
-        """;
+    private const string Cif = InventedStructures.RockSaltCif;
 
     private const string Xyz = "3\nLattice=\"5 0 0 0 5 0 0 0 5\" invented\nNa 0 0 0\nCl 2.5 0 0\nNa 2.5 2.5 0\n";
 
