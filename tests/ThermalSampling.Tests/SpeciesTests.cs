@@ -86,4 +86,19 @@ public class SpeciesTests
         Assert.Equal(1.5, m.WidthPerAngstrom, 12);
         Assert.Equal(2.5, m.EquilibriumDistanceInAngstroms, 12);
     }
+
+    /// <summary>
+    /// The site symmetry respects species: the fcc cage is Oh with one species, but with its twelve neighbours split into
+    /// two species in alternating (001) layers the operations that swap the layers are lost and the group is D4h.
+    /// </summary>
+    [Fact]
+    public void Site_symmetry_maps_each_species_onto_itself()
+    {
+        var one = SiteLandscape.Create(Strong, Cage, Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.0)));
+        Assert.Equal("Oh", SiteSymmetry.Find(one, Position.Origin).PointGroup);
+        var layered = SiteLandscape.CreateWithSpecies(Cage.Select(p => (p, Math.Abs(p.Z) < 1e-9 ? "A" : "B")),
+            new Dictionary<string, LennardJones> { ["A"] = Strong, ["B"] = LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.020)) },
+            Position.Origin, Confinement.Sphere(Length.FromAngstroms(1.0)));
+        Assert.Equal("D4h", SiteSymmetry.Find(layered, Position.Origin).PointGroup);
+    }
 }

@@ -99,6 +99,9 @@ public sealed record SiteSymmetry(ImmutableArray<ImmutableArray<double>> Operati
         where TPotential : struct, IPairPotential
     {
         var sites = landscape.Sites.Select(s => s - minimum).ToArray();
+        // An operation must map every site onto a site of its own species (one species: onto any site).
+        var species = landscape.SiteSpecies;
+        var bySpecies = Enumerable.Range(0, sites.Length).GroupBy(i => species.IsDefaultOrEmpty ? "" : species[i]).Select(g => g.Select(i => sites[i]).ToArray()).ToArray();
         var centre = landscape.Centre - minimum;
         bool box = landscape.Confinement.Shape == ConfinementShape.Box;
         var found = new List<double[]>();
@@ -108,7 +111,7 @@ public sealed record SiteSymmetry(ImmutableArray<ImmutableArray<double>> Operati
             {
                 continue; // a box is kept only by signed permutations
             }
-            if (!Maps(op, centre, [centre]) || !sites.All(s => Maps(op, s, sites)))
+            if (!Maps(op, centre, [centre]) || !bySpecies.All(group => group.All(s => Maps(op, s, group))))
             {
                 continue;
             }
