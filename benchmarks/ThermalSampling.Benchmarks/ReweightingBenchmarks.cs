@@ -37,3 +37,26 @@ public class ReweightingBenchmarks
     [Benchmark]
     public double ReweightOntoTwoHundred() => Reweighting.Pair(Line, _runs, _targets).Sum(r => r.Variance.Value);
 }
+
+/// <summary>
+/// A 1000-point sweep with no sampling (target: at most 2 s): the exact quadrature, the harmonic and the first-order
+/// estimates of an invented Lennard-Jones line (15 meV at 3.5 Å, 50 u, on [3.0, 5.0] Å) at 1000 temperatures from 1 to
+/// 100 K. Baseline: the exact quadrature alone, in the same run.
+/// </summary>
+[MemoryDiagnoser]
+public class AnalysisSweepBenchmarks
+{
+    private static readonly PairLandscape<LennardJones> Line =
+        PairLandscape.Line(LennardJones.FromMinimum(Length.FromAngstroms(3.5), Energy.FromElectronVolts(0.015)), Length.FromAngstroms(3.0), Length.FromAngstroms(5.0));
+    private static readonly Temperature[] Temperatures = [.. Enumerable.Range(0, 1000).Select(i => Temperature.FromKelvin(1 + 99.0 * i / 999))];
+
+    /// <summary>Exact quadrature only.</summary>
+    [Benchmark(Baseline = true)]
+    public double ExactOnly() => Temperatures.Sum(t => Analysis.ExactPairDistribution.Compute(Line, t).VarianceInAngstromsSquared);
+
+    /// <summary>Exact, harmonic and first order at every temperature.</summary>
+    [Benchmark]
+    public double ExactHarmonicFirstOrder() => Temperatures.Sum(t => Analysis.ExactPairDistribution.Compute(Line, t).VarianceInAngstromsSquared
+        + Analysis.PairAnalysis.Harmonic(Line, Mass.FromAtomicMassUnits(50), t).ClassicalVarianceInAngstromsSquared
+        + Analysis.PairAnalysis.FirstOrder(Line, t).VarianceInAngstromsSquared);
+}
