@@ -110,7 +110,7 @@ public static class Reweighting
     }
 
     /// <summary>A target and the indices of the runs that bracket it (equal when it was sampled).</summary>
-    private readonly record struct Target(Temperature At, int Lower, int Upper);
+    private readonly record struct Target(Temperature At, int Lower, int Upper, double Overlap);
 
     private static List<TemperatureRecord> Check(IReadOnlyList<TemperatureRecord> records, string kind, string fingerprint)
     {
@@ -148,7 +148,7 @@ public static class Reweighting
             int exact = runs.FindIndex(r => r.Temperature.InKelvin == k);
             if (exact >= 0)
             {
-                list.Add(new Target(t, exact, exact));
+                list.Add(new Target(t, exact, exact, 1));
                 continue;
             }
             if (k < lo || k > hi)
@@ -174,7 +174,7 @@ public static class Reweighting
                     runs[upper - 1].Temperature.InKelvin, runs[upper].Temperature.InKelvin, overlap, MinimumOverlap));
                 continue;
             }
-            list.Add(new Target(t, upper - 1, upper));
+            list.Add(new Target(t, upper - 1, upper, overlap));
         }
         if (refused.Count > 0)
         {
@@ -197,7 +197,7 @@ public static class Reweighting
             int units = (Math.Max(a.Chains.Max(c => c.Chain), b.Chains.Max(c => c.Chain)) + 1) * EnergyBinSums.Groups;
             var solutions = new HistogramReweighting.Pair[units + 1];
             System.Threading.Tasks.Parallel.For(-1, units, skip => solutions[skip + 1] = HistogramReweighting.Solve(a.Chains, betaA, b.Chains, betaB, skip));
-            entry = ([.. solutions], p.Lower == p.Upper ? 1 : HistogramReweighting.Overlap(a.Chains, b.Chains));
+            entry = ([.. solutions], p.Overlap); // measured once, when the target was planned
             solved[(p.Lower, p.Upper)] = entry;
         }
         double beta = 1 / p.At.ThermalEnergyInElectronVolts;

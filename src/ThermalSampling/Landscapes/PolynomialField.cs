@@ -120,6 +120,13 @@ public sealed class PolynomialField
     public double Derivative(Position position, int i, int j, int k)
     {
         var u = position - Centre;
+        // Powers of each component once (no Math.Pow per term: the basin map evaluates this at up to 81³ points).
+        Span<double> px = stackalloc double[Degree + 1], py = stackalloc double[Degree + 1], pz = stackalloc double[Degree + 1];
+        (px[0], py[0], pz[0]) = (1, 1, 1);
+        for (int q = 1; q <= Degree; q++)
+        {
+            (px[q], py[q], pz[q]) = (px[q - 1] * u.X, py[q - 1] * u.Y, pz[q - 1] * u.Z);
+        }
         double sum = 0;
         for (int t = 0; t < _coefficients.Length; t++)
         {
@@ -127,8 +134,7 @@ public sealed class PolynomialField
             {
                 continue;
             }
-            sum += _coefficients[t] * Falling(_a[t], i) * Falling(_b[t], j) * Falling(_c[t], k)
-                * Math.Pow(u.X, _a[t] - i) * Math.Pow(u.Y, _b[t] - j) * Math.Pow(u.Z, _c[t] - k);
+            sum += _coefficients[t] * Falling(_a[t], i) * Falling(_b[t], j) * Falling(_c[t], k) * px[_a[t] - i] * py[_b[t] - j] * pz[_c[t] - k];
         }
         return sum;
     }

@@ -286,7 +286,8 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
     private readonly long[] _counts, _energyCounts, _rwCounts;
     private readonly ulong[] _index;
     private readonly double[] _scratch, _kept, _rwSums, _rwScratch;
-    private readonly long _keptStride, _done, _retain, _samples;
+    private readonly long _keptStride, _done, _retain, _samples, _nextGroupStart;
+    private readonly int _group;
 
     /// <param name="tally">The group's tally.</param>
     /// <param name="done">Recorded steps before the chunk.</param>
@@ -308,6 +309,10 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
             _rwScale = TOps.Set(_rwScale, lane, tally.RwScales[lane]);
         }
         (_rwCounts, _rwSums, _rwScratch, _samples) = (tally.RwCounts, tally.RwSums, tally.RwScratch, tally.Samples);
+        // The reweighting group of the chunk's first draw, and where the next begins (⌈(g + 1)N/G⌉): within a chunk the
+        // group is then a comparison, not a division per counted draw.
+        _group = EnergyBinSums.GroupOf(done, _samples);
+        _nextGroupStart = ((_group + 1) * _samples + EnergyBinSums.Groups - 1) / EnergyBinSums.Groups;
         (_counts, _energyCounts, _index, _scratch, _kept) = (tally.Counts, tally.EnergyCounts, tally.Index, tally.Scratch, tally.Kept);
         BatchSums = tally.BatchSums;
         _keptStride = tally.Retained;
@@ -355,7 +360,7 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
         var scratch = _rwScratch;
         TOps.Store(FineSlot(de), ref scratch[0]);
         TOps.Store(b, ref scratch[TOps.Count]);
-        int group = EnergyBinSums.GroupOf(_done + j, _samples);
+        int group = Group(_done + j);
         for (int lane = 0; lane < Lanes; lane++)
         {
             int slot = (lane * EnergyBinSums.Groups + group) * EnergyBinSums.Slots + (int)scratch[lane];
@@ -380,12 +385,13 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
         TOps.Store(ux, ref scratch[n]);
         TOps.Store(uy, ref scratch[2 * n]);
         TOps.Store(uz, ref scratch[3 * n]);
-        int group = EnergyBinSums.GroupOf(_done + j, _samples);
+        int group = Group(_done + j);
         for (int lane = 0; lane < Lanes; lane++)
         {
-            int at = 9 * ((lane * EnergyBinSums.Groups + group) * EnergyBinSums.Slots + (int)scratch[lane]);
+            int slot = (lane * EnergyBinSums.Groups + group) * EnergyBinSums.Slots + (int)scratch[lane];
+            int at = 9 * slot;
             double x = scratch[n + lane], y = scratch[2 * n + lane], z = scratch[3 * n + lane];
-            _rwCounts[at / 9]++;
+            _rwCounts[slot]++;
             var sums = _rwSums;
             sums[at] += x;
             sums[at + 1] += y;
@@ -398,6 +404,10 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
             sums[at + 8] += y * z;
         }
     }
+
+    /// <summary>The reweighting group of recorded draw <paramref name="index"/> (a division only past the chunk's first group boundary).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private int Group(long index) => index < _nextGroupStart ? _group : EnergyBinSums.GroupOf(index, _samples);
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private TD FineSlot(TD de)

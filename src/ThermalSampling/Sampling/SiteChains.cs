@@ -55,10 +55,11 @@ internal static class SiteChains
         ChainRecord NewRecord(int c) => new(layout, c, binWidth);
         ProgressReporter NewReporter(int c) => new(progress, c, (metropolis ? settings.BurnIn : 0) + settings.SamplesPerChain, temperature.InKelvin);
 
+        var (groupPotentials, groupEnds) = landscape.KernelGroups();
         SiteLaneChains.Plan<TPotential>? plan = metropolis ? new(landscape.Potential, landscape.PackedCoordinates.ToArray(), landscape.Centre, landscape.Confinement,
             min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, wallBand,
             settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description, basin, null,
-            landscape.KernelGroups().Potentials, landscape.KernelGroups().Ends, landscape.Field) : null;
+            groupPotentials, groupEnds, landscape.Field) : null;
         var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
             (lanes, first, end, checkpoints, g) => ring is null
                 ? SiteLaneChains.Run(lanes, plan!, first, end, c => StartOfChain(landscape, min, cholesky, settings.Seed, c), NewRecord, NewReporter, checkpoints, g, cancellationToken)
