@@ -1,6 +1,7 @@
 using System;
 using System.Collections.Generic;
 using System.Collections.Immutable;
+using System.Linq;
 using System.Threading;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
@@ -37,6 +38,7 @@ public static class PairSampler
         where TPotential : struct, IPairPotential
     {
         RunArguments.Check(landscape, settings, mass, temperature);
+        RunArguments.CheckOneTemperature(settings);
         return RunOne(landscape, mass, temperature, settings, progress, cancellationToken, null, 0);
     }
 
@@ -108,12 +110,35 @@ public static class PairSampler
         SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session, int temperatureIndex,
         ChainRange range)
         where TPotential : struct, IPairPotential
+        => PlanOne(landscape, references, temperature, settings, progress, 0).Run(range, session, temperatureIndex, cancellationToken);
+
+    /// <summary>The plan of one temperature's chains (target acceptance, first width, batch reference from the exact distribution).</summary>
+    private static TemperaturePlan PlanOne<TPotential>(PairLandscape<TPotential> landscape, PairSummary.References references, Temperature temperature,
+        SamplingSettings settings, IProgress<SamplingProgress>? progress, int streamOffset)
+        where TPotential : struct, IPairPotential
     {
         double target = settings.TargetAcceptance ?? DefaultTargetAcceptance;
         double width0 = settings.InitialStepWidthInAngstroms ?? references.Harmonic?.ClassicalRmsInAngstroms ?? landscape.WindowWidthInAngstroms / 10;
         width0 = Math.Min(width0, landscape.WindowWidthInAngstroms);
-        return PairChains.Sample(landscape, references.Exact, references.Well?.EquilibriumDistanceInAngstroms ?? references.Exact.MeanInAngstroms, width0, target,
-            temperature, settings, progress, cancellationToken, session, temperatureIndex, range);
+        return PairChains.Plan(landscape, references.Exact, references.Well?.EquilibriumDistanceInAngstroms ?? references.Exact.MeanInAngstroms, width0, target,
+            temperature, settings, progress, streamOffset: streamOffset);
+    }
+
+    /// <summary>Every temperature of <paramref name="list"/> as one replica-exchange ladder: rung k's chains draw from streams k·C + c; each rung summarised as a plain run, with its swaps.</summary>
+    private static ImmutableArray<PairVibrationReport> RunLadder<TPotential>(PairLandscape<TPotential> landscape, Mass mass, List<Temperature> list,
+        SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session)
+        where TPotential : struct, IPairPotential
+    {
+        var references = list.Select(t => PairSummary.Analyse(landscape, mass, t)).ToArray();
+        var plans = list.Select((t, k) => PlanOne(landscape, references[k], t, settings, progress, TemperatureLadder.StreamOffset(k, settings.Chains))).ToArray();
+        var (records, tallies) = TemperatureLadder.RunPlans(plans, [.. list.Select(t => 1 / t.ThermalEnergyInElectronVolts)], settings, session, cancellationToken);
+        ImmutableArray<double> ladder = [.. list.Select(t => t.InKelvin)];
+        return [.. list.Select((t, k) =>
+        {
+            var report = PairSummary.Summarise(landscape, mass, t, settings, references[k], records[k]);
+            var swaps = LadderSummary.Diagnostics(k, ladder, tallies);
+            return report with { Diagnostics = report.Diagnostics with { ReplicaExchange = swaps }, Warnings = LadderSummary.Warnings(report.Warnings, swaps) };
+        })];
     }
 
     /// <summary>Runs the sampler at several temperatures with the same settings (the seed is shared; each temperature is an independent run).</summary>
@@ -127,7 +152,8 @@ public static class PairSampler
     public static ImmutableArray<PairVibrationReport> Sweep<TPotential>(PairLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
         SamplingSettings settings, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
-        => Sweeps.Plain(temperatures, t => Run(landscape, mass, t, settings, progress, cancellationToken));
+        => Sweeps.Plain(landscape, mass, temperatures, settings, t => Run(landscape, mass, t, settings, progress, cancellationToken), Identity,
+            (list, session) => RunLadder(landscape, mass, list, settings, progress, cancellationToken, session));
 
     /// <summary>
     /// Runs the sweep and writes checkpoints as <paramref name="checkpoints"/> says, so that an interrupted sweep can be finished
@@ -146,7 +172,8 @@ public static class PairSampler
         SamplingSettings settings, CheckpointOptions checkpoints, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
         => Sweeps.WithCheckpoints(landscape, mass, temperatures, settings, checkpoints, Identity,
-            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t),
+            (list, session) => RunLadder(landscape, mass, list, settings, progress, cancellationToken, session));
 
     /// <summary>
     /// Finishes the sweep that wrote <paramref name="checkpoint"/>: each chain continues from its saved state to the
@@ -170,7 +197,8 @@ public static class PairSampler
         CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
         => Sweeps.Resume(landscape, mass, temperatures, settings, checkpoint, checkpoints, Identity,
-            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t),
+            (list, session) => RunLadder(landscape, mass, list, settings, progress, cancellationToken, session));
 
     private static SweepIdentity Identity<TPotential>(PairLandscape<TPotential> landscape, Mass mass, List<Temperature> list, SamplingSettings settings)
         where TPotential : struct, IPairPotential

@@ -90,6 +90,7 @@ public static class PathIntegralSampler
         where TPotential : struct, IPairPotential
     {
         RunArguments.Check(landscape, settings, mass, temperature);
+        RunArguments.CheckOneTemperature(settings);
         CheckMethod(settings);
         var references = PairSummary.Analyse(landscape, mass, temperature);
         double ratio = references.Harmonic?.QuantumToThermalRatio ?? double.NaN;
@@ -180,6 +181,7 @@ public static class PathIntegralSampler
         where TPotential : struct, IPairPotential
     {
         RunArguments.Check(landscape, settings, mass, temperature);
+        RunArguments.CheckOneTemperature(settings);
         CheckMethod(settings);
         var harmonic = SiteAnalysis.Harmonic(landscape, mass, temperature);
         double ratio = harmonic.Modes.Max(m => m.QuantumToThermalRatio);

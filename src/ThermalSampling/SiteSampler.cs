@@ -1,6 +1,7 @@
 using System;
 using System.Collections.Generic;
 using System.Collections.Immutable;
+using System.Linq;
 using System.Threading;
 using ThermalSampling.Analysis;
 using ThermalSampling.Landscapes;
@@ -45,6 +46,7 @@ public static class SiteSampler
         where TPotential : struct, IPairPotential
     {
         RunArguments.Check(landscape, settings, mass, temperature);
+        RunArguments.CheckOneTemperature(settings);
         return RunOne(landscape, mass, temperature, settings, progress, cancellationToken, null, 0);
     }
 
@@ -89,18 +91,38 @@ public static class SiteSampler
         return SiteSummary.Summarise(landscape, mass, temperature, settings, harmonic, run);
     }
 
+    /// <summary>Every temperature of <paramref name="list"/> as one replica-exchange ladder (<see cref="PairSampler"/>'s ladder, about each rung's harmonic estimate).</summary>
+    private static ImmutableArray<SiteVibrationReport> RunLadder<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, List<Temperature> list,
+        SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken, CheckpointSession? session)
+        where TPotential : struct, IPairPotential
+    {
+        var harmonics = list.Select(t => SiteAnalysis.Harmonic(landscape, mass, t)).ToArray();
+        var plans = list.Select((t, k) => SiteChains.Plan(landscape, harmonics[k], settings.TargetAcceptance ?? DefaultTargetAcceptance, t, settings, progress,
+            streamOffset: TemperatureLadder.StreamOffset(k, settings.Chains))).ToArray();
+        var (records, tallies) = TemperatureLadder.RunPlans(plans, [.. list.Select(t => 1 / t.ThermalEnergyInElectronVolts)], settings, session, cancellationToken);
+        ImmutableArray<double> ladder = [.. list.Select(t => t.InKelvin)];
+        return [.. list.Select((t, k) =>
+        {
+            var report = SiteSummary.Summarise(landscape, mass, t, settings, harmonics[k], records[k]);
+            var swaps = LadderSummary.Diagnostics(k, ladder, tallies);
+            return report with { Diagnostics = report.Diagnostics with { ReplicaExchange = swaps }, Warnings = LadderSummary.Warnings(report.Warnings, swaps) };
+        })];
+    }
+
     /// <inheritdoc cref="PairSampler.Sweep{TPotential}(PairLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, IProgress{SamplingProgress}?, CancellationToken)"/>
     public static ImmutableArray<SiteVibrationReport> Sweep<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
         SamplingSettings settings, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
-        => Sweeps.Plain(temperatures, t => Run(landscape, mass, t, settings, progress, cancellationToken));
+        => Sweeps.Plain(landscape, mass, temperatures, settings, t => Run(landscape, mass, t, settings, progress, cancellationToken), Identity,
+            (list, session) => RunLadder(landscape, mass, list, settings, progress, cancellationToken, session));
 
     /// <inheritdoc cref="PairSampler.SweepWithCheckpoints{TPotential}(PairLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, CheckpointOptions, IProgress{SamplingProgress}?, CancellationToken)"/>
     public static ImmutableArray<SiteVibrationReport> SweepWithCheckpoints<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
         SamplingSettings settings, CheckpointOptions checkpoints, IProgress<SamplingProgress>? progress = null, CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
         => Sweeps.WithCheckpoints(landscape, mass, temperatures, settings, checkpoints, Identity,
-            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t),
+            (list, session) => RunLadder(landscape, mass, list, settings, progress, cancellationToken, session));
 
     /// <inheritdoc cref="PairSampler.Resume{TPotential}(PairLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, SamplingCheckpoint, CheckpointOptions?, IProgress{SamplingProgress}?, CancellationToken)"/>
     public static ImmutableArray<SiteVibrationReport> Resume<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, IEnumerable<Temperature> temperatures,
@@ -108,7 +130,8 @@ public static class SiteSampler
         CancellationToken cancellationToken = default)
         where TPotential : struct, IPairPotential
         => Sweeps.Resume(landscape, mass, temperatures, settings, checkpoint, checkpoints, Identity,
-            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t));
+            (list, session, t) => RunOne(landscape, mass, list[t], settings, progress, cancellationToken, session, t),
+            (list, session) => RunLadder(landscape, mass, list, settings, progress, cancellationToken, session));
 
     private static SweepIdentity Identity<TPotential>(SiteLandscape<TPotential> landscape, Mass mass, List<Temperature> list, SamplingSettings settings)
         where TPotential : struct, IPairPotential

@@ -73,7 +73,8 @@ public class CheckpointFormatTests
     /// temperature its group count and per group the steps done, the state's length (−1 for none) and the state.</summary>
     private sealed record Group(long Steps, byte[]? State);
 
-    private static List<(byte Status, List<Group> Groups)> ParseBody(byte[] body)
+    /// <summary>The body's temperatures (two in these tests), then its temperature-ladder section, which must be absent (length −1) and last.</summary>
+    private static List<(byte Status, List<Group> Groups)> ParseBody(byte[] body, int temperatures = 2)
     {
         var result = new List<(byte, List<Group>)>();
         int at = 0;
@@ -83,7 +84,7 @@ public class CheckpointFormatTests
             at += 8;
             return v;
         }
-        while (at < body.Length)
+        for (int t = 0; t < temperatures; t++)
         {
             byte status = body[at++];
             var groups = new List<Group>();
@@ -99,6 +100,8 @@ public class CheckpointFormatTests
             }
             result.Add((status, groups));
         }
+        Assert.Equal(-1, Next()); // no ladder
+        Assert.Equal(body.Length, at);
         return result;
     }
 
@@ -258,7 +261,7 @@ public class CheckpointFormatTests
             "length below -1" => (Patched(lengthAt, Long(-2)), "state of group 0 at temperature 1 has length -2, which does not fit the body."),
             "length past the end" => (Patched(lengthAt, Long(body.Length)), $"state of group 0 at temperature 1 has length {body.Length}, which does not fit the body."),
             "finished without state" => (Patched(lengthAt, Long(-1)), "has length -1, which does not fit the body."),
-            "extra byte" => ([.. body, 0], "body has bytes after its last temperature."),
+            "extra byte" => ([.. body, 0], "body has bytes after its temperature-ladder state."),
             "missing temperature" => (body[..(1 + 8 + 2 * 16 + firstLength + layout[0].Groups[1].State!.Length)], "body ends before its last temperature."),
             _ => (body[..(1 + 4)], "body ends early (its metadata and body disagree)."),
         };
@@ -526,6 +529,7 @@ public class CheckpointFormatTests
                 body.AddRange(g.State ?? []);
             }
         }
+        body.AddRange(Long(-1)); // no temperature ladder
         return [.. body];
     }
 

@@ -310,7 +310,7 @@ public sealed class CheckpointTests
         var other = Read(WithMetadata(bytes, "\"libraryVersion\":\"" + Provenance.CurrentLibraryVersion, "\"libraryVersion\":\"0.0.1"));
         var ex = Assert.Throws<CheckpointException>(() => PairSampler.Resume(Line, Argon, TwoTemperatures, settings, other));
         Assert.Contains("library version 0.0.1", ex.Message);
-        Assert.Contains("format version 5; this library reads version 6", Assert.Throws<CheckpointException>(() => Read(WithMetadata(bytes, "\"formatVersion\":6", "\"formatVersion\":5"))).Message); // a checkpoint of the layout before the reweighting sums
+        Assert.Contains("format version 6; this library reads version 7", Assert.Throws<CheckpointException>(() => Read(WithMetadata(bytes, "\"formatVersion\":7", "\"formatVersion\":6"))).Message); // a checkpoint of the layout before the temperature-ladder section
 
         var checkpoint = Read(bytes);
         Assert.Contains("temperatures are [30, 60] K, and this run's are [30, 61] K",

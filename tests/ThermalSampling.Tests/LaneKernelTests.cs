@@ -320,9 +320,9 @@ public sealed class LaneKernelTests
             => new(bond, 1.0, 2.0, beta, false, 0.05, 0.44, 0.5, 1000, samples, 17, betas);
         double[] DrawsOf(PairLaneChains.Plan<HarmonicBond> plan, int chain)
         {
-            var outcomes = PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.45 + 0.01 * c,
+            var outcomes = PairLaneChains.Build(lanes, plan, 0, lanes, c => 1.45 + 0.01 * c,
                 c => new ChainRecord(new RecordLayout(1, samples, 1024, (int)samples, [1.5], 0, 1.0, 2.0, 20, [], null), c, 1.0 / 1024),
-                c => new ProgressReporter(null, c, 1000 + samples, 300), GroupCheckpoints.None, 0, default);
+                c => new ProgressReporter(null, c, 1000 + samples, 300), GroupCheckpoints.None, 0, default).Run();
             return outcomes[chain].KeptSeparations.ToImmutable().ToArray();
         }
         var ladder = Enumerable.Range(0, lanes).Select(c => c % 2 == 0 ? cold : hot).ToArray();
@@ -345,9 +345,9 @@ public sealed class LaneKernelTests
     public void ANonFiniteEnergyStopsTheLaneKernelWithTheSeparation(double bad, int lanes)
     {
         var plan = new PairLaneChains.Plan<FaultyBand>(new FaultyBand(bad), 1.0, 2.0, 40.0, false, 0.3, 0.44, 1.0, 1000, 100_000, 5);
-        var ex = Assert.Throws<NonFiniteEnergyException>(() => PairLaneChains.Run(lanes, plan, 0, lanes, c => 1.2 + 0.05 * c,
+        var ex = Assert.Throws<NonFiniteEnergyException>(() => PairLaneChains.Build(lanes, plan, 0, lanes, c => 1.2 + 0.05 * c,
             c => new ChainRecord(new RecordLayout(1, 100_000, 1024, 0, [1.5], 0, 1.0, 2.0, 20, [], null), c, 1.0 / 1024),
-            c => new ProgressReporter(null, c, 101_000, 300), GroupCheckpoints.None, 0, default));
+            c => new ProgressReporter(null, c, 101_000, 300), GroupCheckpoints.None, 0, default).Run());
         Assert.InRange(ex.Separation, 1.55, 1.56);
         Assert.Contains("invented faulty band", ex.Message, StringComparison.Ordinal);
     }
@@ -363,9 +363,9 @@ public sealed class LaneKernelTests
             new BasinGrid(FaultyCentre.X - 0.25, FaultyCentre.Y - 0.25, FaultyCentre.Z - 0.25, 0.5, 2, new byte[8], AnyOutside: false)); // one basin: every point inside
 
     private static ChainRecord[] RunFaultySites(SiteLaneChains.Plan<FaultyBand> plan, int lanes, Func<int, Position> start)
-        => SiteLaneChains.Run(lanes, plan, 0, lanes, c => (RandomStream.ForChain(plan.Seed, c), start(c)),
+        => SiteLaneChains.Build(lanes, plan, 0, lanes, c => (RandomStream.ForChain(plan.Seed, c), start(c)),
             c => new ChainRecord(new RecordLayout(3, plan.Samples, 1024, 0, [FaultyCentre.X, FaultyCentre.Y, FaultyCentre.Z], 0, 0, 0.25, 20, [], new ShapeFrame(FaultyCentre, [new(1, 0, 0), new(0, 1, 0), new(0, 0, 1)], [0.25, 0.25, 0.25], 0.25, 20, ShapeFrame.SideFor(20))), c, 1.0 / 1024),
-            c => new ProgressReporter(null, c, plan.BurnIn + plan.Samples, 300), GroupCheckpoints.None, 0, default);
+            c => new ProgressReporter(null, c, plan.BurnIn + plan.Samples, 300), GroupCheckpoints.None, 0, default).Run();
 
     /// <summary>
     /// The site lane kernel notes a fault without its position and finds it again by replaying the chunk; the error must

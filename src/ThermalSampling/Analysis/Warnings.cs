@@ -52,4 +52,10 @@ public static class WarningCodes
 
     /// <summary>Over a sweep, a site's population moves between basins (a share changes by more than 0.1, or the most populated basin changes).</summary>
     public const string BasinPopulationShift = "basin-population-shift";
+
+    /// <summary>A replica-exchange rung swapped with its next-higher neighbour in fewer than 5 % of attempts: the ladder is too sparse there.</summary>
+    public const string SwapAcceptanceLow = "swap-acceptance-low";
+
+    /// <summary>No configuration of a replica-exchange ladder went from the coldest rung to the hottest and back during the recorded phase: the cold rungs may not have mixed.</summary>
+    public const string LadderNoRoundTrips = "ladder-no-round-trips";
 }

@@ -135,7 +135,25 @@ public sealed record SymmetrisedTensors(string PointGroup, int Operations, Symme
 /// <param name="BlockingStandardError">The standard error of the mean from Flyvbjerg–Petersen blocking (first coordinate for sites), a cross-check of the ESS-based one.</param>
 /// <param name="FinalStepWidthInAngstroms">The frozen Metropolis proposal width, averaged over chains; absent for direct sampling.</param>
 public sealed record SamplingDiagnostics(double? AcceptanceRate, double AutocorrelationTime, double EffectiveSampleSize, double? RHat, long Draws,
-    double BlockingStandardError, double? FinalStepWidthInAngstroms);
+    double BlockingStandardError, double? FinalStepWidthInAngstroms)
+{
+    /// <summary>The swaps of a replica-exchange ladder this temperature was a rung of; null for an independent run.</summary>
+    public ReplicaExchangeDiagnostics? ReplicaExchange { get; init; }
+}
+
+/// <summary>
+/// One rung of a replica-exchange ladder (<see cref="SamplingSettings.SwapInterval"/>): its swaps with the next-higher
+/// rung over the recorded phase, and how freely configurations travelled the whole ladder.
+/// </summary>
+/// <param name="Rung">The rung's index, 0 the coldest.</param>
+/// <param name="LadderInKelvin">Every rung's temperature, K, coldest first.</param>
+/// <param name="SwapInterval">Steps between swap attempts.</param>
+/// <param name="SwapAcceptance">Accepted over attempted swaps with the next-higher rung; null for the highest rung.</param>
+/// <param name="SwapAttempts">Swap attempts with the next-higher rung (0 for the highest).</param>
+/// <param name="RoundTrips">Configurations that went from the coldest rung to the hottest and back, counted over every replica set and the recorded phase.</param>
+/// <param name="MeanRoundTripSteps">The mean steps such a round trip took; null when none was completed.</param>
+public sealed record ReplicaExchangeDiagnostics(int Rung, ImmutableArray<double> LadderInKelvin, long SwapInterval, double? SwapAcceptance, long SwapAttempts,
+    long RoundTrips, double? MeanRoundTripSteps);
 
 /// <summary>What produced a result.</summary>
 /// <param name="Seed">The run's seed.</param>

@@ -25,6 +25,16 @@ internal static class RunArguments
         PairAnalysis.CheckArguments(mass, temperature);
     }
 
+    /// <summary>Refuses settings that ask for replica exchange in a call that samples one temperature.</summary>
+    internal static void CheckOneTemperature(SamplingSettings settings)
+    {
+        if (settings is { SwapInterval: int interval })
+        {
+            throw new ArgumentException(string.Create(CultureInfo.InvariantCulture,
+                $"settings.SwapInterval = {interval} asks for replica exchange, which runs a ladder of temperatures together: call Sweep (or SweepWithCheckpoints) with at least two temperatures, or leave SwapInterval null."), nameof(settings));
+        }
+    }
+
     /// <summary>The mass the argument checks take where sampling needs none (classical sampling does not depend on the mass).</summary>
     internal static readonly Units.Mass NominalMass = Units.Mass.FromAtomicMassUnits(1);
 
@@ -32,6 +42,7 @@ internal static class RunArguments
     internal static ChainRange CheckPart(object landscape, SamplingSettings settings, Units.Temperature temperature, ChainRange? chains)
     {
         Check(landscape, settings, NominalMass, temperature);
+        CheckOneTemperature(settings);
         var range = chains ?? ChainRange.All(settings.Chains);
         range.Check(settings.Chains, nameof(chains));
         return range;
@@ -127,6 +138,35 @@ internal static class ChainRuns
         session?.End(temperatureIndex);
         return results;
     }
+}
+
+/// <summary>
+/// One temperature's chains planned but not yet run: run them as one temperature (<see cref="Run"/>), or build their lane
+/// groups for a temperature ladder (<see cref="BuildGroup"/>) and turn the finished records into the temperature's record
+/// (<see cref="Finish"/>).
+/// </summary>
+/// <param name="settings">The run's settings.</param>
+/// <param name="laneGroup">Builds the lane group of chains first … end − 1 at a lane width (Metropolis), or null for direct draws.</param>
+/// <param name="direct">Runs one chain of direct draws, or null for Metropolis.</param>
+/// <param name="finish">The temperature's record from its chains' records in chain order.</param>
+internal sealed class TemperaturePlan(SamplingSettings settings, TemperaturePlan.GroupBuilder? laneGroup,
+    Func<int, GroupCheckpoints, CancellationToken, ChainRecord>? direct, Func<ChainRecord[], TemperatureRecord> finish)
+{
+    /// <summary>Builds the lane group of chains <c>first</c> … <c>end</c> − 1 at <c>lanes</c> lanes (group index <c>group</c> in the checkpoints).</summary>
+    internal delegate LaneGroup GroupBuilder(int lanes, int first, int end, GroupCheckpoints checkpoints, int group, CancellationToken ct);
+
+    /// <summary>Runs the chains of <paramref name="range"/> as one temperature.</summary>
+    internal TemperatureRecord Run(ChainRange range, CheckpointSession? session, int temperatureIndex, CancellationToken ct)
+        => finish(ChainRuns.Run(settings, range, session, temperatureIndex, ct,
+            (lanes, first, end, checkpoints, g) => laneGroup!(lanes, first, end, checkpoints, g, ct).Run(),
+            (c, checkpoints) => direct!(c, checkpoints, ct)));
+
+    /// <summary>The lane group of chains <paramref name="first"/> … <paramref name="end"/> − 1, with no checkpoints or cancellation of its own (a ladder handles both).</summary>
+    internal LaneGroup BuildGroup(int lanes, int first, int end, int group)
+        => (laneGroup ?? throw new InvalidOperationException("Direct sampling has no lane groups."))(lanes, first, end, GroupCheckpoints.None, group, CancellationToken.None);
+
+    /// <summary>The temperature's record from every chain's record, in chain order.</summary>
+    internal TemperatureRecord Finish(ChainRecord[] records) => finish(records);
 }
 
 /// <summary>What a direct sampler draws: one independent draw into the record, with its proposals and acceptances counted there.</summary>

@@ -43,12 +43,15 @@ internal abstract class LaneGroupProgress : IResumableGroup
     private protected long Step;
     private protected int InBlock, InBatch;
 
-    public long ChainStepsDone => Live * (Phase switch
+    public long ChainStepsDone => Live * StepsDone;
+
+    /// <summary>Steps each chain of the group has done (burn-in included).</summary>
+    internal long StepsDone => Phase switch
     {
         GroupPhase.BurnIn => Step,
         GroupPhase.Recording => _burnIn + Step,
         _ => _burnIn + _samples,
-    });
+    };
 
     /// <summary>Recorded steps so far (the retained draws and histogram counts a checkpoint must hold).</summary>
     private protected long RecordedSteps => Phase switch { GroupPhase.BurnIn => 0, GroupPhase.Recording => Step, _ => _samples };
@@ -176,6 +179,7 @@ internal sealed class CheckpointSession
     private readonly byte[]?[]?[] _states;
     private readonly long[]?[] _steps;
     private readonly bool[] _finished;
+    private byte[]? _ladder;
     private int[] _served = [];
     private bool[] _running = [], _done = [];
     private int _generation, _written;
@@ -195,6 +199,7 @@ internal sealed class CheckpointSession
         _states = resumeFrom is null ? new byte[]?[]?[n] : resumeFrom.CopyStates();
         _finished = resumeFrom is null ? new bool[n] : resumeFrom.CopyFinished();
         _steps = resumeFrom is null ? new long[]?[n] : resumeFrom.CopySteps();
+        _ladder = resumeFrom?.LadderState;
         _due = Stopwatch.GetTimestamp(); // due at once: written at the first boundary after every running group has handed in its starting state
     }
 
@@ -219,6 +224,93 @@ internal sealed class CheckpointSession
             _done = new bool[groups];
         }
         return new GroupCheckpoints(this, temperature);
+    }
+
+    /// <summary>
+    /// Starts a temperature ladder: every temperature at once, each with <paramref name="groups"/> groups. A ladder hands in
+    /// every group together (<see cref="DepositLadder"/>), never one by one.
+    /// </summary>
+    internal void BeginLadder(int groups)
+    {
+        lock (_lock)
+        {
+            for (int t = 0; t < _states.Length; t++)
+            {
+                var states = _states[t] ??= new byte[]?[groups];
+                if (states.Length != groups)
+                {
+                    throw new CheckpointException(string.Create(CultureInfo.InvariantCulture,
+                        $"The checkpoint holds {states.Length} chain groups for temperature {t + 1}; this run has {groups}."));
+                }
+                _steps[t] ??= new long[groups];
+            }
+            if (_states.Any(s => s!.Any(g => g is not null)) && _ladder is null)
+            {
+                throw new CheckpointException("The checkpoint holds chain groups but no temperature ladder state: it was written by a run without replica exchange.");
+            }
+        }
+    }
+
+    /// <summary>Group <paramref name="group"/> of temperature <paramref name="temperature"/>'s saved state, or null (a ladder's groups).</summary>
+    internal byte[]? SavedState(int temperature, int group)
+    {
+        lock (_lock)
+        {
+            return _states[temperature]?[group];
+        }
+    }
+
+    /// <summary>The saved state of a temperature ladder's swaps, or null.</summary>
+    internal byte[]? SavedLadder => _ladder;
+
+    /// <summary>Whether a checkpoint is due (a ladder asks where every group stands at the same step).</summary>
+    internal bool LadderCheckpointDue() => _options is not null && Stopwatch.GetTimestamp() >= Volatile.Read(ref _due);
+
+    /// <summary>
+    /// Hands in every group of a ladder (<paramref name="groups"/>[temperature][group]) and the swaps' state at once, all at
+    /// the same step; <paramref name="finished"/> marks every temperature done; with <paramref name="write"/> the checkpoint is written now.
+    /// </summary>
+    internal void DepositLadder(LaneGroup[][] groups, byte[] ladder, bool finished, bool write)
+    {
+        if (_options is null)
+        {
+            return;
+        }
+        var blobs = new byte[groups.Length][][];
+        for (int t = 0; t < groups.Length; t++)
+        {
+            blobs[t] = new byte[groups[t].Length][];
+            for (int g = 0; g < groups[t].Length; g++)
+            {
+                var writer = new StateWriter();
+                groups[t][g].Save(writer);
+                blobs[t][g] = writer.ToArray();
+            }
+        }
+        SamplingCheckpoint snapshot;
+        lock (_lock)
+        {
+            for (int t = 0; t < groups.Length; t++)
+            {
+                for (int g = 0; g < groups[t].Length; g++)
+                {
+                    _states[t]![g] = blobs[t][g];
+                    _steps[t]![g] = groups[t][g].ChainStepsDone;
+                }
+                _finished[t] |= finished;
+            }
+            _ladder = ladder;
+            if (!write)
+            {
+                return;
+            }
+            snapshot = Assemble();
+        }
+        _options.Save(snapshot);
+        lock (_lock)
+        {
+            _due = Stopwatch.GetTimestamp() + (long)(_options.Interval.TotalSeconds * Stopwatch.Frequency);
+        }
     }
 
     /// <summary>Temperature <paramref name="temperature"/> has finished; its groups' final states stay in later checkpoints.</summary>
@@ -362,7 +454,7 @@ internal sealed class CheckpointSession
         {
             steps[t] = (long[]?)_steps[t]?.Clone();
         }
-        return new SamplingCheckpoint(_identity, Lanes, states, steps, (bool[])_finished.Clone(), _options?.ApplicationData);
+        return new SamplingCheckpoint(_identity, Lanes, states, steps, (bool[])_finished.Clone(), _options?.ApplicationData) { LadderState = _ladder };
     }
 }
 

@@ -72,7 +72,7 @@ public sealed class SamplingCheckpoint
     public const string FormatName = "thermal-sampling-checkpoint";
 
     /// <summary>The version of the file layout this library writes and reads.</summary>
-    public const int FormatVersion = 6;
+    public const int FormatVersion = 7;
 
 
     private readonly byte[]?[]?[] _states;
@@ -90,6 +90,9 @@ public sealed class SamplingCheckpoint
     }
 
     internal SweepIdentity Identity { get; }
+
+    /// <summary>A temperature ladder's swap state (streams, walkers, tallies), or null for a sweep without replica exchange.</summary>
+    internal byte[]? LadderState { get; init; }
 
     /// <summary>The library version that wrote it; only the same version resumes it.</summary>
     public string LibraryVersion => Identity.LibraryVersion;
@@ -216,6 +219,8 @@ public sealed class SamplingCheckpoint
                 body.Write(groups[g] ?? []);
             }
         }
+        Long(LadderState?.Length ?? -1);
+        body.Write(LadderState ?? []);
         return body.ToArray();
     }
 
@@ -330,11 +335,18 @@ public sealed class SamplingCheckpoint
                 at += (int)Math.Max(length, 0);
             }
         }
+        long ladderLength = Long();
+        if (ladderLength < -1 || ladderLength > body.Length - at)
+        {
+            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture, $"The checkpoint's temperature-ladder state has length {ladderLength}, which does not fit the body."));
+        }
+        byte[]? ladder = ladderLength < 0 ? null : body.AsSpan(at, (int)ladderLength).ToArray();
+        at += (int)Math.Max(ladderLength, 0);
         if (at != body.Length)
         {
-            throw new CheckpointException("The checkpoint's body has bytes after its last temperature.");
+            throw new CheckpointException("The checkpoint's body has bytes after its temperature-ladder state.");
         }
-        return new SamplingCheckpoint(identity, lanes, states, steps, finished, application);
+        return new SamplingCheckpoint(identity, lanes, states, steps, finished, application) { LadderState = ladder };
     }
 }
 

@@ -51,6 +51,16 @@ internal interface ILaneWalk<TD, TState>
     /// <summary>Clears the fault notes before a chunk.</summary>
     void ClearFaults(ref TState state);
 
+    /// <summary>
+    /// Copies lane <paramref name="lane"/>'s configuration (its position, energy and anything that depends on the position
+    /// alone, at most <see cref="LaneGroup.MaxConfiguration"/> values) into <paramref name="values"/>: what a replica swap
+    /// moves between temperatures. The lane's stream, −β and fault notes stay.
+    /// </summary>
+    void ReadConfiguration(in TState state, int lane, Span<double> values);
+
+    /// <summary>Puts a configuration read by <see cref="ReadConfiguration"/> into lane <paramref name="lane"/>.</summary>
+    void WriteConfiguration(ref TState state, int lane, ReadOnlySpan<double> values);
+
     /// <summary>Lane <paramref name="lane"/>'s four generator words (where its chain's stream stands).</summary>
     void StreamState(in TState state, int lane, Span<ulong> words);
 
@@ -112,14 +122,51 @@ internal readonly record struct EngineSettings(long BurnIn, long Samples, double
 internal sealed record GroupWork(int FirstChain, int End, Func<int, ChainRecord> Record, Func<int, ProgressReporter> Progress, GroupCheckpoints Checkpoints,
     int Group, CancellationToken Ct);
 
-/// <summary>A kind of chain's fixed plan, which builds and runs its lane group at whatever width the dispatcher picks.</summary>
+/// <summary>A kind of chain's fixed plan, which builds its lane group at whatever width the dispatcher picks.</summary>
 internal interface ILanePlan
 {
-    /// <summary>Runs <paramref name="work"/> on a group of lane width <typeparamref name="TOps"/>.</summary>
-    ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
+    /// <summary>Builds the group of lane width <typeparamref name="TOps"/> for <paramref name="work"/> (not yet placed or run).</summary>
+    LaneGroup Build<TOps, TD, TB>(GroupWork work)
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct;
+}
+
+/// <summary>
+/// A lane group seen from outside its width and walk: run it whole (<see cref="Run"/>), or open it, advance it in steps
+/// and close it, with its lanes' configurations readable and writable between steps (what a temperature ladder's swaps
+/// need; <see cref="TemperatureLadder"/>).
+/// </summary>
+internal abstract class LaneGroup : LaneGroupProgress
+{
+    /// <summary>The most values a walk's configuration holds.</summary>
+    internal const int MaxConfiguration = 8;
+
+    private protected LaneGroup(long burnIn, long samples, int width, int live)
+        : base(burnIn, samples, width, live)
+    {
+    }
+
+    /// <summary>Runs the group from its start or from its checkpointed state to the end and returns its chains' finished records.</summary>
+    internal abstract ChainRecord[] Run();
+
+    /// <summary>Places the chains, or continues from <paramref name="saved"/> (a state written by <see cref="IResumableGroup.Save"/>).</summary>
+    internal abstract void Open(byte[]? saved);
+
+    /// <summary>Steps every lane until <paramref name="total"/> steps (burn-in and recorded) are done; a step count already reached does nothing.</summary>
+    internal abstract void AdvanceTo(long total);
+
+    /// <summary>After the last step: the chains' finished records.</summary>
+    internal abstract ChainRecord[] Close();
+
+    /// <summary>Lane <paramref name="lane"/>'s current potential energy, eV.</summary>
+    internal abstract double Energy(int lane);
+
+    /// <summary>Lane <paramref name="lane"/>'s configuration (<see cref="ILaneWalk{TD, TState}.ReadConfiguration"/>).</summary>
+    internal abstract void ReadConfiguration(int lane, Span<double> values);
+
+    /// <summary>Sets lane <paramref name="lane"/>'s configuration.</summary>
+    internal abstract void WriteConfiguration(int lane, ReadOnlySpan<double> values);
 }
 
 /// <summary>How chains are packed into lane groups, and any kind of chain's group run at a lane count chosen at run time.</summary>
@@ -143,17 +190,17 @@ internal static class LaneGroups
     }
 
 
-    /// <summary>Runs <paramref name="work"/> for <paramref name="plan"/> at <paramref name="lanes"/> lanes per register.</summary>
-    internal static ChainRecord[] Run<TPlan>(int lanes, TPlan plan, GroupWork work) where TPlan : ILanePlan
-        => LaneWidths.Dispatch<Job<TPlan>, ChainRecord[]>(lanes, new(plan, work));
+    /// <summary>Builds the group of <paramref name="work"/> for <paramref name="plan"/> at <paramref name="lanes"/> lanes per register.</summary>
+    internal static LaneGroup Build<TPlan>(int lanes, TPlan plan, GroupWork work) where TPlan : ILanePlan
+        => LaneWidths.Dispatch<Job<TPlan>, LaneGroup>(lanes, new(plan, work));
 
-    private readonly record struct Job<TPlan>(TPlan Plan, GroupWork Work) : ILaneWidthJob<ChainRecord[]> where TPlan : ILanePlan
+    private readonly record struct Job<TPlan>(TPlan Plan, GroupWork Work) : ILaneWidthJob<LaneGroup> where TPlan : ILanePlan
     {
-        public ChainRecord[] Run<TOps, TD, TB>()
+        public LaneGroup Run<TOps, TD, TB>()
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
-            => Plan.RunGroup<TOps, TD, TB>(Work);
+            => Plan.Build<TOps, TD, TB>(Work);
     }
 }
 
@@ -173,7 +220,7 @@ internal static class LaneGroups
 /// <typeparam name="TState">The walk's running state in every lane.</typeparam>
 /// <typeparam name="TRecorder">The recorder.</typeparam>
 /// <typeparam name="TSums">The recorder's running sums in every lane.</typeparam>
-internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums> : LaneGroupProgress
+internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums> : LaneGroup
     where TOps : struct, ILaneOps<TD, TB>
     where TD : struct
     where TB : struct
@@ -237,22 +284,19 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
     {
     }
 
-    /// <summary>Runs the group from its start or from its checkpointed state to the end and returns its chains' finished records.</summary>
-    internal ChainRecord[] Run()
+    internal sealed override ChainRecord[] Run()
     {
-        var width = RunLanes(_work.Checkpoints, _work.Group, _work.Ct);
-        Span<ulong> words = stackalloc ulong[4];
-        for (int lane = 0; lane < Live; lane++)
-        {
-            var record = Records[lane];
-            (record.Proposals, record.Accepted, record.ProposalScale) = (_samples, Accepted(lane), TOps.Get(width, lane));
-            CompleteRecord(record, lane);
-            _walk.Complete(State, lane, record);
-            _walk.StreamState(State, lane, words);
-            record.SetStreamState(words);
-        }
-        return Records;
+        Open(_work.Checkpoints.SavedState(_work.Group));
+        AdvanceTo(_burnIn + _samples);
+        _work.Checkpoints.Finished(_work.Group, this);
+        return Close();
     }
+
+    internal sealed override double Energy(int lane) => TOps.Get(_walk.Point(State).Energy, lane);
+
+    internal sealed override void ReadConfiguration(int lane, Span<double> values) => _walk.ReadConfiguration(State, lane, values);
+
+    internal sealed override void WriteConfiguration(int lane, ReadOnlySpan<double> values) => _walk.WriteConfiguration(ref State, lane, values);
 
     /// <summary>Puts chain <paramref name="chain"/>'s stream, −β and start into lane <paramref name="lane"/> of <see cref="State"/>.</summary>
     private protected abstract void PlaceLane(int lane, int chain);
@@ -356,10 +400,11 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         return closed;
     }
 
-    /// <summary>Runs the group from its start or from its checkpointed state to the end; returns the frozen widths.</summary>
-    private TD RunLanes(GroupCheckpoints checkpoints, int group, CancellationToken ct)
+    private ChunkBoundary? _boundary;
+    private double[]? _gains;
+
+    internal sealed override void Open(byte[]? saved)
     {
-        var saved = checkpoints.SavedState(group);
         if (saved is null)
         {
             for (int lane = 0; lane < TOps.Count; lane++)
@@ -371,25 +416,44 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         }
         else
         {
-            Load(new StateReader(saved, _what + " " + group.ToString(CultureInfo.InvariantCulture)));
+            Load(new StateReader(saved, _what + " " + _work.Group.ToString(CultureInfo.InvariantCulture)));
         }
-        var boundary = new ChunkBoundary(Reporters, checkpoints, group, this, ct);
+        _boundary = new ChunkBoundary(Reporters, _work.Checkpoints, _work.Group, this, _work.Ct);
+    }
+
+    /// <summary>
+    /// Burn-in, then the recorded phase, up to <paramref name="total"/> steps in all. Chunks end where they would in one
+    /// whole run and also at <paramref name="total"/>; cutting a chunk changes no bit (the gains, the batches, the blocks,
+    /// the kept draws and the distribution counts follow the step index, not the chunk).
+    /// </summary>
+    internal sealed override void AdvanceTo(long total)
+    {
+        var boundary = _boundary ?? throw new InvalidOperationException("The group is advanced before it is opened.");
         if (Phase == GroupPhase.BurnIn)
         {
-            BurnIn(boundary);
+            BurnIn(boundary, Math.Min(total, _burnIn));
+            if (Step < _burnIn)
+            {
+                return;
+            }
             StartRecording();
             Sums = default;
             Waves.Clear();
             StartRecords();
             _walk.StartRecording(ref State);
         }
-        var width = LaneAdaptation.Width<TOps, TD, TB>(_logWidth, _maxWidth);
         if (Phase == GroupPhase.Recording)
         {
-            Record(width, boundary);
-            Phase = GroupPhase.Finished;
+            Record(LaneAdaptation.Width<TOps, TD, TB>(_logWidth, _maxWidth), boundary, Math.Min(total - _burnIn, _samples));
+            if (Step == _samples)
+            {
+                Phase = GroupPhase.Finished;
+            }
         }
-        checkpoints.Finished(group, this);
+    }
+
+    internal sealed override ChainRecord[] Close()
+    {
         Tally.CopyTo(Records, _samples);
         var recorder = Recorder(_samples, 0);
         Span<double> open = stackalloc double[2 * Records[0].Stores.Length];
@@ -405,39 +469,55 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         {
             reporter.Finish();
         }
-        return width;
+        var width = LaneAdaptation.Width<TOps, TD, TB>(_logWidth, _maxWidth);
+        Span<ulong> words = stackalloc ulong[4];
+        for (int lane = 0; lane < Live; lane++)
+        {
+            var record = Records[lane];
+            (record.Proposals, record.Accepted, record.ProposalScale) = (_samples, Accepted(lane), TOps.Get(width, lane));
+            CompleteRecord(record, lane);
+            _walk.Complete(State, lane, record);
+            _walk.StreamState(State, lane, words);
+            record.SetStreamState(words);
+        }
+        return Records;
     }
 
-    private void BurnIn(ChunkBoundary boundary)
+    /// <summary>Burn-in chunks (ending at every 4096th step and at <paramref name="end"/>) until step <paramref name="end"/>.</summary>
+    private void BurnIn(ChunkBoundary boundary, long end)
     {
-        var gains = new double[ChunkSteps];
-        for (; Step < _burnIn; Step += ChunkSteps)
+        var gains = _gains ??= new double[ChunkSteps];
+        while (Step < end)
         {
-            boundary.Reached(Step);
-            int chunk = (int)Math.Min(ChunkSteps, _burnIn - Step);
+            if ((Step & (ChunkSteps - 1)) == 0)
+            {
+                boundary.Reached(Step);
+            }
+            int chunk = (int)Math.Min(ChunkSteps - (Step & (ChunkSteps - 1)), end - Step);
             LaneAdaptation.FillGains(gains, Step, chunk);
             _walk.ClearFaults(ref State);
             var before = _walk.ReplaysFaults ? State : default;
             var logWidthBefore = _logWidth;
             _logWidth = AdaptLoop(_walk, ref State, _logWidth, gains, chunk, _targetAcceptance, _maxWidth);
             _walk.ThrowIfFaulted(State, before, logWidthBefore, gains, default, chunk);
+            Step += chunk;
         }
     }
 
     /// <summary>
-    /// The recorded phase: chunks end at moment-block and progress boundaries (every 4096 steps), where the bookkeeping
-    /// that makes calls happens; batches close inside the chunk.
+    /// The recorded phase up to recorded step <paramref name="end"/>: chunks end at moment-block and progress boundaries
+    /// (every 4096 steps) and at <paramref name="end"/>, where the bookkeeping that makes calls happens; batches close inside the chunk.
     /// </summary>
-    private void Record(TD width, ChunkBoundary boundary)
+    private void Record(TD width, ChunkBoundary boundary, long end)
     {
         int batchSize = BatchSize;
-        while (Step < _samples)
+        while (Step < end)
         {
             if ((Step & (ChunkSteps - 1)) == 0)
             {
                 boundary.Reached(_burnIn + Step);
             }
-            int chunk = (int)Math.Min(_blockSize - InBlock, Math.Min(_samples - Step, ChunkSteps - (Step & (ChunkSteps - 1))));
+            int chunk = (int)Math.Min(_blockSize - InBlock, Math.Min(end - Step, ChunkSteps - (Step & (ChunkSteps - 1))));
             _walk.ClearFaults(ref State);
             var before = _walk.ReplaysFaults ? State : default;
             int closed = RecordLoop(_walk, Recorder(Step, chunk), ref State, ref Sums, width, chunk, ref InBatch, batchSize);

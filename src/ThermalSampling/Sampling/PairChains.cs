@@ -21,7 +21,15 @@ namespace ThermalSampling.Sampling;
 /// </summary>
 internal static class PairChains
 {
-    /// <summary>Runs every chain of <paramref name="settings"/> at one temperature.</summary>
+    /// <summary>Runs the chains of <paramref name="range"/> at one temperature (<see cref="Plan"/>'s arguments).</summary>
+    internal static TemperatureRecord Sample<TPotential>(PairLandscape<TPotential> landscape, ExactPairDistribution exact, double reference, double initialWidth,
+        double targetAcceptance, Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken,
+        CheckpointSession? session, int temperatureIndex, ChainRange range, RingPlan? ring = null)
+        where TPotential : struct, IPairPotential
+        => Plan(landscape, exact, reference, initialWidth, targetAcceptance, temperature, settings, progress, ring)
+            .Run(range, session, temperatureIndex, cancellationToken);
+
+    /// <summary>Plans every chain of <paramref name="settings"/> at one temperature.</summary>
     /// <param name="landscape">The landscape.</param>
     /// <param name="exact">Its exact distribution at the temperature (for starts and direct draws).</param>
     /// <param name="reference">The batch means' reference point (the minimum, else the exact mean).</param>
@@ -30,14 +38,10 @@ internal static class PairChains
     /// <param name="temperature">The temperature.</param>
     /// <param name="settings">The settings.</param>
     /// <param name="progress">Optional progress sink.</param>
-    /// <param name="cancellationToken">Cancellation.</param>
-    /// <param name="session">The checkpoint session, or null.</param>
-    /// <param name="temperatureIndex">The temperature's index in the session.</param>
-    /// <param name="range">The chains to run.</param>
     /// <param name="ring">The ring polymer of a path integral (each chain a ring of its beads), or null for classical chains.</param>
-    internal static TemperatureRecord Sample<TPotential>(PairLandscape<TPotential> landscape, ExactPairDistribution exact, double reference, double initialWidth,
-        double targetAcceptance, Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken,
-        CheckpointSession? session, int temperatureIndex, ChainRange range, RingPlan? ring = null)
+    /// <param name="streamOffset">Chain c draws from stream <paramref name="streamOffset"/> + c of the seed (a ladder's rungs use disjoint streams).</param>
+    internal static TemperaturePlan Plan<TPotential>(PairLandscape<TPotential> landscape, ExactPairDistribution exact, double reference, double initialWidth,
+        double targetAcceptance, Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, RingPlan? ring = null, int streamOffset = 0)
         where TPotential : struct, IPairPotential
     {
         bool metropolis = settings.Method == SamplingMethod.Metropolis;
@@ -54,14 +58,14 @@ internal static class PairChains
         double Start(int c) => quantile!(chains == 1 ? 0.5 : 0.01 + 0.98 * c / (chains - 1));
         PairLaneChains.Plan<TPotential>? plan = metropolis ? new(landscape.Potential, landscape.WindowLowerInAngstroms, landscape.WindowUpperInAngstroms,
             1 / temperature.ThermalEnergyInElectronVolts, landscape.Geometry == SeparationGeometry.Radial, initialWidth, targetAcceptance,
-            landscape.WindowWidthInAngstroms, settings.BurnIn, settings.SamplesPerChain, settings.Seed) : null;
-        var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
-            (lanes, first, end, checkpoints, g) => ring is null
-                ? PairLaneChains.Run(lanes, plan!, first, end, Start, NewRecord, NewReporter, checkpoints, g, cancellationToken)
-                : PairLaneChains.RunRing(lanes, plan!, ring, first, end, Start, NewRecord, NewReporter, checkpoints, g, cancellationToken),
-            (c, checkpoints) => new DirectChain<TableDraws<TPotential>>(new(table!, landscape.Potential), settings, c, NewRecord(c), NewReporter(c), "direct chain").Run(checkpoints, cancellationToken));
-        return new TemperatureRecord("pair", landscape.Description, Fingerprint(landscape), temperature, settings, targetAcceptance, 1, layout, [.. results],
-            Internal.LibraryVersion.Current);
+            landscape.WindowWidthInAngstroms, settings.BurnIn, settings.SamplesPerChain, settings.Seed, StreamOffset: streamOffset) : null;
+        return new TemperaturePlan(settings,
+            metropolis ? (lanes, first, end, checkpoints, g, ct) => ring is null
+                ? PairLaneChains.Build(lanes, plan!, first, end, Start, NewRecord, NewReporter, checkpoints, g, ct)
+                : PairLaneChains.BuildRing(lanes, plan!, ring, first, end, Start, NewRecord, NewReporter, checkpoints, g, ct) : null,
+            metropolis ? null : (c, checkpoints, ct) => new DirectChain<TableDraws<TPotential>>(new(table!, landscape.Potential), settings, c, NewRecord(c), NewReporter(c), "direct chain").Run(checkpoints, ct),
+            results => new TemperatureRecord("pair", landscape.Description, Fingerprint(landscape), temperature, settings, targetAcceptance, 1, layout, [.. results],
+                Internal.LibraryVersion.Current));
     }
 
     /// <summary>The geometry, the exact window and the energies at 257 evenly spaced separations in it.</summary>

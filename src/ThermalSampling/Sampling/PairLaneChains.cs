@@ -23,31 +23,32 @@ internal static class PairLaneChains
 {
 
     /// <summary>Everything fixed for a run.</summary>
-    /// <remarks>ChainBetas: β of each chain when they differ (a temperature ladder in one register); null: every chain at Beta.</remarks>
+    /// <remarks>ChainBetas: β of each chain when they differ (a temperature ladder in one register); null: every chain at Beta.
+    /// StreamOffset: chain c draws from stream StreamOffset + c of the seed (a ladder's rungs use disjoint streams).</remarks>
     internal sealed record Plan<TPotential>(TPotential Potential, double Lower, double Upper, double Beta, bool Radial, double InitialWidth,
-        double TargetAcceptance, double MaxWidth, long BurnIn, long Samples, ulong Seed, double[]? ChainBetas = null) where TPotential : struct, IPairPotential
+        double TargetAcceptance, double MaxWidth, long BurnIn, long Samples, ulong Seed, double[]? ChainBetas = null, int StreamOffset = 0) where TPotential : struct, IPairPotential
     {
         /// <summary>The inverse temperature of chain <paramref name="chain"/>, 1/eV.</summary>
         internal double BetaOf(int chain) => ChainBetas?[chain] ?? Beta;
     }
 
-    /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond <paramref name="end"/> are computed and dropped),
+    /// <summary>The group of chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond <paramref name="end"/> are computed and dropped),
     /// from the start or from the group's checkpointed state, each starting at <paramref name="start"/>(chain).</summary>
-    internal static ChainRecord[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int end, Func<int, double> start,
+    internal static LaneGroup Build<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int end, Func<int, double> start,
         Func<int, ChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => LaneGroups.Run(lanes, new Starts<TPotential>(plan, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
+        => LaneGroups.Build(lanes, new Starts<TPotential>(plan, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
 
-    /// <summary>Like <see cref="Run{TPotential}"/>, with each chain a ring polymer of <paramref name="ring"/>'s beads (the path-integral walk; a radial pair as its relative vector in three dimensions).</summary>
-    internal static ChainRecord[] RunRing<TPotential>(int lanes, Plan<TPotential> plan, RingPlan ring, int firstChain, int end, Func<int, double> start,
+    /// <summary>Like <see cref="Build{TPotential}"/>, with each chain a ring polymer of <paramref name="ring"/>'s beads (the path-integral walk; a radial pair as its relative vector in three dimensions).</summary>
+    internal static LaneGroup BuildRing<TPotential>(int lanes, Plan<TPotential> plan, RingPlan ring, int firstChain, int end, Func<int, double> start,
         Func<int, ChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => LaneGroups.Run(lanes, new RingStarts<TPotential>(plan, ring, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
+        => LaneGroups.Build(lanes, new RingStarts<TPotential>(plan, ring, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
 
     /// <summary>The plan, the ring and the chains' starts: what builds a group of ring polymers at any width.</summary>
     private readonly record struct RingStarts<TPotential>(Plan<TPotential> Plan, RingPlan Ring, Func<int, double> Start) : ILanePlan where TPotential : struct, IPairPotential
     {
-        public ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
+        public LaneGroup Build<TOps, TD, TB>(GroupWork work)
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
@@ -56,20 +57,20 @@ internal static class PairLaneChains
             var start = Start;
             var settings = new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, plan.TargetAcceptance, BlockedMomentAccumulator.BlockSize,
                 "RPGH", "LOGW", "pair ring-polymer group");
-            Func<int, (RandomStream, double, double)> place = c => (RandomStream.ForChain(plan.Seed, c), plan.BetaOf(c), start(c));
+            Func<int, (RandomStream, double, double)> place = c => (RandomStream.ForChain(plan.Seed, plan.StreamOffset + c), plan.BetaOf(c), start(c));
             var (beads, segment, hbar2m) = (Ring.Beads, Ring.Segment, Ring.HbarSquaredOverMass);
             return plan.Radial
                 ? new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, RadialField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
-                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m, Ring.Moves), place, work).Run()
+                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m, Ring.Moves), place, work)
                 : new Group<TOps, TD, TB, RingWalk<TOps, TD, TB, LineField<TOps, TD, TB, TPotential>>, RingState<TD, TB>>(settings,
-                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m, Ring.Moves), place, work).Run();
+                    new(new(plan.Potential, plan.Lower, plan.Upper), beads, segment, hbar2m, Ring.Moves), place, work);
         }
     }
 
     /// <summary>The plan and the chains' starts: what builds a pair group at any width.</summary>
     private readonly record struct Starts<TPotential>(Plan<TPotential> Plan, Func<int, double> Start) : ILanePlan where TPotential : struct, IPairPotential
     {
-        public ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
+        public LaneGroup Build<TOps, TD, TB>(GroupWork work)
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
@@ -79,7 +80,7 @@ internal static class PairLaneChains
             var settings = new EngineSettings(plan.BurnIn, plan.Samples, plan.InitialWidth, plan.MaxWidth, plan.TargetAcceptance, BlockedMomentAccumulator.BlockSize,
                 "PLGH", "LOGW", "pair chain group");
             return new Group<TOps, TD, TB, PairWalk<TOps, TD, TB, TPotential>, PairWalkState<TD, TB>>(settings, new(plan),
-                c => (RandomStream.ForChain(plan.Seed, c), plan.BetaOf(c), start(c)), work).Run();
+                c => (RandomStream.ForChain(plan.Seed, plan.StreamOffset + c), plan.BetaOf(c), start(c)), work);
         }
     }
 
@@ -210,6 +211,16 @@ internal static class PairLaneChains
         public void ClearFaults(ref PairWalkState<TD, TB> state) => state.Faults = LaneFaultCheck.None<TOps, TD, TB>();
 
         public bool ReplaysFaults => false;
+
+        public void ReadConfiguration(in PairWalkState<TD, TB> state, int lane, Span<double> values)
+            => (values[0], values[1], values[2]) = (TOps.Get(state.Position, lane), TOps.Get(state.Energy, lane), TOps.Get(state.Jacobian, lane));
+
+        public void WriteConfiguration(ref PairWalkState<TD, TB> state, int lane, ReadOnlySpan<double> values)
+        {
+            state.Position = TOps.Set(state.Position, lane, values[0]);
+            state.Energy = TOps.Set(state.Energy, lane, values[1]);
+            state.Jacobian = TOps.Set(state.Jacobian, lane, values[2]);
+        }
 
         public void StreamState(in PairWalkState<TD, TB> state, int lane, Span<ulong> words)
             => (words[0], words[1], words[2], words[3]) = (TOps.GetBits(state.R0, lane), TOps.GetBits(state.R1, lane), TOps.GetBits(state.R2, lane), TOps.GetBits(state.R3, lane));

@@ -178,6 +178,14 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
 
     public bool ReplaysFaults => false;
 
+    /// <summary>Not offered: a ring's configuration is its P beads, kept outside the lane state (replica exchange of path integrals is refused before a run starts).</summary>
+    public void ReadConfiguration(in RingState<TD, TB> state, int lane, Span<double> values)
+        => throw new NotSupportedException("Replica exchange does not swap ring polymers.");
+
+    /// <summary>Not offered (<see cref="ReadConfiguration"/>).</summary>
+    public void WriteConfiguration(ref RingState<TD, TB> state, int lane, ReadOnlySpan<double> values)
+        => throw new NotSupportedException("Replica exchange does not swap ring polymers.");
+
     public void StreamState(in RingState<TD, TB> state, int lane, Span<ulong> words)
         => (words[0], words[1], words[2], words[3]) = (TOps.GetBits(state.R0, lane), TOps.GetBits(state.R1, lane), TOps.GetBits(state.R2, lane), TOps.GetBits(state.R3, lane));
 

@@ -74,6 +74,15 @@ public sealed record SamplingSettings
     /// <summary>The largest scattering-vector component, Å⁻¹ (<see cref="ScatteringVectorsInInverseAngstroms"/>).</summary>
     public const double MaxScatteringVectorInInverseAngstroms = 1000;
 
+    /// <summary>
+    /// Replica exchange (parallel tempering): a sweep's temperatures become one ladder whose neighbouring rungs offer to
+    /// exchange configurations every <see cref="SwapInterval"/> steps (burn-in included), 1 to 10^6, Metropolis only.
+    /// Rung k's chain c swaps with rung k ± 1's chain c, so each rung keeps <see cref="Chains"/> chains and its report has
+    /// the usual form, with the swaps in <see cref="Reports.SamplingDiagnostics.ReplicaExchange"/>. Null (the default):
+    /// every temperature is an independent run.
+    /// </summary>
+    public int? SwapInterval { get; init; }
+
     /// <summary>Worker threads, 1 to 1024; null means the processor count. Results do not depend on it.</summary>
     public int? MaxThreads { get; init; }
 

@@ -64,6 +64,9 @@ internal static class SettingsFields
                 w.WriteEndArray();
             },
             (s, e) => s with { ScatteringVectorsInInverseAngstroms = [.. Required(e, "scatteringVectorsInInverseAngstroms").EnumerateArray().Select(v => v.GetDouble())] }),
+        new("SwapInterval", "swapInterval", true, s => s.SwapInterval is not int v || (v is >= 1 and <= 1_000_000 && s.Method == SamplingMethod.Metropolis),
+            "null, or 1 to 10^6 with the Metropolis method", s => s.SwapInterval?.ToString(C) ?? "null", (w, s) => WriteOptional(w, "swapInterval", s.SwapInterval),
+            (s, e) => s with { SwapInterval = e is { ValueKind: JsonValueKind.Number } v ? v.GetInt32() : null }),
         OptionalInteger("MaxThreads", "maxThreads", v => v is >= 1 and <= 1024, "null or 1 to 1024", s => s.MaxThreads, (s, v) => s with { MaxThreads = v }),
         OptionalInteger("ChainsPerVector", "chainsPerVector", v => v is 1 or 2 or 4 or 8, "null, 1, 2, 4 or 8", s => s.ChainsPerVector, (s, v) => s with { ChainsPerVector = v }),
     ];

@@ -22,10 +22,17 @@ internal static class SiteChains
 {
     private const double EnvelopeInflation = 1.3;
 
-    /// <summary>Runs every chain of <paramref name="settings"/> at one temperature about the harmonic estimate <paramref name="harmonic"/>.</summary>
+    /// <summary>Runs the chains of <paramref name="range"/> at one temperature about the harmonic estimate <paramref name="harmonic"/> (<see cref="Plan"/>'s arguments).</summary>
     internal static TemperatureRecord Sample<TPotential>(SiteLandscape<TPotential> landscape, SiteHarmonicEstimate harmonic, double targetAcceptance,
         Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, CancellationToken cancellationToken,
         CheckpointSession? session, int temperatureIndex, ChainRange range, RingPlan? ring = null)
+        where TPotential : struct, IPairPotential
+        => Plan(landscape, harmonic, targetAcceptance, temperature, settings, progress, ring).Run(range, session, temperatureIndex, cancellationToken);
+
+    /// <summary>Plans every chain of <paramref name="settings"/> at one temperature about the harmonic estimate <paramref name="harmonic"/>;
+    /// chain c draws from stream <paramref name="streamOffset"/> + c of the seed.</summary>
+    internal static TemperaturePlan Plan<TPotential>(SiteLandscape<TPotential> landscape, SiteHarmonicEstimate harmonic, double targetAcceptance,
+        Temperature temperature, SamplingSettings settings, IProgress<SamplingProgress>? progress, RingPlan? ring = null, int streamOffset = 0)
         where TPotential : struct, IPairPotential
     {
         double target = targetAcceptance;
@@ -60,15 +67,16 @@ internal static class SiteChains
             min, shape.Item1, shape.Item2, shape.Item3, shape.Item4, shape.Item5, shape.Item6, beta, scale0, target, maxScale, wallBand,
             settings.BurnIn, settings.SamplesPerChain, settings.Seed, landscape.Potential.Description, basin, null,
             groupPotentials, groupEnds, landscape.Field) : null;
-        var results = ChainRuns.Run(settings, range, session, temperatureIndex, cancellationToken,
-            (lanes, first, end, checkpoints, g) => ring is null
-                ? SiteLaneChains.Run(lanes, plan!, first, end, c => StartOfChain(landscape, min, cholesky, settings.Seed, c), NewRecord, NewReporter, checkpoints, g, cancellationToken)
-                : SiteLaneChains.RunRing(lanes, plan!, ring, settings.InitialStepWidthInAngstroms ?? 2.38 / Math.Sqrt(3) * sigmaMin, 2 * size, first, end,
-                    c => StartOfChain(landscape, min, cholesky, settings.Seed, c), NewRecord, NewReporter, checkpoints, g, cancellationToken),
-            (c, checkpoints) => new DirectChain<EnvelopeDraws<TPotential>>(new(kernel, landscape, envelope!, basin, wallBand), settings, c, NewRecord(c), NewReporter(c), "direct site chain")
-                .Run(checkpoints, cancellationToken));
-        return new TemperatureRecord("sites", landscape.Description, Fingerprint(landscape), temperature, settings, target, sigmaMin, layout, [.. results],
-            Internal.LibraryVersion.Current);
+        (RandomStream, Position) Start(int c) => StartOfChain(landscape, min, cholesky, settings.Seed, streamOffset + c);
+        return new TemperaturePlan(settings,
+            metropolis ? (lanes, first, end, checkpoints, g, ct) => ring is null
+                ? SiteLaneChains.Build(lanes, plan!, first, end, Start, NewRecord, NewReporter, checkpoints, g, ct)
+                : SiteLaneChains.BuildRing(lanes, plan!, ring, settings.InitialStepWidthInAngstroms ?? 2.38 / Math.Sqrt(3) * sigmaMin, 2 * size, first, end,
+                    Start, NewRecord, NewReporter, checkpoints, g, ct) : null,
+            metropolis ? null : (c, checkpoints, ct) => new DirectChain<EnvelopeDraws<TPotential>>(new(kernel, landscape, envelope!, basin, wallBand), settings, c, NewRecord(c), NewReporter(c), "direct site chain")
+                .Run(checkpoints, ct),
+            results => new TemperatureRecord("sites", landscape.Description, Fingerprint(landscape), temperature, settings, target, sigmaMin, layout, [.. results],
+                Internal.LibraryVersion.Current));
     }
 
     /// <summary>The site's scattering vectors: three components each, or an error naming the setting.</summary>

@@ -45,17 +45,17 @@ internal static class SiteLaneChains
     /// <summary>Per chain: its stream advanced past the start-point draws, and the start.</summary>
     internal delegate (RandomStream Stream, Position Start) ChainStart(int chain);
 
-    /// <summary>Runs chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond <paramref name="end"/> are computed and dropped),
+    /// <summary>The group of chains <paramref name="firstChain"/> … firstChain + lanes − 1 (those at or beyond <paramref name="end"/> are computed and dropped),
     /// from the start or from the group's checkpointed state.</summary>
-    internal static ChainRecord[] Run<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int end, ChainStart start, Func<int, ChainRecord> record,
+    internal static LaneGroup Build<TPotential>(int lanes, Plan<TPotential> plan, int firstChain, int end, ChainStart start, Func<int, ChainRecord> record,
         Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => LaneGroups.Run(lanes, new Starts<TPotential>(plan, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
+        => LaneGroups.Build(lanes, new Starts<TPotential>(plan, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
 
     /// <summary>The plan and the chains' starts: what builds a site group at any width.</summary>
     private readonly record struct Starts<TPotential>(Plan<TPotential> Plan, ChainStart Start) : ILanePlan where TPotential : struct, IPairPotential
     {
-        public ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
+        public LaneGroup Build<TOps, TD, TB>(GroupWork work)
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
@@ -66,24 +66,24 @@ internal static class SiteLaneChains
             {
                 var (stream, p) = start(c);
                 return (stream, plan.BetaOf(c), p);
-            }, work).Run();
+            }, work);
         }
     }
 
     /// <summary>
-    /// Like <see cref="Run{TPotential}"/>, with each chain a ring polymer of <paramref name="ring"/>'s beads (the path-integral
+    /// Like <see cref="Build{TPotential}"/>, with each chain a ring polymer of <paramref name="ring"/>'s beads (the path-integral
     /// walk), whose whole-ring translation starts at <paramref name="initialWidth"/> Å per coordinate and stays below <paramref name="maxWidth"/>.
     /// </summary>
-    internal static ChainRecord[] RunRing<TPotential>(int lanes, Plan<TPotential> plan, RingPlan ring, double initialWidth, double maxWidth, int firstChain, int end,
+    internal static LaneGroup BuildRing<TPotential>(int lanes, Plan<TPotential> plan, RingPlan ring, double initialWidth, double maxWidth, int firstChain, int end,
         ChainStart start, Func<int, ChainRecord> record, Func<int, ProgressReporter> progress, GroupCheckpoints checkpoints, int group, CancellationToken ct)
         where TPotential : struct, IPairPotential
-        => LaneGroups.Run(lanes, new RingStarts<TPotential>(plan, ring, initialWidth, maxWidth, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
+        => LaneGroups.Build(lanes, new RingStarts<TPotential>(plan, ring, initialWidth, maxWidth, start), new GroupWork(firstChain, end, record, progress, checkpoints, group, ct));
 
     /// <summary>The plan, the ring and the chains' starts: what builds a group of ring polymers in a site at any width.</summary>
     private readonly record struct RingStarts<TPotential>(Plan<TPotential> Plan, RingPlan Ring, double InitialWidth, double MaxWidth, ChainStart Start) : ILanePlan
         where TPotential : struct, IPairPotential
     {
-        public ChainRecord[] RunGroup<TOps, TD, TB>(GroupWork work)
+        public LaneGroup Build<TOps, TD, TB>(GroupWork work)
             where TOps : struct, ILaneOps<TD, TB>
             where TD : struct
             where TB : struct
@@ -97,7 +97,7 @@ internal static class SiteLaneChains
                 {
                     var (stream, p) = start(c);
                     return (stream, plan.BetaOf(c), p);
-                }, work).Run();
+                }, work);
         }
     }
 
@@ -432,6 +432,17 @@ internal static class SiteLaneChains
         public void ClearFaults(ref SiteWalkState<TD, TB> state) => state.Faults = LaneFaultCheck.None<TOps, TD, TB>();
 
         public bool ReplaysFaults => true;
+
+        public void ReadConfiguration(in SiteWalkState<TD, TB> state, int lane, Span<double> values)
+            => (values[0], values[1], values[2], values[3]) = (TOps.Get(state.X, lane), TOps.Get(state.Y, lane), TOps.Get(state.Z, lane), TOps.Get(state.Energy, lane));
+
+        public void WriteConfiguration(ref SiteWalkState<TD, TB> state, int lane, ReadOnlySpan<double> values)
+        {
+            state.X = TOps.Set(state.X, lane, values[0]);
+            state.Y = TOps.Set(state.Y, lane, values[1]);
+            state.Z = TOps.Set(state.Z, lane, values[2]);
+            state.Energy = TOps.Set(state.Energy, lane, values[3]);
+        }
 
         public void StreamState(in SiteWalkState<TD, TB> state, int lane, Span<ulong> words)
             => (words[0], words[1], words[2], words[3]) = (TOps.GetBits(state.R0, lane), TOps.GetBits(state.R1, lane), TOps.GetBits(state.R2, lane), TOps.GetBits(state.R3, lane));
