@@ -51,6 +51,7 @@ internal static class ReportJsonWriter
             WriteReweightedSite(w, r, l, e);
         }
         w.WriteEndArray();
+        WriteLadder(w, results);
         if (SweepWarnings.BasinPopulationShift(results.Sites) is { } shift)
         {
             w.WriteStartArray("sweepWarnings");
@@ -107,6 +108,44 @@ internal static class ReportJsonWriter
     /// (<c>resolved</c>: the temperatures actually run, after a sweep's range, and every sampling setting with its default
     /// filled in), so that the document alone is enough to reproduce every number in it with the same library version.
     /// </summary>
+    /// <summary>A replica-exchange run: its ladder (the rungs run, which were added, the predicted swap acceptances of an automatic one).</summary>
+    private static void WriteLadder(Utf8JsonWriter w, ScenarioResults results)
+    {
+        var s = results.Scenario;
+        if (s.Ladder is null)
+        {
+            return;
+        }
+        w.WriteStartObject("ladder");
+        w.WriteString("mode", s.Ladder);
+        w.WriteNumber("swapInterval", s.Sampling.SwapInterval ?? 0);
+        var rungs = results.Ladder?.Temperatures.Select(t => t.InKelvin).ToArray() ?? [.. s.TemperaturesInKelvin];
+        w.WriteStartArray("temperatures");
+        foreach (double t in rungs)
+        {
+            w.WriteNumberValue(t);
+        }
+        w.WriteEndArray();
+        w.WriteStartArray("added");
+        foreach (double t in rungs.Where(t => !s.TemperaturesInKelvin.Contains(t)))
+        {
+            w.WriteNumberValue(t);
+        }
+        w.WriteEndArray();
+        if (results.Ladder is { } plan)
+        {
+            w.WriteNumber("targetSwapAcceptance", plan.TargetSwapAcceptance);
+            w.WriteString("predictionBasis", plan.Basis);
+            w.WriteStartArray("predictedSwapAcceptance");
+            foreach (double a in plan.PredictedSwapAcceptance)
+            {
+                w.WriteNumberValue(a);
+            }
+            w.WriteEndArray();
+        }
+        w.WriteEndObject();
+    }
+
     private static void WriteInputs(Utf8JsonWriter w, Scenario s, (string Site, string Frame)? surface)
     {
         w.WritePropertyName("input");
@@ -124,7 +163,13 @@ internal static class ReportJsonWriter
         }
         w.WriteEndArray();
         w.WriteStartObject("sampling");
-        w.WriteString("method", o.Method == Sampling.SamplingMethod.Metropolis ? "metropolis" : "direct");
+        w.WriteString("method", o.SwapInterval is not null ? "replica-exchange" : o.Method == Sampling.SamplingMethod.Metropolis ? "metropolis" : "direct");
+        if (o.SwapInterval is int interval)
+        {
+            w.WriteNumber("swapInterval", interval);
+            w.WriteString("ladder", s.Ladder);
+            w.WriteNumber("targetSwapAcceptance", s.TargetSwapAcceptance);
+        }
         w.WriteNumber("seed", o.Seed);
         w.WriteNumber("chains", o.Chains);
         w.WriteNumber("samplesPerChain", o.SamplesPerChain);
@@ -369,6 +414,20 @@ internal static class ReportJsonWriter
         Number(w, "effectiveSampleSize", d.EffectiveSampleSize);
         Number(w, "rHat", d.RHat);
         w.WriteNumber("draws", d.Draws);
+        if (d.ReplicaExchange is { } x)
+        {
+            if (x.SwapAcceptance is double a)
+            {
+                w.WriteNumber("swapAcceptance", a); // with the next-higher rung; absent for the top one
+            }
+            w.WriteStartObject("replicaExchange");
+            w.WriteNumber("rung", x.Rung);
+            w.WriteNumber("swapAttempts", x.SwapAttempts);
+            w.WriteNumber("swapInterval", x.SwapInterval);
+            w.WriteNumber("roundTrips", x.RoundTrips);
+            Number(w, "meanRoundTripSteps", x.MeanRoundTripSteps);
+            w.WriteEndObject();
+        }
         w.WriteEndObject();
         w.WriteStartArray("warnings");
         foreach (var warning in warnings)

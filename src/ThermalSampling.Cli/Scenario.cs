@@ -64,6 +64,12 @@ internal sealed record Scenario(
     internal double[] ReweightTargets => ReweightTo is not { } r ? []
         : [.. Enumerable.Range(0, r.Count).Select(i => r.Count == 1 ? r.From : r.From + (r.To - r.From) * i / (r.Count - 1))];
 
+    /// <summary>With <c>"method": "replica-exchange"</c>: <c>sampling.ladder</c>, "given" (the temperatures are the ladder) or "auto" (rungs added from the target swap acceptance); null otherwise.</summary>
+    internal string? Ladder { get; init; }
+
+    /// <summary><c>sampling.targetSwapAcceptance</c> for an automatic ladder.</summary>
+    internal double TargetSwapAcceptance { get; init; } = TemperatureLadders.DefaultTargetSwapAcceptance;
+
     internal double AngstromsPerLengthUnit => ScenarioUnits.Length[LengthUnit];
 }
 
@@ -452,6 +458,29 @@ internal static class ScenarioReader
         {
             c.Add("$.sampling.reweightTo", "reweighting across temperatures applies to classical statistics; a quantum run's ring polymers are not reweighted.");
         }
+        string? ladder = null;
+        double targetSwap = TemperatureLadders.DefaultTargetSwapAcceptance;
+        if (sampling is { SwapInterval: not null })
+        {
+            ladder = c.String(samplingElement, "ladder", "$.sampling", false, "given", "auto") ?? "given";
+            targetSwap = c.Number(samplingElement, "targetSwapAcceptance", "$.sampling", false, ScenarioSchema.At(Sampling + "targetSwapAcceptance")) ?? targetSwap;
+            if (temperatures.Length < 2)
+            {
+                c.Add("$.temperatures", "replica exchange runs the temperatures as one ladder and needs at least two.");
+            }
+            else if (!temperatures.Zip(temperatures.Skip(1)).All(t => t.First < t.Second))
+            {
+                c.Add("$.temperatures", "a replica-exchange ladder lists its temperatures from the coldest to the hottest.");
+            }
+            if (statistics == "quantum")
+            {
+                c.Add("$.sampling.method", "replica exchange swaps classical configurations; quantum statistics (ring polymers) use \"metropolis\".");
+            }
+            if (reweightTo is not null)
+            {
+                c.Add("$.sampling.reweightTo", "reweighting is not offered with replica exchange yet; give the temperatures you need as rungs of the ladder (or \"ladder\": \"auto\" to add rungs between them).");
+            }
+        }
         int? beads = (int?)c.Integer(root, "beads", "$", false, ScenarioSchema.At("properties/beads"));
         if (beads is int b && (b & (b - 1)) != 0)
         {
@@ -476,6 +505,8 @@ internal static class ScenarioReader
             Statistics = statistics,
             Beads = beads,
             ReweightTo = reweightTo,
+            Ladder = ladder,
+            TargetSwapAcceptance = targetSwap,
         };
     }
 
@@ -1091,6 +1122,9 @@ internal static class ScenarioReader
         return confinement;
     }
 
+    /// <summary>Steps between swap attempts when a replica-exchange scenario gives none (docs/replica-exchange.md: what it costs).</summary>
+    internal const int DefaultSwapInterval = 100;
+
     private static SamplingSettings? ReadSampling(Context c, JsonElement root)
     {
         if (c.Object(root, "sampling", "$") is not { } p)
@@ -1098,8 +1132,17 @@ internal static class ScenarioReader
             return null;
         }
         const string path = "$.sampling";
-        c.CheckKeys(p, path, "method", "chains", "samplesPerChain", "burnIn", "seed", "reweightTo");
-        string method = c.String(p, "method", path, false, "metropolis", "direct") ?? "metropolis";
+        c.CheckKeys(p, path, "method", "chains", "samplesPerChain", "burnIn", "seed", "reweightTo", "ladder", "targetSwapAcceptance", "swapInterval");
+        string method = c.String(p, "method", path, false, "metropolis", "direct", "replica-exchange") ?? "metropolis";
+        bool replicas = method == "replica-exchange";
+        long? swapInterval = c.Integer(p, "swapInterval", path, false, ScenarioSchema.At(Sampling + "swapInterval"));
+        foreach (string key in new[] { "ladder", "targetSwapAcceptance", "swapInterval" })
+        {
+            if (!replicas && p.TryGetProperty(key, out _))
+            {
+                c.Add(path + "." + key, "applies only with \"method\": \"replica-exchange\".");
+            }
+        }
         long chains = c.Integer(p, "chains", path, false, ScenarioSchema.At(Sampling + "chains")) ?? 4;
         long samples = c.Integer(p, "samplesPerChain", path, false, ScenarioSchema.At(Sampling + "samplesPerChain")) ?? 100_000;
         long burnIn = c.Integer(p, "burnIn", path, false, ScenarioSchema.At(Sampling + "burnIn")) ?? 10_000;
@@ -1111,6 +1154,7 @@ internal static class ScenarioReader
             Chains = (int)chains,
             SamplesPerChain = samples,
             BurnIn = burnIn,
+            SwapInterval = replicas ? (int)(swapInterval ?? DefaultSwapInterval) : null,
         };
     }
 }

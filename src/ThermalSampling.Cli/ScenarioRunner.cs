@@ -34,6 +34,9 @@ internal sealed record ScenarioResults(Scenario Scenario, IReadOnlyList<PairVibr
     /// <summary>With <c>sampling.reweightTo</c>: the site estimates at the reweighting targets.</summary>
     internal IReadOnlyList<ReweightedSiteEstimate>? SiteReweighted { get; init; }
 
+    /// <summary>With <c>"method": "replica-exchange"</c> and <c>"ladder": "auto"</c>: the ladder chosen (its rungs, which were added, the predicted swap acceptances).</summary>
+    internal Analysis.LadderPlan? Ladder { get; init; }
+
     /// <summary>With quantum statistics: the path-integral reports of the pairs (<see cref="Pairs"/> holds their <c>ToVibrationReport</c> forms).</summary>
     internal IReadOnlyList<PairPathIntegralReport>? PairQuantum { get; init; }
 
@@ -172,6 +175,7 @@ internal static class ScenarioRunner
                     var quantumFigures = plotPath is null ? null : Figures(() => FigureWriter.WritePairQuantum(quantum, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
                     return new ScenarioResults(scenario, shown, [], stopped, quantumFigures) { PairQuantum = quantum };
                 }
+                RefuseLadderParts(scenario, shard);
                 if (shard is { } part)
                 {
                     return new ScenarioResults(scenario, [], []) { Records = Part(temperatures, scenario.Sampling.Chains, part, (t, range) => PairSampler.Sample(landscape, t, scenario.Sampling, range, progress, ct)) };
@@ -197,14 +201,18 @@ internal static class ScenarioRunner
                     var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WritePair(sampled, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario), reweighted));
                     return new ScenarioResults(scenario, sampled, [], stopped, sampledFigures) { PairReweighted = reweighted };
                 }
+                var ladder = scenario.Ladder == "auto" ? TemperatureLadders.ForPair(landscape, temperatures, scenario.TargetSwapAcceptance) : null;
+                var rungs = ladder is null ? temperatures : [.. ladder.Temperatures];
                 var reports = new List<PairVibrationReport>();
                 bool cancelled = checkpoint is null
-                    ? RunEach(temperatures, t => reports.Add(PairSampler.Run(landscape, mass, t, scenario.Sampling, progress, ct)))
+                    ? scenario.Ladder is null
+                        ? RunEach(temperatures, t => reports.Add(PairSampler.Run(landscape, mass, t, scenario.Sampling, progress, ct)))
+                        : RunAll(() => reports.AddRange(PairSampler.Sweep(landscape, mass, rungs, scenario.Sampling, progress, ct)))
                     : RunAll(() => reports.AddRange(checkpoint.ResumeFrom is null
-                        ? PairSampler.SweepWithCheckpoints(landscape, mass, temperatures, scenario.Sampling, checkpoint.Options, progress, ct)
-                        : PairSampler.Resume(landscape, mass, temperatures, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
+                        ? PairSampler.SweepWithCheckpoints(landscape, mass, rungs, scenario.Sampling, checkpoint.Options, progress, ct)
+                        : PairSampler.Resume(landscape, mass, rungs, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
                 var figures = plotPath is null ? null : Figures(() => FigureWriter.WritePair(reports, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
-                return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled, figures);
+                return new ScenarioResults(scenario, reports, Array.Empty<SiteVibrationReport>(), cancelled, figures) { Ladder = ladder };
             }
             var centre = l.Centre;
             SiteLandscape<TPotential> siteLandscape;
@@ -260,6 +268,7 @@ internal static class ScenarioRunner
                 var quantumFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSiteQuantum(quantum, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
                 return new ScenarioResults(scenario, [], shown, stopped, quantumFigures) { Surface = surface, SiteQuantum = quantum };
             }
+            RefuseLadderParts(scenario, shard);
             if (shard is { } sitePart)
             {
                 return new ScenarioResults(scenario, [], []) { Records = Part(temperatures, scenario.Sampling.Chains, sitePart, (t, range) => SiteSampler.Sample(siteLandscape, t, scenario.Sampling, range, progress, ct)), Surface = surface };
@@ -286,14 +295,18 @@ internal static class ScenarioRunner
                 var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSite(sampled, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario), reweighted));
                 return new ScenarioResults(scenario, [], sampled, stopped, sampledFigures) { Surface = surface, SiteReweighted = reweighted };
             }
+            var siteLadder = scenario.Ladder == "auto" ? TemperatureLadders.ForSite(siteLandscape, temperatures, scenario.TargetSwapAcceptance) : null;
+            var siteRungs = siteLadder is null ? temperatures : [.. siteLadder.Temperatures];
             var siteReports = new List<SiteVibrationReport>();
             bool siteCancelled = checkpoint is null
-                ? RunEach(temperatures, t => siteReports.Add(SiteSampler.Run(siteLandscape, mass, t, scenario.Sampling, progress, ct)))
+                ? scenario.Ladder is null
+                    ? RunEach(temperatures, t => siteReports.Add(SiteSampler.Run(siteLandscape, mass, t, scenario.Sampling, progress, ct)))
+                    : RunAll(() => siteReports.AddRange(SiteSampler.Sweep(siteLandscape, mass, siteRungs, scenario.Sampling, progress, ct)))
                 : RunAll(() => siteReports.AddRange(checkpoint.ResumeFrom is null
-                    ? SiteSampler.SweepWithCheckpoints(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.Options, progress, ct)
-                    : SiteSampler.Resume(siteLandscape, mass, temperatures, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
+                    ? SiteSampler.SweepWithCheckpoints(siteLandscape, mass, siteRungs, scenario.Sampling, checkpoint.Options, progress, ct)
+                    : SiteSampler.Resume(siteLandscape, mass, siteRungs, scenario.Sampling, checkpoint.ResumeFrom, checkpoint.Options, progress, ct)));
             var siteFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSite(siteReports, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario)));
-            return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled, siteFigures) { Surface = surface };
+            return new ScenarioResults(scenario, Array.Empty<PairVibrationReport>(), siteReports, siteCancelled, siteFigures) { Surface = surface, Ladder = siteLadder };
         }
         catch (ArgumentException ex) when (ex is not ArgumentNullException)
         {
@@ -420,6 +433,15 @@ internal static class ScenarioRunner
         if (checkpoint is not null)
         {
             throw new ScenarioException(new[] { "$.sampling.reweightTo: a reweighted run cannot yet be checkpointed; run it without --checkpoint, or shard it (sweep --shard) and reweight at 'merge'." });
+        }
+    }
+
+    /// <summary>A replica-exchange ladder runs its temperatures together: one process, not shards of temperatures and chains.</summary>
+    private static void RefuseLadderParts(Scenario scenario, (int Index, int Count)? shard)
+    {
+        if (scenario.Ladder is not null && shard is not null)
+        {
+            throw new ScenarioException(new[] { "$.sampling.method: a replica-exchange ladder runs all its temperatures together and cannot be split into shards; run it whole (it is one job of a job array), or give each ladder its own scenario." });
         }
     }
 
