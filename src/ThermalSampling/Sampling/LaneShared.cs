@@ -157,7 +157,7 @@ internal class LaneTally
             RwScales[lane] = 1 / records[Math.Min(lane, lanes - 1)].Reweighting.Width;
         }
         Kept = new double[(long)coordinates * lanes * retained];
-        // A chunk of up to 4096 steps closes at most 4096/batchSize + 1 batches.
+        // Between two 4096-step boundaries (where the engine hands them to the records) at most 4096/batchSize + 1 batches close.
         BatchSums = new double[batchValues * width * (LaneAdaptation.ChunkSteps / first.Stores[0].BatchSize + 1)];
         Coordinates = coordinates;
     }
