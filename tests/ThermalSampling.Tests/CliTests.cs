@@ -150,7 +150,9 @@ public class CliTests
         var (code, csv, stderr) = Run(SiteScenario, "--format", "tidy-csv");
         Assert.True(code == 0, stderr);
         var lines = csv.Split('\n', StringSplitOptions.RemoveEmptyEntries);
-        Assert.Equal("temperature,quantity,component,value,stdErr,unit", lines[0]);
+        Assert.Equal("scenario,temperature,quantity,component,method,value,stdErr,unit", lines[0]);
+        Assert.Contains(lines, l => l.Contains(",meanSquareDisplacement,,metropolis,", StringComparison.Ordinal));
+        Assert.Contains(lines, l => l.Contains(",meanSquareDisplacement,,harmonic,", StringComparison.Ordinal));
         Assert.Contains(lines, l => l.Contains(",fourthCumulant,3333,", StringComparison.Ordinal));
         var (_, jsonLines, _) = Run(SiteScenario, "--format", "json-lines");
         var rows = jsonLines.Split('\n', StringSplitOptions.RemoveEmptyEntries).Select(l => JsonDocument.Parse(l).RootElement).ToList();

@@ -226,7 +226,12 @@ internal static class PairLaneChains
             => (words[0], words[1], words[2], words[3]) = (TOps.GetBits(state.R0, lane), TOps.GetBits(state.R1, lane), TOps.GetBits(state.R2, lane), TOps.GetBits(state.R3, lane));
 
         public void ThrowIfFaulted(in PairWalkState<TD, TB> state, in PairWalkState<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
-            => LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(state.Faults, _potential.Description);
+        {
+            if (!TOps.AllTrue(state.Faults.AllFinite))
+            {
+                LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(state.Faults, _potential.Description); // the description is built only for the error (a ladder checks every few steps)
+            }
+        }
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         public LanePoint<TD> Point(in PairWalkState<TD, TB> state) => new(state.Position, default, default, state.Energy);

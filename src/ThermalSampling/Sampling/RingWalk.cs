@@ -190,7 +190,12 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
         => (words[0], words[1], words[2], words[3]) = (TOps.GetBits(state.R0, lane), TOps.GetBits(state.R1, lane), TOps.GetBits(state.R2, lane), TOps.GetBits(state.R3, lane));
 
     public void ThrowIfFaulted(in RingState<TD, TB> state, in RingState<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
-        => LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(state.Faults, _field.Description);
+    {
+        if (!TOps.AllTrue(state.Faults.AllFinite))
+        {
+            LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(state.Faults, _field.Description); // the description is built only for the error
+        }
+    }
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public LanePoint<TD> Point(in RingState<TD, TB> state) => new(state.X, state.Y, state.Z, state.Energy);
