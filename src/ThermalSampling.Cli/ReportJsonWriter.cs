@@ -768,6 +768,18 @@ internal static class ReportJsonWriter
             Number(w, "sampledStdErr", p.SampledShare.StandardError);
             Number(w, "harmonic", p.HarmonicShare);
             Number(w, "quadrature", p.QuadratureShare);
+            if (p.Mean is { } mean)
+            {
+                // The draws in this basin alone: their mean and spread about it.
+                Vector(w, "mean", mean, l);
+                if (p.MeanStandardError is { } meanSe)
+                {
+                    Vector(w, "meanStdErr", meanSe, l);
+                }
+                Matrix(w, "covariance", p.Covariance!.Value, l * l);
+                Number(w, "meanSquareDisplacement", p.MeanSquareDisplacement!.Value / (l * l));
+                Number(w, "meanSquareDisplacementStdErr", p.MeanSquareDisplacement.StandardError / (l * l));
+            }
             w.WriteEndObject();
         }
         w.WriteEndArray();

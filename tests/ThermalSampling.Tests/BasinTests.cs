@@ -99,6 +99,40 @@ public class BasinTests
         double counted = draws.Count(p => grid.IsOutside(p.X, p.Y, p.Z)) / (double)draws.Length;
         Assert.Equal(counted, report.ShareOutsideBasin, 12);
         Assert.True(counted > 0 == crosses, $"share outside {counted}");
+        // Each basin's mean and MSD about it, from the per-basin sums, equal those of the kept draws the map puts in it.
+        var withDraws = report.BasinPopulations.Where(b => b.Mean is not null).ToList();
+        Assert.Equal(crosses, withDraws.Count > 1);
+        foreach (var b in withDraws.Where(_ => crosses))
+        {
+            var mine = draws.Where(p => grid.LabelOf(p.X, p.Y, p.Z) == b.Index).ToList();
+            var mean = (1.0 / mine.Count) * new Position(mine.Sum(p => p.X), mine.Sum(p => p.Y), mine.Sum(p => p.Z));
+            double msd = mine.Average(p => (p - mean).Norm * (p - mean).Norm);
+            Assert.Equal(mean.X, b.Mean!.Value.X, 9);
+            Assert.Equal(mean.Y, b.Mean.Value.Y, 9);
+            Assert.Equal(mean.Z, b.Mean.Value.Z, 9);
+            Assert.Equal(msd, b.MeanSquareDisplacement!.Value, 9);
+        }
+    }
+
+    /// <summary>The direct sampler's per-basin sums: a cage whose confinement reaches past its square windows (points beyond them descend to the wall) gives each basin with draws the mean of its kept draws.</summary>
+    [Fact]
+    public void Direct_draws_give_each_basin_the_mean_of_its_own_draws()
+    {
+        const int n = 8192;
+        var landscape = SiteLandscape.Create(Lj, LatticeSites.NeighbourCage(LatticeKind.FaceCentredCubic, Length.FromAngstroms(Nn)), Position.Origin, Confinement.Sphere(Length.FromAngstroms(2.0)));
+        var settings = new SamplingSettings { Seed = 5, Chains = 2, SamplesPerChain = n, RetainedDrawsPerChain = n, Method = SamplingMethod.Direct };
+        var report = SiteSampler.Run(landscape, Mass50, Temperature.FromKelvin(600), settings);
+        var grid = SiteBasins.MapWithGrid(landscape, report.Minimum).Grid;
+        var draws = report.Draws.Chains.SelectMany(c => c).ToArray();
+        var withDraws = report.BasinPopulations.Where(b => b.Mean is not null).ToList();
+        Assert.True(grid.AnyOutside && withDraws.Count >= 1, $"{grid.LabelCount} labels, any outside {grid.AnyOutside}, {withDraws.Count} basins with draws");
+        foreach (var b in withDraws)
+        {
+            var mine = draws.Where(p => grid.LabelOf(p.X, p.Y, p.Z) == b.Index).ToList();
+            var mean = (1.0 / mine.Count) * new Position(mine.Sum(p => p.X), mine.Sum(p => p.Y), mine.Sum(p => p.Z));
+            Assert.Equal(mean.X, b.Mean!.Value.X, 9);
+            Assert.Equal(mean.Z, b.Mean.Value.Z, 9);
+        }
     }
 
     [Fact]
@@ -182,6 +216,8 @@ public class BasinPopulationTests(Xunit.Abstractions.ITestOutputHelper output)
         var grid = SiteBasins.MapWithGrid(Patch, report.Minimum).Grid;
         double kt = t.ThermalEnergyInElectronVolts, e0 = Patch.Energy(report.Minimum);
         var weights = new double[grid.LabelCount];
+        var first = new double[grid.LabelCount, 3];
+        var second = new double[grid.LabelCount];
         const double h = 0.04;
         var c = Patch.Centre;
         for (double x = -1.7; x <= 1.7; x += h)
@@ -193,7 +229,11 @@ public class BasinPopulationTests(Xunit.Abstractions.ITestOutputHelper output)
                     var p = new Position(c.X + x, c.Y + y, c.Z + z);
                     if (Patch.Contains(p))
                     {
-                        weights[grid.LabelOf(p.X, p.Y, p.Z)] += Math.Exp(-(Patch.Energy(p) - e0) / kt);
+                        int label = grid.LabelOf(p.X, p.Y, p.Z);
+                        double w = Math.Exp(-(Patch.Energy(p) - e0) / kt);
+                        weights[label] += w;
+                        (first[label, 0], first[label, 1], first[label, 2]) = (first[label, 0] + w * p.X, first[label, 1] + w * p.Y, first[label, 2] + w * p.Z);
+                        second[label] += w * (p.X * p.X + p.Y * p.Y + p.Z * p.Z);
                     }
                 }
             }
@@ -205,6 +245,26 @@ public class BasinPopulationTests(Xunit.Abstractions.ITestOutputHelper output)
             output.WriteLine($"basin {b.Index}: sampled {b.SampledShare.Value:F4} ± {b.SampledShare.StandardError:F4}, map quadrature {b.QuadratureShare:F4}, fine quadrature {quadrature:F4}, harmonic {b.HarmonicShare:F4}");
             Assert.True(Math.Abs(b.SampledShare.ZScore(quadrature)) < 4, $"basin {b.Index}");
             Assert.InRange(b.QuadratureShare / quadrature, 0.97, 1.03);
+            // The draws in the basin alone against the same quadrature restricted to it: their mean position (4 standard
+            // errors and 0.005 Å for the grid) and their mean-square displacement about it (4 standard errors and 3 %).
+            var mean = (1 / weights[b.Index]) * new Position(first[b.Index, 0], first[b.Index, 1], first[b.Index, 2]);
+            double msd = second[b.Index] / weights[b.Index] - (mean.X * mean.X + mean.Y * mean.Y + mean.Z * mean.Z);
+            var sampledMean = b.Mean!.Value;
+            var se = b.MeanStandardError!.Value;
+            output.WriteLine($"  mean {sampledMean} ± {se} (quadrature {mean}); MSD {b.MeanSquareDisplacement!.Value:F5} ± {b.MeanSquareDisplacement.StandardError:F5} (quadrature {msd:F5})");
+            Assert.True(Math.Abs(sampledMean.X - mean.X) < 4 * se.X + 0.005, $"basin {b.Index} x");
+            Assert.True(Math.Abs(sampledMean.Y - mean.Y) < 4 * se.Y + 0.005, $"basin {b.Index} y");
+            Assert.True(Math.Abs(sampledMean.Z - mean.Z) < 4 * se.Z + 0.005, $"basin {b.Index} z");
+            Assert.True(Math.Abs(b.MeanSquareDisplacement.Value - msd) < 4 * b.MeanSquareDisplacement.StandardError + 0.03 * msd, $"basin {b.Index} MSD");
+            Assert.Equal(b.MeanSquareDisplacement.Value, b.Covariance!.Value.Trace, 12);
+        }
+        // Each basin's draws sit about its own minimum: their mean is nearer to it than to any other basin's (the hollows are
+        // 1.5 Å apart; the means lie within 0.2 Å of their minima, pushed up and inwards by the slab and the confinement).
+        foreach (var b in report.BasinPopulations)
+        {
+            var nearest = report.BasinPopulations.MinBy(o => (b.Mean!.Value - o.Minimum!.Value).Norm)!;
+            Assert.Equal(b.Index, nearest.Index);
+            Assert.InRange((b.Mean!.Value - b.Minimum!.Value).Norm, 0, 0.2);
         }
         Assert.Equal(1.0, report.BasinPopulations.Sum(b => b.SampledShare.Value), 12);
         var toSite = report.BasinPasses.Where(p => p.From == 0).Select(p => p.PassAboveSiteInElectronVolts).ToList();

@@ -216,7 +216,20 @@ public sealed record ExactComparison(double Mean, double Variance, double Skewne
 /// <param name="HarmonicShare">Harmonic superposition: e^(−E/kT)/√det H normalised over the minima (null for the wall's).</param>
 /// <param name="QuadratureShare">The share of Σ e^(−V/kT) over the basin map's points inside the confinement (a grid quadrature at the map's spacing).</param>
 public sealed record BasinPopulation(int Index, Position? Minimum, double? EnergyAboveSiteInElectronVolts, Estimate SampledShare, double? HarmonicShare,
-    double QuadratureShare);
+    double QuadratureShare)
+{
+    /// <summary>The mean position of the draws in this basin, Å; null when none fell in it, or when the map has one basin (the report's own mean is then the basin's).</summary>
+    public Position? Mean { get; init; }
+
+    /// <summary>The standard errors of <see cref="Mean"/>'s components, Å (jackknife over groups of consecutive draws of every chain; null with fewer than eight groups that visited the basin).</summary>
+    public Position? MeanStandardError { get; init; }
+
+    /// <summary>The covariance of the draws in this basin about their own mean, Å².</summary>
+    public SymmetricTensor? Covariance { get; init; }
+
+    /// <summary>The mean-square displacement of the draws in this basin about their own mean (the covariance's trace), Å², with its jackknife standard error.</summary>
+    public Estimate? MeanSquareDisplacement { get; init; }
+}
 
 /// <summary>The vibration report of a line or radial pair at one temperature: the sampled mean, shift, spread and shape with
 /// error bars, beside the exact, harmonic and first-order references, the diagnostics and every warning.</summary>

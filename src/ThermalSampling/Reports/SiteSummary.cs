@@ -225,10 +225,47 @@ internal static class SiteSummary
                 se = Math.Max(se, Math.Sqrt(shares.Sum(x => (x - mean) * (x - mean)) / (shares.Count - 1) / shares.Count));
             }
             var other = l >= 1 && l <= basin.OtherMinima.Length ? basin.OtherMinima[l - 1] : null;
-            list.Add(new BasinPopulation(l, l == 0 ? min : other?.Position, l == 0 ? 0 : other?.EnergyAboveSiteInElectronVolts, new Estimate(p, se),
-                l == 0 ? 1 / harmonicTotal : other?.HarmonicWeight is double w ? w / harmonicTotal : null, quadrature[l]));
+            list.Add(WithinBasin(new BasinPopulation(l, l == 0 ? min : other?.Position, l == 0 ? 0 : other?.EnergyAboveSiteInElectronVolts, new Estimate(p, se),
+                l == 0 ? 1 / harmonicTotal : other?.HarmonicWeight is double w ? w / harmonicTotal : null, quadrature[l]), results, labels, min));
         }
         return list.ToImmutable();
+    }
+
+    /// <summary>
+    /// Basin <paramref name="population"/>'s mean, covariance and mean-square displacement from the chains' per-basin sums
+    /// (<see cref="ChainRecord.BasinSums"/>), with jackknife errors over the groups of draws that visited it; unchanged
+    /// when the records hold no per-basin sums or no draw fell in the basin.
+    /// </summary>
+    private static BasinPopulation WithinBasin(BasinPopulation population, IReadOnlyList<ChainRecord> results, int labels, Position min)
+    {
+        const int groups = EnergyBinSums.Groups, size = ChainRecord.BasinSumValues;
+        if (results.Any(r => r.BasinSums.Length != labels * groups * size))
+        {
+            return population;
+        }
+        int l = population.Index;
+        if (results.All(r => Enumerable.Range(0, groups).All(g => r.BasinSums[(l * groups + g) * size] == 0)))
+        {
+            return population;
+        }
+        // Outputs: the mean displacement (3), the covariance about the mean (xx, yy, zz, xy, xz, yz), the MSD.
+        var (values, errors, _) = GroupJackknife.Run(results.Count, groups, size, (c, g) => results[c].BasinSums.AsSpan((l * groups + g) * size, size), 10,
+            (sums, into) =>
+            {
+                double n = sums[0], mx = sums[1] / n, my = sums[2] / n, mz = sums[3] / n;
+                (into[0], into[1], into[2]) = (mx, my, mz);
+                (into[3], into[4], into[5]) = (sums[4] / n - mx * mx, sums[5] / n - my * my, sums[6] / n - mz * mz);
+                (into[6], into[7], into[8]) = (sums[7] / n - mx * my, sums[8] / n - mx * mz, sums[9] / n - my * mz);
+                into[9] = into[3] + into[4] + into[5];
+            });
+        bool reliable = !double.IsNaN(errors[0]);
+        return population with
+        {
+            Mean = new Position(min.X + values[0], min.Y + values[1], min.Z + values[2]),
+            MeanStandardError = reliable ? new Position(errors[0], errors[1], errors[2]) : null,
+            Covariance = new SymmetricTensor(values[3], values[4], values[5], values[6], values[7], values[8]),
+            MeanSquareDisplacement = new Estimate(values[9], reliable ? errors[9] : double.NaN),
+        };
     }
 
     /// <summary>The chains' distribution counts pooled into densities with standard errors from the effective sample size.</summary>

@@ -80,6 +80,32 @@ public sealed class ChainRecord
 
     internal long[] DrawsPerBasin { get; set; } = [];
 
+    /// <summary>The values summed per basin and group in <see cref="BasinSums"/>: the draws, u_x, u_y, u_z, u_x², u_y², u_z², u_xu_y, u_xu_z, u_yu_z.</summary>
+    internal const int BasinSumValues = 10;
+
+    /// <summary>
+    /// Per basin label and group of draws (<see cref="EnergyBinSums.Groups"/> consecutive groups, for the jackknife): the
+    /// draws and the sums of the displacement u from the record's reference (the site's minimum) and of its six products,
+    /// label-major, <see cref="BasinSumValues"/> each. Empty when the site's map has one basin (every draw is then the
+    /// whole run's) or for a pair.
+    /// </summary>
+    internal double[] BasinSums { get; set; } = [];
+
+    /// <summary>Adds recorded draw <paramref name="index"/>, displaced by (<paramref name="ux"/>, <paramref name="uy"/>, <paramref name="uz"/>) from the reference, to basin <paramref name="label"/>'s sums (the direct sampler's path; the lane kernel fills its own).</summary>
+    internal void AddBasinDraw(int label, int labels, long index, double ux, double uy, double uz)
+    {
+        if (BasinSums.Length == 0)
+        {
+            BasinSums = new double[labels * EnergyBinSums.Groups * BasinSumValues];
+        }
+        int at = (label * EnergyBinSums.Groups + EnergyBinSums.GroupOf(index, Layout.Samples)) * BasinSumValues;
+        var sums = BasinSums;
+        sums[at]++;
+        (sums[at + 1], sums[at + 2], sums[at + 3]) = (sums[at + 1] + ux, sums[at + 2] + uy, sums[at + 3] + uz);
+        (sums[at + 4], sums[at + 5], sums[at + 6]) = (sums[at + 4] + ux * ux, sums[at + 5] + uy * uy, sums[at + 6] + uz * uz);
+        (sums[at + 7], sums[at + 8], sums[at + 9]) = (sums[at + 7] + ux * uy, sums[at + 8] + ux * uz, sums[at + 9] + uy * uz);
+    }
+
     /// <summary>The four words of the chain's xoshiro256** state after its last draw: where its seed stream stands.</summary>
     public ImmutableArray<ulong> StreamState => ImmutableArray.Create(_stream);
 
@@ -213,6 +239,7 @@ public sealed class ChainRecord
         w.Doubles("CRKE", [Kinetic.Sum, Kinetic.Squares, Kinetic.Count]);
         w.Longs("CRBN", [DrawsPerBasin.Length]);
         w.Longs("CRBC", DrawsPerBasin);
+        w.Doubles("CRBS", BasinSums);
         if (Coordinates == 1)
         {
             _keptSeparations!.Save(w, 1);
@@ -283,6 +310,12 @@ public sealed class ChainRecord
         Kinetic = (kinetic[0], kinetic[1], (long)r.InRange((long)kinetic[2], 0, long.MaxValue, "the kinetic-energy values"));
         int basins = (int)r.InRange(r.Longs("CRBN", 1)[0], 0, 256, "the basins");
         DrawsPerBasin = r.Longs("CRBC", basins);
+        BasinSums = r.Doubles("CRBS", -1, basins * EnergyBinSums.Groups * BasinSumValues);
+        if (BasinSums.Length is not 0 && BasinSums.Length != basins * EnergyBinSums.Groups * BasinSumValues)
+        {
+            throw new CheckpointException(string.Create(CultureInfo.InvariantCulture,
+                $"The record's per-basin sums hold {BasinSums.Length} values; expected 0 or {basins * EnergyBinSums.Groups * BasinSumValues} ({basins} basins)."));
+        }
         if (Coordinates == 1)
         {
             _keptSeparations!.Load(r, 1);

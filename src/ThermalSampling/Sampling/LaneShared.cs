@@ -405,6 +405,13 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
         }
     }
 
+    /// <summary>The group of consecutive draws (<see cref="EnergyBinSums.Groups"/> per chain) of the chunk's draw <paramref name="j"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    internal int GroupAt(int j) => Group(_done + j);
+
+    /// <summary>Scratch for one vector's lanes per coordinate (free between the calls that use it).</summary>
+    internal double[] Scratch => _scratch;
+
     /// <summary>The reweighting group of recorded draw <paramref name="index"/> (a division only past the chunk's first group boundary).</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private int Group(long index) => index < _nextGroupStart ? _group : EnergyBinSums.GroupOf(index, _samples);

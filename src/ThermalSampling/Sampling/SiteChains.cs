@@ -190,6 +190,11 @@ internal static class SiteChains
                     }
                     int label = basin.AnyOutside ? basin.LabelOf(x, y, z) : 0;
                     record.DrawsPerBasin[label]++;
+                    if (basin.AnyOutside)
+                    {
+                        var reference = record.Layout.References;
+                        record.AddBasinDraw(label, basin.LabelCount, record.Draws - 1, x - reference[0], y - reference[1], z - reference[2]);
+                    }
                     if (label != 0)
                     {
                         record.DrawsOutsideBasin++;

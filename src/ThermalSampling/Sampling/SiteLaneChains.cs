@@ -162,6 +162,11 @@ internal static class SiteLaneChains
                 counts[0] = record.Draws; // no point of the confinement lies outside the site's basin: nothing was looked up
             }
             record.DrawsPerBasin = counts;
+            int block = labels * EnergyBinSums.Groups * ChainRecord.BasinSumValues;
+            if (_tally.BasinSums.Length > 0)
+            {
+                record.BasinSums = _tally.BasinSums.AsSpan(lane * block, block).ToArray();
+            }
             (record.DrawsNearWall, record.DrawsOutsideBasin) = ((long)TOps.Get(Sums.NearWall, lane), record.Draws - counts[0]);
             int slots = _tally.Frame.Slots;
             record.Shape!.AddCounts(_tally.ShapeCounts.AsSpan(lane * slots, slots));
@@ -194,6 +199,7 @@ internal static class SiteLaneChains
         private protected override void StartRecords()
         {
             Array.Clear(_tally.BasinCounts);
+            Array.Clear(_tally.BasinSums);
             Array.Clear(_tally.ShapeCounts);
         }
 
@@ -232,12 +238,14 @@ internal static class SiteLaneChains
         private protected override void SaveExtra(StateWriter w)
         {
             w.Longs("BASN", _tally.BasinCounts);
+            w.Doubles("BASS", _tally.BasinSums);
             w.Longs("SHPL", _tally.ShapeCounts);
         }
 
         private protected override void LoadExtra(StateReader r)
         {
             r.Longs("BASN", _tally.BasinCounts.Length).CopyTo(_tally.BasinCounts, 0);
+            r.DoublesInto("BASS", _tally.BasinSums);
             r.Longs("SHPL", _tally.ShapeCounts.Length).CopyTo(_tally.ShapeCounts, 0);
         }
     }
@@ -543,6 +551,7 @@ internal static class SiteLaneChains
         private readonly LaneConfinement<TOps, TD, TB> _confinement;
         private readonly TD _minX, _minY, _minZ, _gridX0, _gridY0, _gridZ0, _gridScale, _gridN;
         private readonly long[] _basinCounts;
+        private readonly double[] _basinSums;
         private readonly int _labelCount;
         private readonly byte[] _outsideMask;
         private readonly bool _countOutside, _momentsOnly;
@@ -563,6 +572,7 @@ internal static class SiteLaneChains
             var grid = tally.Basin;
             _outsideMask = grid.Labels;
             _basinCounts = tally.BasinCounts;
+            _basinSums = tally.BasinSums;
             _labelCount = grid.LabelCount;
             _countOutside = grid.AnyOutside;
             (_gridX0, _gridY0, _gridZ0) = (TOps.Broadcast(grid.X0), TOps.Broadcast(grid.Y0), TOps.Broadcast(grid.Z0));
@@ -645,9 +655,30 @@ internal static class SiteLaneChains
                 TOps.StoreBits(TOps.Truncate(flat), ref index[0]);
                 var labels = _outsideMask;
                 var basinCounts = _basinCounts;
+                // Each basin's draws and sums of the displacement and its products, per group of draws (the per-basin
+                // mean and covariance, with a jackknife over the groups): the displacements leave the vector once.
+                var scratch = _tally.Scratch;
+                int n = TOps.Count, group = _tally.GroupAt(j);
+                TOps.Store(mx, ref scratch[0]);
+                TOps.Store(my, ref scratch[n]);
+                TOps.Store(mz, ref scratch[2 * n]);
+                var basinSums = _basinSums;
                 for (int lane = 0; lane < _tally.Lanes; lane++)
                 {
-                    basinCounts[lane * _labelCount + labels[index[lane]]]++;
+                    int label = labels[index[lane]];
+                    basinCounts[lane * _labelCount + label]++;
+                    int at = ((lane * _labelCount + label) * EnergyBinSums.Groups + group) * ChainRecord.BasinSumValues;
+                    double x = scratch[lane], y = scratch[n + lane], z = scratch[2 * n + lane];
+                    basinSums[at]++;
+                    basinSums[at + 1] += x;
+                    basinSums[at + 2] += y;
+                    basinSums[at + 3] += z;
+                    basinSums[at + 4] += x * x;
+                    basinSums[at + 5] += y * y;
+                    basinSums[at + 6] += z * z;
+                    basinSums[at + 7] += x * y;
+                    basinSums[at + 8] += x * z;
+                    basinSums[at + 9] += y * z;
                 }
             }
             _tally.Keep(j, 3, point.X, point.Y, point.Z);
@@ -723,6 +754,9 @@ internal static class SiteLaneChains
 
         /// <summary>Recorded draws per basin label (<see cref="BasinGrid.Labels"/>), lane-major.</summary>
         internal long[] BasinCounts { get; } = new long[records.Length * basin.LabelCount];
+
+        /// <summary>Per lane, basin label and group of draws, <see cref="ChainRecord.BasinSumValues"/> sums (<see cref="ChainRecord.BasinSums"/>'s layout), lane-major; empty when the map has one basin.</summary>
+        internal double[] BasinSums { get; } = new double[basin.AnyOutside ? records.Length * basin.LabelCount * EnergyBinSums.Groups * ChainRecord.BasinSumValues : 0];
 
         /// <summary>The confinement and wall band, for the near-wall count.</summary>
         internal (Confinement Confinement, Position Centre, double WallBand) Confinement { get; } = (confinement, centre, wallBand);

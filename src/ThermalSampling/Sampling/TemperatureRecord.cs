@@ -23,7 +23,7 @@ public sealed class TemperatureRecord
     public const string FormatName = "thermal-sampling-record";
 
     /// <summary>The layout version this library writes and reads.</summary>
-    public const int FormatVersion = 3;
+    public const int FormatVersion = 4;
 
     internal TemperatureRecord(string landscapeKind, string landscape, string landscapeFingerprint, Temperature temperature, SamplingSettings settings,
         double targetAcceptance, double proposalUnitInAngstroms, RecordLayout layout, ImmutableArray<ChainRecord> chains, string libraryVersion)

@@ -236,21 +236,33 @@ internal static class GroupJackknife
     internal static (double[] Values, double[] StandardErrors, int Groups) Run(IReadOnlyList<CumulantSums> chains, int outputs, Estimator estimate)
     {
         int size = chains[0].Size;
+        return Run(chains.Count, CumulantSums.MaxGroups, size, (c, g) => chains[c].Groups.Slice(g * size, size), outputs, estimate);
+    }
+
+    /// <summary>Group <paramref name="group"/> of chain <paramref name="chain"/>: its sums, the draws first.</summary>
+    internal delegate ReadOnlySpan<double> GroupSums(int chain, int group);
+
+    /// <summary>
+    /// The same over any layout of sums: <paramref name="chains"/> chains of <paramref name="groupsPerChain"/> groups of
+    /// <paramref name="size"/> sums each (the first being the group's draws; empty groups are left out).
+    /// </summary>
+    internal static (double[] Values, double[] StandardErrors, int Groups) Run(int chains, int groupsPerChain, int size, GroupSums sumsOf, int outputs, Estimator estimate)
+    {
         var total = new double[size];
-        var groups = new List<int>(); // (chain, group) flattened as chain·MaxGroups + group, for the non-empty groups
-        for (int c = 0; c < chains.Count; c++)
+        var groups = new List<int>(); // (chain, group) flattened as chain·groupsPerChain + group, for the non-empty groups
+        for (int c = 0; c < chains; c++)
         {
-            var all = chains[c].Groups;
-            for (int g = 0; g < CumulantSums.MaxGroups; g++)
+            for (int g = 0; g < groupsPerChain; g++)
             {
-                if (all[g * size] == 0)
+                var sums = sumsOf(c, g);
+                if (sums[0] == 0)
                 {
                     continue;
                 }
-                groups.Add(c * CumulantSums.MaxGroups + g);
+                groups.Add(c * groupsPerChain + g);
                 for (int i = 0; i < size; i++)
                 {
-                    total[i] += all[g * size + i];
+                    total[i] += sums[i];
                 }
             }
         }
@@ -268,7 +280,7 @@ internal static class GroupJackknife
         var estimates = new double[n * outputs];
         for (int k = 0; k < n; k++)
         {
-            var group = chains[groups[k] / CumulantSums.MaxGroups].Groups.Slice(groups[k] % CumulantSums.MaxGroups * size, size);
+            var group = sumsOf(groups[k] / groupsPerChain, groups[k] % groupsPerChain);
             for (int i = 0; i < size; i++)
             {
                 left[i] = total[i] - group[i];
