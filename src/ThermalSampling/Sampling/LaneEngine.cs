@@ -167,6 +167,9 @@ internal abstract class LaneGroup : LaneGroupProgress
 
     /// <summary>Sets lane <paramref name="lane"/>'s configuration.</summary>
     internal abstract void WriteConfiguration(int lane, ReadOnlySpan<double> values);
+
+    /// <summary>Before <see cref="Open"/>: record no sums for reweighting across temperatures (<see cref="LaneTally.SkipReweighting"/>).</summary>
+    internal abstract void SkipReweighting();
 }
 
 /// <summary>How chains are packed into lane groups, and any kind of chain's group run at a lane count chosen at run time.</summary>
@@ -293,6 +296,8 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
     }
 
     internal sealed override double Energy(int lane) => TOps.Get(_walk.Point(State).Energy, lane);
+
+    internal sealed override void SkipReweighting() => Tally.SkipReweighting();
 
     internal sealed override void ReadConfiguration(int lane, Span<double> values) => _walk.ReadConfiguration(State, lane, values);
 

@@ -174,7 +174,10 @@ internal class LaneTally
             records[lane].Bins.AddCounts(Counts.AsSpan(lane * Bins, Bins));
             records[lane].EnergyHistogram.AddCounts(EnergyCounts.AsSpan(lane * EnergyHistogram.Slots, EnergyHistogram.Slots));
             int block = EnergyBinSums.Groups * EnergyBinSums.Slots;
-            records[lane].Reweighting.AddAll(RwCounts.AsSpan(lane * block, block), RwSums.AsSpan(lane * block * RwValues, block * RwValues));
+            if (RwCounts.Length > 0)
+            {
+                records[lane].Reweighting.AddAll(RwCounts.AsSpan(lane * block, block), RwSums.AsSpan(lane * block * RwValues, block * RwValues));
+            }
             for (long k = 0; k < kept; k++)
             {
                 long row = Coordinates * (lane * (long)Retained + k);
@@ -244,10 +247,17 @@ internal class LaneTally
     internal int RwValues { get; }
 
     /// <summary>Lane-major fine energy counts for reweighting (<see cref="EnergyBinSums"/>).</summary>
-    internal long[] RwCounts { get; }
+    internal long[] RwCounts { get; private set; }
 
     /// <summary>Lane-major per-bin sums for reweighting.</summary>
-    internal double[] RwSums { get; }
+    internal double[] RwSums { get; private set; }
+
+    /// <summary>
+    /// Records no sums for reweighting across temperatures (a ladder's rungs: nothing reweights them, and every rung's
+    /// fine energy bins live at once outgrow the cache). Called before the group is opened; its checkpoints then hold
+    /// empty sections, and its records' reweighting sums stay empty.
+    /// </summary>
+    internal void SkipReweighting() => (RwCounts, RwSums) = ([], []);
 
     /// <summary>Scratch for one vector's fine slots and values.</summary>
     internal double[] RwScratch { get; }
@@ -288,6 +298,7 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
     private readonly double[] _scratch, _kept, _rwSums, _rwScratch;
     private readonly long _keptStride, _done, _retain, _samples, _nextGroupStart;
     private readonly int _group;
+    private readonly bool _reweight;
 
     /// <param name="tally">The group's tally.</param>
     /// <param name="done">Recorded steps before the chunk.</param>
@@ -309,6 +320,7 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
             _rwScale = TOps.Set(_rwScale, lane, tally.RwScales[lane]);
         }
         (_rwCounts, _rwSums, _rwScratch, _samples) = (tally.RwCounts, tally.RwSums, tally.RwScratch, tally.Samples);
+        _reweight = tally.RwCounts.Length > 0;
         // The reweighting group of the chunk's first draw, and where the next begins (⌈(g + 1)N/G⌉): within a chunk the
         // group is then a comparison, not a division per counted draw.
         _group = EnergyBinSums.GroupOf(done, _samples);
@@ -353,7 +365,7 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     internal void ReweightLine(int j, TD de, TD b)
     {
-        if (((_done + j) & (EnergyBinSums.Stride - 1)) != 0)
+        if (((_done + j) & (EnergyBinSums.Stride - 1)) != 0 || !_reweight)
         {
             return;
         }
@@ -375,7 +387,7 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     internal void ReweightSite(int j, TD de, TD ux, TD uy, TD uz)
     {
-        if (((_done + j) & (EnergyBinSums.Stride - 1)) != 0)
+        if (((_done + j) & (EnergyBinSums.Stride - 1)) != 0 || !_reweight)
         {
             return;
         }

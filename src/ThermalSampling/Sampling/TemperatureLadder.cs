@@ -301,6 +301,7 @@ internal sealed class TemperatureLadder
             for (int g = 0; g < perRung; g++)
             {
                 groups[k][g] = plans[k].BuildGroup(lanes, g * lanes, chains, g);
+                groups[k][g].SkipReweighting(); // nothing reweights a rung's records, and every rung's fine energy bins at once do not stay in the cache
             }
         }
         var (records, tallies) = new TemperatureLadder(groups, betas, settings, lanes).Run(session, settings.MaxThreads, ct);
