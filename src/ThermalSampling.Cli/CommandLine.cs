@@ -19,7 +19,7 @@ internal static class CommandLine
     {
         var scenario = new Argument<string>("SCENARIO.json") { Description = "The scenario file (keys in docs/cli.md)." };
         var checkpointFile = new Argument<string>("CHECKPOINT") { Description = "A checkpoint written by run or sweep with --checkpoint." };
-        var format = new Option<string?>("--format") { Description = "table, json, markdown, csv, tidy-csv or json-lines (one row per temperature and quantity), or distribution-csv (the densities, one row per bin; default: table for demo, json otherwise).", HelpName = "F" };
+        var format = new Option<string?>("--format") { Description = "table, json, markdown, csv, tidy-csv, json-lines or parquet (one row per temperature, quantity and method), or distribution-csv (the densities, one row per bin; default: table for demo, json otherwise).", HelpName = "F" };
         format.AcceptOnlyFromAmong(Renderers.Formats);
         var output = new Option<string?>("--output") { Description = "Write the report to FILE instead of standard output.", HelpName = "FILE" };
         var samples = new Option<string?>("--samples") { Description = "Also write the raw draws (up to 1 000 000 per chain) to FILE.csv.", HelpName = "FILE.csv" };

@@ -12,7 +12,7 @@ namespace ThermalSampling.Cli;
 /// <summary>The output formats of <c>run</c>, <c>sweep</c> and <c>demo</c>.</summary>
 internal static class Renderers
 {
-    internal static readonly string[] Formats = { "table", "json", "markdown", "csv", "tidy-csv", "json-lines", "distribution-csv" };
+    internal static readonly string[] Formats = { "table", "json", "markdown", "csv", "tidy-csv", "json-lines", "parquet", "distribution-csv" };
 
     /// <summary>The width a table is fitted to when standard output is not a terminal (and the most it uses on a wide one).</summary>
     internal const int DefaultWidth = 120;
@@ -41,6 +41,11 @@ internal static class Renderers
         if (format == "json-lines")
         {
             TidyWriter.WriteJsonLines(results, output);
+            return;
+        }
+        if (format == "parquet")
+        {
+            TidyWriter.WriteParquet(results, output);
             return;
         }
         if (format == "distribution-csv")

@@ -130,6 +130,53 @@ internal static class TidyWriter
         }
     }
 
+    /// <summary>One tidy row as Parquet stores it (the columns of <c>tidy-csv</c>, with their types).</summary>
+    internal sealed class ParquetRow
+    {
+        /// <summary>The scenario's title.</summary>
+        public string Scenario { get; set; } = "";
+
+        /// <summary>K.</summary>
+        public double Temperature { get; set; }
+
+        /// <summary>The quantity.</summary>
+        public string Quantity { get; set; } = "";
+
+        /// <summary>The tensor component, empty for a scalar.</summary>
+        public string Component { get; set; } = "";
+
+        /// <summary>Where the value comes from.</summary>
+        public string Method { get; set; } = "";
+
+        /// <summary>The value, in the scenario's units.</summary>
+        public double Value { get; set; }
+
+        /// <summary>Its standard error, or null where none is estimated.</summary>
+        public double? StdErr { get; set; }
+
+        /// <summary>The unit.</summary>
+        public string Unit { get; set; } = "";
+    }
+
+    /// <summary>
+    /// The tidy rows as one Apache Parquet file (Parquet.Net's class serialiser): the columns of <c>tidy-csv</c>, typed
+    /// (strings, doubles, and a nullable double for the standard error). Built in memory, so it can go to a stream that
+    /// cannot seek, such as standard output.
+    /// </summary>
+    internal static void WriteParquet(ScenarioResults results, Stream output)
+    {
+        string scenario = results.Scenario.Title;
+        var rows = Rows(results).Select(r => new ParquetRow
+        {
+            Scenario = scenario, Temperature = r.Temperature, Quantity = r.Quantity, Component = r.Component, Method = r.Method, Value = r.Value,
+            StdErr = r.StandardError is double x && double.IsFinite(x) ? x : null, Unit = r.Unit,
+        }).ToList();
+        using var buffer = new MemoryStream();
+        Parquet.Serialization.ParquetSerializer.SerializeAsync(rows, buffer).GetAwaiter().GetResult();
+        buffer.Position = 0;
+        buffer.CopyTo(output);
+    }
+
     /// <summary>A CSV field: quoted (inner quotes doubled) when it holds a comma, a quote or a line break.</summary>
     private static string Csv(string text)
         => text.AsSpan().IndexOfAny(",\"\r\n") < 0 ? text : "\"" + text.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"";

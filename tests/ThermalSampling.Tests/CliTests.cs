@@ -145,7 +145,7 @@ public class CliTests
 
     /// <summary>The tidy formats: one row per temperature and quantity, the same numbers as the JSON document.</summary>
     [Fact]
-    public void Tidy_formats_give_one_row_per_temperature_and_quantity()
+    public async System.Threading.Tasks.Task Tidy_formats_give_one_row_per_temperature_and_quantity()
     {
         var (code, csv, stderr) = Run(SiteScenario, "--format", "tidy-csv");
         Assert.True(code == 0, stderr);
@@ -162,6 +162,28 @@ public class CliTests
         double msd = doc.RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble();
         var row = rows.First(r => r.GetProperty("quantity").GetString() == "meanSquareDisplacement");
         Assert.Equal(msd, row.GetProperty("value").GetDouble());
+        // Parquet (read back with Parquet.Net): the same rows, typed, with null where no error is estimated.
+        string parquet = Path.Combine(Path.GetTempPath(), $"ts-{Guid.NewGuid():N}.parquet");
+        try
+        {
+            var (parquetCode, _, parquetErr) = Run(SiteScenario, "--format", "parquet", "--output", parquet);
+            Assert.True(parquetCode == 0, parquetErr);
+            using var file = File.OpenRead(parquet);
+            var read = (await Parquet.Serialization.ParquetSerializer.DeserializeAsync<TidyWriter.ParquetRow>(file)).Data;
+            Assert.Equal(rows.Count, read.Count);
+            for (int i = 0; i < rows.Count; i++)
+            {
+                Assert.Equal(rows[i].GetProperty("quantity").GetString(), read[i].Quantity);
+                Assert.Equal(rows[i].GetProperty("method").GetString(), read[i].Method);
+                Assert.Equal(rows[i].GetProperty("value").GetDouble(), read[i].Value);
+                Assert.Equal(rows[i].GetProperty("stdErr").ValueKind == JsonValueKind.Null ? null : (double?)rows[i].GetProperty("stdErr").GetDouble(), read[i].StdErr);
+                Assert.Equal(rows[i].GetProperty("scenario").GetString(), read[i].Scenario);
+            }
+        }
+        finally
+        {
+            File.Delete(parquet);
+        }
     }
 
     [Fact]
