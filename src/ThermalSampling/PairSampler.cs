@@ -130,15 +130,12 @@ public static class PairSampler
         where TPotential : struct, IPairPotential
     {
         var references = list.Select(t => PairSummary.Analyse(landscape, mass, t)).ToArray();
-        var plans = list.Select((t, k) => PlanOne(landscape, references[k], t, settings, progress, TemperatureLadder.StreamOffset(k, settings.Chains))).ToArray();
-        var (records, tallies) = TemperatureLadder.RunPlans(plans, [.. list.Select(t => 1 / t.ThermalEnergyInElectronVolts)], settings, session, cancellationToken);
-        ImmutableArray<double> ladder = [.. list.Select(t => t.InKelvin)];
-        return [.. list.Select((t, k) =>
-        {
-            var report = PairSummary.Summarise(landscape, mass, t, settings, references[k], records[k]);
-            var swaps = LadderSummary.Diagnostics(k, ladder, tallies);
-            return report with { Diagnostics = report.Diagnostics with { ReplicaExchange = swaps }, Warnings = LadderSummary.Warnings(report.Warnings, swaps) };
-        })];
+        return Sweeps.RunLadder(list, settings, session, cancellationToken, (k, offset) => PlanOne(landscape, references[k], list[k], settings, progress, offset),
+            (k, record, swaps) =>
+            {
+                var report = PairSummary.Summarise(landscape, mass, list[k], settings, references[k], record);
+                return report with { Diagnostics = report.Diagnostics with { ReplicaExchange = swaps }, Warnings = LadderSummary.Warnings(report.Warnings, swaps) };
+            });
     }
 
     /// <summary>Runs the sampler at several temperatures with the same settings (the seed is shared; each temperature is an independent run).</summary>

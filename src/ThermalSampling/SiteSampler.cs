@@ -97,16 +97,13 @@ public static class SiteSampler
         where TPotential : struct, IPairPotential
     {
         var harmonics = list.Select(t => SiteAnalysis.Harmonic(landscape, mass, t)).ToArray();
-        var plans = list.Select((t, k) => SiteChains.Plan(landscape, harmonics[k], settings.TargetAcceptance ?? DefaultTargetAcceptance, t, settings, progress,
-            streamOffset: TemperatureLadder.StreamOffset(k, settings.Chains))).ToArray();
-        var (records, tallies) = TemperatureLadder.RunPlans(plans, [.. list.Select(t => 1 / t.ThermalEnergyInElectronVolts)], settings, session, cancellationToken);
-        ImmutableArray<double> ladder = [.. list.Select(t => t.InKelvin)];
-        return [.. list.Select((t, k) =>
-        {
-            var report = SiteSummary.Summarise(landscape, mass, t, settings, harmonics[k], records[k]);
-            var swaps = LadderSummary.Diagnostics(k, ladder, tallies);
-            return report with { Diagnostics = report.Diagnostics with { ReplicaExchange = swaps }, Warnings = LadderSummary.Warnings(report.Warnings, swaps) };
-        })];
+        return Sweeps.RunLadder(list, settings, session, cancellationToken,
+            (k, offset) => SiteChains.Plan(landscape, harmonics[k], settings.TargetAcceptance ?? DefaultTargetAcceptance, list[k], settings, progress, streamOffset: offset),
+            (k, record, swaps) =>
+            {
+                var report = SiteSummary.Summarise(landscape, mass, list[k], settings, harmonics[k], record);
+                return report with { Diagnostics = report.Diagnostics with { ReplicaExchange = swaps }, Warnings = LadderSummary.Warnings(report.Warnings, swaps) };
+            });
     }
 
     /// <inheritdoc cref="PairSampler.Sweep{TPotential}(PairLandscape{TPotential}, Mass, IEnumerable{Temperature}, SamplingSettings, IProgress{SamplingProgress}?, CancellationToken)"/>

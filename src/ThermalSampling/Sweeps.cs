@@ -94,6 +94,20 @@ internal static class Sweeps
         }
     }
 
+    /// <summary>
+    /// Every temperature of <paramref name="list"/> as one replica-exchange ladder: rung k planned by
+    /// <paramref name="plan"/>(k, its stream offset k·C), the rungs run together with swaps, and each rung's record
+    /// summarised by <paramref name="summarise"/>(k, record, its swap diagnostics).
+    /// </summary>
+    internal static ImmutableArray<TReport> RunLadder<TReport>(List<Temperature> list, SamplingSettings settings, CheckpointSession? session,
+        System.Threading.CancellationToken ct, Func<int, int, TemperaturePlan> plan, Func<int, TemperatureRecord, Reports.ReplicaExchangeDiagnostics, TReport> summarise)
+    {
+        var plans = list.Select((_, k) => plan(k, TemperatureLadder.StreamOffset(k, settings.Chains))).ToArray();
+        var (records, tallies) = TemperatureLadder.RunPlans(plans, [.. list.Select(t => 1 / t.ThermalEnergyInElectronVolts)], settings, session, ct);
+        ImmutableArray<double> ladder = [.. list.Select(t => t.InKelvin)];
+        return [.. list.Select((_, k) => summarise(k, records[k], Reports.LadderSummary.Diagnostics(k, ladder, tallies)))];
+    }
+
     private static (List<Temperature> List, SweepIdentity Identity) Prepare<TLandscape>(TLandscape landscape, Mass mass, IEnumerable<Temperature> temperatures,
         SamplingSettings settings, IdentityOf<TLandscape> identityOf)
         where TLandscape : class
