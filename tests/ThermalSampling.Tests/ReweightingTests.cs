@@ -41,6 +41,20 @@ public class ReweightingTests(ITestOutputHelper output)
             double combined = Math.Sqrt(r.Variance.StandardError * r.Variance.StandardError + direct.Variance.StandardError * direct.Variance.StandardError);
             Assert.True(Math.Abs(r.Variance.Value - direct.Variance.Value) < 4 * combined);
             Assert.True(r.Variance.StandardError > 0 && r.Source.Overlap >= Reweighting.MinimumOverlap);
+            // ⟨V⟩ against an independent quadrature (MathNet Gauss–Legendre, 64 panels of 32 points over the window), within
+            // 4 standard errors and half a fine energy bin (the estimate takes each draw's energy at its bin's centre; the
+            // bins are at most kT/32 wide).
+            double kt = r.Temperature.ThermalEnergyInElectronVolts, vRef = sampled[0].Chains[0].EnergyReferenceInElectronVolts;
+            double lo = Line.WindowLowerInAngstroms, h = Line.WindowWidthInAngstroms / 64, z = 0, zv = 0;
+            for (int panel = 0; panel < 64; panel++)
+            {
+                double a = lo + panel * h;
+                z += MathNet.Numerics.Integration.GaussLegendreRule.Integrate(x => Math.Exp(-(Line.Potential.Energy(x) - vRef) / kt), a, a + h, 32);
+                zv += MathNet.Numerics.Integration.GaussLegendreRule.Integrate(x => (Line.Potential.Energy(x) - vRef) * Math.Exp(-(Line.Potential.Energy(x) - vRef) / kt), a, a + h, 32);
+            }
+            double exactEnergy = zv / z;
+            output.WriteLine($"  ⟨V⟩ − V_ref {r.PotentialEnergy.Value:G6} ± {r.PotentialEnergy.StandardError:G3} eV, quadrature {exactEnergy:G6} eV");
+            Assert.True(Math.Abs(r.PotentialEnergy.Value - exactEnergy) < 4 * r.PotentialEnergy.StandardError + kt / 64, $"⟨V⟩ at {r.Temperature.InKelvin} K");
         }
     }
 
