@@ -163,6 +163,20 @@ public class PathIntegralTests(ITestOutputHelper output)
             Assert.InRange(basis / harmonic, 0.98, 1.02);
             Assert.True(Math.Abs(sampled - harmonic) < 4 * se + 0.02 * harmonic);
         }
+        // The centroid-virial kinetic energy against Σ_modes (ħω/4) coth(ħω/2kT), and the zero-point spread against
+        // Σ_modes ħ/(2mω), from CODATA 2018 constants written out here (ħ = 6.582119569e-16 eV s, u = 1.66053906660e-27 kg,
+        // e = 1.602176634e-19 C) and the modes' angular frequencies.
+        const double hbarEvS = 6.582119569e-16, atomicMassKg = 1.66053906660e-27, electronVolt = 1.602176634e-19;
+        double kt = 8.617333262e-5 * 40, kinetic = 0, zeroPoint = 0;
+        foreach (var mode in Analysis.SiteAnalysis.Harmonic(site, Mass.FromAtomicMassUnits(6), Temperature.FromKelvin(40)).Modes)
+        {
+            double hw = hbarEvS * mode.AngularFrequencyPerSecond;
+            kinetic += hw / 4 / Math.Tanh(hw / (2 * kt));
+            zeroPoint += hbarEvS * electronVolt / (2 * 6 * atomicMassKg * mode.AngularFrequencyPerSecond) * 1e20; // m² to Å²
+        }
+        output.WriteLine($"kinetic {report.KineticEnergy} closed form {kinetic:G6}; zero-point {report.PathIntegral.ZeroPointVarianceInAngstromsSquared:G6} closed form {zeroPoint:G6}");
+        Assert.True(Math.Abs(report.KineticEnergy.Value - kinetic) < 4 * report.KineticEnergy.StandardError + 0.02 * kinetic, $"{report.KineticEnergy} against {kinetic:G6}");
+        Assert.Equal(1.0, report.PathIntegral.ZeroPointVarianceInAngstromsSquared / zeroPoint, 9);
     }
 
     /// <summary>
