@@ -107,6 +107,12 @@ public class BasinTests
             var mine = draws.Where(p => grid.LabelOf(p.X, p.Y, p.Z) == b.Index).ToList();
             var mean = (1.0 / mine.Count) * new Position(mine.Sum(p => p.X), mine.Sum(p => p.Y), mine.Sum(p => p.Z));
             double msd = mine.Average(p => (p - mean).Norm * (p - mean).Norm);
+            double xy = mine.Average(p => (p.X - mean.X) * (p.Y - mean.Y)), xz = mine.Average(p => (p.X - mean.X) * (p.Z - mean.Z));
+            double yz = mine.Average(p => (p.Y - mean.Y) * (p.Z - mean.Z)), zz = mine.Average(p => (p.Z - mean.Z) * (p.Z - mean.Z));
+            Assert.Equal(xy, b.Covariance!.Value.XY, 9);
+            Assert.Equal(xz, b.Covariance.Value.XZ, 9);
+            Assert.Equal(yz, b.Covariance.Value.YZ, 9);
+            Assert.Equal(zz, b.Covariance.Value.ZZ, 9);
             Assert.Equal(mean.X, b.Mean!.Value.X, 9);
             Assert.Equal(mean.Y, b.Mean.Value.Y, 9);
             Assert.Equal(mean.Z, b.Mean.Value.Z, 9);

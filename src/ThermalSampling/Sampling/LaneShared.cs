@@ -44,7 +44,11 @@ internal static class LaneFaultCheck
         faults.Energy = TOps.Select(ok, faults.Energy, e);
     }
 
-    internal static void ThrowIfAny<TOps, TD, TB>(in LaneFaults<TD> faults, string description)
+    /// <summary>
+    /// Throws for the first faulted lane, naming what <paramref name="describe"/> says of <paramref name="source"/> (a potential
+    /// or a bead field); the description is built only then (formatting it costs more than a chunk of a ladder's steps).
+    /// </summary>
+    internal static void ThrowIfAny<TOps, TD, TB, TSource>(in LaneFaults<TD> faults, in TSource source, Func<TSource, string> describe)
         where TOps : struct, ILaneOps<TD, TB>
         where TD : struct
         where TB : struct
@@ -54,7 +58,7 @@ internal static class LaneFaultCheck
             return;
         }
         int lane = FirstFaultedLane<TOps, TD, TB>(faults);
-        throw new NonFiniteEnergyException(TOps.Get(faults.Separation, lane), TOps.Get(faults.Energy, lane), description);
+        throw new NonFiniteEnergyException(TOps.Get(faults.Separation, lane), TOps.Get(faults.Energy, lane), describe(source));
     }
 
     /// <summary>The first lane whose noted energy is −∞ or NaN (the last lane when none is).</summary>

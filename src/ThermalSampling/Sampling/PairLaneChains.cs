@@ -180,7 +180,7 @@ internal static class PairLaneChains
             var e = _potential.LaneEnergy<TOps, TD, TB>(r);
             var faults = LaneFaultCheck.None<TOps, TD, TB>();
             LaneFaultCheck.Note<TOps, TD, TB>(ref faults, r, e);
-            LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _potential.Description);
+            LaneFaultCheck.ThrowIfAny<TOps, TD, TB, TPotential>(faults, _potential, static p => p.Description);
             state.Energy = e;
             state.Jacobian = _radial ? TOps.Multiply(r, r) : TOps.Broadcast(1.0);
         }
@@ -226,12 +226,7 @@ internal static class PairLaneChains
             => (words[0], words[1], words[2], words[3]) = (TOps.GetBits(state.R0, lane), TOps.GetBits(state.R1, lane), TOps.GetBits(state.R2, lane), TOps.GetBits(state.R3, lane));
 
         public void ThrowIfFaulted(in PairWalkState<TD, TB> state, in PairWalkState<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
-        {
-            if (!TOps.AllTrue(state.Faults.AllFinite))
-            {
-                LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(state.Faults, _potential.Description); // the description is built only for the error (a ladder checks every few steps)
-            }
-        }
+            => LaneFaultCheck.ThrowIfAny<TOps, TD, TB, TPotential>(state.Faults, _potential, static p => p.Description);
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         public LanePoint<TD> Point(in PairWalkState<TD, TB> state) => new(state.Position, default, default, state.Energy);

@@ -150,7 +150,7 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
             _wall[k] = _field.Wall(x, y, z);
             LaneFaultCheck.Note<TOps, TD, TB>(ref faults, x, _energy[k]);
         }
-        LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(faults, _field.Description);
+        LaneFaultCheck.ThrowIfAny<TOps, TD, TB, TField>(faults, _field, static f => f.Description);
         Show(ref state, 0);
     }
 
@@ -190,12 +190,7 @@ internal readonly struct RingWalk<TOps, TD, TB, TField> : ILaneWalk<TD, RingStat
         => (words[0], words[1], words[2], words[3]) = (TOps.GetBits(state.R0, lane), TOps.GetBits(state.R1, lane), TOps.GetBits(state.R2, lane), TOps.GetBits(state.R3, lane));
 
     public void ThrowIfFaulted(in RingState<TD, TB> state, in RingState<TD, TB> before, TD logWidthBefore, double[]? gains, TD width, int chunk)
-    {
-        if (!TOps.AllTrue(state.Faults.AllFinite))
-        {
-            LaneFaultCheck.ThrowIfAny<TOps, TD, TB>(state.Faults, _field.Description); // the description is built only for the error
-        }
-    }
+        => LaneFaultCheck.ThrowIfAny<TOps, TD, TB, TField>(state.Faults, _field, static f => f.Description);
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public LanePoint<TD> Point(in RingState<TD, TB> state) => new(state.X, state.Y, state.Z, state.Energy);

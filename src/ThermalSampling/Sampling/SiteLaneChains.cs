@@ -156,17 +156,25 @@ internal static class SiteLaneChains
         private protected override void CompleteRecord(ChainRecord record, int lane)
         {
             int labels = _tally.Basin.LabelCount;
-            var counts = _tally.BasinCounts.AsSpan(lane * labels, labels).ToArray();
-            if (!_tally.Basin.AnyOutside)
+            var counts = new long[labels];
+            if (_tally.BasinSums.Length == 0)
             {
                 counts[0] = record.Draws; // no point of the confinement lies outside the site's basin: nothing was looked up
             }
-            record.DrawsPerBasin = counts;
-            int block = labels * EnergyBinSums.Groups * ChainRecord.BasinSumValues;
-            if (_tally.BasinSums.Length > 0)
+            else
             {
+                // Each basin's draws are the first of its sums in every group (exact in a double up to 2^53 draws).
+                int block = labels * EnergyBinSums.Groups * ChainRecord.BasinSumValues;
                 record.BasinSums = _tally.BasinSums.AsSpan(lane * block, block).ToArray();
+                for (int l = 0; l < labels; l++)
+                {
+                    for (int g = 0; g < EnergyBinSums.Groups; g++)
+                    {
+                        counts[l] += (long)record.BasinSums[(l * EnergyBinSums.Groups + g) * ChainRecord.BasinSumValues];
+                    }
+                }
             }
+            record.DrawsPerBasin = counts;
             (record.DrawsNearWall, record.DrawsOutsideBasin) = ((long)TOps.Get(Sums.NearWall, lane), record.Draws - counts[0]);
             int slots = _tally.Frame.Slots;
             record.Shape!.AddCounts(_tally.ShapeCounts.AsSpan(lane * slots, slots));
@@ -198,7 +206,6 @@ internal static class SiteLaneChains
 
         private protected override void StartRecords()
         {
-            Array.Clear(_tally.BasinCounts);
             Array.Clear(_tally.BasinSums);
             Array.Clear(_tally.ShapeCounts);
         }
@@ -237,14 +244,12 @@ internal static class SiteLaneChains
 
         private protected override void SaveExtra(StateWriter w)
         {
-            w.Longs("BASN", _tally.BasinCounts);
             w.Doubles("BASS", _tally.BasinSums);
             w.Longs("SHPL", _tally.ShapeCounts);
         }
 
         private protected override void LoadExtra(StateReader r)
         {
-            r.Longs("BASN", _tally.BasinCounts.Length).CopyTo(_tally.BasinCounts, 0);
             r.DoublesInto("BASS", _tally.BasinSums);
             r.Longs("SHPL", _tally.ShapeCounts.Length).CopyTo(_tally.ShapeCounts, 0);
         }
@@ -550,7 +555,6 @@ internal static class SiteLaneChains
         private readonly LaneTallyView<TOps, TD, TB> _tally;
         private readonly LaneConfinement<TOps, TD, TB> _confinement;
         private readonly TD _minX, _minY, _minZ, _gridX0, _gridY0, _gridZ0, _gridScale, _gridN;
-        private readonly long[] _basinCounts;
         private readonly double[] _basinSums;
         private readonly int _labelCount;
         private readonly byte[] _outsideMask;
@@ -571,7 +575,6 @@ internal static class SiteLaneChains
             (_minX, _minY, _minZ) = (TOps.Broadcast(minimum.X), TOps.Broadcast(minimum.Y), TOps.Broadcast(minimum.Z));
             var grid = tally.Basin;
             _outsideMask = grid.Labels;
-            _basinCounts = tally.BasinCounts;
             _basinSums = tally.BasinSums;
             _labelCount = grid.LabelCount;
             _countOutside = grid.AnyOutside;
@@ -654,7 +657,6 @@ internal static class SiteLaneChains
                 var index = _tally.Index;
                 TOps.StoreBits(TOps.Truncate(flat), ref index[0]);
                 var labels = _outsideMask;
-                var basinCounts = _basinCounts;
                 // Each basin's draws and sums of the displacement and its products, per group of draws (the per-basin
                 // mean and covariance, with a jackknife over the groups): the displacements leave the vector once.
                 var scratch = _tally.Scratch;
@@ -666,7 +668,6 @@ internal static class SiteLaneChains
                 for (int lane = 0; lane < _tally.Lanes; lane++)
                 {
                     int label = labels[index[lane]];
-                    basinCounts[lane * _labelCount + label]++;
                     int at = ((lane * _labelCount + label) * EnergyBinSums.Groups + group) * ChainRecord.BasinSumValues;
                     double x = scratch[lane], y = scratch[n + lane], z = scratch[2 * n + lane];
                     basinSums[at]++;
@@ -752,10 +753,10 @@ internal static class SiteLaneChains
         /// <summary>The site's basin map, for the membership test of every draw.</summary>
         internal BasinGrid Basin { get; } = basin;
 
-        /// <summary>Recorded draws per basin label (<see cref="BasinGrid.Labels"/>), lane-major.</summary>
-        internal long[] BasinCounts { get; } = new long[records.Length * basin.LabelCount];
-
-        /// <summary>Per lane, basin label and group of draws, <see cref="ChainRecord.BasinSumValues"/> sums (<see cref="ChainRecord.BasinSums"/>'s layout), lane-major; empty when the map has one basin.</summary>
+        /// <summary>
+        /// Per lane, basin label and group of draws, <see cref="ChainRecord.BasinSumValues"/> sums (<see cref="ChainRecord.BasinSums"/>'s
+        /// layout, the draws first: the draws per basin come from them), lane-major; empty when the map has one basin.
+        /// </summary>
         internal double[] BasinSums { get; } = new double[basin.AnyOutside ? records.Length * basin.LabelCount * EnergyBinSums.Groups * ChainRecord.BasinSumValues : 0];
 
         /// <summary>The confinement and wall band, for the near-wall count.</summary>
