@@ -132,6 +132,42 @@ public class CifReaderTests
         Assert.Equal("C1", s.Atoms[0].Species); // no type symbol: the label
     }
 
+    /// <summary>
+    /// Text fields (<c>;</c> … <c>;</c>) as a tag's value, as real files carry a title or a chemical name, are read whole
+    /// and do not disturb what follows; a value may stand on a later line after blank and comment lines.
+    /// </summary>
+    [Fact]
+    public void Text_fields_and_values_on_later_lines_are_read()
+    {
+        string head = """
+            _publ_section_title
+            ;
+             An invented fcc crystal: 'quoted' words; loop_ and _tags inside
+             are prose, not syntax
+            ;
+            _chemical_name_common
+            # a comment between a tag and its value
+
+              'invented argon'
+            """;
+        var plain = CifReader.Read(new StringReader(FccCif(Centring)), "test.cif");
+        var withText = CifReader.Read(new StringReader(FccCif(Centring).Replace("_cell_angle_gamma 90", "_cell_angle_gamma\n;90\n;\n" + head, StringComparison.Ordinal)), "test.cif");
+        Assert.Equal(plain.Atoms.Length, withText.Atoms.Length);
+        Assert.Equal(plain.Atoms.Select(a => a.Position), withText.Atoms.Select(a => a.Position));
+        Assert.Equal(plain.Lattice.ToArray(), withText.Lattice.ToArray());
+    }
+
+    /// <summary>A tag without a value (at the end of the file, or followed by another tag) is refused, naming the tag and its line.</summary>
+    [Theory]
+    [InlineData("_journal_volume\n", 25, "the tag _journal_volume has no value: the file ends after it")]
+    [InlineData("_journal_volume\n_journal_year 2026\n", 25, "the tag _journal_volume has no value of its own (line 26 holds '_journal_year 2026')")]
+    [InlineData("_journal_volume\n;\nnever closed\n", 26, "a text field opened with ';' is never closed")]
+    public void A_tag_without_a_value_is_refused(string tail, int line, string problem)
+    {
+        var ex = Assert.Throws<StructureFormatException>(() => CifReader.Read(new StringReader(FccCif(Centring) + "\n" + tail), "test.cif"));
+        Assert.StartsWith($"test.cif, line {line}: {problem}", ex.Message);
+    }
+
     /// <summary>A file without symmetry operations (a space-group name alone) and a partial occupancy are refused, naming what is missing or wrong.</summary>
     [Fact]
     public void Missing_operations_and_disorder_are_refused()

@@ -15,7 +15,9 @@ namespace ThermalSampling.Landscapes;
 /// (<c>_atom_site_label</c>, <c>_atom_site_type_symbol</c>, <c>_atom_site_fract_x/y/z</c>, <c>_atom_site_occupancy</c>).
 /// The sites are expanded by every operation into the whole cell (equal positions within 1e-4 of the cell merged), and
 /// the cell set in Cartesian axes with a along x and b in the xy plane. A space-group name alone is not enough: a file
-/// without operations is refused, naming what is missing; a partial occupancy (disorder) is refused, never averaged. No
+/// without operations is refused, naming what is missing; a partial occupancy (disorder) is refused, never averaged. A
+/// tag's value may stand on a later line (after blank and comment lines) or be a text field (<c>;</c> … <c>;</c>), as
+/// titles and names in real files are; a tag without a value is refused, naming it. No
 /// package served here reads CIF (docs/architecture.md), so this reader is the project's own.
 /// </summary>
 public static class CifReader
@@ -86,10 +88,14 @@ public static class CifReader
                     continue;
                 }
                 Close();
-                string value = tokens.Count > 1 ? tokens[1] : n + 1 < lines.Count ? Tokens(lines[n + 1], source, number + 1).FirstOrDefault() ?? "?" : "?";
-                if (tokens.Count == 1)
+                string value;
+                if (tokens.Count > 1)
                 {
-                    n++; // the value on the next line
+                    value = tokens[1];
+                }
+                else
+                {
+                    (value, n) = ValueOnLaterLine(lines, n, tokens[0], source);
                 }
                 items[tokens[0]] = (value, number);
                 continue;
@@ -276,6 +282,45 @@ public static class CifReader
     }
 
     /// <summary>The whitespace-separated tokens of a line, quotes respected, a comment (#) dropped.</summary>
+    /// <summary>
+    /// The value of the tag alone on line <paramref name="n"/> (0-based): the first token of the next line that has one
+    /// (blank and comment lines skipped), or the text field (<c>;</c> … <c>;</c>) that opens there, its lines joined with
+    /// line breaks; with the index of the last line it took.
+    /// </summary>
+    private static (string Value, int Last) ValueOnLaterLine(List<string> lines, int n, string tag, string source)
+    {
+        for (int m = n + 1; m < lines.Count; m++)
+        {
+            if (lines[m].StartsWith(';'))
+            {
+                int end = m + 1;
+                while (end < lines.Count && !lines[end].StartsWith(';'))
+                {
+                    end++;
+                }
+                if (end == lines.Count)
+                {
+                    throw new StructureFormatException(source, m + 1, "a text field opened with ';' is never closed.");
+                }
+                var text = new List<string> { lines[m][1..] };
+                text.AddRange(lines.Skip(m + 1).Take(end - m - 1));
+                return (string.Join('\n', text).Trim(), end);
+            }
+            var tokens = Tokens(lines[m], source, m + 1);
+            if (tokens.Count == 0)
+            {
+                continue;
+            }
+            if (tokens.Count > 1 || tokens[0].StartsWith('_') || tokens[0].Equals("loop_", StringComparison.OrdinalIgnoreCase)
+                || tokens[0].StartsWith("data_", StringComparison.OrdinalIgnoreCase))
+            {
+                throw new StructureFormatException(source, n + 1, $"the tag {tag} has no value of its own (line {m + 1} holds '{lines[m].Trim()}'): give one value after it, on its line or the next.");
+            }
+            return (tokens[0], m);
+        }
+        throw new StructureFormatException(source, n + 1, $"the tag {tag} has no value: the file ends after it.");
+    }
+
     private static List<string> Tokens(string line, string source, int number)
     {
         var tokens = new List<string>();
