@@ -325,15 +325,34 @@ internal readonly struct LaneTallyView<TOps, TD, TB>
         }
         (_rwCounts, _rwSums, _rwScratch, _samples) = (tally.RwCounts, tally.RwSums, tally.RwScratch, tally.Samples);
         _reweight = tally.RwCounts.Length > 0;
-        // The reweighting group of the chunk's first draw, and where the next begins (⌈(g + 1)N/G⌉): within a chunk the
-        // group is then a comparison, not a division per counted draw.
-        _group = EnergyBinSums.GroupOf(done, _samples);
-        _nextGroupStart = ((_group + 1) * _samples + EnergyBinSums.Groups - 1) / EnergyBinSums.Groups;
         (_counts, _energyCounts, _index, _scratch, _kept) = (tally.Counts, tally.EnergyCounts, tally.Index, tally.Scratch, tally.Kept);
         BatchSums = tally.BatchSums;
         _keptStride = tally.Retained;
-        _done = done;
-        _retain = Math.Max(0, Math.Min(chunk, tally.Retained - done)); // the first steps of each chain are kept raw
+        (_group, _nextGroupStart, _done, _retain) = Place(done, chunk, _samples, _keptStride);
+    }
+
+    /// <summary>
+    /// The view of <paramref name="template"/>'s tally for another chunk: the loop invariants copied, not broadcast again
+    /// (a ladder cuts its chunks at every swap, where building them anew was a tenth of a short chunk's cost).
+    /// </summary>
+    /// <param name="template">A view of the same tally.</param>
+    /// <param name="done">Recorded steps before the chunk.</param>
+    /// <param name="chunk">The chunk's steps.</param>
+    internal LaneTallyView(in LaneTallyView<TOps, TD, TB> template, long done, int chunk)
+    {
+        this = template;
+        (_group, _nextGroupStart, _done, _retain) = Place(done, chunk, _samples, _keptStride);
+    }
+
+    /// <summary>
+    /// Where a chunk stands: the reweighting group of its first draw and where the next begins (⌈(g + 1)N/G⌉: within a
+    /// chunk the group is then a comparison, not a division per counted draw), its first step, and how many of its steps
+    /// are kept raw (the first steps of each chain are).
+    /// </summary>
+    private static (int Group, long NextGroupStart, long Done, long Retain) Place(long done, int chunk, long samples, long retained)
+    {
+        int group = EnergyBinSums.GroupOf(done, samples);
+        return (group, ((group + 1) * samples + EnergyBinSums.Groups - 1) / EnergyBinSums.Groups, done, Math.Max(0, Math.Min(chunk, retained - done)));
     }
 
     /// <summary>V_ref in every lane.</summary>

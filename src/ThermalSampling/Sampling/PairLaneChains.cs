@@ -99,6 +99,8 @@ internal static class PairLaneChains
         private readonly ChainRecord[] _records;
         private readonly Tally _tally;
         private readonly Func<int, (RandomStream Stream, double Beta, double Start)> _place;
+        private LineRecorder<TOps, TD, TB> _recorder;
+        private bool _hasRecorder;
 
         /// <param name="settings">The engine's settings (steps, widths, tags).</param>
         /// <param name="walk">The walk.</param>
@@ -120,7 +122,16 @@ internal static class PairLaneChains
             Walk.Place(ref State, lane, stream, beta, start, 0, 0);
         }
 
-        private protected override LineRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, Waves, done, chunk);
+        private protected override LineRecorder<TOps, TD, TB> Recorder(long done, int chunk)
+        {
+            // Built once and copied per chunk: a ladder cuts a chunk at every swap (measured, docs/performance.md).
+            if (!_hasRecorder)
+            {
+                (_recorder, _hasRecorder) = (new(_tally, Waves, done, chunk), true);
+                return _recorder;
+            }
+            return new(in _recorder, done, chunk);
+        }
 
         private protected override void StartRecords() => Sums.BlockReference = Walk.Point(State).X;
 
@@ -281,6 +292,13 @@ internal static class PairLaneChains
             _tally = new LaneTallyView<TOps, TD, TB>(tally, done, chunk);
             _batchReference = TOps.Broadcast(tally.BatchReference);
             _binLower = TOps.Broadcast(tally.BinLower);
+        }
+
+        /// <summary>The recorder <paramref name="template"/> (of the same group) for another chunk, its invariants copied.</summary>
+        internal LineRecorder(in LineRecorder<TOps, TD, TB> template, long done, int chunk)
+        {
+            this = template;
+            _tally = new LaneTallyView<TOps, TD, TB>(in template._tally, done, chunk);
         }
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]

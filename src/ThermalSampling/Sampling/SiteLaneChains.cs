@@ -141,6 +141,9 @@ internal static class SiteLaneChains
         private readonly SiteTally _tally;
         private readonly Func<int, (RandomStream Stream, double Beta, Position Start)> _place;
         private readonly TD[] _shapeDraws = new TD[3 * (LaneAdaptation.ChunkSteps / ShapeFrame.LaneStride + 1)];
+        private readonly LaneShape<TOps, TD, TB> _shape;
+        private SiteRecorder<TOps, TD, TB> _recorder;
+        private bool _hasRecorder;
 
         internal Group(EngineSettings settings, TWalk walk, ISiteFrame frame, Func<int, (RandomStream Stream, double Beta, Position Start)> place, GroupWork work)
             : base(settings, walk, work)
@@ -149,6 +152,7 @@ internal static class SiteLaneChains
             _place = place;
             _records = Records;
             _tally = new SiteTally(_records, TOps.Count, frame.Basin, frame.Minimum, frame.Confinement, frame.Centre, frame.WallBand);
+            _shape = new LaneShape<TOps, TD, TB>(_tally.Frame, _tally.ShapeCounts, _tally.Lanes);
         }
 
         private protected override long Accepted(int lane) => (long)TOps.Get(Sums.Accepted, lane);
@@ -186,7 +190,16 @@ internal static class SiteLaneChains
             Walk.Place(ref State, lane, stream, beta, p.X, p.Y, p.Z);
         }
 
-        private protected override SiteRecorder<TOps, TD, TB> Recorder(long done, int chunk) => new(_tally, Waves, _shapeDraws, done, chunk);
+        private protected override SiteRecorder<TOps, TD, TB> Recorder(long done, int chunk)
+        {
+            // Built once and copied per chunk: a ladder cuts a chunk at every swap (measured, docs/performance.md).
+            if (!_hasRecorder)
+            {
+                (_recorder, _hasRecorder) = (new(_tally, Waves, _shapeDraws, done, chunk), true);
+                return _recorder;
+            }
+            return new(in _recorder, done, chunk);
+        }
 
         /// <summary>The draws the recorder kept for the distribution counts (every LaneStride-th of a chunk), counted here.</summary>
         private protected override void AfterChunk(long done, int chunk)
@@ -195,7 +208,7 @@ internal static class SiteLaneChains
             {
                 return;
             }
-            var shape = new LaneShape<TOps, TD, TB>(_tally.Frame, _tally.ShapeCounts, _tally.Lanes);
+            ref readonly var shape = ref _shape;
             int phase = (int)(done & (ShapeFrame.LaneStride - 1));
             for (int j = (ShapeFrame.LaneStride - phase) & (ShapeFrame.LaneStride - 1); j < chunk; j += ShapeFrame.LaneStride)
             {
@@ -581,6 +594,14 @@ internal static class SiteLaneChains
             (_gridX0, _gridY0, _gridZ0) = (TOps.Broadcast(grid.X0), TOps.Broadcast(grid.Y0), TOps.Broadcast(grid.Z0));
             _gridScale = TOps.Broadcast(1 / grid.Spacing);
             _gridN = TOps.Broadcast(grid.N);
+        }
+
+        /// <summary>The recorder <paramref name="template"/> (of the same group) for another chunk, its invariants copied.</summary>
+        internal SiteRecorder(in SiteRecorder<TOps, TD, TB> template, long done, int chunk)
+        {
+            this = template;
+            _shapePhase = (int)(done & (ShapeFrame.LaneStride - 1));
+            _tally = new LaneTallyView<TOps, TD, TB>(in template._tally, done, chunk);
         }
 
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
