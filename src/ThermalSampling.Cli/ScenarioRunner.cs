@@ -190,14 +190,9 @@ internal static class ScenarioRunner
                 if (scenario.ReweightTo is not null)
                 {
                     RefuseCheckpoint(checkpoint);
-                    var records = new List<TemperatureRecord>();
-                    var sampled = new List<PairVibrationReport>();
-                    bool stopped = RunEach(temperatures, t =>
-                    {
-                        records.Add(PairSampler.Sample(landscape, t, scenario.Sampling, null, progress, ct));
-                        sampled.Add(PairSampler.Summarise(landscape, mass, records[^1])); // the same bits as PairSampler.Run
-                    });
-                    var reweighted = stopped ? null : Reweighted(() => Reweighting.Pair(landscape, records, Targets(scenario)));
+                    var (sampled, reweighted, stopped) = SampleAndReweight(temperatures,
+                        t => PairSampler.Sample(landscape, t, scenario.Sampling, null, progress, ct), r => PairSampler.Summarise(landscape, mass, r),
+                        records => Reweighting.Pair(landscape, records, Targets(scenario)));
                     var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WritePair(sampled, landscape, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario), reweighted));
                     return new ScenarioResults(scenario, sampled, [], stopped, sampledFigures) { PairReweighted = reweighted };
                 }
@@ -284,14 +279,9 @@ internal static class ScenarioRunner
             if (scenario.ReweightTo is not null)
             {
                 RefuseCheckpoint(checkpoint);
-                var records = new List<TemperatureRecord>();
-                var sampled = new List<SiteVibrationReport>();
-                bool stopped = RunEach(temperatures, t =>
-                {
-                    records.Add(SiteSampler.Sample(siteLandscape, t, scenario.Sampling, null, progress, ct));
-                    sampled.Add(SiteSampler.Summarise(siteLandscape, mass, records[^1])); // the same bits as SiteSampler.Run
-                });
-                var reweighted = stopped ? null : Reweighted(() => Reweighting.Site(siteLandscape, records, Targets(scenario)));
+                var (sampled, reweighted, stopped) = SampleAndReweight(temperatures,
+                    t => SiteSampler.Sample(siteLandscape, t, scenario.Sampling, null, progress, ct), r => SiteSampler.Summarise(siteLandscape, mass, r),
+                    records => Reweighting.Site(siteLandscape, records, Targets(scenario)));
                 var sampledFigures = plotPath is null ? null : Figures(() => FigureWriter.WriteSite(sampled, plotPath, scenario.Title, FigureWriter.UnitsOf(scenario), reweighted));
                 return new ScenarioResults(scenario, [], sampled, stopped, sampledFigures) { Surface = surface, SiteReweighted = reweighted };
             }
@@ -411,6 +401,24 @@ internal static class ScenarioRunner
         {
             yield return string.Create(CultureInfo.InvariantCulture, $"Coulomb: Ewald field of the whole crystal about the site, as a degree-{field.Degree} polynomial in a ball of {field.Radius:G3} Å (largest error against Ewald at check points {field.FitError:G2} eV)");
         }
+    }
+
+    /// <summary>
+    /// Samples each temperature in turn, summarising each record as <c>Run</c> does (the same bits), then reweights every
+    /// record onto the targets (not after a cancellation: the finished temperatures are reported alone).
+    /// </summary>
+    private static (List<TReport> Sampled, IReadOnlyList<TReweighted>? Reweighted, bool Stopped) SampleAndReweight<TReport, TReweighted>(
+        IEnumerable<Temperature> temperatures, Func<Temperature, TemperatureRecord> sample, Func<TemperatureRecord, TReport> summarise,
+        Func<List<TemperatureRecord>, ImmutableArray<TReweighted>> reweight)
+    {
+        var records = new List<TemperatureRecord>();
+        var sampled = new List<TReport>();
+        bool stopped = RunEach(temperatures, t =>
+        {
+            records.Add(sample(t));
+            sampled.Add(summarise(records[^1]));
+        });
+        return (sampled, stopped ? null : Reweighted(() => reweight(records)), stopped);
     }
 
     private static IEnumerable<Temperature> Targets(Scenario scenario) => scenario.ReweightTargets.Select(Temperature.FromKelvin);

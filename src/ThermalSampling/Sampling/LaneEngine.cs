@@ -240,6 +240,8 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
     private readonly int _blockSize;
     private readonly TWalk _walk;
     private TD _logWidth;
+    private TD _recordWidth; // the recorded phase's widths, from _logWidth when first needed (_hasRecordWidth)
+    private bool _hasRecordWidth;
 
     /// <summary>The walk in every lane; its layout is the checkpoint's WALK section.</summary>
     private protected TState State;
@@ -455,7 +457,12 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         }
         if (Phase == GroupPhase.Recording)
         {
-            Record(LaneAdaptation.Width<TOps, TD, TB>(_logWidth, _maxWidth), boundary, Math.Min(total - _burnIn, _samples));
+            if (!_hasRecordWidth)
+            {
+                // Frozen for the recorded phase: worked out once, not at every call (a ladder calls at every swap).
+                (_recordWidth, _hasRecordWidth) = (LaneAdaptation.Width<TOps, TD, TB>(_logWidth, _maxWidth), true);
+            }
+            Record(_recordWidth, boundary, Math.Min(total - _burnIn, _samples));
             if (Step == _samples)
             {
                 Phase = GroupPhase.Finished;
@@ -574,6 +581,7 @@ internal abstract class LaneEngine<TOps, TD, TB, TWalk, TState, TRecorder, TSums
         LaneWalkWords.Load(r, "WALK", ref State);
         LaneWalkWords.Load(r, "SUMS", ref Sums);
         _logWidth = LaneWalkWords.FromLanes<TOps, TD, TB>(r.Words(_widthTag, TOps.Count));
+        _hasRecordWidth = false;
         foreach (var record in Records)
         {
             record.Load(r);

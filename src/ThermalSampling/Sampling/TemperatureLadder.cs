@@ -189,7 +189,7 @@ internal sealed class TemperatureLadder
                 var upper = _groups[k + 1][g];
                 double u = stream.NextUnitInterval();
                 double logRatio = (_betas[k] - _betas[k + 1]) * (lower.Energy(lane) - upper.Energy(lane));
-                bool accept = u < Math.Exp(logRatio);
+                bool accept = logRatio >= 0 || u < Math.Exp(logRatio); // u < 1 ≤ e^logRatio: the same decision without the exponential
                 if (counted)
                 {
                     _attempts[k]++;
