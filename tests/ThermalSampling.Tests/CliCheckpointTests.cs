@@ -7,6 +7,7 @@ using System.Text;
 using System.Threading;
 using ThermalSampling.Cli;
 using Xunit;
+using static ThermalSampling.Tests.CliHarness;
 
 namespace ThermalSampling.Tests;
 
@@ -49,14 +50,6 @@ public sealed class CliCheckpointTests : IDisposable
 
     private string PathOf(string name) => Path.Combine(_folder, name);
 
-    private static (int Code, string Stdout, string Stderr) Run(params string[] args)
-    {
-        using var stdout = new MemoryStream();
-        using var stderr = new StringWriter();
-        int code = Program.Run(args, stdout, stderr);
-        return (code, Encoding.UTF8.GetString(stdout.ToArray()), stderr.ToString());
-    }
-
     private static Process Start(params string[] args)
     {
         var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
@@ -86,7 +79,7 @@ public sealed class CliCheckpointTests : IDisposable
     public void A_run_killed_with_SIGKILL_at_a_random_moment_resumes_to_the_uninterrupted_document()
     {
         File.WriteAllText(PathOf("long.json"), LongScenario);
-        var reference = Run("run", PathOf("long.json"), "--quiet", "--output", PathOf("reference.json"));
+        var reference = RunArgs("run", PathOf("long.json"), "--quiet", "--output", PathOf("reference.json"));
         Assert.True(reference.Code == 0, reference.Stderr);
 
         var random = new MathNet.Numerics.Random.Xoshiro256StarStar(2026); // the test's own seeded moments, reproducible
@@ -110,7 +103,7 @@ public sealed class CliCheckpointTests : IDisposable
             child.WaitForExit();
             killed++;
             Assert.False(File.Exists(output), "a killed run must not have written its report");
-            var resumed = Run("resume", checkpoint, "--quiet");
+            var resumed = RunArgs("resume", checkpoint, "--quiet");
             Assert.True(resumed.Code == 0, resumed.Stderr);
             Assert.Equal(File.ReadAllText(PathOf("reference.json")), File.ReadAllText(output));
         }
@@ -125,7 +118,7 @@ public sealed class CliCheckpointTests : IDisposable
             return; // SIGINT to a child process is a Unix facility; Windows consoles deliver Ctrl+C differently
         }
         File.WriteAllText(PathOf("long.json"), LongScenario);
-        var reference = Run("run", PathOf("long.json"), "--quiet");
+        var reference = RunArgs("run", PathOf("long.json"), "--quiet");
         Assert.True(reference.Code == 0, reference.Stderr);
         string checkpoint = PathOf("interrupted.checkpoint");
         using var child = Start("run", PathOf("long.json"), "--quiet", "--checkpoint", checkpoint, "--checkpoint-every", "5m");
@@ -142,7 +135,7 @@ public sealed class CliCheckpointTests : IDisposable
         Assert.Equal("", child.StandardOutput.ReadToEnd());
         // The stop includes writing the checkpoint and the process exit; the library's own stop is tested in CheckpointTests.
         Assert.True(clock.ElapsedMilliseconds < 2000, $"the process took {clock.ElapsedMilliseconds} ms to stop");
-        var resumed = Run("resume", checkpoint, "--quiet");
+        var resumed = RunArgs("resume", checkpoint, "--quiet");
         Assert.True(resumed.Code == 0, resumed.Stderr);
         Assert.Equal(reference.Stdout, resumed.Stdout);
     }
@@ -154,52 +147,52 @@ public sealed class CliCheckpointTests : IDisposable
     public void Resume_takes_new_output_options_and_refuses_ones_the_run_did_not_prepare_for()
     {
         File.WriteAllText(PathOf("short.json"), ShortScenario);
-        var json = Run("run", PathOf("short.json"), "--quiet");
-        var table = Run("run", PathOf("short.json"), "--quiet", "--format", "table");
+        var json = RunArgs("run", PathOf("short.json"), "--quiet");
+        var table = RunArgs("run", PathOf("short.json"), "--quiet", "--format", "table");
         string checkpoint = PathOf("short.checkpoint");
-        var checkpointed = Run("run", PathOf("short.json"), "--quiet", "--checkpoint", checkpoint, "--checkpoint-every", "1s");
+        var checkpointed = RunArgs("run", PathOf("short.json"), "--quiet", "--checkpoint", checkpoint, "--checkpoint-every", "1s");
         Assert.True(checkpointed.Code == 0, checkpointed.Stderr);
         Assert.Equal(json.Stdout, checkpointed.Stdout);
-        Assert.Equal(json.Stdout, Run("resume", checkpoint, "--quiet").Stdout);
-        Assert.Equal(table.Stdout, Run("resume", checkpoint, "--quiet", "--format", "table").Stdout);
-        Assert.Equal(json.Stdout, Run("resume", checkpoint, "--quiet", "--threads", "1").Stdout);
+        Assert.Equal(json.Stdout, RunArgs("resume", checkpoint, "--quiet").Stdout);
+        Assert.Equal(table.Stdout, RunArgs("resume", checkpoint, "--quiet", "--format", "table").Stdout);
+        Assert.Equal(json.Stdout, RunArgs("resume", checkpoint, "--quiet", "--threads", "1").Stdout);
 
-        var samples = Run("resume", checkpoint, "--quiet", "--samples", PathOf("draws.csv"));
+        var samples = RunArgs("resume", checkpoint, "--quiet", "--samples", PathOf("draws.csv"));
         Assert.Equal(Program.InvalidInput, samples.Code);
         Assert.Contains("started without --samples", samples.Stderr);
-        Assert.Contains("--seed cannot change on resume", Run("resume", checkpoint, "--seed", "3").Stderr);
-        Assert.Contains("--checkpoint belongs to run and sweep", Run("validate", PathOf("short.json"), "--checkpoint", checkpoint).Stderr);
-        Assert.Contains("needs --checkpoint FILE", Run("run", PathOf("short.json"), "--checkpoint-every", "5m").Stderr);
+        Assert.Contains("--seed cannot change on resume", RunArgs("resume", checkpoint, "--seed", "3").Stderr);
+        Assert.Contains("--checkpoint belongs to run and sweep", RunArgs("validate", PathOf("short.json"), "--checkpoint", checkpoint).Stderr);
+        Assert.Contains("needs --checkpoint FILE", RunArgs("run", PathOf("short.json"), "--checkpoint-every", "5m").Stderr);
         foreach (string bad in new[] { "5", "-3s", "0s", "2d", "25h", "1.5.2m", "s" })
         {
-            var r = Run("run", PathOf("short.json"), "--checkpoint", checkpoint, "--checkpoint-every", bad);
+            var r = RunArgs("run", PathOf("short.json"), "--checkpoint", checkpoint, "--checkpoint-every", bad);
             Assert.Equal(Program.InvalidInput, r.Code);
             Assert.Contains($"--checkpoint-every '{bad}' is not a duration", r.Stderr);
         }
-        var noFolder = Run("run", PathOf("short.json"), "--checkpoint", PathOf(Path.Combine("missing", "x.checkpoint")));
+        var noFolder = RunArgs("run", PathOf("short.json"), "--checkpoint", PathOf(Path.Combine("missing", "x.checkpoint")));
         Assert.Equal(Program.InvalidInput, noFolder.Code);
         Assert.Contains("does not exist", noFolder.Stderr);
 
         // A damaged checkpoint: exit 2, the reason, no stack trace.
         var bytes = File.ReadAllBytes(checkpoint);
         File.WriteAllBytes(PathOf("cut.checkpoint"), bytes[..(bytes.Length / 2)]);
-        var cut = Run("resume", PathOf("cut.checkpoint"));
+        var cut = RunArgs("resume", PathOf("cut.checkpoint"));
         Assert.Equal(Program.InvalidInput, cut.Code);
         Assert.Contains("cut short", cut.Stderr);
         Assert.DoesNotContain("   at ", cut.Stderr);
         File.WriteAllText(PathOf("scenario-as-checkpoint"), ShortScenario);
-        Assert.Contains("not", Run("resume", PathOf("scenario-as-checkpoint")).Stderr);
-        Assert.Equal(Program.InvalidInput, Run("resume", PathOf("nothing-here")).Code);
+        Assert.Contains("not", RunArgs("resume", PathOf("scenario-as-checkpoint")).Stderr);
+        Assert.Equal(Program.InvalidInput, RunArgs("resume", PathOf("nothing-here")).Code);
     }
 
     [Fact]
     public void A_sweep_checkpoint_resumes_the_sweep()
     {
         File.WriteAllText(PathOf("short.json"), ShortScenario);
-        var plain = Run("sweep", PathOf("short.json"), "--from", "50", "--to", "250", "--count", "3", "--quiet", "--format", "csv");
+        var plain = RunArgs("sweep", PathOf("short.json"), "--from", "50", "--to", "250", "--count", "3", "--quiet", "--format", "csv");
         string checkpoint = PathOf("sweep.checkpoint");
-        var first = Run("sweep", PathOf("short.json"), "--from", "50", "--to", "250", "--count", "3", "--quiet", "--format", "csv", "--checkpoint", checkpoint);
+        var first = RunArgs("sweep", PathOf("short.json"), "--from", "50", "--to", "250", "--count", "3", "--quiet", "--format", "csv", "--checkpoint", checkpoint);
         Assert.Equal(plain.Stdout, first.Stdout);
-        Assert.Equal(plain.Stdout, Run("resume", checkpoint, "--quiet").Stdout);
+        Assert.Equal(plain.Stdout, RunArgs("resume", checkpoint, "--quiet").Stdout);
     }
 }

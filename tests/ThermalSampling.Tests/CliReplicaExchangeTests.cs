@@ -5,6 +5,7 @@ using System.Text;
 using System.Text.Json;
 using ThermalSampling.Cli;
 using Xunit;
+using static ThermalSampling.Tests.CliHarness;
 
 namespace ThermalSampling.Tests;
 
@@ -24,25 +25,10 @@ public class CliReplicaExchangeTests
         }
         """;
 
-    private static (int Code, string Stdout, string Stderr) RunArgs(params string[] args)
-    {
-        using var stdout = new MemoryStream();
-        using var stderr = new StringWriter();
-        int code = Program.Run(args, stdout, stderr);
-        return (code, Encoding.UTF8.GetString(stdout.ToArray()), stderr.ToString());
-    }
-
-    private static string Write(string text)
-    {
-        string file = Path.Combine(Path.GetTempPath(), $"ts-{Guid.NewGuid():N}.json");
-        File.WriteAllText(file, text);
-        return file;
-    }
-
     [Fact]
     public void A_ladder_reports_every_rung_with_its_swap_acceptance_and_resumes_from_its_checkpoint()
     {
-        string file = Write(Scenario);
+        string file = WriteScenario(Scenario);
         string checkpoint = file + ".checkpoint";
         try
         {
@@ -102,7 +88,7 @@ public class CliReplicaExchangeTests
     [InlineData("\"seed\": 3 }", "\"seed\": 3, \"reweightTo\": { \"from\": 12, \"to\": 30, \"count\": 3 } }", "$.sampling.reweightTo: reweighting is not offered with replica exchange yet")]
     public void A_ladder_scenario_with_a_wrong_key_is_refused_naming_it(string from, string to, string message)
     {
-        string file = Write(Scenario.Replace(from, to, StringComparison.Ordinal));
+        string file = WriteScenario(Scenario.Replace(from, to, StringComparison.Ordinal));
         try
         {
             var (code, _, stderr) = RunArgs("run", file, "--quiet");
@@ -118,7 +104,7 @@ public class CliReplicaExchangeTests
     [Fact]
     public void A_ladder_is_not_split_into_shards()
     {
-        string file = Write(Scenario);
+        string file = WriteScenario(Scenario);
         string part = file + ".part";
         try
         {

@@ -5,6 +5,7 @@ using System.Text;
 using System.Text.Json;
 using ThermalSampling.Cli;
 using Xunit;
+using static ThermalSampling.Tests.CliHarness;
 
 namespace ThermalSampling.Tests;
 
@@ -23,21 +24,6 @@ public class CliReweightTests
         }
         """;
 
-    private static (int Code, string Stdout, string Stderr) RunArgs(params string[] args)
-    {
-        using var stdout = new MemoryStream();
-        using var stderr = new StringWriter();
-        int code = Program.Run(args, stdout, stderr);
-        return (code, Encoding.UTF8.GetString(stdout.ToArray()), stderr.ToString());
-    }
-
-    private static string Write(string text)
-    {
-        string file = Path.Combine(Path.GetTempPath(), $"ts-{Guid.NewGuid():N}.json");
-        File.WriteAllText(file, text);
-        return file;
-    }
-
     /// <summary>
     /// Sampled results say "source": "sampled"; one result per target follows with "source": "reweighted", the usual keys
     /// with standard errors, exact quadrature and where it came from; the sharded sweep merges to the same document.
@@ -45,7 +31,7 @@ public class CliReweightTests
     [Fact]
     public void Reweighted_results_carry_the_contract_keys_and_merge_like_the_rest()
     {
-        string file = Write(Scenario);
+        string file = WriteScenario(Scenario);
         var parts = Enumerable.Range(1, 2).Select(i => Path.Combine(Path.GetTempPath(), $"ts-part-{Guid.NewGuid():N}-{i}.json")).ToArray();
         try
         {
@@ -89,7 +75,7 @@ public class CliReweightTests
     [Fact]
     public void Sweep_reweight_option_and_refusals()
     {
-        string file = Write(Scenario);
+        string file = WriteScenario(Scenario);
         try
         {
             var (code, stdout, stderr) = RunArgs("sweep", file, "--reweight-to", "15..35:3", "--format", "json", "--quiet");
@@ -102,7 +88,7 @@ public class CliReweightTests
             (code, _, stderr) = RunArgs("sweep", file, "--reweight-to", "35..15:3", "--quiet");
             Assert.Equal(2, code);
             Assert.Contains("--reweight-to '35..15:3' is not a range of temperatures", stderr);
-            string quantum = Write(Scenario.Replace("\"mass\": 50,", "\"mass\": 50, \"statistics\": \"quantum\",", StringComparison.Ordinal));
+            string quantum = WriteScenario(Scenario.Replace("\"mass\": 50,", "\"mass\": 50, \"statistics\": \"quantum\",", StringComparison.Ordinal));
             (code, _, stderr) = RunArgs("run", quantum, "--quiet");
             File.Delete(quantum);
             Assert.Equal(2, code);

@@ -5,6 +5,7 @@ using System.Text;
 using System.Text.Json;
 using ThermalSampling.Cli;
 using Xunit;
+using static ThermalSampling.Tests.CliHarness;
 
 namespace ThermalSampling.Tests;
 
@@ -25,14 +26,6 @@ public class CliStructureFileTests
           "sampling": { "chains": 2, "samplesPerChain": 4000, "burnIn": 1000, "seed": 3 }
         }
         """;
-
-    private static (int Code, string Stdout, string Stderr) RunArgs(params string[] args)
-    {
-        using var stdout = new MemoryStream();
-        using var stderr = new StringWriter();
-        int code = Program.Run(args, stdout, stderr);
-        return (code, Encoding.UTF8.GetString(stdout.ToArray()), stderr.ToString());
-    }
 
     /// <summary>
     /// A CIF named by a path relative to the scenario file and the moving atom by its atom-site label: the Na site has its

@@ -6,6 +6,7 @@ using System.Text;
 using System.Text.Json;
 using ThermalSampling.Cli;
 using Xunit;
+using static ThermalSampling.Tests.CliHarness;
 
 namespace ThermalSampling.Tests;
 
@@ -48,14 +49,6 @@ public class CliTests
         {
             File.Delete(file);
         }
-    }
-
-    private static (int Code, string Stdout, string Stderr) RunArgs(params string[] args)
-    {
-        using var stdout = new MemoryStream();
-        using var stderr = new StringWriter();
-        int code = Program.Run(args, stdout, stderr);
-        return (code, Encoding.UTF8.GetString(stdout.ToArray()), stderr.ToString());
     }
 
     private static void AssertKeys(JsonElement e, params string[] keys)
@@ -572,26 +565,11 @@ public class CliCommandTests
         }
         """;
 
-    private static string WriteScenario(string json)
-    {
-        string file = Path.Combine(Path.GetTempPath(), $"ts-{Guid.NewGuid():N}.json");
-        File.WriteAllText(file, json);
-        return file;
-    }
-
-    private static (int Code, string Stdout, string Stderr) Run(params string[] args)
-    {
-        using var stdout = new MemoryStream();
-        using var stderr = new StringWriter();
-        int code = Program.Run(args, stdout, stderr);
-        return (code, Encoding.UTF8.GetString(stdout.ToArray()), stderr.ToString());
-    }
-
     [Fact]
     public void Table_format_has_units_in_headers_and_errors_beside_values()
     {
         string file = WriteScenario(Scenario);
-        var (code, stdout, stderr) = Run("run", file, "--format", "table", "--quiet");
+        var (code, stdout, stderr) = RunArgs("run", file, "--format", "table", "--quiet");
         Assert.True(code == 0, stderr);
         Assert.Contains("mean (Å)", stdout);
         Assert.Contains("RMS harmonic (Å)", stdout);
@@ -604,8 +582,8 @@ public class CliCommandTests
     public void Markdown_and_csv_formats_carry_the_same_rows()
     {
         string file = WriteScenario(Scenario);
-        var md = Run("run", file, "--format", "markdown", "--quiet");
-        var csv = Run("run", file, "--format", "csv", "--quiet");
+        var md = RunArgs("run", file, "--format", "markdown", "--quiet");
+        var csv = RunArgs("run", file, "--format", "csv", "--quiet");
         Assert.Equal(0, md.Code);
         Assert.Equal(0, csv.Code);
         Assert.StartsWith("### invented test pair", md.Stdout);
@@ -621,7 +599,7 @@ public class CliCommandTests
     public void Redirected_progress_is_printed_line_by_line_to_stderr()
     {
         string file = WriteScenario(Scenario);
-        var (code, stdout, stderr) = Run("run", file);
+        var (code, stdout, stderr) = RunArgs("run", file);
         Assert.Equal(0, code);
         Assert.Contains("progress: T = 100 K: 100%", stderr);
         Assert.Contains("progress: T = 300 K: ", stderr);
@@ -635,12 +613,12 @@ public class CliCommandTests
     public void Validate_checks_without_running()
     {
         string good = WriteScenario(Scenario);
-        var ok = Run("validate", good);
+        var ok = RunArgs("validate", good);
         Assert.Equal(0, ok.Code);
         Assert.Contains("valid scenario", ok.Stderr);
         Assert.Empty(ok.Stdout);
         string bad = WriteScenario(Scenario.Replace("\"radial\"", "\"spiral\"").Replace("\"mass\": 39.9", "\"mass\": -1"));
-        var ko = Run("validate", bad);
+        var ko = RunArgs("validate", bad);
         Assert.Equal(2, ko.Code);
         Assert.Contains("$.landscape.kind", ko.Stderr);
         Assert.Contains("$.mass", ko.Stderr);
@@ -650,15 +628,15 @@ public class CliCommandTests
     public void Sweep_replaces_the_temperatures_with_an_even_range()
     {
         string file = WriteScenario(Scenario);
-        var (code, stdout, stderr) = Run("sweep", file, "--from", "50", "--to", "250", "--count", "5", "--quiet");
+        var (code, stdout, stderr) = RunArgs("sweep", file, "--from", "50", "--to", "250", "--count", "5", "--quiet");
         Assert.True(code == 0, stderr);
         using var doc = JsonDocument.Parse(stdout);
         var temperatures = doc.RootElement.GetProperty("results").EnumerateArray().Select(r => r.GetProperty("temperature").GetDouble()).ToArray();
         Assert.Equal(new[] { 50.0, 100, 150, 200, 250 }, temperatures);
-        Assert.Equal(2, Run("sweep", file, "--from", "50").Code);
-        Assert.Equal(2, Run("sweep", file, "--from", "300", "--to", "100", "--count", "3").Code);
-        Assert.Equal(2, Run("run", file, "--count", "3").Code);
-        Assert.Contains("--steps is now --count", Run("sweep", file, "--from", "50", "--to", "250", "--steps", "5").Stderr);
+        Assert.Equal(2, RunArgs("sweep", file, "--from", "50").Code);
+        Assert.Equal(2, RunArgs("sweep", file, "--from", "300", "--to", "100", "--count", "3").Code);
+        Assert.Equal(2, RunArgs("run", file, "--count", "3").Code);
+        Assert.Contains("--steps is now --count", RunArgs("sweep", file, "--from", "50", "--to", "250", "--steps", "5").Stderr);
     }
 
     [Fact]
@@ -668,7 +646,7 @@ public class CliCommandTests
         string samples = Path.Combine(Path.GetTempPath(), $"ts-samples-{Guid.NewGuid():N}.csv");
         try
         {
-            var (code, _, stderr) = Run("run", file, "--samples", samples, "--quiet");
+            var (code, _, stderr) = RunArgs("run", file, "--samples", samples, "--quiet");
             Assert.True(code == 0, stderr);
             var lines = File.ReadAllLines(samples);
             Assert.Equal("temperature_K,chain,index,r_angstrom", lines[0]);
@@ -700,7 +678,7 @@ public class CliCommandTests
     [Fact]
     public void Demo_runs_both_invented_scenarios_and_prints_tables()
     {
-        var (code, stdout, stderr) = Run("demo", "--quiet");
+        var (code, stdout, stderr) = RunArgs("demo", "--quiet");
         Assert.True(code == 0, stderr);
         Assert.Contains("Invented demo", stdout);
         Assert.Contains("fcc(111)", stdout);
@@ -742,7 +720,7 @@ public class CliCommandTests
     {
         string file = WriteScenario(Scenario.Replace("\"landscape\": { \"kind\": \"radial\", \"window\": [2.2, 4.0] }",
             "\"landscape\": { \"kind\": \"sites\", \"lattice\": \"fcc\", \"facet\": [1, 0, 0], \"adsorptionSite\": \"hollow\", \"nearestNeighbourDistance\": 2.55, \"confinement\": { \"shape\": \"box\", \"halfWidth\": 0.5 } }"));
-        var (code, stdout, stderr) = Run("run", file, "--quiet");
+        var (code, stdout, stderr) = RunArgs("run", file, "--quiet");
         Assert.True(code == 0, stderr);
         using var doc = JsonDocument.Parse(stdout);
         Assert.True(doc.RootElement.GetProperty("results")[0].GetProperty("meanSquareDisplacement").GetDouble() > 0);
@@ -762,7 +740,7 @@ public class CliCommandTests
     {
         string file = WriteScenario(Scenario.Replace("\"landscape\": { \"kind\": \"radial\", \"window\": [2.2, 4.0] }",
             "\"landscape\": { \"kind\": \"sites\", " + keys + ", \"nearestNeighbourDistance\": 2.55, \"confinement\": { \"shape\": \"box\", \"halfWidth\": 0.5 } }"));
-        var (code, _, stderr) = Run("run", file, "--quiet");
+        var (code, _, stderr) = RunArgs("run", file, "--quiet");
         Assert.Equal(2, code);
         Assert.Contains(path, stderr);
         Assert.Contains(hint, stderr);
@@ -776,9 +754,9 @@ public class CliCommandTests
             "\"landscape\": { \"kind\": \"line\", \"window\": [3.8, 6.0] }")
             .Replace("\"potential\": { \"form\": \"morse\", \"wellDepth\": 0.4, \"width\": 1.5, \"equilibriumDistance\": 2.8 }",
                 "\"potential\": { \"form\": \"lennard-jones\", \"wellDepth\": 0.015, \"equilibriumDistance\": 3.5 }"));
-        var (validateCode, _, validateErr) = Run("validate", file);
+        var (validateCode, _, validateErr) = RunArgs("validate", file);
         Assert.Equal(0, validateCode);
-        var (runCode, runOut, _) = Run("run", file, "--quiet");
+        var (runCode, runOut, _) = RunArgs("run", file, "--quiet");
         Assert.Equal(0, runCode);
         using var doc = JsonDocument.Parse(runOut);
         var noSampling = new[] { "minimum-outside-window", "perturbation-invalid", "quantum-effects", "de-broglie-wavelength", "escape-risk", "wall-mass" };
@@ -798,8 +776,8 @@ public class CliCommandTests
         // For pair potentials an adatom above a surface atom sits on a saddle (it slides towards the hollows).
         string file = WriteScenario(Scenario.Replace("\"landscape\": { \"kind\": \"radial\", \"window\": [2.2, 4.0] }",
             "\"landscape\": { \"kind\": \"sites\", \"lattice\": \"fcc\", \"facet\": [1, 1, 1], \"adsorptionSite\": \"top\", \"nearestNeighbourDistance\": 2.9, \"confinement\": { \"shape\": \"sphere\", \"radius\": 1.0 } }"));
-        var (validateCode, _, validateErr) = Run("validate", file);
-        var (runCode, _, runErr) = Run("run", file, "--quiet");
+        var (validateCode, _, validateErr) = RunArgs("validate", file);
+        var (runCode, _, runErr) = RunArgs("run", file, "--quiet");
         Assert.Equal(2, validateCode);
         Assert.Equal(2, runCode);
         Assert.Contains("not a stable minimum", validateErr);
@@ -814,7 +792,7 @@ public class CliCommandTests
     [InlineData("demo")]
     public void Every_command_prints_its_help_on_standard_output_and_docs_cli_names_every_option(string command)
     {
-        var (code, stdout, _) = Run(command, "--help");
+        var (code, stdout, _) = RunArgs(command, "--help");
         Assert.Equal(0, code);
         Assert.Contains($"thermal-sampling {command}", stdout);
         string root = Repository.Root;
@@ -831,8 +809,8 @@ public class CliCommandTests
     [Fact]
     public void The_tool_without_a_command_says_what_to_give_and_exits_2_and_help_exits_0()
     {
-        Assert.Equal(2, Run().Code);
-        var (code, stdout, _) = Run("--help");
+        Assert.Equal(2, RunArgs().Code);
+        var (code, stdout, _) = RunArgs("--help");
         Assert.Equal(0, code);
         Assert.Contains("validate", stdout);
     }
