@@ -174,6 +174,9 @@ internal interface IDirectSource
 {
     /// <summary>Draws once from <paramref name="random"/> and adds the draw to <paramref name="record"/>.</summary>
     void Draw(ref RandomStream random, ChainRecord record);
+
+    /// <summary>After the last draw: what the record takes from its sums once the chain is done.</summary>
+    void Finish(ChainRecord record);
 }
 
 /// <summary>
@@ -215,6 +218,7 @@ internal sealed class DirectChain<TSource>(TSource source, SamplingSettings sett
             }
             source.Draw(ref _random, record);
         }
+        source.Finish(record);
         checkpoints.Finished(chain, this);
         progress.Finish();
         Span<ulong> words = stackalloc ulong[4];

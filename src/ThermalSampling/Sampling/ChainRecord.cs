@@ -91,6 +91,32 @@ public sealed class ChainRecord
     /// </summary>
     internal double[] BasinSums { get; set; } = [];
 
+    /// <summary>
+    /// Once the chain has finished: the draws per basin of a map of <paramref name="labels"/> labels, and those outside the
+    /// site's basin, from the per-basin sums (each group's first value is its draws, exact in a double up to 2^53 draws), or
+    /// every draw in the site's basin when the map has one basin and no sums were kept.
+    /// </summary>
+    internal void CountBasinDraws(int labels)
+    {
+        var counts = new long[labels];
+        if (BasinSums.Length == 0)
+        {
+            counts[0] = Draws;
+        }
+        else
+        {
+            for (int l = 0; l < labels; l++)
+            {
+                for (int g = 0; g < EnergyBinSums.Groups; g++)
+                {
+                    counts[l] += (long)BasinSums[(l * EnergyBinSums.Groups + g) * BasinSumValues];
+                }
+            }
+        }
+        DrawsPerBasin = counts;
+        DrawsOutsideBasin = Draws - counts[0];
+    }
+
     /// <summary>Adds recorded draw <paramref name="index"/>, displaced by (<paramref name="ux"/>, <paramref name="uy"/>, <paramref name="uz"/>) from the reference, to basin <paramref name="label"/>'s sums (the direct sampler's path; the lane kernel fills its own).</summary>
     internal void AddBasinDraw(int label, int labels, long index, double ux, double uy, double uz)
     {

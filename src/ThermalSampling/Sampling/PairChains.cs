@@ -132,6 +132,11 @@ internal static class PairChains
             record.Proposals++;
             record.Accepted++;
         }
+
+        /// <summary>Nothing: a pair's record keeps no sums to finish.</summary>
+        public void Finish(ChainRecord record)
+        {
+        }
     }
 }
 

@@ -186,23 +186,20 @@ internal static class SiteChains
                     }
                     if (record.DrawsPerBasin.Length == 0)
                     {
-                        record.DrawsPerBasin = new long[basin.LabelCount];
+                        record.DrawsPerBasin = new long[basin.LabelCount]; // sized now (a checkpoint names the labels), counted in Finish
                     }
-                    int label = basin.AnyOutside ? basin.LabelOf(x, y, z) : 0;
-                    record.DrawsPerBasin[label]++;
                     if (basin.AnyOutside)
                     {
                         var reference = record.Layout.References;
-                        record.AddBasinDraw(label, basin.LabelCount, record.Draws - 1, x - reference[0], y - reference[1], z - reference[2]);
-                    }
-                    if (label != 0)
-                    {
-                        record.DrawsOutsideBasin++;
+                        record.AddBasinDraw(basin.LabelOf(x, y, z), basin.LabelCount, record.Draws - 1, x - reference[0], y - reference[1], z - reference[2]);
                     }
                     return;
                 }
             }
         }
+
+        /// <summary>The draws per basin, and outside the site's, from the per-basin sums.</summary>
+        public void Finish(ChainRecord record) => record.CountBasinDraws(basin.LabelCount);
     }
 
     /// <summary>The Gaussian envelope N(min, 1.3²Σ) and its numerically established bound.</summary>

@@ -160,26 +160,13 @@ internal static class SiteLaneChains
         private protected override void CompleteRecord(ChainRecord record, int lane)
         {
             int labels = _tally.Basin.LabelCount;
-            var counts = new long[labels];
-            if (_tally.BasinSums.Length == 0)
+            if (_tally.BasinSums.Length > 0)
             {
-                counts[0] = record.Draws; // no point of the confinement lies outside the site's basin: nothing was looked up
-            }
-            else
-            {
-                // Each basin's draws are the first of its sums in every group (exact in a double up to 2^53 draws).
                 int block = labels * EnergyBinSums.Groups * ChainRecord.BasinSumValues;
                 record.BasinSums = _tally.BasinSums.AsSpan(lane * block, block).ToArray();
-                for (int l = 0; l < labels; l++)
-                {
-                    for (int g = 0; g < EnergyBinSums.Groups; g++)
-                    {
-                        counts[l] += (long)record.BasinSums[(l * EnergyBinSums.Groups + g) * ChainRecord.BasinSumValues];
-                    }
-                }
             }
-            record.DrawsPerBasin = counts;
-            (record.DrawsNearWall, record.DrawsOutsideBasin) = ((long)TOps.Get(Sums.NearWall, lane), record.Draws - counts[0]);
+            record.CountBasinDraws(labels); // with no sums, no point of the confinement lies outside the site's basin: nothing was looked up
+            record.DrawsNearWall = (long)TOps.Get(Sums.NearWall, lane);
             int slots = _tally.Frame.Slots;
             record.Shape!.AddCounts(_tally.ShapeCounts.AsSpan(lane * slots, slots));
         }
